@@ -1,0 +1,26 @@
+import "server-only";
+import { z } from "zod";
+
+const isProduction = process.env.NODE_ENV === "production" && process.env.COLDTRAIL_ALLOW_DEV_DEFAULTS !== "1";
+
+/**
+ * The one place that reads process.env. Local defaults exist only for development and tests;
+ * the demo script generates a random NEXTAUTH_SECRET and points mail and storage at local fakes.
+ */
+const schema = z.object({
+  NEXTAUTH_URL: z.string().url().default("http://127.0.0.1:3000"),
+  NEXTAUTH_SECRET: isProduction
+    ? z.string().min(32, "NEXTAUTH_SECRET must be at least 32 characters in production")
+    : z.string().min(1).default("coldtrail-local-development-secret-not-for-production"),
+  COLDTRAIL_DB: z.string().optional(),
+  SMTP_HOST: z.string().default("127.0.0.1"),
+  SMTP_PORT: z.coerce.number().int().default(2525),
+  MAIL_FROM: z.string().default("Coldtrail <no-reply@coldtrail.example>"),
+  S3_ENDPOINT: z.string().default("http://127.0.0.1:4569"),
+  S3_REGION: z.string().default("us-east-1"),
+  S3_BUCKET: z.string().default("coldtrail-files"),
+  S3_ACCESS_KEY_ID: z.string().default("S3RVER"),
+  S3_SECRET_ACCESS_KEY: z.string().default("S3RVER"),
+});
+
+export const env = schema.parse(process.env);

@@ -1,0 +1,162 @@
+import { AbilityBuilder, createMongoAbility, type MongoAbility, type MongoQuery } from "@casl/ability";
+import type { Role } from "../vocabulary";
+
+/** What a person can do something to. Conditions use the camelCase field names of these subjects. */
+export const SUBJECTS = [
+  "Organisation",
+  "Branch",
+  "User",
+  "Membership",
+  "InspectorGrant",
+  "Settings",
+  "Customer",
+  "Site",
+  "Appliance",
+  "RecoveryEquipment",
+  "Cylinder",
+  "Job",
+  "Certification",
+  "Disposal",
+  "ReclaimShipment",
+  "Purchase",
+  "Audit",
+  "Finding",
+  "Activity",
+] as const;
+export type SubjectName = (typeof SUBJECTS)[number];
+
+export const ACTIONS = [
+  "manage",
+  "read",
+  "create",
+  "update",
+  "void",
+  "verify",
+  "run",
+  "export",
+  "assign",
+  "propose_fix",
+  "accept",
+  "reopen",
+  "waive",
+  "comment",
+  "invite",
+] as const;
+export type Action = (typeof ACTIONS)[number];
+
+export type AppAbility = MongoAbility<[Action, SubjectName | "all" | Record<string, unknown>], MongoQuery>;
+
+export interface ActorMembership {
+  branchId: number | null;
+  role: Role;
+}
+
+export interface ActorInspectorGrant {
+  id: number;
+  branchIds: number[];
+  recordsFrom: string;
+  recordsTo: string;
+  expiresAt: string;
+  revokedAt: string | null;
+}
+
+/** The signed-in person, as the permission rules see them. */
+export interface Actor {
+  userId: number;
+  organisationId: number;
+  name: string;
+  email: string;
+  memberships: ActorMembership[];
+  inspectorGrants: ActorInspectorGrant[];
+}
+
+/** Records a branch owns: read and kept by the branch's manager. */
+const BRANCH_RECORDS: SubjectName[] = [
+  "Customer",
+  "Site",
+  "Appliance",
+  "RecoveryEquipment",
+  "Cylinder",
+  "Job",
+  "Disposal",
+  "ReclaimShipment",
+  "Purchase",
+];
+
+/** Registers a technician needs to read to log work in their branch. */
+const FIELD_REGISTERS: SubjectName[] = ["Customer", "Site", "Appliance", "RecoveryEquipment", "Cylinder"];
+
+export function rolesOf(actor: Actor): Role[] {
+  return [...new Set(actor.memberships.map((m) => m.role))];
+}
+
+export function branchIdsFor(actor: Actor, role: Role): number[] {
+  return actor.memberships.filter((m) => m.role === role && m.branchId !== null).map((m) => m.branchId as number);
+}
+
+/** Grants that are neither revoked nor expired at `now`. */
+export function activeGrants(actor: Actor, now: Date): ActorInspectorGrant[] {
+  return actor.inspectorGrants.filter((g) => !g.revokedAt && new Date(g.expiresAt).getTime() > now.getTime());
+}
+
+/**
+ * Every role's rules, in one place. Conditions always pin the organisation; branch roles pin
+ * their branches; technicians pin themselves; inspectors pin their granted branches and dates.
+ */
+export function defineAbilityFor(actor: Actor, now: Date = new Date()): AppAbility {
+  const { can, build } = new AbilityBuilder<AppAbility>(createMongoAbility);
+  const org = { organisationId: actor.organisationId };
+  const roles = rolesOf(actor);
+
+  if (roles.includes("owner")) {
+    can("manage", "all", org);
+  }
+
+  if (roles.includes("compliance_officer")) {
+    for (const subject of SUBJECTS) can("read", subject, org);
+    can(["create", "run", "export"], "Audit", org);
+    can(["assign", "accept", "reopen", "waive", "comment", "update"], "Finding", org);
+    can("verify", "Certification", org);
+    can(["create", "update", "invite"], "InspectorGrant", org);
+  }
+
+  const managed = branchIdsFor(actor, "branch_manager");
+  if (managed.length > 0) {
+    const inBranches = { ...org, branchId: { $in: managed } };
+    can("read", "Branch", { ...org, id: { $in: managed } });
+    for (const subject of BRANCH_RECORDS) can(["read", "create", "update", "void"], subject, inBranches);
+    can(["read", "propose_fix", "comment"], "Finding", inBranches);
+    can(["read", "export"], "Audit", org);
+    can("read", "Certification", inBranches);
+    can("read", "User", inBranches);
+    can("read", "Activity", inBranches);
+  }
+
+  const worked = branchIdsFor(actor, "technician");
+  if (worked.length > 0) {
+    const inBranches = { ...org, branchId: { $in: worked } };
+    can("read", "Branch", { ...org, id: { $in: worked } });
+    for (const subject of FIELD_REGISTERS) can("read", subject, inBranches);
+    can(["read", "create"], "Job", { ...inBranches, technicianId: actor.userId });
+    can(["read", "create"], "Certification", { ...org, userId: actor.userId });
+    can(["read", "comment"], "Finding", { ...org, technicianId: actor.userId });
+  }
+
+  if (roles.includes("inspector")) {
+    for (const grant of activeGrants(actor, now)) {
+      const inGrant = { ...org, branchId: { $in: grant.branchIds } };
+      can("read", "Branch", { ...org, id: { $in: grant.branchIds } });
+      for (const subject of BRANCH_RECORDS) {
+        if (subject === "Job") continue;
+        can("read", subject, inGrant);
+      }
+      can("read", "Job", { ...inGrant, performedOn: { $gte: grant.recordsFrom, $lte: grant.recordsTo } });
+      can("read", "Finding", inGrant);
+      can(["read", "export"], "Audit", org);
+      can("read", "Certification", inGrant);
+    }
+  }
+
+  // Nothing is granted by default: an actor without memberships can do nothing.
+  return build();
+}

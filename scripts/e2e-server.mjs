@@ -1,0 +1,38 @@
+#!/usr/bin/env node
+// Started by Playwright's webServer: a fresh demo database, the local fakes on test ports, and the
+// built app on http://127.0.0.1:3100. Stops its children when Playwright stops it.
+import { rmSync } from "node:fs";
+import { join } from "node:path";
+import { nextBin, root, run, start, stateDir, tsxBin } from "./lib.mjs";
+
+const dir = join(stateDir, "e2e");
+rmSync(dir, { recursive: true, force: true });
+
+const env = {
+  NODE_ENV: "production",
+  NEXTAUTH_URL: "http://127.0.0.1:3100",
+  NEXTAUTH_SECRET: "e2e-only-secret-not-for-production-0123456789",
+  COLDTRAIL_ALLOW_DEV_DEFAULTS: "1",
+  COLDTRAIL_DB: join(dir, "coldtrail.sqlite"),
+  SMTP_PORT: "2526",
+  MAIL_UI_PORT: "2581",
+  S3_PORT: "4570",
+  S3_ENDPOINT: "http://127.0.0.1:4570",
+  FAKES_DIR: join(dir, "fakes"),
+};
+
+run(process.execPath, [tsxBin, "packages/db/src/cli.ts", "reset"], { env });
+const fakes = start(process.execPath, [tsxBin, "scripts/fakes.ts"], { env });
+const web = start(process.execPath, [nextBin, "start", "-H", "127.0.0.1", "-p", "3100"], { cwd: join(root, "apps", "web"), env });
+
+const stop = () => {
+  fakes.kill("SIGTERM");
+  web.kill("SIGTERM");
+  setTimeout(() => process.exit(0), 1500).unref();
+};
+process.on("SIGINT", stop);
+process.on("SIGTERM", stop);
+web.on("exit", () => {
+  fakes.kill("SIGTERM");
+  process.exit(0);
+});
