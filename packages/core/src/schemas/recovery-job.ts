@@ -6,8 +6,11 @@ export const MASS_INPUT_UNITS = ["lb", "oz", "kg", "g"] as const;
 export type MassInputUnit = (typeof MASS_INPUT_UNITS)[number];
 
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date like 2026-03-14");
+/** A number typed into a form: an empty box means "not entered", never zero. */
+const entered = <T extends z.ZodType>(schema: T) =>
+  z.preprocess((v) => (v === "" || v === null || (typeof v === "string" && v.trim() === "") ? undefined : v), schema);
 const id = (what: string) =>
-  z.coerce.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`);
+  entered(z.coerce.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`));
 
 /**
  * A recovery job as a technician enters it in the field. Shared by the job form (react-hook-form)
@@ -19,17 +22,21 @@ export const recoveryJobInput = z
     applianceId: id("the appliance"),
     performedOn: isoDate,
     refrigerant: z.string().trim().min(1, "Refrigerant is required").max(32),
-    recoveredAmount: z.coerce
-      .number({ error: "Enter the amount recovered" })
-      .min(0, "The amount recovered cannot be negative")
-      .max(100_000, "That amount is larger than any appliance charge"),
+    recoveredAmount: entered(
+      z.coerce
+        .number({ error: "Enter the amount recovered" })
+        .min(0, "The amount recovered cannot be negative")
+        .max(100_000, "That amount is larger than any appliance charge"),
+    ),
     recoveredUnit: z.enum(MASS_INPUT_UNITS, { error: "Choose the unit of the amount" }),
     cylinderId: id("the recovery cylinder"),
     equipmentId: id("the recovery equipment"),
-    evacuationValue: z.coerce
-      .number({ error: "Enter the evacuation level reached" })
-      .min(-100_000, "Evacuation level out of range")
-      .max(1_000_000, "Evacuation level out of range"),
+    evacuationValue: entered(
+      z.coerce
+        .number({ error: "Enter the evacuation level reached" })
+        .min(-100_000, "Evacuation level out of range")
+        .max(1_000_000, "Evacuation level out of range"),
+    ),
     evacuationUnit: z.enum(EVACUATION_UNITS, { error: "Choose the unit of the evacuation level" }),
     accessMethod: z.enum(ACCESS_METHODS, { error: "Choose how the circuit was accessed" }),
     temporaryAccessRemoved: z.boolean().nullable().optional(),
@@ -37,6 +44,11 @@ export const recoveryJobInput = z
     notes: z.string().trim().max(2000, "Notes are limited to 2,000 characters").optional(),
   })
   .superRefine((value, ctx) => {
+    // One day of slack: the technician's calendar date may be ahead of UTC.
+    const latest = new Date(Date.now() + 24 * 3600 * 1000).toISOString().slice(0, 10);
+    if (value.performedOn > latest) {
+      ctx.addIssue({ code: "custom", path: ["performedOn"], message: "The date of the work cannot be in the future" });
+    }
     const temporary = TEMPORARY_ACCESS_METHODS.includes(value.accessMethod);
     if (temporary && (value.temporaryAccessRemoved === undefined || value.temporaryAccessRemoved === null)) {
       ctx.addIssue({
