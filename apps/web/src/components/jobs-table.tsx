@@ -14,7 +14,7 @@ import {
 } from "@tanstack/react-table";
 import { JOB_KIND_LABELS, JOB_KINDS, formatMass, type JobKind } from "@coldtrail/core";
 import { fetchJson } from "@/lib/client/fetch-json";
-import type { BranchOption, JobListPage, JobListRow } from "@/lib/client/types";
+import { jobMassG, type BranchOption, type JobListPage, type JobListRow } from "@/lib/client/types";
 
 const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 const helper = createColumnHelper<typeof features, JobListRow>();
@@ -43,12 +43,13 @@ const columns = helper.columns([
   helper.accessor("branchName", { id: "branch", header: "Branch" }),
   helper.accessor("technicianName", { id: "technician", header: "Technician" }),
   helper.accessor((row) => row.refrigerant ?? "", { id: "refrigerant", header: "Refrigerant" }),
-  helper.accessor((row) => row.massG ?? 0, {
+  helper.accessor((row) => jobMassG(row) ?? 0, {
     id: "amount",
     header: "Amount",
     cell: (info) => {
       const row = info.row.original;
-      return <span className="tabular whitespace-nowrap">{row.massG === null ? "—" : formatMass(row.massG, row.branchMassUnit)}</span>;
+      const g = jobMassG(row);
+      return <span className="tabular whitespace-nowrap">{g === null ? "—" : formatMass(g, row.branchMassUnit)}</span>;
     },
   }),
   helper.accessor((row) => row.cylinderSerial ?? "", {

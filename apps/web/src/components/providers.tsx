@@ -2,16 +2,13 @@
 
 import { useState } from "react";
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
-import { createContextualCan } from "@casl/react";
+import { AbilityProvider, Can, useAbility as useCaslAbility } from "@casl/react";
 import { createMongoAbility, type RawRuleOf } from "@casl/ability";
-import { createContext, useContext } from "react";
 import type { AppAbility } from "@coldtrail/core";
 
-const AbilityContext = createContext<AppAbility>(createMongoAbility<AppAbility>([]));
-
 /** Mirrors the server's permissions in the browser to hide what cannot be done. The server decides. */
-export const Can = createContextualCan(AbilityContext.Consumer);
-export const useAbility = () => useContext(AbilityContext);
+export { Can };
+export const useAbility = () => useCaslAbility<AppAbility>();
 
 export function Providers({ rules, children }: { rules: RawRuleOf<AppAbility>[]; children: React.ReactNode }) {
   const [queryClient] = useState(
@@ -20,7 +17,7 @@ export function Providers({ rules, children }: { rules: RawRuleOf<AppAbility>[];
   const [ability] = useState(() => createMongoAbility<AppAbility>(rules));
   return (
     <QueryClientProvider client={queryClient}>
-      <AbilityContext.Provider value={ability}>{children}</AbilityContext.Provider>
+      <AbilityProvider value={ability}>{children}</AbilityProvider>
     </QueryClientProvider>
   );
 }

@@ -1,4 +1,4 @@
-import { AbilityBuilder, createMongoAbility, type MongoAbility, type MongoQuery } from "@casl/ability";
+import { AbilityBuilder, createMongoAbility, type ForcedSubject, type MongoAbility, type MongoQuery } from "@casl/ability";
 import type { Role } from "../vocabulary";
 
 /** What a person can do something to. Conditions use the camelCase field names of these subjects. */
@@ -44,7 +44,9 @@ export const ACTIONS = [
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
-export type AppAbility = MongoAbility<[Action, SubjectName | "all" | Record<string, unknown>], MongoQuery>;
+/** A subject name, or a record tagged with its subject name (`subject("Job", row)`). */
+export type AppSubject = SubjectName | "all" | Record<string, unknown> | ForcedSubject<SubjectName>;
+export type AppAbility = MongoAbility<[Action, AppSubject], MongoQuery>;
 
 export interface ActorMembership {
   branchId: number | null;

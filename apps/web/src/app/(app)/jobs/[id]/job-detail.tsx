@@ -4,7 +4,7 @@ import Link from "next/link";
 import { useQuery } from "@tanstack/react-query";
 import { ACCESS_METHOD_LABELS, APPLIANCE_CATEGORY_LABELS, EVACUATION_UNIT_LABELS, JOB_KIND_LABELS, formatMass } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import type { JobDetail as Job } from "@/lib/client/types";
+import { jobMassG, type JobDetail as Job } from "@/lib/client/types";
 
 function Row({ label, children }: { label: string; children: React.ReactNode }) {
   return (
@@ -30,7 +30,8 @@ export function JobDetail({ id }: { id: string }) {
     );
   }
   const j = job.data!;
-  const mass = j.massG === null ? "—" : formatMass(j.massG, j.branchMassUnit);
+  const g = jobMassG(j);
+  const mass = g === null ? "—" : formatMass(g, j.branchMassUnit);
   return (
     <article className="mx-auto max-w-2xl space-y-4">
       <Link href="/jobs" className="text-sm text-fjord-700 underline">

@@ -1,0 +1,115 @@
+import type { IsoDate } from "../dates/local-date";
+import { leakDeadlines, followUpVerificationDueOn, type LeakDeadlines } from "../leak-rate/leak-deadlines";
+import { leakRateHistory, type LeakRateEvent, type RefrigerantAddition } from "../leak-rate/leak-rate";
+import {
+  CATEGORY_LEAK_RULES,
+  exceedsLeakThreshold,
+  LEAK_REGIME_THRESHOLDS,
+  leakRateThreshold,
+  leakRepairRegime,
+  type LeakRegime,
+  type LeakUseClass,
+} from "../leak-rate/leak-repair-regime";
+import type { AuditSettings } from "../settings";
+import { firstOnOrAfter } from "./record-index";
+import type { Appliance, Job } from "./records";
+
+export interface LeakEpisode {
+  startOn: IsoDate;
+  percent: number;
+  threshold: number;
+  regime: LeakRegime;
+  deadlines: LeakDeadlines;
+  repair: Job | null;
+  initialTest: Job | null;
+  followUpTest: Job | null;
+  /** 10 days after a passed initial test. */
+  followUpDueOn: IsoDate | null;
+  /** Appliance retired or disposed before the repair was due (retirement ends the repair duty). */
+  retiredOn: IsoDate | null;
+}
+
+export interface CoveredEvent {
+  event: LeakRateEvent;
+  regime: LeakRegime;
+  threshold: number;
+  exceeds: boolean;
+}
+
+export interface ApplianceLeakAnalysis {
+  useClass: LeakUseClass;
+  events: CoveredEvent[];
+  episodes: LeakEpisode[];
+  additions: RefrigerantAddition[];
+}
+
+const onOf = (j: Job) => j.performedOn;
+
+/**
+ * Leak-rate events, exceedance episodes and their repair / verification jobs for one appliance.
+ * Jobs arrive sorted by date then id. An episode opens at the first addition over the threshold and
+ * is closed by the first leak-repair job on or after that date; later exceedances open a new one.
+ */
+export function analyseLeaks(appliance: Appliance, jobs: readonly Job[], settings: AuditSettings, timeZone: string): ApplianceLeakAnalysis | null {
+  const useClass = CATEGORY_LEAK_RULES[appliance.category].useClass;
+  if (!useClass || !appliance.fullChargeG || appliance.fullChargeG <= 0) return null;
+  const additions: RefrigerantAddition[] = [];
+  const repairs: Job[] = [];
+  const initialTests: Job[] = [];
+  const followUps: Job[] = [];
+  for (const job of jobs) {
+    for (const m of job.movements) {
+      if (m.direction === "charged") additions.push({ on: job.performedOn, amountG: m.amountG, excluded: job.additionExclusion, sourceId: job.id });
+    }
+    if (job.kind === "leak_repair") repairs.push(job);
+    if (job.kind === "verification_test" && job.verification?.passed) {
+      (job.verification.stage === "initial" ? initialTests : followUps).push(job);
+    }
+  }
+  const resets = followUps.map(onOf);
+  const base = { fullChargeG: appliance.fullChargeG, additions, method: settings.leakRateMethod, followUpVerificationsPassedOn: resets };
+  const all = leakRateHistory(base);
+  const aim = new Map(leakRateHistory({ ...base, countFrom: LEAK_REGIME_THRESHOLDS.aimFrom }).map((e) => [e.on, e]));
+  const events: CoveredEvent[] = [];
+  for (const e of all) {
+    const r = leakRepairRegime({ refrigerant: appliance.refrigerant, fullChargeG: appliance.fullChargeG, category: appliance.category, on: e.on });
+    if (!r.regime) continue;
+    const event = r.regime === "us_aim_hfc" ? (aim.get(e.on) ?? e) : e;
+    if (event.percent === null) continue;
+    const threshold = leakRateThreshold(useClass, e.on);
+    events.push({ event, regime: r.regime, threshold, exceeds: exceedsLeakThreshold(event.percent, threshold) });
+  }
+  const episodes: LeakEpisode[] = [];
+  let openUntil: IsoDate | null = null; // exceedances up to this date belong to the current episode
+  let open = false;
+  for (const c of events) {
+    if (!c.exceeds) continue;
+    if (open && (openUntil === null || c.event.on <= openUntil)) continue;
+    const startOn = c.event.on;
+    const deadlines = leakDeadlines({ exceededOn: startOn, timeZone, useClass, needsIndustrialShutdown: appliance.needsIndustrialShutdownForRepair ?? false });
+    const repair = repairs[firstOnOrAfter(repairs, startOn, onOf)] ?? null;
+    const after = repair ? repair.performedOn : null;
+    const initialTest = after ? (initialTests[firstOnOrAfter(initialTests, after, onOf)] ?? null) : null;
+    const followUpTest = initialTest ? (followUps[firstOnOrAfter(followUps, initialTest.performedOn, onOf)] ?? null) : null;
+    const retiredOn =
+      appliance.status !== "in_service" && appliance.statusChangedOn && appliance.statusChangedOn >= startOn && appliance.statusChangedOn <= deadlines.repairDueOn
+        ? appliance.statusChangedOn
+        : null;
+    episodes.push({
+      startOn,
+      percent: c.event.percent as number,
+      threshold: c.threshold,
+      regime: c.regime,
+      deadlines,
+      repair,
+      initialTest,
+      followUpTest,
+      followUpDueOn: initialTest ? followUpVerificationDueOn(initialTest.performedOn, timeZone) : null,
+      retiredOn,
+    });
+    open = true;
+    openUntil = repair ? repair.performedOn : null;
+  }
+  return { useClass, events, episodes, additions };
+}
+

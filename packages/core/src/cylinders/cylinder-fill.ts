@@ -1,0 +1,82 @@
+import { CoreInputError, UnknownRefrigerantError } from "../errors";
+import { addYears, type IsoDate } from "../dates/local-date";
+import { getRefrigerant } from "../refrigerants/catalogue";
+import { normaliseDesignation } from "../refrigerants/normalise-designation";
+
+/** AHRI Guideline K: fill to 80 % of the water capacity, corrected by specific gravity [S11]. */
+export const GUIDELINE_K_FILL_FACTOR = 0.8;
+
+export type FillBasis = "sg_77f" | "sg_130f" | "given" | "legacy_sg_1";
+
+export interface MaxFillInput {
+  waterCapacityG: number;
+  tareG: number;
+  refrigerant: string;
+  /** Use the liquid SG at 130 °F instead of 77 °F (stricter; DOT forbids liquid-full at about 130 °F). */
+  strict130F?: boolean;
+  /** Overrides the catalogue's SG (e.g. a published figure for the case at hand). */
+  specificGravity?: number;
+}
+
+export interface MaxFill {
+  maxNetG: number;
+  maxGrossG: number;
+  specificGravity: number;
+  basis: FillBasis;
+}
+
+/**
+ * Maximum net and gross fill: net = WC × 0.8 × SG; gross = net + tare (AHRI Guideline K-2004 as
+ * reported [S11]; REFERENCE.md §5.2). Grams are rounded down so the limit never exceeds the formula.
+ * Without an SG in the catalogue the old label rule SG = 1 is used and said so (basis "legacy_sg_1").
+ */
+export function maxCylinderFill(input: MaxFillInput): MaxFill {
+  if (!(input.waterCapacityG > 0)) throw new CoreInputError("The water capacity must be greater than zero", "waterCapacityG");
+  if (input.tareG < 0) throw new CoreInputError("The tare weight cannot be negative", "tareG");
+  let sg: number;
+  let basis: FillBasis;
+  if (input.specificGravity !== undefined) {
+    sg = input.specificGravity;
+    basis = "given";
+  } else {
+    const r = getRefrigerant(input.refrigerant);
+    if (!r) throw new UnknownRefrigerantError(input.refrigerant);
+    const catalogued = input.strict130F ? r.sg130F : r.sg77F;
+    sg = catalogued ?? 1;
+    basis = catalogued === null ? "legacy_sg_1" : input.strict130F ? "sg_130f" : "sg_77f";
+  }
+  if (!(sg > 0)) throw new CoreInputError("The specific gravity must be greater than zero", "specificGravity");
+  const maxNetG = Math.floor(input.waterCapacityG * GUIDELINE_K_FILL_FACTOR * sg + 1e-9);
+  return { maxNetG, maxGrossG: maxNetG + input.tareG, specificGravity: sg, basis };
+}
+
+/** How full the cylinder is against its maximum net fill, in % (for a fill gauge; may exceed 100). */
+export function fillPercent(netG: number, maxNetG: number): number {
+  if (!(maxNetG > 0)) throw new CoreInputError("The maximum fill must be greater than zero", "maxNetG");
+  return (netG / maxNetG) * 100;
+}
+
+/** Room left before the maximum gross weight (negative when overfilled). */
+export function remainingCapacityG(grossG: number, maxGrossG: number): number {
+  return maxGrossG - grossG;
+}
+
+/** Share of the cylinder volume the liquid fills at 130 °F: net / (WC × SG at 130 °F vs 60 °F water). */
+export function liquidFillFractionAt130F(netG: number, waterCapacityG: number, sg130F: number): number {
+  return netG / (waterCapacityG * sg130F);
+}
+
+/** 49 CFR 180.209 allows 5, 10 or 12 years; recovery cylinders are commonly retested every 5 (setting). */
+export const DEFAULT_REQUALIFICATION_YEARS = 5;
+
+/** Date the next requalification (hydrostatic retest) is due: last test + `years`. */
+export function requalificationDueOn(lastRequalifiedOn: IsoDate, years: number = DEFAULT_REQUALIFICATION_YEARS): IsoDate {
+  if (!(years > 0) || !Number.isInteger(years)) throw new CoreInputError("The requalification period must be a whole number of years", "years");
+  return addYears(lastRequalifiedOn, years);
+}
+
+/** One refrigerant per cylinder: may `incoming` go into a cylinder that holds `contents`? */
+export function cylinderAcceptsRefrigerant(contents: { refrigerant: string | null; netG: number } | null, incoming: string): boolean {
+  if (!contents || contents.refrigerant === null || contents.netG <= 0) return true;
+  return normaliseDesignation(contents.refrigerant) === normaliseDesignation(incoming);
+}

@@ -1,0 +1,34 @@
+// The rules core: units, refrigerant data, classification, evacuation, leak rate, cylinders,
+// EU checks, mass balance, record completeness and the audit engine. Pure functions, no I/O.
+export * from "./errors";
+export * from "./units/mass";
+export * from "./units/pressure";
+export * from "./units/temperature";
+export * from "./dates/local-date";
+export * from "./refrigerants/normalise-designation";
+export * from "./refrigerants/catalogue";
+export * from "./refrigerants/mixture-gwp";
+export * from "./refrigerants/pt-tables";
+export * from "./refrigerants/saturation-pressure";
+export * from "./classification/classify-pressure";
+export * from "./classification/appliance-classification";
+export * from "./classification/check-certification-coverage";
+export * from "./evacuation/required-evacuation";
+export * from "./leak-rate/leak-rate";
+export * from "./leak-rate/leak-repair-regime";
+export * from "./leak-rate/leak-deadlines";
+export * from "./cylinders/cylinder-fill";
+export * from "./cylinders/check-cylinder-pressure";
+export * from "./eu/eu-leak-checks";
+export * from "./mass-balance";
+export * from "./record-completeness";
+export * from "./settings";
+export * from "./audit/records";
+export * from "./audit/finding";
+export { buildRecordIndex, firstOnOrAfter, type RecordIndex } from "./audit/record-index";
+export { buildCylinderLedgers, type LedgerEntry, type LedgerStep } from "./audit/cylinder-ledger";
+export { analyseLeaks, type ApplianceLeakAnalysis, type LeakEpisode, type CoveredEvent } from "./audit/leak-analysis";
+export * from "./audit/branch-mass-balance";
+export * from "./audit/rule-registry";
+export * from "./audit/run-audit";
+export * from "./audit/rules-reference";

@@ -1,0 +1,401 @@
+import type { Knex } from "knex";
+import { toGrams } from "@coldtrail/core";
+import type {
+  AccessMethod,
+  ApplianceCategory,
+  EvacuationUnit,
+  JobKind,
+  JobListQuery,
+  MassDisplayUnit,
+  RecoveryJobInput,
+} from "@coldtrail/core";
+import { appendActivity, rowId } from "./activity";
+import { RecordConflictError, RecordNotFoundError, InvalidInputError } from "./errors";
+import { describeMass } from "./mass";
+import { likePattern, toBool, toBoolOrNull, toNumOrNull, type ActorRef, type ScopeFn } from "./types";
+
+export interface JobListRow {
+  id: number;
+  branchId: number;
+  branchName: string;
+  /** How the branch shows masses ("lb_oz" or "kg"). */
+  branchMassUnit: MassDisplayUnit;
+  kind: JobKind;
+  performedOn: string;
+  applianceId: number;
+  applianceTag: string;
+  applianceDescription: string;
+  applianceCategory: ApplianceCategory;
+  technicianId: number;
+  technicianName: string;
+  refrigerant: string | null;
+  recoveredG: number;
+  chargedG: number;
+  cylinderId: number | null;
+  cylinderSerial: string | null;
+  equipmentId: number | null;
+  equipmentSerial: string | null;
+  evacuationValue: number | null;
+  evacuationUnit: EvacuationUnit | null;
+  accessMethod: AccessMethod | null;
+  voidedAt: string | null;
+  createdAt: string;
+}
+
+export interface JobListResult {
+  rows: JobListRow[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
+
+const SORT_COLUMNS: Record<JobListQuery["sort"], string | null> = {
+  performedOn: "jobs.performed_on",
+  kind: "jobs.kind",
+  branch: "branch.name",
+  technician: "technician.name",
+  appliance: "appliance.tag",
+  refrigerant: "jobs.refrigerant",
+  amount: null, // recovered + charged, an expression
+};
+
+/** The jobs table aliased `jobs`, joined with what list rows show. */
+function jobsWithJoins(db: Knex): Knex.QueryBuilder {
+  return db("jobs as jobs")
+    .join("branches as branch", "branch.id", "jobs.branch_id")
+    .join("appliances as appliance", "appliance.id", "jobs.appliance_id")
+    .join("users as technician", "technician.id", "jobs.technician_id")
+    .leftJoin("cylinders as cylinder", "cylinder.id", "jobs.cylinder_id")
+    .leftJoin("recovery_equipment as equipment", "equipment.id", "jobs.equipment_id");
+}
+
+const LIST_COLUMNS = [
+  "jobs.id",
+  "jobs.branch_id",
+  "branch.name as branch_name",
+  "branch.mass_unit as branch_mass_unit",
+  "jobs.kind",
+  "jobs.performed_on",
+  "jobs.appliance_id",
+  "appliance.tag as appliance_tag",
+  "appliance.description as appliance_description",
+  "appliance.category as appliance_category",
+  "jobs.technician_id",
+  "technician.name as technician_name",
+  "jobs.refrigerant",
+  "jobs.recovered_g",
+  "jobs.charged_g",
+  "jobs.cylinder_id",
+  "cylinder.serial as cylinder_serial",
+  "jobs.equipment_id",
+  "equipment.serial as equipment_serial",
+  "jobs.evacuation_value",
+  "jobs.evacuation_unit",
+  "jobs.access_method",
+  "jobs.voided_at",
+  "jobs.created_at",
+];
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+function toListRow(r: any): JobListRow {
+  return {
+    id: Number(r.id),
+    branchId: Number(r.branch_id),
+    branchName: r.branch_name,
+    branchMassUnit: r.branch_mass_unit,
+    kind: r.kind,
+    performedOn: r.performed_on,
+    applianceId: Number(r.appliance_id),
+    applianceTag: r.appliance_tag,
+    applianceDescription: r.appliance_description,
+    applianceCategory: r.appliance_category,
+    technicianId: Number(r.technician_id),
+    technicianName: r.technician_name,
+    refrigerant: r.refrigerant ?? null,
+    recoveredG: Number(r.recovered_g),
+    chargedG: Number(r.charged_g),
+    cylinderId: toNumOrNull(r.cylinder_id),
+    cylinderSerial: r.cylinder_serial ?? null,
+    equipmentId: toNumOrNull(r.equipment_id),
+    equipmentSerial: r.equipment_serial ?? null,
+    evacuationValue: toNumOrNull(r.evacuation_value),
+    evacuationUnit: r.evacuation_unit ?? null,
+    accessMethod: r.access_method ?? null,
+    voidedAt: r.voided_at ?? null,
+    createdAt: r.created_at,
+  };
+}
+
+function applyScope(qb: Knex.QueryBuilder, scope: ScopeFn): void {
+  qb.where(function scoped(this: Knex.QueryBuilder) {
+    scope(this);
+  });
+}
+
+/**
+ * One page of jobs the scope allows, filtered and sorted on the server.
+ * The scope callback sees the jobs table as `jobs` (e.g. `jobs.branch_id`, `jobs.technician_id`).
+ * Voided jobs are left out unless `includeVoided`.
+ */
+export async function listJobs(
+  db: Knex,
+  opts: { scope: ScopeFn; query: JobListQuery; includeVoided?: boolean },
+): Promise<JobListResult> {
+  const { query } = opts;
+  const page = query.page ?? 1;
+  const pageSize = query.pageSize ?? 25;
+
+  const filtered = (qb: Knex.QueryBuilder, withAppliance: boolean) => {
+    applyScope(qb, opts.scope);
+    if (!opts.includeVoided) qb.whereNull("jobs.voided_at");
+    if (query.kind) qb.where("jobs.kind", query.kind);
+    if (query.branchId) qb.where("jobs.branch_id", query.branchId);
+    if (query.technicianId) qb.where("jobs.technician_id", query.technicianId);
+    if (query.from) qb.where("jobs.performed_on", ">=", query.from);
+    if (query.to) qb.where("jobs.performed_on", "<=", query.to);
+    if (query.q && withAppliance) {
+      const pattern = likePattern(query.q);
+      qb.where((w) =>
+        w
+          .whereRaw("lower(appliance.tag) like ? escape ?", [pattern, "\\"])
+          .orWhereRaw("lower(appliance.description) like ? escape ?", [pattern, "\\"]),
+      );
+    }
+    return qb;
+  };
+
+  // The count only joins the appliance when the text filter needs it.
+  const countBase = db("jobs as jobs");
+  if (query.q) countBase.join("appliances as appliance", "appliance.id", "jobs.appliance_id");
+  const countRow = await filtered(countBase, Boolean(query.q)).count({ n: "*" }).first();
+  const total = Number(countRow?.n ?? 0);
+
+  const dir = query.dir === "asc" ? "asc" : "desc";
+  const rowsQuery = filtered(jobsWithJoins(db), true).select(LIST_COLUMNS);
+  const column = SORT_COLUMNS[query.sort ?? "performedOn"];
+  if (column) rowsQuery.orderBy(column, dir);
+  else rowsQuery.orderByRaw(`(jobs.recovered_g + jobs.charged_g) ${dir}`);
+  rowsQuery.orderBy("jobs.id", dir);
+  const rows = await rowsQuery.limit(pageSize).offset((page - 1) * pageSize);
+
+  return { rows: rows.map(toListRow), total, page, pageSize };
+}
+
+export interface JobMovement {
+  id: number;
+  direction: string;
+  refrigerant: string;
+  massG: number;
+  cylinderId: number | null;
+  cylinderSerial: string | null;
+  movedOn: string;
+}
+
+export interface JobDetail extends JobListRow {
+  organisationId: number;
+  siteName: string;
+  applianceRefrigerant: string;
+  applianceFullChargeG: number;
+  temporaryAccessRemoved: boolean | null;
+  compressorOperating: boolean | null;
+  verificationStage: string | null;
+  verificationPassed: boolean | null;
+  verificationMethod: string | null;
+  relatedJobId: number | null;
+  leakLocation: string | null;
+  repairDescription: string | null;
+  additionExclusion: string | null;
+  shutdownNeeded: boolean | null;
+  notes: string | null;
+  source: string;
+  voidReason: string | null;
+  createdBy: number;
+  createdByName: string;
+  updatedAt: string;
+  movements: JobMovement[];
+}
+
+/** One job the scope allows (voided ones included), with its refrigerant movements; undefined otherwise. */
+export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Promise<JobDetail | undefined> {
+  const q = jobsWithJoins(db)
+    .join("sites as site", "site.id", "appliance.site_id")
+    .join("users as creator", "creator.id", "jobs.created_by")
+    .where("jobs.id", opts.id);
+  applyScope(q, opts.scope);
+  const r = await q
+    .first([
+      ...LIST_COLUMNS,
+      "jobs.organisation_id",
+      "site.name as site_name",
+      "appliance.refrigerant as appliance_refrigerant",
+      "appliance.full_charge_g as appliance_full_charge_g",
+      "jobs.temporary_access_removed",
+      "jobs.compressor_operating",
+      "jobs.verification_stage",
+      "jobs.verification_passed",
+      "jobs.verification_method",
+      "jobs.related_job_id",
+      "jobs.leak_location",
+      "jobs.repair_description",
+      "jobs.addition_exclusion",
+      "jobs.shutdown_needed",
+      "jobs.notes",
+      "jobs.source",
+      "jobs.void_reason",
+      "jobs.created_by",
+      "creator.name as created_by_name",
+      "jobs.updated_at",
+    ]);
+  if (!r) return undefined;
+  const movements = await db("refrigerant_movements as mv")
+    .leftJoin("cylinders as c", "c.id", "mv.cylinder_id")
+    .where("mv.job_id", opts.id)
+    .whereNull("mv.voided_at")
+    .orderBy("mv.id")
+    .select("mv.id", "mv.direction", "mv.refrigerant", "mv.mass_g", "mv.cylinder_id", "c.serial as cylinder_serial", "mv.moved_on");
+  return {
+    ...toListRow(r),
+    organisationId: Number(r.organisation_id),
+    siteName: r.site_name,
+    applianceRefrigerant: r.appliance_refrigerant,
+    applianceFullChargeG: Number(r.appliance_full_charge_g),
+    temporaryAccessRemoved: toBoolOrNull(r.temporary_access_removed),
+    compressorOperating: toBoolOrNull(r.compressor_operating),
+    verificationStage: r.verification_stage ?? null,
+    verificationPassed: toBoolOrNull(r.verification_passed),
+    verificationMethod: r.verification_method ?? null,
+    relatedJobId: toNumOrNull(r.related_job_id),
+    leakLocation: r.leak_location ?? null,
+    repairDescription: r.repair_description ?? null,
+    additionExclusion: r.addition_exclusion ?? null,
+    shutdownNeeded: toBoolOrNull(r.shutdown_needed),
+    notes: r.notes ?? null,
+    source: r.source,
+    voidReason: r.void_reason ?? null,
+    createdBy: Number(r.created_by),
+    createdByName: r.created_by_name,
+    updatedAt: r.updated_at,
+    movements: movements.map((m) => ({
+      id: Number(m.id),
+      direction: m.direction,
+      refrigerant: m.refrigerant,
+      massG: Number(m.mass_g),
+      cylinderId: toNumOrNull(m.cylinder_id),
+      cylinderSerial: m.cylinder_serial ?? null,
+      movedOn: m.moved_on,
+    })),
+  };
+}
+
+/**
+ * Records a recovery job in one transaction: the job, the movement of refrigerant into the cylinder,
+ * the cylinder's new contents, and an activity row. The appliance, cylinder and equipment must belong
+ * to the same organisation and branch. A refrigerant different from what the cylinder holds is NOT
+ * refused here — the audit raises it as a mixed-refrigerant finding.
+ */
+export async function createRecoveryJob(
+  db: Knex,
+  opts: { actor: ActorRef; branchId: number; input: RecoveryJobInput; now?: Date },
+): Promise<number> {
+  const { actor, branchId, input } = opts;
+  if (input.kind !== "recovery") throw new InvalidInputError("Only recovery jobs are recorded here", "kind");
+  const grams = toGrams(input.recoveredAmount, input.recoveredUnit);
+  const at = (opts.now ?? new Date()).toISOString();
+
+  return db.transaction(async (trx) => {
+    const branch = await trx("branches")
+      .where({ id: branchId, organisation_id: actor.organisationId })
+      .first("id", "mass_unit", "archived_at");
+    if (!branch) throw new RecordNotFoundError("That branch does not exist", "branchId");
+    if (branch.archived_at) throw new RecordConflictError("That branch is archived", "branchId");
+
+    const appliance = await trx("appliances")
+      .where({ id: input.applianceId, organisation_id: actor.organisationId })
+      .first("id", "branch_id", "tag", "status");
+    if (!appliance) throw new RecordNotFoundError("That appliance does not exist", "applianceId");
+    if (Number(appliance.branch_id) !== branchId)
+      throw new RecordConflictError("That appliance belongs to another branch", "applianceId");
+    if (appliance.status === "disposed")
+      throw new RecordConflictError("That appliance has already been disposed of", "applianceId");
+
+    const cylinder = await trx("cylinders")
+      .where({ id: input.cylinderId, organisation_id: actor.organisationId })
+      .first("id", "branch_id", "serial", "status", "unregistered", "refrigerant", "contents_g");
+    if (!cylinder) throw new RecordNotFoundError("That cylinder does not exist", "cylinderId");
+    if (Number(cylinder.branch_id) !== branchId)
+      throw new RecordConflictError("That cylinder belongs to another branch", "cylinderId");
+    if (cylinder.status !== "in_service" || toBool(cylinder.unregistered))
+      throw new RecordConflictError("That cylinder is not in service", "cylinderId");
+
+    const equipment = await trx("recovery_equipment")
+      .where({ id: input.equipmentId, organisation_id: actor.organisationId })
+      .first("id", "branch_id", "serial", "status", "unregistered");
+    if (!equipment) throw new RecordNotFoundError("That recovery equipment does not exist", "equipmentId");
+    if (Number(equipment.branch_id) !== branchId)
+      throw new RecordConflictError("That recovery equipment belongs to another branch", "equipmentId");
+    if (equipment.status !== "in_service" || toBool(equipment.unregistered))
+      throw new RecordConflictError("That recovery equipment is not in service", "equipmentId");
+
+    const [jobRow] = await trx("jobs")
+      .insert({
+        organisation_id: actor.organisationId,
+        branch_id: branchId,
+        appliance_id: input.applianceId,
+        technician_id: actor.userId,
+        kind: "recovery",
+        performed_on: input.performedOn,
+        refrigerant: input.refrigerant,
+        recovered_g: grams,
+        charged_g: 0,
+        equipment_id: input.equipmentId,
+        cylinder_id: input.cylinderId,
+        access_method: input.accessMethod,
+        temporary_access_removed: input.temporaryAccessRemoved ?? null,
+        evacuation_value: input.evacuationValue,
+        evacuation_unit: input.evacuationUnit,
+        compressor_operating: input.compressorOperating ?? null,
+        notes: input.notes && input.notes.length > 0 ? input.notes : null,
+        source: "field",
+        created_by: actor.userId,
+        created_at: at,
+        updated_at: at,
+      })
+      .returning("id");
+    const jobId = rowId(jobRow);
+
+    await trx("refrigerant_movements").insert({
+      organisation_id: actor.organisationId,
+      branch_id: branchId,
+      job_id: jobId,
+      cylinder_id: input.cylinderId,
+      direction: "recovered_into_cylinder",
+      refrigerant: input.refrigerant,
+      mass_g: grams,
+      moved_on: input.performedOn,
+      created_at: at,
+    });
+
+    const wasEmpty = cylinder.refrigerant === null || Number(cylinder.contents_g) <= 0;
+    await trx("cylinders")
+      .where({ id: input.cylinderId })
+      .update({
+        contents_g: trx.raw("contents_g + ?", [grams]),
+        ...(wasEmpty ? { refrigerant: input.refrigerant } : {}),
+        updated_at: at,
+      });
+
+    await appendActivity(trx, {
+      organisationId: actor.organisationId,
+      actorId: actor.userId,
+      branchId,
+      action: "job.recovery.created",
+      subjectType: "job",
+      subjectId: jobId,
+      at,
+      summary: `Recovered ${describeMass(grams, branch.mass_unit)} ${input.refrigerant} from ${appliance.tag} into cylinder ${cylinder.serial}`,
+      data: { applianceId: input.applianceId, cylinderId: input.cylinderId, equipmentId: input.equipmentId, grams },
+    });
+
+    return jobId;
+  });
+}

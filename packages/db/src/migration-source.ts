@@ -1,0 +1,37 @@
+import type { Knex } from "knex";
+import * as m0100 from "../migrations/20261201000100_organisations_and_people";
+import * as m0200 from "../migrations/20261201000200_registers";
+import * as m0300 from "../migrations/20261201000300_jobs_and_refrigerant";
+import * as m0400 from "../migrations/20261201000400_audits_and_findings";
+import * as m0500 from "../migrations/20261201000500_history";
+
+interface Migration {
+  up: (knex: Knex) => Promise<void>;
+  down: (knex: Knex) => Promise<void>;
+}
+
+/**
+ * Every migration, in order, imported statically so that tsx, vitest and Next.js all run the same
+ * code without a TypeScript loader for knex's directory scan. Names are the file names (with .ts),
+ * exactly what knex's directory source records, so both ways agree on what has run.
+ * Add a new migration file here as well.
+ */
+const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
+  ["20261201000100_organisations_and_people.ts", m0100],
+  ["20261201000200_registers.ts", m0200],
+  ["20261201000300_jobs_and_refrigerant.ts", m0300],
+  ["20261201000400_audits_and_findings.ts", m0400],
+  ["20261201000500_history.ts", m0500],
+];
+
+export const migrationSource: Knex.MigrationSource<string> = {
+  getMigrations: async () => MIGRATIONS.map(([name]) => name),
+  getMigrationName: (name) => name,
+  getMigration: async (name) => {
+    const found = MIGRATIONS.find(([n]) => n === name);
+    if (!found) throw new Error(`Unknown migration ${name}`);
+    return found[1];
+  },
+};
+
+export const MIGRATION_NAMES: readonly string[] = MIGRATIONS.map(([name]) => name);

@@ -1,0 +1,68 @@
+import { randomUUID } from "node:crypto";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import type { Knex } from "knex";
+import { createDb } from "./connection";
+import { loadDemoData } from "./demo/load";
+
+export interface TestDb {
+  db: Knex;
+  file: string;
+  /** Closes the connection and deletes the file. */
+  destroy: () => Promise<void>;
+}
+
+function tempFile(label: string): string {
+  return path.join(os.tmpdir(), `coldtrail-${label}-${process.pid}-${randomUUID()}.sqlite`);
+}
+
+function removeFiles(file: string): void {
+  for (const suffix of ["", "-wal", "-shm"]) fs.rmSync(`${file}${suffix}`, { force: true });
+}
+
+function handle(file: string): TestDb {
+  const db = createDb(file);
+  return {
+    db,
+    file,
+    destroy: async () => {
+      await db.destroy();
+      removeFiles(file);
+    },
+  };
+}
+
+/** A fresh, migrated database in a temporary file. */
+export async function createTestDb(): Promise<TestDb> {
+  const t = handle(tempFile("test"));
+  await t.db.migrate.latest();
+  return t;
+}
+
+let seededTemplate: Promise<string> | undefined;
+
+/** Migrates and seeds one template file per process; later calls copy it. */
+function template(): Promise<string> {
+  seededTemplate ??= (async () => {
+    const file = tempFile("seeded-template");
+    const db = createDb(file);
+    try {
+      await db.migrate.latest();
+      await loadDemoData(db);
+    } finally {
+      await db.destroy(); // closing the last connection checkpoints the WAL into the main file
+    }
+    process.once("exit", () => removeFiles(file));
+    return file;
+  })();
+  return seededTemplate;
+}
+
+/** A fresh copy of the migrated database holding the demo data. */
+export async function createSeededTestDb(): Promise<TestDb> {
+  const source = await template();
+  const file = tempFile("seeded");
+  fs.copyFileSync(source, file);
+  return handle(file);
+}
