@@ -33,11 +33,11 @@ test.describe("a technician logs a recovery job on a phone", () => {
     await page.getByRole("button", { name: new RegExp(appliance!.tag) }).first().click();
     await expect(page.getByTestId("chosen-appliance")).toContainText(appliance!.tag);
 
-    await page.getByLabel("Amount recovered").fill("3.25");
+    await page.getByLabel("Amount recovered", { exact: true }).fill("3.25");
     await page.getByLabel("Unit of the amount recovered").selectOption("lb");
     await page.getByRole("group", { name: "Recovery cylinder" }).getByRole("radio").first().check();
     await page.getByRole("group", { name: "Recovery equipment" }).getByRole("radio").first().check();
-    await page.getByLabel("Evacuation level reached").fill("10");
+    await page.getByLabel("Evacuation level reached", { exact: true }).fill("10");
     await page.getByLabel("Existing service valve").check();
     await snap(page, "job-form-phone-filled");
 
@@ -90,10 +90,10 @@ test.describe("a technician logs a recovery job on a phone", () => {
 
     await page.goto("/jobs/new");
     await page.getByRole("button", { name: "Save recovery job" }).click();
-    await expect(page.getByText("Choose the appliance")).toBeVisible();
-    await expect(page.getByText("Enter the amount recovered")).toBeVisible();
-    await expect(page.getByLabel("Amount recovered")).toHaveAttribute("aria-invalid", "true");
-    await expect(page.getByRole("alert").first()).toContainText("Some fields need attention");
+    await expect(page.getByText("Choose the appliance", { exact: true })).toBeVisible();
+    await expect(page.getByText("Enter the amount recovered", { exact: true })).toBeVisible();
+    await expect(page.getByLabel("Amount recovered", { exact: true })).toHaveAttribute("aria-invalid", "true");
+    await expect(page.getByRole("alert").filter({ hasText: "Some fields need attention" })).toBeVisible();
     await snap(page, "job-form-phone-errors");
 
     // The server refuses the same mistakes on its own, naming the field.

@@ -33,17 +33,17 @@ export function sqliteConfig(filename: string): Knex.Config {
 
 /** Opens (or creates) a SQLite database file. The folder is created when missing. */
 export function createDb(filename: string): Knex {
-  if (filename !== ":memory:") fs.mkdirSync(path.dirname(path.resolve(filename)), { recursive: true });
+  if (filename !== ":memory:") fs.mkdirSync(path.dirname(path.resolve(/*turbopackIgnore: true*/ filename)), { recursive: true });
   return knexFactory(sqliteConfig(filename));
 }
 
 /** The repository root: the nearest folder upwards holding pnpm-workspace.yaml. */
 export function repoRoot(start: string = process.cwd()): string {
-  let dir = path.resolve(start);
+  let dir = path.resolve(/*turbopackIgnore: true*/ start);
   for (;;) {
-    if (fs.existsSync(path.join(dir, "pnpm-workspace.yaml"))) return dir;
+    if (fs.existsSync(path.join(/*turbopackIgnore: true*/ dir, "pnpm-workspace.yaml"))) return dir;
     const parent = path.dirname(dir);
-    if (parent === dir) return path.resolve(start);
+    if (parent === dir) return path.resolve(/*turbopackIgnore: true*/ start);
     dir = parent;
   }
 }
@@ -51,8 +51,8 @@ export function repoRoot(start: string = process.cwd()): string {
 /** The database file: env COLDTRAIL_DB, or `<repo>/.coldtrail/coldtrail.sqlite`. */
 export function databaseFile(): string {
   const fromEnv = process.env.COLDTRAIL_DB;
-  if (fromEnv && fromEnv.trim() !== "") return path.resolve(fromEnv);
-  return path.join(repoRoot(), ".coldtrail", "coldtrail.sqlite");
+  if (fromEnv && fromEnv.trim() !== "") return path.resolve(/*turbopackIgnore: true*/ fromEnv);
+  return path.join(/*turbopackIgnore: true*/ repoRoot(), ".coldtrail", "coldtrail.sqlite");
 }
 
 const globalForDb = globalThis as unknown as { __coldtrailDb?: Knex };

@@ -38,7 +38,7 @@ function FieldError({ id, message }: { id: string; message?: string }) {
   return (
     <p id={id} className="mt-1 flex items-start gap-1.5 text-sm font-medium text-sev-critical">
       <span aria-hidden="true">⚠</span>
-      {message}
+      <span>{message}</span>
     </p>
   );
 }
