@@ -1,29 +1,31 @@
 #!/usr/bin/env node
 // Started by Playwright's webServer: a fresh demo database, the local fakes on test ports, and the
-// built app on http://127.0.0.1:3100. Stops its children when Playwright stops it.
+// built app on http://127.0.0.1:$E2E_PORT (default 3100). Ports of the fakes follow the app's port,
+// so several runs can share a machine (set NEXT_DIST_DIR too, and build into it first).
 import { rmSync } from "node:fs";
 import { join } from "node:path";
-import { nextBin, root, run, start, stateDir, tsxBin } from "./lib.mjs";
+import { e2ePorts, nextBin, root, run, start, stateDir, tsxBin } from "./lib.mjs";
 
-const dir = join(stateDir, "e2e");
+const ports = e2ePorts();
+const dir = join(stateDir, `e2e-${ports.app}`);
 rmSync(dir, { recursive: true, force: true });
 
 const env = {
   NODE_ENV: "production",
-  NEXTAUTH_URL: "http://127.0.0.1:3100",
+  NEXTAUTH_URL: `http://127.0.0.1:${ports.app}`,
   NEXTAUTH_SECRET: "e2e-only-secret-not-for-production-0123456789",
   COLDTRAIL_ALLOW_DEV_DEFAULTS: "1",
   COLDTRAIL_DB: join(dir, "coldtrail.sqlite"),
-  SMTP_PORT: "2526",
-  MAIL_UI_PORT: "2581",
-  S3_PORT: "4570",
-  S3_ENDPOINT: "http://127.0.0.1:4570",
+  SMTP_PORT: String(ports.smtp),
+  MAIL_UI_PORT: String(ports.mailUi),
+  S3_PORT: String(ports.s3),
+  S3_ENDPOINT: `http://127.0.0.1:${ports.s3}`,
   FAKES_DIR: join(dir, "fakes"),
 };
 
 run(process.execPath, [tsxBin, "packages/db/src/cli.ts", "reset"], { env });
 const fakes = start(process.execPath, [tsxBin, "scripts/fakes.ts"], { env });
-const web = start(process.execPath, [nextBin, "start", "-H", "127.0.0.1", "-p", "3100"], { cwd: join(root, "apps", "web"), env });
+const web = start(process.execPath, [nextBin, "start", "-H", "127.0.0.1", "-p", String(ports.app)], { cwd: join(root, "apps", "web"), env });
 
 const stop = () => {
   fakes.kill("SIGTERM");

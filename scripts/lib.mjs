@@ -50,3 +50,9 @@ export function start(cmd, args, opts = {}) {
 
 export const tsxBin = join(root, "node_modules", "tsx", "dist", "cli.mjs");
 export const nextBin = join(root, "apps", "web", "node_modules", "next", "dist", "bin", "next");
+
+/** Ports of one end-to-end run, all derived from E2E_PORT (default 3100). */
+export function e2ePorts(appPort = Number(process.env.E2E_PORT ?? 3100)) {
+  const offset = appPort - 3100;
+  return { app: appPort, smtp: 2600 + offset, mailUi: 2700 + offset, s3: 4600 + offset };
+}

@@ -6,7 +6,27 @@ import { DEMO } from "./demo-data";
 export { expect, DEMO };
 
 export const DEMO_PASSWORD = "coldtrail-demo";
-const screensDir = join(import.meta.dirname, "..", "..", "test-results", "e2e", "screens");
+const port = Number(process.env.E2E_PORT ?? 3100);
+const screensDir = join(import.meta.dirname, "..", "..", "test-results", port === 3100 ? "e2e" : `e2e-${port}`, "screens");
+
+/** The local inbox of this run's SMTP fake (see scripts/fakes.ts and scripts/lib.mjs e2ePorts). */
+export const MAIL_UI = `http://127.0.0.1:${2700 + (port - 3100)}`;
+
+export interface CaughtMail {
+  id: string;
+  receivedAt: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+}
+
+/** Mail the SMTP fake caught for an address, oldest first. */
+export async function mailTo(request: APIRequestContext, address: string): Promise<CaughtMail[]> {
+  const res = await request.get(`${MAIL_UI}/messages.json?to=${encodeURIComponent(address)}`);
+  expect(res.ok()).toBeTruthy();
+  return (await res.json()) as CaughtMail[];
+}
 
 /** Signs a browser context in through next-auth's credentials endpoint (no form typing). */
 export async function signInApi(request: APIRequestContext, email: string, password = DEMO_PASSWORD) {

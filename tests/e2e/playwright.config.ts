@@ -2,18 +2,19 @@ import { defineConfig, devices } from "@playwright/test";
 import { join } from "node:path";
 
 const root = join(import.meta.dirname, "..", "..");
+const port = Number(process.env.E2E_PORT ?? 3100);
 
 export default defineConfig({
   testDir: ".",
-  outputDir: join(root, "test-results", "e2e"),
+  outputDir: join(root, "test-results", port === 3100 ? "e2e" : `e2e-${port}`),
   fullyParallel: false,
   workers: 1,
   retries: 0,
   timeout: 60_000,
   expect: { timeout: 10_000 },
-  reporter: [["list"], ["html", { outputFolder: join(root, "playwright-report"), open: "never" }]],
+  reporter: [["list"], ["html", { outputFolder: join(root, port === 3100 ? "playwright-report" : `playwright-report-${port}`), open: "never" }]],
   use: {
-    baseURL: "http://127.0.0.1:3100",
+    baseURL: `http://127.0.0.1:${port}`,
     screenshot: "on",
     trace: "retain-on-failure",
     launchOptions: {
@@ -33,7 +34,7 @@ export default defineConfig({
   projects: [{ name: "chromium", use: { ...devices["Desktop Chrome"], channel: undefined } }],
   webServer: {
     command: `node ${join(root, "scripts", "e2e-server.mjs")}`,
-    url: "http://127.0.0.1:3100/sign-in",
+    url: `http://127.0.0.1:${port}/sign-in`,
     timeout: 180_000,
     reuseExistingServer: false,
     stdout: "pipe",
