@@ -37,3 +37,4 @@ export { hashPassword, verifyPassword } from "./passwords";
 export type { Knex } from "knex";
 export { scopeByAbility, type QueryScope } from "./scope";
 export { getApplianceRef, type ApplianceRef } from "./appliances";
+export { amendRecord, voidRecord, listAmendments, type AmendOptions, type AmendmentRecord } from "./amendments";
