@@ -8,6 +8,8 @@ const TABLES = [
   "certifications", "certification_types", "jobs", "reclaim_shipments", "reclaim_shipment_lines", "purchases",
   "refrigerant_movements", "cylinder_weighings", "disposal_records", "disposal_statements", "audits", "findings",
   "audit_findings", "finding_events", "comments", "evidence", "saved_views", "notifications", "amendments", "activity",
+  // Spreadsheet imports (cards and imports):
+  "imports", "import_row_issues",
 ];
 
 let t: TestDb;

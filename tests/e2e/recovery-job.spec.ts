@@ -24,6 +24,9 @@ test.describe("a technician logs a recovery job on a phone", () => {
     expect(rows.every((a) => a.branchName === "Columbus"), "the picker only offers the technician's branch").toBe(true);
 
     await page.goto("/jobs/new");
+    await expect(page.getByRole("heading", { name: "Log a job" })).toBeVisible();
+    await snap(page, "job-form-phone-kind-picker");
+    await page.getByRole("radio", { name: /^Recovery/ }).click();
     await expect(page.getByRole("heading", { name: "Log a recovery job" })).toBeVisible();
     await expect(page.getByText("Refrigerant displaces oxygen")).toBeVisible();
     await expect(page.getByText("Local codes and licensed practice take precedence")).toBeVisible();
@@ -46,13 +49,15 @@ test.describe("a technician logs a recovery job on a phone", () => {
     expect(overflow).toBeLessThanOrEqual(0);
 
     await page.getByRole("button", { name: "Save recovery job" }).click();
-    await expect(page).toHaveURL(/\/jobs\?created=\d+/);
-    await expect(page.getByRole("status")).toContainText("Job saved");
-    const createdId = new URL(page.url()).searchParams.get("created");
+    await expect(page).toHaveURL(/\/jobs\/\d+\?saved=1/);
+    await expect(page.getByRole("status").filter({ hasText: "Job saved" })).toBeVisible();
+    const createdId = new URL(page.url()).pathname.split("/").pop();
+    await expect(page.getByRole("heading", { level: 1 })).toContainText(`Recovered 3.25 lb`);
 
     const after = (await (await tech.request.get("/api/jobs?pageSize=1")).json()) as { total: number };
     expect(after.total).toBe(before.total + 1);
 
+    await page.goto("/jobs");
     await page.getByLabel("Search appliance").fill(appliance!.tag);
     const row = page.getByTestId("job-row").filter({ hasText: appliance!.tag }).first();
     await expect(row).toBeVisible();
@@ -88,7 +93,7 @@ test.describe("a technician logs a recovery job on a phone", () => {
     const page = await tech.newPage();
     const before = (await (await tech.request.get("/api/jobs?pageSize=1")).json()) as { total: number };
 
-    await page.goto("/jobs/new");
+    await page.goto("/jobs/new?kind=recovery");
     await page.getByRole("button", { name: "Save recovery job" }).click();
     await expect(page.getByText("Choose the appliance", { exact: true })).toBeVisible();
     await expect(page.getByText("Enter the amount recovered", { exact: true })).toBeVisible();

@@ -4,3 +4,9 @@ export * from "./schemas";
 export * from "./permissions";
 // Rules core (units, refrigerants, classification, leak rate, cylinders, audit engine …):
 export * from "./rules-core";
+// Instant feedback on a job being entered (jobs):
+export * from "./feedback/check-job-draft";
+// Findings workflow (pure): states, due dates, reconciliation, record health, digest.
+export * from "./findings";
+// Spreadsheet import: fields, column suggestions, row parsing, CSV reading (pure).
+export * from "./imports";

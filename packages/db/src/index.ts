@@ -17,6 +17,13 @@ export {
   listJobs,
   getJob,
   createRecoveryJob,
+  createJob,
+  amendJob,
+  voidJob,
+  checkJobDraftForActor,
+  leakRateOfJob,
+  JOB_FIELD_WORDS,
+  type JobDraftCheck,
   type JobListRow,
   type JobListResult,
   type JobDetail,
@@ -38,3 +45,36 @@ export type { Knex } from "knex";
 export { scopeByAbility, type QueryScope } from "./scope";
 export { getApplianceRef, type ApplianceRef } from "./appliances";
 export { amendRecord, voidRecord, listAmendments, type AmendOptions, type AmendmentRecord } from "./amendments";
+export * from "./admin";
+// Registers: appliances, recovery equipment, cylinders (issue 3).
+export * from "./registers";
+// Records kept beside jobs: disposals, reclaim shipments, purchases (jobs).
+export { type RecordPage } from "./records/common";
+export {
+  listDisposals,
+  getDisposalRecord,
+  getDisposalStatement,
+  getStatementDocument,
+  getDisposalRef,
+  createDisposalRecord,
+  createDisposalStatement,
+  amendDisposalRecord,
+  amendDisposalStatement,
+  voidDisposal,
+  monthlyDisposalTotals,
+  listShopQueue,
+  recordShopDisposals,
+  type DisposalListRow,
+  type DisposalRecordDetail,
+  type DisposalStatementDetail,
+  type MonthlyDisposalTotals,
+  type ShopQueueRow,
+  type ShopBatchResult,
+} from "./records/disposals";
+export { listShipments, getShipment, getShipmentRef, createShipment, amendShipment, voidShipment, type ShipmentListRow, type ShipmentDetail } from "./records/shipments";
+export { listPurchases, getPurchase, getPurchaseRef, createPurchase, amendPurchase, voidPurchase, type PurchaseRow, type PurchaseDetail } from "./records/purchases";
+// Certification cards, in-app notifications and spreadsheet imports (cards and imports):
+export * from "./certifications";
+export * from "./imports";
+// Audits: runs, findings workflow, saved views, dashboards, export rows, digest, continuous audit (audits).
+export * from "./audits";

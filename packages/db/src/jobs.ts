@@ -1,18 +1,23 @@
 import type { Knex } from "knex";
-import { toGrams } from "@coldtrail/core";
 import type {
   AccessMethod,
   ApplianceCategory,
   EvacuationUnit,
   JobKind,
   JobListQuery,
+  LeakRateVerdict,
   MassDisplayUnit,
   RecoveryJobInput,
 } from "@coldtrail/core";
-import { appendActivity, rowId } from "./activity";
-import { RecordConflictError, RecordNotFoundError, InvalidInputError } from "./errors";
-import { describeMass } from "./mass";
-import { likePattern, toBool, toBoolOrNull, toNumOrNull, type ActorRef, type ScopeFn } from "./types";
+import { listAmendments, type AmendmentRecord } from "./amendments";
+import { InvalidInputError } from "./errors";
+import { leakRateOfJob } from "./jobs/check-draft";
+import { createJob } from "./jobs/write-job";
+import { likePattern, toBoolOrNull, toNumOrNull, type ActorRef, type ScopeFn } from "./types";
+
+export { createJob } from "./jobs/write-job";
+export { amendJob, voidJob, JOB_FIELD_WORDS } from "./jobs/amend-job";
+export { checkJobDraftForActor, leakRateOfJob, type JobDraftCheck } from "./jobs/check-draft";
 
 export interface JobListRow {
   id: number;
@@ -135,7 +140,7 @@ function applyScope(qb: Knex.QueryBuilder, scope: ScopeFn): void {
 /**
  * One page of jobs the scope allows, filtered and sorted on the server.
  * The scope callback sees the jobs table as `jobs` (e.g. `jobs.branch_id`, `jobs.technician_id`).
- * Voided jobs are left out unless `includeVoided`.
+ * Voided jobs are left out unless `includeVoided` or the query's `voided` filter asks for them.
  */
 export async function listJobs(
   db: Knex,
@@ -147,7 +152,10 @@ export async function listJobs(
 
   const filtered = (qb: Knex.QueryBuilder, withAppliance: boolean) => {
     applyScope(qb, opts.scope);
-    if (!opts.includeVoided) qb.whereNull("jobs.voided_at");
+    const voided = opts.includeVoided ? "include" : (query.voided ?? "exclude");
+    if (voided === "exclude") qb.whereNull("jobs.voided_at");
+    else if (voided === "only") qb.whereNotNull("jobs.voided_at");
+    if (query.applianceId) qb.where("jobs.appliance_id", query.applianceId);
     if (query.kind) qb.where("jobs.kind", query.kind);
     if (query.branchId) qb.where("jobs.branch_id", query.branchId);
     if (query.technicianId) qb.where("jobs.technician_id", query.technicianId);
@@ -194,6 +202,8 @@ export interface JobMovement {
 export interface JobDetail extends JobListRow {
   organisationId: number;
   siteName: string;
+  siteAddress: string | null;
+  customerName: string | null;
   applianceRefrigerant: string;
   applianceFullChargeG: number;
   temporaryAccessRemoved: boolean | null;
@@ -212,14 +222,28 @@ export interface JobDetail extends JobListRow {
   createdBy: number;
   createdByName: string;
   updatedAt: string;
+  voidedByName: string | null;
+  branchTimeZone: string;
+  applianceStatus: string;
+  /** Charges: where the refrigerant came from. */
+  chargeSource: "stock" | "cylinder" | null;
   movements: JobMovement[];
+  /** Charges: the leak rate this addition gave, calculated by the rules core. */
+  leakRate: LeakRateVerdict | null;
+  /** Corrections, oldest first, with the previous values. */
+  amendments: AmendmentRecord[];
+  /** Disposals: the record or signed statement kept for it, if any. */
+  disposalRecordId: number | null;
+  disposalStatementId: number | null;
 }
 
 /** One job the scope allows (voided ones included), with its refrigerant movements; undefined otherwise. */
 export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Promise<JobDetail | undefined> {
   const q = jobsWithJoins(db)
     .join("sites as site", "site.id", "appliance.site_id")
+    .leftJoin("customers as customer", "customer.id", "site.customer_id")
     .join("users as creator", "creator.id", "jobs.created_by")
+    .leftJoin("users as voider", "voider.id", "jobs.voided_by")
     .where("jobs.id", opts.id);
   applyScope(q, opts.scope);
   const r = await q
@@ -227,6 +251,8 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
       ...LIST_COLUMNS,
       "jobs.organisation_id",
       "site.name as site_name",
+      "site.address as site_address",
+      "customer.name as customer_name",
       "appliance.refrigerant as appliance_refrigerant",
       "appliance.full_charge_g as appliance_full_charge_g",
       "jobs.temporary_access_removed",
@@ -245,6 +271,9 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
       "jobs.created_by",
       "creator.name as created_by_name",
       "jobs.updated_at",
+      "voider.name as voided_by_name",
+      "branch.time_zone as branch_time_zone",
+      "appliance.status as appliance_status",
     ]);
   if (!r) return undefined;
   const movements = await db("refrigerant_movements as mv")
@@ -253,10 +282,20 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     .whereNull("mv.voided_at")
     .orderBy("mv.id")
     .select("mv.id", "mv.direction", "mv.refrigerant", "mv.mass_g", "mv.cylinder_id", "c.serial as cylinder_serial", "mv.moved_on");
+  const organisationId = Number(r.organisation_id);
+  const kind = r.kind as JobKind;
+  const [leakRate, amendments, record, statement] = await Promise.all([
+    kind === "charge" ? leakRateOfJob(db, { organisationId, jobId: opts.id, applianceId: Number(r.appliance_id), branchId: Number(r.branch_id) }) : Promise.resolve(null),
+    listAmendments(db, { organisationId, subjectType: "Job", subjectId: opts.id }),
+    kind === "disposal" ? db("disposal_records").where({ job_id: opts.id }).whereNull("voided_at").orderBy("id", "desc").first("id") : Promise.resolve(undefined),
+    kind === "disposal" ? db("disposal_statements").where({ job_id: opts.id }).whereNull("voided_at").orderBy("id", "desc").first("id") : Promise.resolve(undefined),
+  ]);
   return {
     ...toListRow(r),
-    organisationId: Number(r.organisation_id),
+    organisationId,
     siteName: r.site_name,
+    siteAddress: r.site_address ?? null,
+    customerName: r.customer_name ?? null,
     applianceRefrigerant: r.appliance_refrigerant,
     applianceFullChargeG: Number(r.appliance_full_charge_g),
     temporaryAccessRemoved: toBoolOrNull(r.temporary_access_removed),
@@ -275,6 +314,14 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     createdBy: Number(r.created_by),
     createdByName: r.created_by_name,
     updatedAt: r.updated_at,
+    voidedByName: r.voided_by_name ?? null,
+    branchTimeZone: r.branch_time_zone,
+    applianceStatus: r.appliance_status,
+    chargeSource: kind !== "charge" ? null : movements.some((m) => m.direction === "charged_from_cylinder") ? "cylinder" : "stock",
+    leakRate: r.voided_at ? null : leakRate,
+    amendments,
+    disposalRecordId: record ? Number(record.id) : null,
+    disposalStatementId: statement ? Number(statement.id) : null,
     movements: movements.map((m) => ({
       id: Number(m.id),
       direction: m.direction,
@@ -297,105 +344,6 @@ export async function createRecoveryJob(
   db: Knex,
   opts: { actor: ActorRef; branchId: number; input: RecoveryJobInput; now?: Date },
 ): Promise<number> {
-  const { actor, branchId, input } = opts;
-  if (input.kind !== "recovery") throw new InvalidInputError("Only recovery jobs are recorded here", "kind");
-  const grams = toGrams(input.recoveredAmount, input.recoveredUnit);
-  const at = (opts.now ?? new Date()).toISOString();
-
-  return db.transaction(async (trx) => {
-    const branch = await trx("branches")
-      .where({ id: branchId, organisation_id: actor.organisationId })
-      .first("id", "mass_unit", "archived_at");
-    if (!branch) throw new RecordNotFoundError("That branch does not exist", "branchId");
-    if (branch.archived_at) throw new RecordConflictError("That branch is archived", "branchId");
-
-    const appliance = await trx("appliances")
-      .where({ id: input.applianceId, organisation_id: actor.organisationId })
-      .first("id", "branch_id", "tag", "status");
-    if (!appliance) throw new RecordNotFoundError("That appliance does not exist", "applianceId");
-    if (Number(appliance.branch_id) !== branchId)
-      throw new RecordConflictError("That appliance belongs to another branch", "applianceId");
-    if (appliance.status === "disposed")
-      throw new RecordConflictError("That appliance has already been disposed of", "applianceId");
-
-    const cylinder = await trx("cylinders")
-      .where({ id: input.cylinderId, organisation_id: actor.organisationId })
-      .first("id", "branch_id", "serial", "status", "unregistered", "refrigerant", "contents_g");
-    if (!cylinder) throw new RecordNotFoundError("That cylinder does not exist", "cylinderId");
-    if (Number(cylinder.branch_id) !== branchId)
-      throw new RecordConflictError("That cylinder belongs to another branch", "cylinderId");
-    if (cylinder.status !== "in_service" || toBool(cylinder.unregistered))
-      throw new RecordConflictError("That cylinder is not in service", "cylinderId");
-
-    const equipment = await trx("recovery_equipment")
-      .where({ id: input.equipmentId, organisation_id: actor.organisationId })
-      .first("id", "branch_id", "serial", "status", "unregistered");
-    if (!equipment) throw new RecordNotFoundError("That recovery equipment does not exist", "equipmentId");
-    if (Number(equipment.branch_id) !== branchId)
-      throw new RecordConflictError("That recovery equipment belongs to another branch", "equipmentId");
-    if (equipment.status !== "in_service" || toBool(equipment.unregistered))
-      throw new RecordConflictError("That recovery equipment is not in service", "equipmentId");
-
-    const [jobRow] = await trx("jobs")
-      .insert({
-        organisation_id: actor.organisationId,
-        branch_id: branchId,
-        appliance_id: input.applianceId,
-        technician_id: actor.userId,
-        kind: "recovery",
-        performed_on: input.performedOn,
-        refrigerant: input.refrigerant,
-        recovered_g: grams,
-        charged_g: 0,
-        equipment_id: input.equipmentId,
-        cylinder_id: input.cylinderId,
-        access_method: input.accessMethod,
-        temporary_access_removed: input.temporaryAccessRemoved ?? null,
-        evacuation_value: input.evacuationValue,
-        evacuation_unit: input.evacuationUnit,
-        compressor_operating: input.compressorOperating ?? null,
-        notes: input.notes && input.notes.length > 0 ? input.notes : null,
-        source: "field",
-        created_by: actor.userId,
-        created_at: at,
-        updated_at: at,
-      })
-      .returning("id");
-    const jobId = rowId(jobRow);
-
-    await trx("refrigerant_movements").insert({
-      organisation_id: actor.organisationId,
-      branch_id: branchId,
-      job_id: jobId,
-      cylinder_id: input.cylinderId,
-      direction: "recovered_into_cylinder",
-      refrigerant: input.refrigerant,
-      mass_g: grams,
-      moved_on: input.performedOn,
-      created_at: at,
-    });
-
-    const wasEmpty = cylinder.refrigerant === null || Number(cylinder.contents_g) <= 0;
-    await trx("cylinders")
-      .where({ id: input.cylinderId })
-      .update({
-        contents_g: trx.raw("contents_g + ?", [grams]),
-        ...(wasEmpty ? { refrigerant: input.refrigerant } : {}),
-        updated_at: at,
-      });
-
-    await appendActivity(trx, {
-      organisationId: actor.organisationId,
-      actorId: actor.userId,
-      branchId,
-      action: "job.recovery.created",
-      subjectType: "job",
-      subjectId: jobId,
-      at,
-      summary: `Recovered ${describeMass(grams, branch.mass_unit)} ${input.refrigerant} from ${appliance.tag} into cylinder ${cylinder.serial}`,
-      data: { applianceId: input.applianceId, cylinderId: input.cylinderId, equipmentId: input.equipmentId, grams },
-    });
-
-    return jobId;
-  });
+  if (opts.input.kind !== "recovery") throw new InvalidInputError("Only recovery jobs are recorded here", "kind");
+  return createJob(db, opts);
 }

@@ -4,6 +4,10 @@ import * as m0200 from "../migrations/20261201000200_registers";
 import * as m0300 from "../migrations/20261201000300_jobs_and_refrigerant";
 import * as m0400 from "../migrations/20261201000400_audits_and_findings";
 import * as m0500 from "../migrations/20261201000500_history";
+import * as m0700 from "../migrations/20261201000700_register_indexes";
+import * as m0800 from "../migrations/20261201000800_records_for_jobs";
+import * as m0900 from "../migrations/20261201000900_cards_and_imports";
+import * as m1000 from "../migrations/20261201001000_findings_workflow";
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -22,6 +26,10 @@ const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
   ["20261201000300_jobs_and_refrigerant.ts", m0300],
   ["20261201000400_audits_and_findings.ts", m0400],
   ["20261201000500_history.ts", m0500],
+  ["20261201000700_register_indexes.ts", m0700],
+  ["20261201000800_records_for_jobs.ts", m0800],
+  ["20261201000900_cards_and_imports.ts", m0900],
+  ["20261201001000_findings_workflow.ts", m1000],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -26,7 +26,20 @@ const columns = helper.columns([
     header: "Date",
     cell: (info) => <span className="tabular whitespace-nowrap">{info.getValue()}</span>,
   }),
-  helper.accessor("kind", { id: "kind", header: "Job", cell: (info) => JOB_KIND_LABELS[info.getValue()] }),
+  helper.accessor("kind", {
+    id: "kind",
+    header: "Job",
+    cell: (info) => (
+      <>
+        {JOB_KIND_LABELS[info.getValue()]}
+        {info.row.original.voidedAt && (
+          <span className="ml-1 inline-flex items-center gap-1 rounded border border-ink-400 px-1 text-xs font-semibold uppercase text-ink-700">
+            <span aria-hidden="true">⊘</span> Void
+          </span>
+        )}
+      </>
+    ),
+  }),
   helper.accessor((row) => row.applianceTag ?? "", {
     id: "appliance",
     header: "Appliance",
@@ -66,12 +79,14 @@ interface Filters {
   from: string;
   to: string;
   q: string;
+  /** "" leaves voided jobs out; "include" or "only" asks for them. */
+  voided: "" | "include" | "only";
 }
 
 export function JobsTable({ compact = false, initialPageSize = 25 }: { compact?: boolean; initialPageSize?: number }) {
   const [sorting, setSorting] = useState<SortingState>([{ id: "performedOn", desc: true }]);
   const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: initialPageSize });
-  const [filters, setFilters] = useState<Filters>({ kind: "", branchId: "", from: "", to: "", q: "" });
+  const [filters, setFilters] = useState<Filters>({ kind: "", branchId: "", from: "", to: "", q: "", voided: "" });
 
   const params = useMemo(() => {
     const p = new URLSearchParams({
@@ -125,7 +140,7 @@ export function JobsTable({ compact = false, initialPageSize = 25 }: { compact?:
   return (
     <div className="space-y-3">
       {!compact && (
-        <form className="grid gap-3 rounded-lg border border-ink-200 bg-white p-3 sm:grid-cols-2 lg:grid-cols-5" role="search" onSubmit={(e) => e.preventDefault()}>
+        <form className="grid gap-3 rounded-lg border border-ink-200 bg-white p-3 sm:grid-cols-2 lg:grid-cols-6" role="search" onSubmit={(e) => e.preventDefault()}>
           <label className="text-sm">
             <span className="block font-medium text-ink-700">Search appliance</span>
             <input
@@ -168,6 +183,14 @@ export function JobsTable({ compact = false, initialPageSize = 25 }: { compact?:
             <span className="block font-medium text-ink-700">To</span>
             <input type="date" value={filters.to} onChange={(e) => setFilter("to", e.target.value)} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" />
           </label>
+          <label className="text-sm">
+            <span className="block font-medium text-ink-700">Voided jobs</span>
+            <select value={filters.voided} onChange={(e) => setFilter("voided", e.target.value)} className="mt-1 w-full rounded-md border border-ink-300 bg-white px-2 py-2">
+              <option value="">Leave out</option>
+              <option value="include">Show with the others</option>
+              <option value="only">Show only voided</option>
+            </select>
+          </label>
         </form>
       )}
 
@@ -208,7 +231,7 @@ export function JobsTable({ compact = false, initialPageSize = 25 }: { compact?:
           </thead>
           <tbody className="divide-y divide-ink-100">
             {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} className="hover:bg-fjord-50" data-testid="job-row">
+              <tr key={row.id} className={`hover:bg-fjord-50 ${row.original.voidedAt ? "text-ink-500" : ""}`} data-testid="job-row">
                 {row.getAllCells().map((cell) => (
                   <td key={cell.id} className="px-3 py-2 align-top">
                     <table.FlexRender cell={cell} />

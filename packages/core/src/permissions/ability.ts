@@ -22,6 +22,8 @@ export const SUBJECTS = [
   "Audit",
   "Finding",
   "Activity",
+  // Spreadsheet imports (cards and imports):
+  "Import",
 ] as const;
 export type SubjectName = (typeof SUBJECTS)[number];
 
@@ -119,6 +121,8 @@ export function defineAbilityFor(actor: Actor, now: Date = new Date()): AppAbili
     can(["create", "run", "export"], "Audit", org);
     can(["assign", "accept", "reopen", "waive", "comment", "update"], "Finding", org);
     can("verify", "Certification", org);
+    // Cards: the officer corrects a card's details (amendment) or withdraws a card entered in error.
+    can(["update", "void"], "Certification", org);
     can(["create", "update", "invite"], "InspectorGrant", org);
   }
 
@@ -132,6 +136,8 @@ export function defineAbilityFor(actor: Actor, now: Date = new Date()): AppAbili
     can("read", "Certification", inBranches);
     can("read", "User", inBranches);
     can("read", "Activity", inBranches);
+    // Spreadsheet imports into their own branch(es); each row also needs `create` on its record.
+    can(["read", "create"], "Import", inBranches);
   }
 
   const worked = branchIdsFor(actor, "technician");
@@ -140,7 +146,12 @@ export function defineAbilityFor(actor: Actor, now: Date = new Date()): AppAbili
     can("read", "Branch", { ...org, id: { $in: worked } });
     for (const subject of FIELD_REGISTERS) can("read", subject, inBranches);
     can(["read", "create"], "Job", { ...inBranches, technicianId: actor.userId });
+    // Jobs: a technician corrects (amendment) or voids their own jobs; disposals: records and statements of their branch.
+    can(["update", "void"], "Job", { ...inBranches, technicianId: actor.userId });
+    can(["read", "create"], "Disposal", inBranches);
     can(["read", "create"], "Certification", { ...org, userId: actor.userId });
+    // Cards: a technician corrects or withdraws their own card while it awaits verification.
+    can(["update", "void"], "Certification", { ...org, userId: actor.userId, state: "pending" });
     can(["read", "comment"], "Finding", { ...org, technicianId: actor.userId });
   }
 

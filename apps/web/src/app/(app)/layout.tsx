@@ -6,6 +6,7 @@ import { Logo } from "@/components/logo";
 import { AppNav, type NavItem } from "@/components/app-nav";
 import { Providers } from "@/components/providers";
 import { SignOutButton } from "@/components/sign-out-button";
+import { NotificationsBell } from "@/components/notifications-bell";
 
 export default async function AppLayout({ children }: { children: React.ReactNode }) {
   const signedIn = await currentActor();
@@ -14,8 +15,26 @@ export default async function AppLayout({ children }: { children: React.ReactNod
 
   // Navigation by role: only what this person can use.
   const nav: NavItem[] = [{ href: "/", label: "Overview" }];
+  // Audits and findings (audits engineer): runs, the findings workflow and branch dashboards.
+  if (ability.can("read", "Audit")) nav.push({ href: "/audits", label: "Audits" });
+  if (ability.can("read", "Finding")) nav.push({ href: "/findings", label: "Findings" });
+  if (ability.can("read", "Finding") && ability.can("read", "Branch") && !ability.rulesFor("read", "Finding").every((r) => r.conditions && "technicianId" in r.conditions)) nav.push({ href: "/branches", label: "Branches" });
   if (ability.can("read", "Job")) nav.push({ href: "/jobs", label: "Jobs" });
   if (ability.can("create", "Job")) nav.push({ href: "/jobs/new", label: "Log a job" });
+  // Records kept beside jobs (jobs engineer): disposals, reclaim shipments, purchases.
+  if (ability.can("read", "Disposal")) nav.push({ href: "/disposals", label: "Disposals" });
+  if (ability.can("read", "ReclaimShipment")) nav.push({ href: "/shipments", label: "Shipments" });
+  if (ability.can("read", "Purchase")) nav.push({ href: "/purchases", label: "Purchases" });
+  // Registers (issue 3): appliances, cylinders, recovery equipment for whoever may read them.
+  if (ability.can("read", "Appliance")) nav.push({ href: "/appliances", label: "Appliances" });
+  if (ability.can("read", "Cylinder")) nav.push({ href: "/cylinders", label: "Cylinders" });
+  if (ability.can("read", "RecoveryEquipment")) nav.push({ href: "/equipment", label: "Equipment" });
+  // Running the organisation (issue 6): people for whoever may read them; branches, inspector access and settings under the same tab.
+  if (ability.can("update", "Branch") || ability.can("read", "Settings") || ability.can("read", "InspectorGrant")) nav.push({ href: "/admin", label: "Organisation" });
+  else if (ability.can("read", "User")) nav.push({ href: "/admin", label: "People" });
+  // Certification cards and spreadsheet import (issue 3).
+  if (ability.can("read", "Certification") || ability.can("create", "Certification")) nav.push({ href: "/certifications", label: "Certifications" });
+  if (ability.can("create", "Import")) nav.push({ href: "/imports", label: "Import" });
 
   const roles = rolesOf(actor).map((r) => ROLE_LABELS[r]).join(", ");
 
@@ -29,7 +48,7 @@ export default async function AppLayout({ children }: { children: React.ReactNod
           <Link href="/" className="shrink-0" aria-label="Coldtrail overview">
             <Logo tone="light" />
           </Link>
-          <div className="order-3 w-full sm:order-none sm:w-auto sm:flex-1">
+          <div className="order-3 w-full min-w-0 sm:order-none sm:w-auto sm:flex-1">
             <AppNav items={nav} />
           </div>
           <div className="ml-auto flex items-center gap-3 text-sm">
@@ -37,6 +56,7 @@ export default async function AppLayout({ children }: { children: React.ReactNod
               <span className="block font-medium" data-testid="signed-in-name">{actor.name}</span>
               <span className="block text-xs text-ink-300">{roles}</span>
             </span>
+            {ability.can("read", "Branch") && <NotificationsBell />}
             <SignOutButton />
           </div>
         </div>

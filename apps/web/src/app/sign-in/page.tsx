@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import { redirect } from "next/navigation";
 import { currentActor } from "@/lib/auth/current-actor";
 import { Logo } from "@/components/logo";
@@ -27,6 +28,11 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           <h2 className="text-2xl font-semibold text-ink-950">Sign in</h2>
           <p className="mt-1 text-sm text-ink-600">Use the email address your company registered for you.</p>
           <SignInForm next={next && next.startsWith("/") && !next.startsWith("//") ? next : "/"} />
+          <p className="mt-4 text-sm">
+            <Link href="/password/forgot" className="font-medium text-fjord-700 underline">
+              Forgot your password?
+            </Link>
+          </p>
         </div>
       </section>
     </main>

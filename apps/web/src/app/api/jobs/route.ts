@@ -1,28 +1,30 @@
 import { NextResponse } from "next/server";
 import { ForbiddenError, subject } from "@casl/ability";
-import { jobListQuery, recoveryJobInput } from "@coldtrail/core";
-import { createRecoveryJob, DomainError, getApplianceRef, listJobs, scopeByAbility } from "@coldtrail/db";
+import { jobInput, jobListQuery } from "@coldtrail/core";
+import { createJob, DomainError, getApplianceRef, listJobs, scopeByAbility } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
 
-/** Jobs the signed-in person may read, one page at a time. */
+/** Jobs the signed-in person may read, one page at a time. Voided jobs only when `voided` asks. */
 export const GET = route({ can: ["read", "Job"], query: jobListQuery }, async ({ ability, db, query }) => {
   return listJobs(db, { scope: scopeByAbility(ability, "read", "Job", "jobs"), query });
 });
 
-/** Log a recovery job. The technician on the job is the person signed in. */
-export const POST = route({ can: ["create", "Job"], body: recoveryJobInput }, async ({ actor, ability, db, body }) => {
+/** Log a job of any kind (recovery, charge, leak repair, verification test, disposal). The technician on the job is the person signed in. */
+export const POST = route({ can: ["create", "Job"], body: jobInput }, async ({ actor, ability, db, body }) => {
   const appliance = await getApplianceRef(db, { organisationId: actor.organisationId, id: body.applianceId });
   if (!appliance) {
     throw new DomainError("invalid", "That appliance is not in your organisation's register", "applianceId");
   }
   ForbiddenError.from(ability).throwUnlessCan(
     "create",
-    subject("Job", { organisationId: actor.organisationId, branchId: appliance.branchId, technicianId: actor.userId }),
+    subject("Job", { organisationId: actor.organisationId, branchId: appliance.branchId, technicianId: actor.userId, performedOn: body.performedOn }),
   );
-  const id = await createRecoveryJob(db, {
+  const id = await createJob(db, {
     actor: { userId: actor.userId, organisationId: actor.organisationId },
     branchId: appliance.branchId,
     input: body,
   });
+  // Continuous audit: the branch's findings are re-checked in the background after the save.
+  void (await import("@/lib/server/continuous-audit")).reevaluateAfterWrite(db, { organisationId: actor.organisationId, branchId: appliance.branchId, actorId: actor.userId });
   return NextResponse.json({ id }, { status: 201 });
 });

@@ -1,19 +1,20 @@
 import type { Metadata } from "next";
 import { redirect } from "next/navigation";
+import { JOB_KINDS, type JobKind } from "@coldtrail/core";
 import { currentActor } from "@/lib/auth/current-actor";
-import { RecoveryJobForm } from "./recovery-job-form";
+import { JobForm } from "./job-form";
 
-export const metadata: Metadata = { title: "Log a recovery job" };
+export const metadata: Metadata = { title: "Log a job" };
 
-export default async function NewJobPage() {
+export default async function NewJobPage({ searchParams }: { searchParams: Promise<{ kind?: string }> }) {
   const signedIn = await currentActor();
   if (!signedIn) redirect("/sign-in");
   if (signedIn.ability.cannot("create", "Job")) redirect("/jobs");
+  const { kind } = await searchParams;
+  const initialKind = (JOB_KINDS as readonly string[]).includes(kind ?? "") ? (kind as JobKind) : null;
   return (
     <div className="mx-auto max-w-xl">
-      <h1 className="text-2xl font-semibold text-ink-950">Log a recovery job</h1>
-      <p className="mb-5 text-ink-600">Record what you took out of the appliance, into which cylinder and with which machine.</p>
-      <RecoveryJobForm />
+      <JobForm initialKind={initialKind} />
     </div>
   );
 }

@@ -1,0 +1,164 @@
+"use client";
+
+import { useEffect, useId, useMemo, useState } from "react";
+import { useRouter } from "next/navigation";
+import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { useForm, type FieldPath } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import type { z } from "zod";
+import { MASS_DISPLAY_UNITS, MASS_DISPLAY_UNIT_LABELS, branchInput, isValidTimeZone } from "@coldtrail/core";
+import type { AdminBranchRow } from "@coldtrail/db";
+import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { FieldError, FormAlert, Notice, errorMessage, hintClass, inputClass, labelClass, primaryButton } from "../_components/form-bits";
+
+type FormIn = z.input<typeof branchInput>;
+type FormOut = z.output<typeof branchInput>;
+
+/** Local time in a zone, to confirm the choice ("it is 14:05 there now"). */
+function localTimeIn(timeZone: string): string | null {
+  if (!isValidTimeZone(timeZone)) return null;
+  return new Intl.DateTimeFormat("en-US", { timeZone, weekday: "short", hour: "2-digit", minute: "2-digit", timeZoneName: "short" }).format(new Date());
+}
+
+/** Opens a branch, or edits one (the code is fixed once chosen: the tags of its records carry it). */
+export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
+  const uid = useId();
+  const router = useRouter();
+  const queryClient = useQueryClient();
+  const [formError, setFormError] = useState<string | null>(null);
+  const [notice, setNotice] = useState<string | null>(null);
+  const zones = useMemo(() => (typeof Intl.supportedValuesOf === "function" ? Intl.supportedValuesOf("timeZone") : []), []);
+  const form = useForm<FormIn, unknown, FormOut>({
+    resolver: zodResolver(branchInput),
+    mode: "onTouched",
+    defaultValues: {
+      name: branch?.name ?? "",
+      code: branch?.code ?? "",
+      address: branch?.address ?? "",
+      timeZone: branch?.timeZone ?? "",
+      massUnit: branch?.massUnit ?? "lb_oz",
+    },
+  });
+  const { register, handleSubmit, formState, setError, watch } = form;
+  const errors = formState.errors;
+  const timeZone = watch("timeZone");
+  const [clock, setClock] = useState<string | null>(null);
+  useEffect(() => setClock(localTimeIn(timeZone ?? "")), [timeZone]);
+
+  const save = useMutation({
+    mutationFn: (input: FormOut) =>
+      branch
+        ? fetchJson<AdminBranchRow>(`/api/admin/branches/${branch.id}`, {
+            method: "PATCH",
+            body: JSON.stringify({ name: input.name, address: input.address ?? "", timeZone: input.timeZone, massUnit: input.massUnit }),
+          })
+        : fetchJson<{ id: number }>("/api/admin/branches", { method: "POST", body: JSON.stringify(input) }),
+    onSuccess: async (res) => {
+      await queryClient.invalidateQueries({ queryKey: ["admin-branches"] });
+      await queryClient.invalidateQueries({ queryKey: ["branches"] });
+      if (branch) {
+        await queryClient.invalidateQueries({ queryKey: ["admin-branch", String(branch.id)] });
+        setNotice("Saved. Every screen and deadline of the branch uses these from now on.");
+      } else {
+        router.push(`/admin/branches/${(res as { id: number }).id}?created=1`);
+      }
+    },
+    onError: (err) => {
+      if (err instanceof ApiError) for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
+      setFormError(errorMessage(err, "The branch could not be saved. Check your connection; nothing was saved."));
+    },
+  });
+
+  const onSubmit = handleSubmit(
+    (values) => {
+      setFormError(null);
+      setNotice(null);
+      save.mutate(values);
+    },
+    () => setFormError("Some fields need attention before the branch can be saved."),
+  );
+  const invalid = (name: keyof FormIn) => (errors[name] ? true : undefined);
+  const describedBy = (name: keyof FormIn, hint?: boolean) =>
+    [hint ? `${uid}-${name}-hint` : null, errors[name] ? `${uid}-${name}-error` : null].filter(Boolean).join(" ") || undefined;
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-5 rounded-lg border border-ink-200 bg-white p-5">
+      <FormAlert message={formError} />
+      <Notice message={notice} />
+      <div className="grid gap-5 sm:grid-cols-[1fr_10rem]">
+        <div>
+          <label htmlFor={`${uid}-name`} className={labelClass}>
+            Name
+          </label>
+          <input id={`${uid}-name`} {...register("name")} className={inputClass} aria-invalid={invalid("name")} aria-describedby={describedBy("name")} />
+          <FieldError id={`${uid}-name-error`} message={errors.name?.message} />
+        </div>
+        <div>
+          <label htmlFor={`${uid}-code`} className={labelClass}>
+            Code
+          </label>
+          <input
+            id={`${uid}-code`}
+            {...register("code")}
+            readOnly={Boolean(branch)}
+            className={`${inputClass} uppercase ${branch ? "bg-ink-100" : ""}`}
+            aria-invalid={invalid("code")}
+            aria-describedby={describedBy("code", true)}
+          />
+          <p id={`${uid}-code-hint`} className={hintClass}>
+            {branch ? "Fixed: record tags carry it." : "2–8 letters or digits; fixed once saved."}
+          </p>
+          <FieldError id={`${uid}-code-error`} message={errors.code?.message} />
+        </div>
+      </div>
+      <div>
+        <label htmlFor={`${uid}-address`} className={labelClass}>
+          Address <span className="font-normal text-ink-600">(optional)</span>
+        </label>
+        <textarea id={`${uid}-address`} rows={2} {...register("address")} className={inputClass} aria-invalid={invalid("address")} aria-describedby={describedBy("address")} />
+        <FieldError id={`${uid}-address-error`} message={errors.address?.message} />
+      </div>
+      <div className="grid gap-5 sm:grid-cols-2">
+        <div>
+          <label htmlFor={`${uid}-tz`} className={labelClass}>
+            Time zone
+          </label>
+          <input
+            id={`${uid}-tz`}
+            list={`${uid}-zones`}
+            autoComplete="off"
+            placeholder="e.g. America/Chicago"
+            {...register("timeZone")}
+            className={inputClass}
+            aria-invalid={invalid("timeZone")}
+            aria-describedby={describedBy("timeZone", true)}
+          />
+          <datalist id={`${uid}-zones`}>
+            {zones.map((z) => (
+              <option key={z} value={z} />
+            ))}
+          </datalist>
+          <p id={`${uid}-timeZone-hint`} className={hintClass}>
+            {clock ? `Local time there now: ${clock}.` : "Deadlines of the branch are counted in this zone. Type a city to search."}
+          </p>
+          <FieldError id={`${uid}-timeZone-error`} message={errors.timeZone?.message} />
+        </div>
+        <fieldset aria-describedby={errors.massUnit ? `${uid}-massUnit-error` : undefined}>
+          <legend className={labelClass}>Show amounts in</legend>
+          <div className="mt-2 space-y-2">
+            {MASS_DISPLAY_UNITS.map((u) => (
+              <label key={u} className="flex items-center gap-2">
+                <input type="radio" value={u} {...register("massUnit")} className="h-4 w-4 accent-fjord-600" />
+                {MASS_DISPLAY_UNIT_LABELS[u]}
+              </label>
+            ))}
+          </div>
+          <FieldError id={`${uid}-massUnit-error`} message={errors.massUnit?.message} />
+        </fieldset>
+      </div>
+      <button type="submit" disabled={save.isPending} className={primaryButton}>
+        {save.isPending ? "Saving…" : branch ? "Save the branch" : "Open the branch"}
+      </button>
+    </form>
+  );
+}

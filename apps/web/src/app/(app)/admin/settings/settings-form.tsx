@@ -1,0 +1,231 @@
+"use client";
+
+import { useEffect, useId, useState } from "react";
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { Controller, useForm, type FieldPath } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import type { z } from "zod";
+import {
+  DEFAULT_SETTINGS,
+  LEAK_RATE_METHODS,
+  LEAK_RATE_METHOD_LABELS,
+  REQUALIFICATION_YEARS,
+  RULE_PACKS,
+  RULE_PACK_DESCRIPTIONS,
+  RULE_PACK_LABELS,
+  SETTING_EXPLANATIONS,
+  organisationSettingsInput,
+  type AuditSettings,
+  type RulePack,
+} from "@coldtrail/core";
+import type { OrganisationSettings } from "@coldtrail/db";
+import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { FieldError, FormAlert, Notice, errorMessage, inputClass, labelClass, primaryButton, secondaryButton } from "../_components/form-bits";
+
+type FormIn = z.input<typeof organisationSettingsInput>;
+type FormOut = z.output<typeof organisationSettingsInput>;
+
+const DEFAULT_WORDS: Record<keyof AuditSettings, string> = {
+  ptTolerancePsi: `${DEFAULT_SETTINGS.ptTolerancePsi} psi`,
+  massBalanceTolerancePercent: `${DEFAULT_SETTINGS.massBalanceTolerancePercent} %`,
+  massBalanceToleranceG: `${DEFAULT_SETTINGS.massBalanceToleranceG} g`,
+  requalificationYears: `${DEFAULT_SETTINGS.requalificationYears} years`,
+  strictFill130F: DEFAULT_SETTINGS.strictFill130F ? "on" : "off",
+  leakRateMethod: LEAK_RATE_METHOD_LABELS[DEFAULT_SETTINGS.leakRateMethod],
+};
+
+function toForm(s: OrganisationSettings): FormIn {
+  return { name: s.name, rulePacks: s.rulePacks, ...s.settings };
+}
+
+export function SettingsForm({ canEdit }: { canEdit: boolean }) {
+  const uid = useId();
+  const queryClient = useQueryClient();
+  const [formError, setFormError] = useState<string | null>(null);
+  const [notice, setNotice] = useState<string | null>(null);
+  const settings = useQuery({ queryKey: ["settings"], queryFn: () => fetchJson<OrganisationSettings>("/api/admin/settings") });
+  const form = useForm<FormIn, unknown, FormOut>({ resolver: zodResolver(organisationSettingsInput), mode: "onTouched" });
+  const { register, handleSubmit, control, formState, setError, reset, setValue } = form;
+  const errors = formState.errors;
+  useEffect(() => {
+    if (settings.data) reset(toForm(settings.data));
+  }, [settings.data, reset]);
+
+  const save = useMutation({
+    mutationFn: (input: FormOut) => fetchJson<OrganisationSettings>("/api/admin/settings", { method: "PUT", body: JSON.stringify(input) }),
+    onSuccess: async (saved) => {
+      queryClient.setQueryData(["settings"], saved);
+      setNotice("Settings saved. The next audit uses them; the change is in the activity history.");
+    },
+    onError: (err) => {
+      if (err instanceof ApiError) for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
+      setFormError(errorMessage(err, "The settings could not be saved; nothing was changed."));
+    },
+  });
+
+  if (settings.isLoading) return <p className="text-ink-600">Loading the settings…</p>;
+  if (settings.isError) return <FormAlert message="The settings could not be loaded." />;
+
+  const onSubmit = handleSubmit(
+    (values) => {
+      setFormError(null);
+      setNotice(null);
+      save.mutate(values);
+    },
+    () => setFormError("Some fields need attention before the settings can be saved."),
+  );
+  const described = (name: keyof FormIn, explained: boolean) =>
+    [explained ? `${uid}-${name}-why` : null, errors[name] ? `${uid}-${name}-error` : null].filter(Boolean).join(" ") || undefined;
+
+  const Why = ({ name }: { name: keyof AuditSettings }) => (
+    <p id={`${uid}-${name}-why`} className="mt-1 text-sm text-ink-600">
+      {SETTING_EXPLANATIONS[name]} <span className="whitespace-nowrap text-ink-500">Default: {DEFAULT_WORDS[name]}.</span>
+    </p>
+  );
+
+  const numberField = (name: "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG", label: string, unit: string, step: string) => (
+    <div className="rounded-md border border-ink-200 p-4">
+      <label htmlFor={`${uid}-${name}`} className={labelClass}>
+        {label}
+      </label>
+      <div className="mt-1 flex items-center gap-2">
+        <input
+          id={`${uid}-${name}`}
+          type="number"
+          inputMode="decimal"
+          step={step}
+          {...register(name)}
+          disabled={!canEdit}
+          className={`${inputClass} mt-0 max-w-40 tabular`}
+          aria-invalid={errors[name] ? true : undefined}
+          aria-describedby={described(name, true)}
+        />
+        <span className="text-ink-700">{unit}</span>
+      </div>
+      <Why name={name} />
+      <FieldError id={`${uid}-${name}-error`} message={errors[name]?.message} />
+    </div>
+  );
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-6">
+      <FormAlert message={formError} />
+      <Notice message={notice} />
+
+      <section aria-labelledby={`${uid}-org-h`} className="space-y-4 rounded-lg border border-ink-200 bg-white p-5">
+        <h2 id={`${uid}-org-h`} className="text-lg font-semibold text-ink-950">
+          Organisation
+        </h2>
+        <div>
+          <label htmlFor={`${uid}-name`} className={labelClass}>
+            Name
+          </label>
+          <input id={`${uid}-name`} {...register("name")} disabled={!canEdit} className={inputClass} aria-invalid={errors.name ? true : undefined} aria-describedby={described("name", false)} />
+          <FieldError id={`${uid}-name-error`} message={errors.name?.message} />
+        </div>
+        <Controller
+          control={control}
+          name="rulePacks"
+          render={({ field }) => {
+            const value = (field.value ?? []) as RulePack[];
+            return (
+              <fieldset aria-describedby={errors.rulePacks ? `${uid}-rulePacks-error` : undefined}>
+                <legend className={labelClass}>Rules the audits apply</legend>
+                <div className="mt-2 space-y-2">
+                  {RULE_PACKS.map((p) => (
+                    <label key={p} className={`flex gap-3 rounded-md border p-3 ${value.includes(p) ? "border-fjord-600 bg-fjord-50" : "border-ink-200"}`}>
+                      <input
+                        type="checkbox"
+                        checked={value.includes(p)}
+                        disabled={!canEdit}
+                        onChange={(e) => field.onChange(e.target.checked ? [...value, p] : value.filter((x) => x !== p))}
+                        onBlur={field.onBlur}
+                        className="mt-1 h-4 w-4 accent-fjord-600"
+                      />
+                      <span>
+                        <span className="block font-medium text-ink-950">{RULE_PACK_LABELS[p]}</span>
+                        <span className="block text-sm text-ink-600">{RULE_PACK_DESCRIPTIONS[p]}</span>
+                      </span>
+                    </label>
+                  ))}
+                </div>
+                <FieldError id={`${uid}-rulePacks-error`} message={errors.rulePacks?.message} />
+              </fieldset>
+            );
+          }}
+        />
+      </section>
+
+      <section aria-labelledby={`${uid}-tol-h`} className="space-y-4 rounded-lg border border-ink-200 bg-white p-5">
+        <div>
+          <h2 id={`${uid}-tol-h`} className="text-lg font-semibold text-ink-950">
+            Choices the rules leave to the company
+          </h2>
+          <p className="text-sm text-ink-600">The rules leave these values to the company; they decide when an audit raises a finding.</p>
+        </div>
+        {numberField("ptTolerancePsi", "Pressure–temperature tolerance for suspected non-condensables", "psi", "0.5")}
+        {numberField("massBalanceTolerancePercent", "Mass-balance tolerance", "% of refrigerant taken in", "0.1")}
+        {numberField("massBalanceToleranceG", "Smallest mass-balance gap flagged", "g", "1")}
+        <div className="rounded-md border border-ink-200 p-4">
+          <label htmlFor={`${uid}-requalificationYears`} className={labelClass}>
+            Cylinder requalification period
+          </label>
+          <select
+            id={`${uid}-requalificationYears`}
+            {...register("requalificationYears")}
+            disabled={!canEdit}
+            className={`${inputClass} max-w-40`}
+            aria-invalid={errors.requalificationYears ? true : undefined}
+            aria-describedby={described("requalificationYears", true)}
+          >
+            {REQUALIFICATION_YEARS.map((y) => (
+              <option key={y} value={y}>
+                {y} years
+              </option>
+            ))}
+          </select>
+          <Why name="requalificationYears" />
+          <FieldError id={`${uid}-requalificationYears-error`} message={errors.requalificationYears?.message} />
+        </div>
+        <div className="rounded-md border border-ink-200 p-4">
+          <label className="flex items-start gap-3">
+            <input type="checkbox" {...register("strictFill130F")} disabled={!canEdit} className="mt-1 h-4 w-4 accent-fjord-600" aria-describedby={described("strictFill130F", true)} />
+            <span className={labelClass}>Stricter cylinder fill (liquid density at 130 °F)</span>
+          </label>
+          <Why name="strictFill130F" />
+        </div>
+        <fieldset className="rounded-md border border-ink-200 p-4" aria-describedby={described("leakRateMethod", true)}>
+          <legend className={`${labelClass} px-1`}>Leak-rate method</legend>
+          <div className="mt-1 flex flex-wrap gap-4">
+            {LEAK_RATE_METHODS.map((m) => (
+              <label key={m} className="flex items-center gap-2">
+                <input type="radio" value={m} {...register("leakRateMethod")} disabled={!canEdit} className="h-4 w-4 accent-fjord-600" />
+                {LEAK_RATE_METHOD_LABELS[m]}
+              </label>
+            ))}
+          </div>
+          <Why name="leakRateMethod" />
+          <FieldError id={`${uid}-leakRateMethod-error`} message={errors.leakRateMethod?.message} />
+        </fieldset>
+      </section>
+
+      {canEdit && (
+        <div className="flex flex-wrap gap-2">
+          <button type="submit" disabled={save.isPending} className={primaryButton}>
+            {save.isPending ? "Saving…" : "Save the settings"}
+          </button>
+          <button
+            type="button"
+            className={secondaryButton}
+            onClick={() => {
+              for (const [key, value] of Object.entries(DEFAULT_SETTINGS)) setValue(key as keyof AuditSettings, value as never, { shouldDirty: true });
+              setNotice(null);
+            }}
+          >
+            Put back the defaults
+          </button>
+        </div>
+      )}
+    </form>
+  );
+}

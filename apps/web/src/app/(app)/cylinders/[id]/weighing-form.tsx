@@ -1,0 +1,264 @@
+"use client";
+
+import { useId, useState } from "react";
+import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { useForm, type FieldPath, type Resolver } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import type { z } from "zod";
+import {
+  MASS_INPUT_UNITS,
+  REFRIGERANTS,
+  celsiusToFahrenheit,
+  cylinderWeighingAmendInput,
+  cylinderWeighingInput,
+  formatMass,
+  getRefrigerant,
+  maxCylinderFill,
+  normaliseDesignation,
+  roundTo,
+  toGrams,
+  type MassInputUnit,
+} from "@coldtrail/core";
+import type { CylinderRow, CylinderWeighingRow } from "@coldtrail/db";
+import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { Field, FieldError, FormAlert, buttonPrimary, buttonSecondary, describedBy, inputClass, labelClass } from "@/components/registers/form-fields";
+import { todayIn } from "@/components/registers/words";
+
+type FormIn = z.input<typeof cylinderWeighingAmendInput>;
+type FormOut = z.output<typeof cylinderWeighingAmendInput>;
+
+/** What the reading means before it is saved: net contents against the maximum fill (rules core). */
+function NetPreview({ cylinder, gross, unit, refrigerant }: { cylinder: CylinderRow; gross: unknown; unit: MassInputUnit; refrigerant: string }) {
+  const value = Number(String(gross ?? "").replace(",", "."));
+  if (!String(gross ?? "").trim() || !Number.isFinite(value) || value <= 0) return null;
+  const grossG = toGrams(value, unit);
+  const netG = grossG - cylinder.tareG;
+  if (netG < 0) {
+    return (
+      <p className="text-sm font-medium text-sev-critical" data-testid="weighing-preview">
+        <span aria-hidden="true">⚠ </span>Lighter than the empty cylinder (tare {formatMass(cylinder.tareG, cylinder.massUnit)}): check the scale and the unit.
+      </p>
+    );
+  }
+  const designation = refrigerant ? normaliseDesignation(refrigerant) : "";
+  let maxText = "";
+  let over = false;
+  if (designation && getRefrigerant(designation)) {
+    const max = maxCylinderFill({ waterCapacityG: cylinder.waterCapacityG, tareG: cylinder.tareG, refrigerant: designation, strict130F: cylinder.fill?.strict130F ?? false });
+    const percent = max.maxNetG > 0 ? (netG / max.maxNetG) * 100 : 0;
+    over = netG > max.maxNetG;
+    maxText = ` — ${Math.round(percent)} % of the maximum fill (${formatMass(max.maxNetG, cylinder.massUnit)} net)`;
+  }
+  return (
+    <p className={`text-sm font-medium ${over ? "text-sev-critical" : "text-ink-800"}`} data-testid="weighing-preview" aria-live="polite">
+      {over && <span aria-hidden="true">⛔ </span>}
+      Net contents {formatMass(netG, cylinder.massUnit)}
+      {maxText}
+      {over && ". Over the maximum: do not add refrigerant; transfer the excess."}
+    </p>
+  );
+}
+
+/**
+ * Records a scale reading of a cylinder, or corrects an earlier one (an amendment with a reason).
+ * The reading is the cylinder with its contents; net = reading − tare.
+ */
+export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRow; amend?: CylinderWeighingRow; onDone?: () => void }) {
+  const uid = useId();
+  const queryClient = useQueryClient();
+  const [formError, setFormError] = useState<string | null>(null);
+  const [saved, setSaved] = useState<string | null>(null);
+  const unit: MassInputUnit = cylinder.massUnit === "kg" ? "kg" : "lb";
+  const defaults: FormIn = amend
+    ? {
+        weighedOn: amend.weighedOn,
+        grossAmount: String(unit === "kg" ? roundTo(amend.grossG / 1000, 3) : roundTo(amend.grossG / 453.59237, 2)),
+        grossUnit: unit,
+        refrigerant: amend.refrigerant ?? "",
+        pressurePsig: amend.pressurePsig ?? "",
+        temperatureValue: amend.temperatureC === null ? "" : String(roundTo(unit === "kg" ? amend.temperatureC : celsiusToFahrenheit(amend.temperatureC), 1)),
+        temperatureUnit: unit === "kg" ? "C" : "F",
+        notes: amend.notes ?? "",
+        reason: "",
+      }
+    : {
+        weighedOn: todayIn(cylinder.timeZone),
+        grossAmount: "",
+        grossUnit: unit,
+        refrigerant: cylinder.refrigerant ?? "",
+        temperatureUnit: unit === "kg" ? "C" : "F",
+        notes: "",
+        reason: "",
+      };
+  const form = useForm<FormIn, unknown, FormOut>({
+    resolver: zodResolver(amend ? cylinderWeighingAmendInput : cylinderWeighingInput) as unknown as Resolver<FormIn, unknown, FormOut>,
+    mode: "onTouched",
+    defaultValues: defaults,
+  });
+  const { register, handleSubmit, watch, setError, formState, reset } = form;
+  const errors = formState.errors as Record<string, { message?: string } | undefined>;
+  const err = (n: string) => errors[n]?.message;
+
+  const save = useMutation({
+    mutationFn: (values: FormOut) => {
+      const dirty = formState.dirtyFields as Record<string, unknown>;
+      const body: Record<string, unknown> = { ...values };
+      if (amend && !dirty.grossAmount && !dirty.grossUnit) Object.assign(body, { grossAmount: amend.grossG, grossUnit: "g" });
+      if (!amend) delete body.reason;
+      return amend
+        ? fetchJson(`/api/cylinders/${cylinder.id}/weighings/${amend.id}`, { method: "PATCH", body: JSON.stringify(body) })
+        : fetchJson<{ id: number; netG: number }>(`/api/cylinders/${cylinder.id}/weighings`, { method: "POST", body: JSON.stringify(body) });
+    },
+    onSuccess: async () => {
+      await Promise.all([
+        queryClient.invalidateQueries({ queryKey: ["cylinder", String(cylinder.id)] }),
+        queryClient.invalidateQueries({ queryKey: ["cylinder-weighings"] }),
+        queryClient.invalidateQueries({ queryKey: ["cylinders"] }),
+      ]);
+      setSaved(amend ? "Weighing corrected." : "Weighing recorded.");
+      if (!amend) reset({ ...defaults, weighedOn: watch("weighedOn"), refrigerant: watch("refrigerant") });
+      onDone?.();
+    },
+    onError: (e) => {
+      setSaved(null);
+      if (e instanceof ApiError) {
+        for (const [field, messages] of Object.entries(e.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
+        setFormError(e.message);
+      } else setFormError("The weighing could not be sent; nothing was saved.");
+    },
+  });
+
+  const f = (n: string) => `${uid}-${n}`;
+  return (
+    <form
+      noValidate
+      className="space-y-4 rounded-lg border border-ink-200 bg-white p-4"
+      aria-labelledby={f("title")}
+      data-testid={amend ? "weighing-amend-form" : "weighing-form"}
+      onSubmit={handleSubmit(
+        (v) => {
+          setFormError(null);
+          save.mutate(v);
+        },
+        () => setFormError("Some fields need attention before the weighing can be saved."),
+      )}
+    >
+      <h2 id={f("title")} className="text-lg font-semibold text-ink-950">
+        {amend ? `Correct the weighing of ${amend.weighedOn}` : "Record a weighing"}
+      </h2>
+      <FormAlert message={formError} />
+      {saved && (
+        <p role="status" className="text-sm font-medium text-ok">
+          <span aria-hidden="true">✓ </span>
+          {saved}
+        </p>
+      )}
+      <div className="grid gap-4 sm:grid-cols-2">
+        <div>
+          <label htmlFor={f("grossAmount")} className={labelClass}>
+            Scale reading
+          </label>
+          <div className="mt-1 flex gap-2">
+            <input
+              id={f("grossAmount")}
+              type="text"
+              inputMode="decimal"
+              autoComplete="off"
+              {...register("grossAmount")}
+              className={`${inputClass} mt-0 flex-1 tabular text-lg`}
+              aria-invalid={err("grossAmount") ? true : undefined}
+              aria-describedby={describedBy(f("grossAmount"), { hint: true, error: err("grossAmount") })}
+            />
+            <label htmlFor={f("grossUnit")} className="sr-only">
+              Unit of the scale reading
+            </label>
+            <select id={f("grossUnit")} {...register("grossUnit")} className="w-24 rounded-lg border border-ink-300 bg-white px-2 text-base">
+              {MASS_INPUT_UNITS.map((u) => (
+                <option key={u} value={u}>
+                  {u}
+                </option>
+              ))}
+            </select>
+          </div>
+          <p id={`${f("grossAmount")}-hint`} className="mt-1 text-sm text-ink-600">
+            Cylinder and contents together (tare {formatMass(cylinder.tareG, cylinder.massUnit)}).
+          </p>
+          <FieldError id={`${f("grossAmount")}-error`} message={err("grossAmount")} />
+        </div>
+        <Field id={f("weighedOn")} label="Weighed on" error={err("weighedOn")}>
+          <input id={f("weighedOn")} type="date" {...register("weighedOn")} className={inputClass} aria-invalid={err("weighedOn") ? true : undefined} aria-describedby={describedBy(f("weighedOn"), { error: err("weighedOn") })} />
+        </Field>
+        <Field id={f("refrigerant")} label="Refrigerant" optional={!cylinder.refrigerant} error={err("refrigerant")}>
+          <input
+            id={f("refrigerant")}
+            list={f("refrigerants")}
+            autoComplete="off"
+            {...register("refrigerant")}
+            className={inputClass}
+            aria-invalid={err("refrigerant") ? true : undefined}
+            aria-describedby={describedBy(f("refrigerant"), { error: err("refrigerant") })}
+          />
+          <datalist id={f("refrigerants")}>
+            {REFRIGERANTS.map((r) => (
+              <option key={r.designation} value={r.designation} />
+            ))}
+          </datalist>
+        </Field>
+        <Field id={f("pressurePsig")} label="Gauge pressure (psig)" optional hint="With the temperature, checks for air in the cylinder" error={err("pressurePsig")}>
+          <input
+            id={f("pressurePsig")}
+            type="text"
+            inputMode="decimal"
+            {...register("pressurePsig")}
+            className={inputClass}
+            aria-invalid={err("pressurePsig") ? true : undefined}
+            aria-describedby={describedBy(f("pressurePsig"), { hint: true, error: err("pressurePsig") })}
+          />
+        </Field>
+        <div>
+          <label htmlFor={f("temperatureValue")} className={labelClass}>
+            Cylinder temperature <span className="font-normal text-ink-600">(optional)</span>
+          </label>
+          <div className="mt-1 flex gap-2">
+            <input
+              id={f("temperatureValue")}
+              type="text"
+              inputMode="decimal"
+              {...register("temperatureValue")}
+              className={`${inputClass} mt-0 flex-1`}
+              aria-invalid={err("temperatureValue") ? true : undefined}
+              aria-describedby={describedBy(f("temperatureValue"), { error: err("temperatureValue") })}
+            />
+            <label htmlFor={f("temperatureUnit")} className="sr-only">
+              Temperature unit
+            </label>
+            <select id={f("temperatureUnit")} {...register("temperatureUnit")} className="w-20 rounded-lg border border-ink-300 bg-white px-2 text-base">
+              <option value="F">°F</option>
+              <option value="C">°C</option>
+            </select>
+          </div>
+          <FieldError id={`${f("temperatureValue")}-error`} message={err("temperatureValue")} />
+        </div>
+        <Field id={f("notes")} label="Notes" optional error={err("notes")}>
+          <input id={f("notes")} {...register("notes")} className={inputClass} />
+        </Field>
+      </div>
+      <NetPreview cylinder={cylinder} gross={watch("grossAmount")} unit={watch("grossUnit") as MassInputUnit} refrigerant={String(watch("refrigerant") ?? "")} />
+      {amend && (
+        <Field id={f("reason")} label="Why it is corrected" hint="The previous values stay in the weighing's history." error={err("reason")}>
+          <textarea id={f("reason")} rows={2} {...register("reason")} className={inputClass} aria-invalid={err("reason") ? true : undefined} aria-describedby={describedBy(f("reason"), { hint: true, error: err("reason") })} />
+        </Field>
+      )}
+      <div className="flex flex-wrap gap-2">
+        <button type="submit" className={buttonPrimary} disabled={save.isPending}>
+          {save.isPending ? "Saving…" : amend ? "Save the correction" : "Record weighing"}
+        </button>
+        {onDone && amend && (
+          <button type="button" className={buttonSecondary} onClick={onDone}>
+            Cancel
+          </button>
+        )}
+      </div>
+    </form>
+  );
+}

@@ -1,0 +1,20 @@
+import { NextResponse } from "next/server";
+import { auditInput, auditListQuery } from "@coldtrail/core";
+import { createAudit, listAudits } from "@coldtrail/db";
+import { route } from "@/lib/api/route";
+import { kickAuditRunner } from "@/lib/server/audit-runner";
+import { readableFindingBranches, visibleAudit } from "./_visible";
+
+/** The organisation's audits, newest first, with the summary of the branches the person may read. */
+export const GET = route({ can: ["read", "Audit"], query: auditListQuery }, async ({ actor, ability, db, query }) => {
+  const page = await listAudits(db, { organisationId: actor.organisationId, page: query.page, pageSize: query.pageSize });
+  const readable = await readableFindingBranches(db, actor, ability);
+  return { ...page, rows: page.rows.map((r) => visibleAudit(r, readable)) };
+});
+
+/** Start an audit: branches, period, rule packs. It runs in the background; poll GET /api/audits/:id. */
+export const POST = route({ can: ["run", "Audit"], body: auditInput }, async ({ actor, db, body }) => {
+  const id = await createAudit(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
+  kickAuditRunner(db);
+  return NextResponse.json({ id }, { status: 201 });
+});

@@ -1,0 +1,27 @@
+import "server-only";
+import { subject } from "@casl/ability";
+import type { Action, Actor, AppAbility, SubjectName } from "@coldtrail/core";
+import { DomainError, listBranches, type Knex } from "@coldtrail/db";
+
+/** Today's calendar date (UTC) for due-date buckets of organisation-wide lists. */
+export const todayUtc = (now: Date = new Date()) => now.toISOString().slice(0, 10);
+
+/** A positive id from a path segment; anything else is a 404 (we never reveal what exists). */
+export function pathId(raw: string | undefined, what: string): number {
+  const n = Number(raw);
+  if (!raw || !Number.isInteger(n) || n <= 0) throw new DomainError("not_found", `No such ${what}`);
+  return n;
+}
+
+/** Branches of the organisation on which the person may `action` the subject (branch-level conditions only). */
+export async function branchesAllowed(db: Knex, actor: Actor, ability: AppAbility, action: Action, subjectName: SubjectName): Promise<{ id: number; name: string }[]> {
+  const branches = await listBranches(db, { organisationId: actor.organisationId, includeArchived: true });
+  return branches
+    .filter((b) => ability.can(action, subject(subjectName, { organisationId: actor.organisationId, branchId: b.id, id: b.id })))
+    .map((b) => ({ id: b.id, name: b.name }));
+}
+
+/** Whether the person may do `action` to a finding, judged on the fields the ability conditions read. */
+export function canOnFinding(ability: AppAbility, action: Action, f: { organisationId: number; branchId: number; technicianId: number | null }): boolean {
+  return ability.can(action, subject("Finding", { organisationId: f.organisationId, branchId: f.branchId, technicianId: f.technicianId }));
+}

@@ -1,0 +1,472 @@
+"use client";
+
+import Link from "next/link";
+import { useState } from "react";
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { FINDING_STATE_LABELS, type FindingState } from "@coldtrail/core";
+import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { DueText, SeverityBadge, StateBadge, StateIcon } from "./finding-badges";
+import { recordHref, type Assignee, type FindingView } from "./types";
+
+const ACTION_WORDS: Record<string, string> = {
+  opened: "Found by the rules",
+  found_again: "Found again",
+  no_longer_found: "No longer found",
+  assigned: "Assigned",
+  unassigned: "Assignment removed",
+  fix_proposed: "Fix proposed",
+  accepted: "Fix accepted",
+  reopened: "Reopened",
+  waived: "Waived",
+  evidence_added: "Evidence attached",
+};
+
+const when = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
+
+function errorText(err: unknown): { message: string; fields: Record<string, string[]> } {
+  if (err instanceof ApiError) return { message: err.message, fields: err.fieldErrors };
+  return { message: "Something went wrong; nothing was saved", fields: {} };
+}
+
+function FieldError({ id, messages }: { id: string; messages?: string[] }) {
+  if (!messages?.length) return null;
+  return (
+    <p id={id} className="mt-1 text-sm text-sev-critical">
+      <span aria-hidden="true">⚠ </span>
+      {messages.join(" ")}
+    </p>
+  );
+}
+
+function Section({ title, children, id }: { title: string; children: React.ReactNode; id: string }) {
+  return (
+    <section aria-labelledby={id} className="rounded-lg border border-ink-200 bg-white p-4">
+      <h2 id={id} className="mb-2 text-base font-semibold text-ink-950">
+        {title}
+      </h2>
+      {children}
+    </section>
+  );
+}
+
+/** Sends a form to a finding route (JSON, or multipart when it holds a file) and refreshes the finding. */
+function useFindingAction(id: number, path: string, onDone: (text: string) => void, doneText: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: Record<string, unknown> | FormData) =>
+      body instanceof FormData
+        ? fetch(`/api/findings/${id}/${path}`, { method: "POST", body, headers: { accept: "application/json" } }).then(async (res) => {
+            const json = await res.json().catch(() => null);
+            if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? `Request failed (${res.status})`, json?.error?.fieldErrors ?? {});
+            return json;
+          })
+        : fetchJson(`/api/findings/${id}/${path}`, { method: "POST", body: JSON.stringify(body) }),
+    onSuccess: () => {
+      onDone(doneText);
+      void queryClient.invalidateQueries({ queryKey: ["finding", id] });
+      void queryClient.invalidateQueries({ queryKey: ["findings"] });
+    },
+  });
+}
+
+export function FindingDetailView({ id, today }: { id: number; today: string }) {
+  const [notice, setNotice] = useState<string | null>(null);
+  const finding = useQuery({ queryKey: ["finding", id], queryFn: () => fetchJson<FindingView>(`/api/findings/${id}`) });
+  const f = finding.data;
+
+  if (finding.isLoading) return <p className="text-ink-600">Loading the finding…</p>;
+  if (finding.isError || !f)
+    return (
+      <p role="alert" className="rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sev-critical">
+        ⚠ {finding.error instanceof ApiError && finding.error.status === 404 ? "There is no such finding, or you may not see it." : "The finding could not be loaded."}
+      </p>
+    );
+
+  const active = f.state === "open" || f.state === "fix_proposed";
+  const href = recordHref(f.recordType, f.recordId, f.branchId);
+
+  return (
+    <div className="space-y-4">
+      <header className="space-y-2">
+        <p className="text-sm text-ink-600">
+          <Link href="/findings" className="text-fjord-700 underline">
+            Findings
+          </Link>{" "}
+          › Finding #{f.id} · {f.branchName}
+        </p>
+        <h1 className="text-2xl font-semibold text-ink-950">
+          <span className="tabular text-ink-600">{f.ruleId}</span> {f.title}
+        </h1>
+        <div className="flex flex-wrap items-center gap-2 text-sm" data-testid="finding-status">
+          <SeverityBadge severity={f.severity} />
+          <StateBadge state={f.state} />
+          <span className="text-ink-700">
+            Due: <DueText dueOn={f.dueOn} today={today} active={active} />
+          </span>
+          <span className="text-ink-700">· Assignee: {f.assigneeName ?? "not assigned"}</span>
+          {f.technicianName && <span className="text-ink-700">· Names {f.technicianName}</span>}
+        </div>
+      </header>
+
+      {notice && (
+        <p role="status" className="rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">
+          <span aria-hidden="true">✓ </span>
+          {notice}
+        </p>
+      )}
+
+      <div className="grid gap-4 lg:grid-cols-3">
+        <div className="space-y-4 lg:col-span-2">
+          <Section title="What is wrong" id="wrong-h">
+            <p className="text-ink-950" data-testid="finding-detail">
+              {f.detail}
+            </p>
+            <p className="mt-2 text-sm text-ink-700">
+              Record:{" "}
+              {href ? (
+                <Link href={href} className="font-medium text-fjord-700 underline" data-testid="finding-record-link">
+                  {f.recordLabel}
+                </Link>
+              ) : (
+                f.recordLabel
+              )}
+              {f.occurredOn && <> · the event of {f.occurredOn}</>}
+            </p>
+            {f.state === "waived" && f.waiverReason && (
+              <p className="mt-2 rounded-md bg-ink-100 px-3 py-2 text-sm text-ink-800">
+                <strong>Waived:</strong> {f.waiverReason}
+              </p>
+            )}
+          </Section>
+
+          <Section title="The rule" id="rule-h">
+            <p className="text-ink-900">{f.rule?.explanation ?? "This rule is no longer in the rule set."}</p>
+            <p className="mt-2 text-sm text-ink-700">
+              <strong>Citation:</strong> {f.citation}
+            </p>
+          </Section>
+
+          <Section title="How to fix it" id="fix-h">
+            <p className="text-ink-900">{f.fix}</p>
+          </Section>
+
+          <Comments finding={f} onDone={setNotice} />
+          <History finding={f} />
+        </div>
+
+        <div className="space-y-4">
+          <Actions finding={f} onDone={setNotice} />
+          <Evidence finding={f} onDone={setNotice} />
+          {f.audits.length > 0 && (
+            <Section title="Seen by audits" id="audits-h">
+              <ul className="space-y-1 text-sm">
+                {f.audits.map((a) => (
+                  <li key={a.id}>
+                    <Link href={`/audits/${a.id}`} className="text-fjord-700 underline">
+                      Audit #{a.id}
+                    </Link>{" "}
+                    <span className="text-ink-600">
+                      ({a.periodFrom} to {a.periodTo}, run {a.createdAt.slice(0, 10)})
+                    </span>
+                  </li>
+                ))}
+              </ul>
+            </Section>
+          )}
+        </div>
+      </div>
+    </div>
+  );
+}
+
+function Actions({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
+  const any = f.allowed.assign || f.allowed.proposeFix || f.allowed.accept || f.allowed.reopen || f.allowed.waive;
+  if (!any) return null;
+  const state = f.state as FindingState;
+  return (
+    <Section title="What to do next" id="actions-h">
+      <div className="space-y-4">
+        {f.allowed.assign && (state === "open" || state === "fix_proposed") && <AssignForm finding={f} onDone={onDone} />}
+        {f.allowed.proposeFix && state === "open" && <ProposeFixForm finding={f} onDone={onDone} />}
+        {f.allowed.accept && state === "fix_proposed" && <AcceptForm finding={f} onDone={onDone} />}
+        {f.allowed.reopen && (state === "fix_proposed" || state === "closed" || state === "waived") && (
+          <ReasonForm finding={f} path="reopen" field="reason" label="Why reopen it" button="Reopen" done="The finding is open again; the people on it have been e-mailed." onDone={onDone} />
+        )}
+        {f.allowed.waive && (state === "open" || state === "fix_proposed") && (
+          <ReasonForm finding={f} path="waive" field="reason" label="Why no fix is needed (required)" button="Waive" done="The finding is waived; the branch has been e-mailed." onDone={onDone} />
+        )}
+        {f.allowed.proposeFix && state === "fix_proposed" && <p className="text-sm text-ink-700">A fix is proposed; the compliance officer will accept it or reopen the finding.</p>}
+      </div>
+    </Section>
+  );
+}
+
+function AssignForm({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
+  const queryClient = useQueryClient();
+  const people = useQuery({ queryKey: ["assignees", f.branchId], queryFn: () => fetchJson<{ rows: Assignee[] }>(`/api/findings/assignees?branchIds=${f.branchId}`) });
+  const [to, setTo] = useState(f.assigneeId ? String(f.assigneeId) : "");
+  const assign = useMutation({
+    mutationFn: () => fetchJson("/api/findings/assign", { method: "POST", body: JSON.stringify({ findingIds: [f.id], assigneeId: to === "none" ? null : Number(to) }) }),
+    onSuccess: () => {
+      onDone(to === "none" ? "The assignment was removed." : "Assigned; they have been e-mailed.");
+      void queryClient.invalidateQueries({ queryKey: ["finding", f.id] });
+      void queryClient.invalidateQueries({ queryKey: ["findings"] });
+    },
+  });
+  const err = assign.error ? errorText(assign.error) : null;
+  return (
+    <form
+      onSubmit={(e) => {
+        e.preventDefault();
+        assign.mutate();
+      }}
+      className="space-y-2"
+    >
+      <label className="block text-sm">
+        <span className="font-medium text-ink-700">Assign to</span>
+        <select value={to} onChange={(e) => setTo(e.target.value)} className="mt-1 w-full rounded-md border border-ink-300 bg-white px-2 py-2" aria-describedby="assign-error">
+          <option value="">Choose a person…</option>
+          {(people.data?.rows ?? []).map((p) => (
+            <option key={p.id} value={p.id}>
+              {p.name} ({p.role === "owner" ? "owner" : "branch manager"})
+            </option>
+          ))}
+          {f.assigneeId && <option value="none">Nobody (remove the assignment)</option>}
+        </select>
+      </label>
+      <FieldError id="assign-error" messages={err ? (err.fields.assigneeId ?? [err.message]) : undefined} />
+      <button type="submit" disabled={!to || assign.isPending} className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40">
+        {assign.isPending ? "Assigning…" : "Assign"}
+      </button>
+    </form>
+  );
+}
+
+function ProposeFixForm({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
+  const action = useFindingAction(f.id, "propose-fix", onDone, "Fix proposed; the compliance officer has been e-mailed.");
+  const err = action.error ? errorText(action.error) : null;
+  return (
+    <form
+      onSubmit={(e) => {
+        e.preventDefault();
+        action.mutate(new FormData(e.currentTarget));
+      }}
+      className="space-y-2"
+      aria-label="Propose a fix"
+    >
+      <label className="block text-sm">
+        <span className="font-medium text-ink-700">What was done to fix it</span>
+        <textarea name="note" rows={4} required minLength={5} maxLength={4000} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" aria-describedby="note-error" />
+      </label>
+      <FieldError id="note-error" messages={err?.fields.note} />
+      <label className="block text-sm">
+        <span className="font-medium text-ink-700">Evidence (optional): a photo or PDF</span>
+        <input name="file" type="file" accept="image/jpeg,image/png,image/webp,image/heic,application/pdf" capture="environment" className="mt-1 block w-full text-sm" aria-describedby="file-error" />
+      </label>
+      <FieldError id="file-error" messages={err?.fields.file} />
+      {err && !err.fields.note && !err.fields.file && <FieldError id="propose-error" messages={[err.message]} />}
+      <button type="submit" disabled={action.isPending} className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40">
+        {action.isPending ? "Sending…" : "Propose as fixed"}
+      </button>
+    </form>
+  );
+}
+
+function AcceptForm({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
+  const action = useFindingAction(f.id, "accept", onDone, "Fix accepted; the finding is closed.");
+  const [note, setNote] = useState("");
+  const proposal = [...f.events].reverse().find((e) => e.action === "fix_proposed");
+  const err = action.error ? errorText(action.error) : null;
+  return (
+    <form
+      onSubmit={(e) => {
+        e.preventDefault();
+        action.mutate(note.trim() ? { note } : {});
+      }}
+      className="space-y-2"
+      aria-label="Accept the fix"
+    >
+      {proposal && (
+        <p className="rounded-md bg-fjord-50 px-3 py-2 text-sm text-ink-900">
+          <strong>{proposal.actorName ?? "The branch"} proposed:</strong> {proposal.note}
+        </p>
+      )}
+      <label className="block text-sm">
+        <span className="font-medium text-ink-700">Note on acceptance (optional)</span>
+        <input value={note} onChange={(e) => setNote(e.target.value)} maxLength={4000} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" />
+      </label>
+      {err && <FieldError id="accept-error" messages={err.fields.note ?? [err.message]} />}
+      <button type="submit" disabled={action.isPending} className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40">
+        {action.isPending ? "Accepting…" : "Accept the fix"}
+      </button>
+    </form>
+  );
+}
+
+function ReasonForm(props: { finding: FindingView; path: string; field: string; label: string; button: string; done: string; onDone: (t: string) => void }) {
+  const action = useFindingAction(props.finding.id, props.path, props.onDone, props.done);
+  const [value, setValue] = useState("");
+  const err = action.error ? errorText(action.error) : null;
+  const errorId = `${props.path}-error`;
+  return (
+    <form
+      onSubmit={(e) => {
+        e.preventDefault();
+        action.mutate({ [props.field]: value });
+      }}
+      className="space-y-2 border-t border-ink-100 pt-3"
+    >
+      <label className="block text-sm">
+        <span className="font-medium text-ink-700">{props.label}</span>
+        <textarea value={value} onChange={(e) => setValue(e.target.value)} rows={2} maxLength={4000} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" aria-describedby={errorId} />
+      </label>
+      {err && <FieldError id={errorId} messages={err.fields[props.field] ?? [err.message]} />}
+      <button type="submit" disabled={action.isPending} className="rounded-md border border-ink-400 bg-white px-4 py-2 text-sm font-semibold text-ink-900 hover:bg-ink-50 disabled:opacity-40">
+        {props.button}
+      </button>
+    </form>
+  );
+}
+
+function Evidence({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
+  const queryClient = useQueryClient();
+  const [key, setKey] = useState(0);
+  const upload = useMutation({
+    mutationFn: async (form: FormData) => {
+      const res = await fetch(`/api/findings/${f.id}/evidence`, { method: "POST", body: form, headers: { accept: "application/json" } });
+      const json = await res.json().catch(() => null);
+      if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? "Upload failed", json?.error?.fieldErrors ?? {});
+      return json;
+    },
+    onSuccess: () => {
+      onDone("Evidence attached.");
+      setKey((k) => k + 1);
+      void queryClient.invalidateQueries({ queryKey: ["finding", f.id] });
+    },
+  });
+  const err = upload.error ? errorText(upload.error) : null;
+  return (
+    <Section title="Evidence" id="evidence-h">
+      {f.evidence.length === 0 ? (
+        <p className="text-sm text-ink-600">No evidence attached yet.</p>
+      ) : (
+        <ul className="space-y-1 text-sm" data-testid="evidence-list">
+          {f.evidence.map((e) => (
+            <li key={e.id}>
+              <a href={`/api/findings/${f.id}/evidence/${e.id}`} className="font-medium text-fjord-700 underline" target="_blank" rel="noreferrer">
+                {e.fileName}
+              </a>{" "}
+              <span className="text-ink-600">
+                ({Math.max(1, Math.round(e.sizeBytes / 1024))} KB, {e.uploadedByName}, {e.uploadedAt.slice(0, 10)})
+              </span>
+              {e.note && <span className="block text-ink-700">{e.note}</span>}
+            </li>
+          ))}
+        </ul>
+      )}
+      {f.allowed.comment && (
+        <form
+          key={key}
+          onSubmit={(e) => {
+            e.preventDefault();
+            upload.mutate(new FormData(e.currentTarget));
+          }}
+          className="mt-3 space-y-2 border-t border-ink-100 pt-3"
+          aria-label="Attach evidence"
+        >
+          <label className="block text-sm">
+            <span className="font-medium text-ink-700">Attach a photo or PDF</span>
+            <input name="file" type="file" required accept="image/jpeg,image/png,image/webp,image/heic,application/pdf" className="mt-1 block w-full text-sm" aria-describedby="evidence-error" />
+          </label>
+          <label className="block text-sm">
+            <span className="font-medium text-ink-700">What it shows (optional)</span>
+            <input name="note" maxLength={500} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-1.5" />
+          </label>
+          {err && <FieldError id="evidence-error" messages={err.fields.file ?? err.fields.note ?? [err.message]} />}
+          <button type="submit" disabled={upload.isPending} className="rounded-md border border-fjord-600 px-3 py-1.5 text-sm font-medium text-fjord-700 hover:bg-fjord-50 disabled:opacity-40">
+            {upload.isPending ? "Uploading…" : "Attach"}
+          </button>
+        </form>
+      )}
+    </Section>
+  );
+}
+
+function Comments({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
+  const queryClient = useQueryClient();
+  const [body, setBody] = useState("");
+  const add = useMutation({
+    mutationFn: () => fetchJson(`/api/findings/${f.id}/comments`, { method: "POST", body: JSON.stringify({ body }) }),
+    onSuccess: () => {
+      setBody("");
+      onDone("Comment added.");
+      void queryClient.invalidateQueries({ queryKey: ["finding", f.id] });
+    },
+  });
+  const err = add.error ? errorText(add.error) : null;
+  return (
+    <Section title="Comments" id="comments-h">
+      {f.comments.length === 0 ? (
+        <p className="text-sm text-ink-600">No comments yet.</p>
+      ) : (
+        <ul className="space-y-3">
+          {f.comments.map((c) => (
+            <li key={c.id} className="text-sm">
+              <p className="font-medium text-ink-900">
+                {c.authorName} <span className="font-normal text-ink-600">· {when(c.createdAt)}</span>
+              </p>
+              <p className="whitespace-pre-wrap text-ink-900">{c.body}</p>
+            </li>
+          ))}
+        </ul>
+      )}
+      {f.allowed.comment && (
+        <form
+          onSubmit={(e) => {
+            e.preventDefault();
+            add.mutate();
+          }}
+          className="mt-3 space-y-2 border-t border-ink-100 pt-3"
+        >
+          <label className="block text-sm">
+            <span className="font-medium text-ink-700">Add a comment</span>
+            <textarea value={body} onChange={(e) => setBody(e.target.value)} rows={2} maxLength={4000} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" aria-describedby="comment-error" />
+          </label>
+          {err && <FieldError id="comment-error" messages={err.fields.body ?? [err.message]} />}
+          <button type="submit" disabled={!body.trim() || add.isPending} className="rounded-md border border-fjord-600 px-3 py-1.5 text-sm font-medium text-fjord-700 hover:bg-fjord-50 disabled:opacity-40">
+            Comment
+          </button>
+        </form>
+      )}
+    </Section>
+  );
+}
+
+function History({ finding: f }: { finding: FindingView }) {
+  return (
+    <Section title="History" id="history-h">
+      <ol className="space-y-2 text-sm" data-testid="finding-history">
+        {f.events.map((e) => (
+          <li key={e.id} className="flex gap-2">
+            {e.toState ? <StateIcon state={e.toState} className="mt-0.5 h-4 w-4 shrink-0 text-ink-600" /> : <span aria-hidden="true">•</span>}
+            <div>
+              <p className="text-ink-900">
+                <strong>{ACTION_WORDS[e.action] ?? e.action}</strong>
+                {e.fromState && e.toState && e.fromState !== e.toState && (
+                  <span className="text-ink-700">
+                    {" "}
+                    ({FINDING_STATE_LABELS[e.fromState]} → {FINDING_STATE_LABELS[e.toState]})
+                  </span>
+                )}{" "}
+                <span className="text-ink-600">
+                  · {e.actorName ?? "Coldtrail's rules"} · {when(e.at)}
+                </span>
+              </p>
+              {e.note && <p className="whitespace-pre-wrap text-ink-800">{e.note}</p>}
+            </div>
+          </li>
+        ))}
+      </ol>
+    </Section>
+  );
+}

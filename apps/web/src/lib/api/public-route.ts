@@ -1,0 +1,36 @@
+import "server-only";
+import type { NextRequest } from "next/server";
+import { NextResponse } from "next/server";
+import type { z } from "zod";
+import { db } from "../db";
+import { errorResponse, fieldErrorsOf, toErrorResponse } from "./errors";
+
+/**
+ * The few routes a person uses before they can sign in (accepting an invitation, asking for and using
+ * a password-reset link). No session and no ability: what they may do is decided by the single-use
+ * token in the body. Same zod validation (400 with field errors) and the same error mapping as `route()`.
+ */
+export function publicRoute<B extends z.ZodType>(
+  spec: { body: B },
+  handler: (ctx: { req: NextRequest; db: ReturnType<typeof db>; body: z.output<B> }) => Promise<unknown>,
+) {
+  return async (req: NextRequest): Promise<Response> => {
+    try {
+      let json: unknown;
+      try {
+        json = await req.json();
+      } catch {
+        return errorResponse(400, { code: "invalid", message: "The request body must be JSON" });
+      }
+      const parsed = spec.body.safeParse(json);
+      if (!parsed.success) {
+        return errorResponse(400, { code: "invalid", message: "Some fields need attention", fieldErrors: fieldErrorsOf(parsed.error) });
+      }
+      const result = await handler({ req, db: db(), body: parsed.data });
+      if (result instanceof Response) return result;
+      return NextResponse.json(result ?? null);
+    } catch (err) {
+      return toErrorResponse(err);
+    }
+  };
+}

@@ -1,0 +1,28 @@
+export {
+  getCertificationRef,
+  canOnCertification,
+  createCertification,
+  listCertifications,
+  getCertification,
+  getCertificationFileKeys,
+  decideCertification,
+  correctCertification,
+  withdrawCertification,
+  describeTypes as describeCertificationTypes,
+  type CertificationRef,
+  type CardFile,
+  type CertificationListRow,
+  type CertificationListResult,
+  type CertificationDetail,
+  type CertificationDecisionResult,
+} from "./certifications";
+export {
+  createNotification,
+  markNotificationEmailed,
+  listNotifications,
+  countUnreadNotifications,
+  markNotificationsRead,
+  type NotificationRow,
+  type NotificationPage,
+  type NewNotification,
+} from "./notifications";

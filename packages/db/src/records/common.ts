@@ -1,0 +1,89 @@
+import type { Knex } from "knex";
+import { resolveSettings, type AuditSettings, type MassDisplayUnit, type VoidedFilter } from "@coldtrail/core";
+import { RecordConflictError, RecordNotFoundError } from "../errors";
+import type { ScopeFn } from "../types";
+
+/** One page of a record list. */
+export interface RecordPage<T> {
+  rows: T[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
+
+export type Db = Knex | Knex.Transaction;
+
+/** ANDs the caller's permission scope into a query as one parenthesised block. */
+export function scoped(qb: Knex.QueryBuilder, scope: ScopeFn): Knex.QueryBuilder {
+  return qb.where(function inScope(this: Knex.QueryBuilder) {
+    scope(this);
+  });
+}
+
+/** Leaves voided rows out (default), keeps them, or keeps only them. */
+export function applyVoided(qb: Knex.QueryBuilder, column: string, voided: VoidedFilter | undefined): void {
+  if (voided === "include") return;
+  if (voided === "only") qb.whereNotNull(column);
+  else qb.whereNull(column);
+}
+
+export interface WritableBranch {
+  id: number;
+  name: string;
+  code: string;
+  address: string | null;
+  timeZone: string;
+  massUnit: MassDisplayUnit;
+}
+
+/** The branch a record goes into: in the actor's organisation and not archived. */
+export async function writableBranch(db: Db, organisationId: number, branchId: number): Promise<WritableBranch> {
+  const row = await db("branches").where({ id: branchId, organisation_id: organisationId }).first("id", "name", "code", "address", "time_zone", "mass_unit", "archived_at");
+  if (!row) throw new RecordNotFoundError("That branch does not exist", "branchId");
+  if (row.archived_at) throw new RecordConflictError("That branch is archived", "branchId");
+  return { id: Number(row.id), name: row.name, code: row.code, address: row.address ?? null, timeZone: row.time_zone, massUnit: row.mass_unit };
+}
+
+/** The organisation's rule settings (leak-rate method, strict fill, requalification years …). */
+export async function organisationSettings(db: Db, organisationId: number): Promise<AuditSettings> {
+  const row = await db("organisations").where({ id: organisationId }).first("settings");
+  let stored: Partial<AuditSettings> = {};
+  try {
+    stored = row?.settings ? (JSON.parse(row.settings) as Partial<AuditSettings>) : {};
+  } catch {
+    stored = {};
+  }
+  return resolveSettings(stored);
+}
+
+/** Empty text becomes null; text is kept trimmed. */
+export function textOrNull(value: string | null | undefined): string | null {
+  if (value === undefined || value === null) return null;
+  const t = value.trim();
+  return t.length ? t : null;
+}
+
+/**
+ * Applies a change to a cylinder's recorded contents (+ fills, − draws) inside the caller's
+ * transaction. Refuses to go below zero (that would mean refrigerant drawn that the records never
+ * put in). An emptied cylinder holds no refrigerant; an empty one takes the incoming refrigerant.
+ */
+export async function moveCylinderContents(
+  trx: Knex.Transaction,
+  opts: { cylinderId: number; deltaG: number; refrigerant: string; at: string; field: string; describe: (g: number) => string },
+): Promise<void> {
+  const c = await trx("cylinders").where({ id: opts.cylinderId }).first("id", "serial", "contents_g", "refrigerant");
+  if (!c) throw new RecordNotFoundError("That cylinder does not exist", opts.field);
+  const before = Number(c.contents_g);
+  const after = before + opts.deltaG;
+  if (after < 0) {
+    throw new RecordConflictError(
+      `Cylinder ${c.serial} holds ${opts.describe(before)} on record, so ${opts.describe(-opts.deltaG)} cannot come out of it`,
+      opts.field,
+    );
+  }
+  const update: Record<string, unknown> = { contents_g: after, updated_at: opts.at };
+  if (after === 0) update.refrigerant = null;
+  else if (before <= 0 || c.refrigerant === null) update.refrigerant = opts.refrigerant;
+  await trx("cylinders").where({ id: opts.cylinderId }).update(update);
+}
