@@ -90,25 +90,23 @@ test.describe("a branch manager keeps purchases and reclaim shipments on a deskt
     await manager.close();
   });
 
-  test("the shop's scrap run and the disposals page fit a phone", async ({ browser }) => {
+  test("an empty scrap run is refused by field and writes nothing; the disposals page fits a phone", async ({ browser }) => {
     const tech = await contextAs(browser, DEMO.technicianColumbus, phone);
     const page = await tech.newPage();
-    await page.goto("/disposals/shop");
-    await expect(page.getByRole("heading", { name: "Scrap run at the shop" })).toBeVisible();
-    await expect(page.getByText("Refrigerant displaces oxygen")).toBeVisible();
-    await expect(page.getByRole("checkbox", { name: /I recovered the refrigerant/ })).toBeVisible();
-    // Nothing picked and nothing confirmed: the server names both, and nothing is written.
-    const before = ((await (await tech.request.get("/api/jobs?pageSize=1")).json()) as { total: number }).total;
-    await page.getByRole("button", { name: "Save the scrap run" }).click();
-    await expect(page.getByText("Pick at least one appliance", { exact: true })).toBeVisible();
-    await expect(page.getByText("Confirm that you recovered the refrigerant before saving", { exact: true })).toBeVisible();
-    expect(((await (await tech.request.get("/api/jobs?pageSize=1")).json()) as { total: number }).total).toBe(before);
-    expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0);
-    await snap(page, "disposal-shop-run-phone");
+    const jobs = async () => ((await (await tech.request.get("/api/jobs?pageSize=1")).json()) as { total: number }).total;
+    const before = await jobs();
+    const res = await tech.request.post("/api/disposals/shop", { data: { performedOn: "2026-11-30", items: [], confirmStatement: false } });
+    expect(res.status()).toBe(400);
+    const fieldErrors = ((await res.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors;
+    expect(fieldErrors.items?.[0]).toBe("Pick at least one appliance");
+    expect(fieldErrors.confirmStatement?.[0]).toBe("Confirm that you recovered the refrigerant before saving");
+    expect(fieldErrors.cylinderId?.[0]).toBe("Choose the recovery cylinder");
+    expect(await jobs()).toBe(before);
 
     await page.goto("/disposals");
     await expect(page.getByRole("tab", { name: "Disposal records" })).toHaveAttribute("aria-selected", "true");
     await expect(page.getByTestId("disposal-row").first()).toBeVisible();
+    expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0);
     await snap(page, "disposals-list-phone");
     await tech.close();
   });

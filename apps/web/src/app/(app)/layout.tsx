@@ -14,27 +14,27 @@ export default async function AppLayout({ children }: { children: React.ReactNod
   const { actor, ability } = signedIn;
 
   // Navigation by role: only what this person can use.
-  const nav: NavItem[] = [{ href: "/", label: "Overview" }];
+  const nav: NavItem[] = [{ href: "/", label: "Overview", group: "Work" }];
   // Audits and findings (audits engineer): runs, the findings workflow and branch dashboards.
-  if (ability.can("read", "Audit")) nav.push({ href: "/audits", label: "Audits" });
-  if (ability.can("read", "Finding")) nav.push({ href: "/findings", label: "Findings" });
-  if (ability.can("read", "Finding") && ability.can("read", "Branch") && !ability.rulesFor("read", "Finding").every((r) => r.conditions && "technicianId" in r.conditions)) nav.push({ href: "/branches", label: "Branches" });
-  if (ability.can("read", "Job")) nav.push({ href: "/jobs", label: "Jobs" });
-  if (ability.can("create", "Job")) nav.push({ href: "/jobs/new", label: "Log a job" });
+  if (ability.can("read", "Audit")) nav.push({ href: "/audits", label: "Audits", group: "Compliance" });
+  if (ability.can("read", "Finding")) nav.push({ href: "/findings", label: "Findings", group: "Compliance" });
+  if (ability.can("read", "Finding") && ability.can("read", "Branch") && !ability.rulesFor("read", "Finding").every((r) => r.conditions && "technicianId" in r.conditions)) nav.push({ href: "/branches", label: "Branch dashboards", group: "Compliance" });
+  if (ability.can("read", "Job")) nav.push({ href: "/jobs", label: "Jobs", group: "Work" });
+  if (ability.can("create", "Job")) nav.push({ href: "/jobs/new", label: "Log a job", group: "Work" });
   // Records kept beside jobs (jobs engineer): disposals, reclaim shipments, purchases.
-  if (ability.can("read", "Disposal")) nav.push({ href: "/disposals", label: "Disposals" });
-  if (ability.can("read", "ReclaimShipment")) nav.push({ href: "/shipments", label: "Shipments" });
-  if (ability.can("read", "Purchase")) nav.push({ href: "/purchases", label: "Purchases" });
+  if (ability.can("read", "Disposal")) nav.push({ href: "/disposals", label: "Disposals", group: "Work" });
+  if (ability.can("read", "ReclaimShipment")) nav.push({ href: "/shipments", label: "Shipments", group: "Work" });
+  if (ability.can("read", "Purchase")) nav.push({ href: "/purchases", label: "Purchases", group: "Work" });
   // Registers (issue 3): appliances, cylinders, recovery equipment for whoever may read them.
-  if (ability.can("read", "Appliance")) nav.push({ href: "/appliances", label: "Appliances" });
-  if (ability.can("read", "Cylinder")) nav.push({ href: "/cylinders", label: "Cylinders" });
-  if (ability.can("read", "RecoveryEquipment")) nav.push({ href: "/equipment", label: "Equipment" });
+  if (ability.can("read", "Appliance")) nav.push({ href: "/appliances", label: "Appliances", group: "Registers" });
+  if (ability.can("read", "Cylinder")) nav.push({ href: "/cylinders", label: "Cylinders", group: "Registers" });
+  if (ability.can("read", "RecoveryEquipment")) nav.push({ href: "/equipment", label: "Equipment", group: "Registers" });
   // Running the organisation (issue 6): people for whoever may read them; branches, inspector access and settings under the same tab.
-  if (ability.can("update", "Branch") || ability.can("read", "Settings") || ability.can("read", "InspectorGrant")) nav.push({ href: "/admin", label: "Organisation" });
-  else if (ability.can("read", "User")) nav.push({ href: "/admin", label: "People" });
+  if (ability.can("update", "Branch") || ability.can("read", "Settings") || ability.can("read", "InspectorGrant")) nav.push({ href: "/admin", label: "Organisation", group: "Organisation" });
+  else if (ability.can("read", "User")) nav.push({ href: "/admin", label: "People", group: "Organisation" });
   // Certification cards and spreadsheet import (issue 3).
-  if (ability.can("read", "Certification") || ability.can("create", "Certification")) nav.push({ href: "/certifications", label: "Certifications" });
-  if (ability.can("create", "Import")) nav.push({ href: "/imports", label: "Import" });
+  if (ability.can("read", "Certification") || ability.can("create", "Certification")) nav.push({ href: "/certifications", label: "Certifications", group: "Compliance" });
+  if (ability.can("create", "Import")) nav.push({ href: "/imports", label: "Import", group: "Organisation" });
 
   const roles = rolesOf(actor).map((r) => ROLE_LABELS[r]).join(", ");
 
@@ -43,14 +43,11 @@ export default async function AppLayout({ children }: { children: React.ReactNod
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-white focus:px-3 focus:py-2">
         Skip to content
       </a>
-      <header className="bg-ink-900 text-white">
-        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
+      <header className="sticky top-0 z-30 h-14 bg-ink-900 text-white">
+        <div className="flex h-full items-center gap-4 px-4">
           <Link href="/" className="shrink-0" aria-label="Coldtrail overview">
             <Logo tone="light" />
           </Link>
-          <div className="order-3 w-full min-w-0 sm:order-none sm:w-auto sm:flex-1">
-            <AppNav items={nav} />
-          </div>
           <div className="ml-auto flex items-center gap-3 text-sm">
             <span className="hidden text-right leading-tight md:block">
               <span className="block font-medium" data-testid="signed-in-name">{actor.name}</span>
@@ -61,9 +58,12 @@ export default async function AppLayout({ children }: { children: React.ReactNod
           </div>
         </div>
       </header>
-      <main id="main" className="mx-auto max-w-7xl px-4 py-6">
-        {children}
-      </main>
+      <div className="lg:flex">
+        <AppNav items={nav} />
+        <main id="main" className="min-w-0 flex-1 px-4 py-6 lg:px-8">
+          <div className="mx-auto max-w-7xl">{children}</div>
+        </main>
+      </div>
     </Providers>
   );
 }

@@ -92,6 +92,7 @@ export function ShopRunForm() {
   });
 
   const order = branchRows.filter((r) => picked[r.id]).map((r) => r.id);
+  const pickedRefrigerants = [...new Set(branchRows.filter((r) => picked[r.id]).map((r) => r.refrigerant))];
   const submit = (e: React.FormEvent) => {
     e.preventDefault();
     setErrors({});
@@ -160,10 +161,22 @@ export function ShopRunForm() {
         </div>
       )}
 
+      {!queue.isLoading && branchRows.length === 0 ? (
+        <div className="rounded-lg border border-ink-200 bg-white p-4" data-testid="shop-empty">
+          <p className="font-semibold text-ink-950">No retired unit is waiting to be scrapped.</p>
+          <p className={hintClass}>
+            Units appear here once they are retired in the appliance register. To dispose of a unit at a customer&apos;s site,{" "}
+            <Link href="/jobs/new?kind=disposal" className="font-medium text-fjord-700 underline">
+              log a disposal job
+            </Link>
+            .
+          </p>
+        </div>
+      ) : (
+      <>
       <fieldset>
         <legend className={labelClass}>Units waiting to be scrapped</legend>
         {queue.isLoading && <p className={hintClass}>Loading the retired units…</p>}
-        {!queue.isLoading && branchRows.length === 0 && <p className={hintClass}>No retired unit is waiting to be scrapped.</p>}
         <FieldError id={`${uid}-items-error`} message={errors.items} />
         <ul className="mt-2 space-y-3">
           {branchRows.map((r) => {
@@ -258,6 +271,14 @@ export function ShopRunForm() {
             );
           })}
         </ul>
+        {pickedRefrigerants.length > 1 && (
+          <p className="mt-2 flex items-start gap-2 rounded-md border border-sev-major/50 bg-orange-50 px-3 py-2 text-sm font-medium text-sev-major" data-testid="shop-mixed-warning">
+            <span aria-hidden="true">⚠</span>
+            <span>
+              These units hold different refrigerants ({pickedRefrigerants.join(", ")}). One cylinder holds one refrigerant: record one run per refrigerant, each into its own cylinder.
+            </span>
+          </p>
+        )}
       </fieldset>
 
       <div>
@@ -351,6 +372,8 @@ export function ShopRunForm() {
           {save.isPending ? "Saving…" : order.length ? `Save ${order.length} disposal${order.length === 1 ? "" : "s"}` : "Save the scrap run"}
         </button>
       </div>
+      </>
+      )}
     </form>
   );
 }
