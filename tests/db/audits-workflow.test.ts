@@ -181,6 +181,20 @@ describe("listing findings", () => {
     expect([...order].sort((a, b) => a - b)).toEqual(order);
   });
 
+  it("every grouping counts each finding once, and the page follows the group order", async () => {
+    const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
+    for (const groupBy of ["branch", "rule", "severity", "state", "assignee", "due"] as const) {
+      const res = await listFindings(t.db, {
+        organisationId: 1,
+        scope: scope(officer, "read"),
+        query: findingListQuery.parse({ groupBy, state: "all", pageSize: 200 }),
+        today: "2026-12-01",
+      });
+      expect(res.groups.reduce((n, g) => n + g.count, 0), groupBy).toBe(res.total);
+      expect(new Set(res.groups.map((g) => g.key)).size, groupBy).toBe(res.groups.length);
+    }
+  });
+
   it("filters by rule, branch, assignee and due date bucket", async () => {
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
     const list = (q: Record<string, unknown>) =>

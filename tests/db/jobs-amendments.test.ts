@@ -73,6 +73,14 @@ describe("amending a job", () => {
     expect((await t.db("jobs").where({ id }).first()).charged_g).toBe(2000);
   });
 
+  it("refuses to move a charge onto a cylinder that does not hold its refrigerant", async () => {
+    const id = await create({ kind: "charge", applianceId: f.walkIn, performedOn: "2026-03-01", refrigerant: "R-22", chargedAmount: 1, chargedUnit: "kg", chargeSource: "cylinder", cylinderId: f.northR22Cylinder });
+    const before = await writeCounts(t.db);
+    await expect(amend(id, { reason: "Other cylinder", changes: { cylinderId: f.northCylinder } })).rejects.toMatchObject({ code: "conflict", field: "changes.cylinderId" });
+    expect(await writeCounts(t.db)).toEqual(before);
+    expect((await contentsOf(t.db, f.northR22Cylinder)).contents_g).toBe(4000);
+  });
+
   it("refuses a correction the cylinder's later history cannot absorb, and changes nothing", async () => {
     const id = await create(recovery());
     await createShipment(t.db, { actor: { userId: f.manager, organisationId: f.org }, input: { branchId: f.north, shippedOn: "2026-03-31", reclaimerName: "Invented Reclaim Co", cylinderIds: [f.northCylinder] } });

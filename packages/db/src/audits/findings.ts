@@ -279,10 +279,12 @@ export async function listFindings(
   if (groupBy) {
     const g = groupKey(groupBy, today);
     rowsQuery.orderByRaw(g.order, g.orderBindings);
+    // GROUP BY 1 (the first selected column): an expression with bound values repeated in GROUP BY
+    // would not be recognised as the same expression by PostgreSQL; a position works in both dialects.
     const groupRows = await filtered(findingsWithJoins(db), true)
       .select(db.raw(`${g.key} as group_key`, g.bindings))
       .count({ n: "*" })
-      .groupByRaw(g.key, g.bindings);
+      .groupByRaw("1");
     const titles = new Map<string, string>();
     if (groupBy === "rule") {
       for (const r of await db("findings").where({ organisation_id: opts.organisationId }).distinct("rule_id", "title")) titles.set(r.rule_id, r.title);

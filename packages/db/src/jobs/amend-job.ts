@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import {
+  normaliseDesignation,
   TEMPORARY_ACCESS_METHODS,
   toGrams,
   type AccessMethod,
@@ -135,7 +136,10 @@ export async function amendJob(
       if (kind === "charge" && !movements.some((m) => m.direction === "charged_from_cylinder")) {
         throw new InvalidInputError("This charge came from stock, not from a cylinder; void it and log it again if that was wrong", "changes.cylinderId");
       }
-      await jobCylinder(trx, actor.organisationId, Number(job.branch_id), c.cylinderId, "changes.cylinderId");
+      const cylinder = await jobCylinder(trx, actor.organisationId, Number(job.branch_id), c.cylinderId, "changes.cylinderId");
+      if (kind === "charge" && (!cylinder.refrigerant || normaliseDesignation(cylinder.refrigerant) !== normaliseDesignation(String(job.refrigerant)))) {
+        throw new RecordConflictError(`Cylinder ${cylinder.serial} does not hold ${job.refrigerant} on record`, "changes.cylinderId");
+      }
       changes.cylinder_id = c.cylinderId;
     }
     if (c.equipmentId !== undefined) await jobEquipment(trx, actor.organisationId, Number(job.branch_id), c.equipmentId, "changes.equipmentId");

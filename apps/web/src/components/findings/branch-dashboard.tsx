@@ -28,11 +28,11 @@ const CYLINDER_WORDS = {
 
 function Card({ title, id, children, wide = false }: { title: string; id: string; children: React.ReactNode; wide?: boolean }) {
   return (
-    <section aria-labelledby={id} className={`rounded-lg border border-ink-200 bg-white p-4 ${wide ? "lg:col-span-2" : ""}`}>
+    <section aria-labelledby={id} className={`min-w-0 rounded-lg border border-ink-200 bg-white p-4 ${wide ? "lg:col-span-2" : ""}`}>
       <h2 id={id} className="mb-2 font-semibold text-ink-950">
         {title}
       </h2>
-      {children}
+      <div className="overflow-x-auto">{children}</div>
     </section>
   );
 }

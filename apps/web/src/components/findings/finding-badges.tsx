@@ -89,16 +89,16 @@ export function StateBadge({ state }: { state: FindingState }) {
 export function DueText({ dueOn, today, active }: { dueOn: string | null; today: string; active: boolean }) {
   if (!dueOn) return <span className="text-ink-500">No due date</span>;
   const days = Math.round((Date.parse(`${dueOn}T00:00:00Z`) - Date.parse(`${today}T00:00:00Z`)) / 86_400_000);
-  if (!active) return <span className="tabular text-ink-600">{dueOn}</span>;
+  if (!active) return <span className="tabular whitespace-nowrap text-ink-600">{dueOn}</span>;
   if (days < 0)
     return (
-      <span className="tabular inline-flex items-center gap-1 font-semibold text-sev-critical">
+      <span className="tabular inline-flex items-center gap-1 whitespace-nowrap font-semibold text-sev-critical">
         <span aria-hidden="true">⚠</span>
         {dueOn} · overdue {-days} d
       </span>
     );
   return (
-    <span className={`tabular ${days <= 7 ? "font-semibold text-ink-950" : "text-ink-700"}`}>
+    <span className={`tabular whitespace-nowrap ${days <= 7 ? "font-semibold text-ink-950" : "text-ink-700"}`}>
       {dueOn} · {days === 0 ? "due today" : `in ${days} d`}
     </span>
   );

@@ -130,7 +130,7 @@ export function FindingDetailView({ id, today }: { id: number; today: string }) 
               ) : (
                 f.recordLabel
               )}
-              {f.occurredOn && <> · the event of {f.occurredOn}</>}
+              {f.occurredOn && <> · event on {f.occurredOn}</>}
             </p>
             {f.state === "waived" && f.waiverReason && (
               <p className="mt-2 rounded-md bg-ink-100 px-3 py-2 text-sm text-ink-800">
@@ -180,9 +180,28 @@ export function FindingDetailView({ id, today }: { id: number; today: string }) 
 }
 
 function Actions({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
-  const any = f.allowed.assign || f.allowed.proposeFix || f.allowed.accept || f.allowed.reopen || f.allowed.waive;
-  if (!any) return null;
   const state = f.state as FindingState;
+  const active = state === "open" || state === "fix_proposed";
+  const possible =
+    (f.allowed.assign && active) ||
+    (f.allowed.proposeFix && active) ||
+    (f.allowed.accept && state === "fix_proposed") ||
+    (f.allowed.reopen && (state === "fix_proposed" || state === "closed" || state === "waived")) ||
+    (f.allowed.waive && active);
+  if (!possible) {
+    if (active) return null;
+    return (
+      <Section title="What to do next" id="actions-h">
+        <p className="text-sm text-ink-700">
+          {state === "no_longer_found"
+            ? "Nothing: the records no longer show this gap. If a later audit finds it again, it opens again."
+            : state === "closed"
+              ? "Nothing: the fix was accepted."
+              : "Nothing: the compliance officer waived this finding."}
+        </p>
+      </Section>
+    );
+  }
   return (
     <Section title="What to do next" id="actions-h">
       <div className="space-y-4">

@@ -304,7 +304,7 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
           <label className="text-sm">
             <span className="block font-medium text-ink-700">Status</span>
             <select value={view.state ?? "active"} onChange={(e) => set("state", e.target.value as ViewState["state"])} className={selectClass}>
-              <option value="active">To act on (open or fix proposed)</option>
+              <option value="active">To act on</option>
               <option value="all">Every status</option>
               {FINDING_STATES.map((s) => (
                 <option key={s} value={s}>
