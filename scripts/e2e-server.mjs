@@ -21,6 +21,8 @@ const env = {
   S3_PORT: String(ports.s3),
   S3_ENDPOINT: `http://127.0.0.1:${ports.s3}`,
   FAKES_DIR: join(dir, "fakes"),
+  // Digests are sent on demand in the tests; a timer firing mid-run would add unexpected mail.
+  COLDTRAIL_DIGEST: "off",
 };
 
 run(process.execPath, [tsxBin, "packages/db/src/cli.ts", "reset"], { env });

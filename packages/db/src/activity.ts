@@ -40,3 +40,26 @@ export function rowId(row: unknown): number {
   if (row && typeof row === "object" && "id" in row) return Number((row as { id: unknown }).id);
   throw new Error("Insert returned no id");
 }
+
+/** Record kinds whose changes can open or close audit findings. */
+const AUDITED_SUBJECTS = [
+  "Appliance", "Cylinder", "CylinderWeighing", "DisposalRecord", "DisposalStatement", "Import", "Job",
+  "Purchase", "ReclaimShipment", "RecoveryEquipment", "Certification", "appliance", "job", "purchase",
+];
+
+/** The newest activity id (0 when empty); taken before a write to find what the write touched. */
+export async function latestActivityId(db: Knex): Promise<number> {
+  const row = await db("activity").max({ id: "id" }).first();
+  return Number(row?.id ?? 0);
+}
+
+/** Branches whose audited records an actor changed after the activity row `afterId`. */
+export async function branchesTouchedSince(db: Knex, opts: { afterId: number; actorId: number }): Promise<number[]> {
+  const rows = await db("activity")
+    .where("id", ">", opts.afterId)
+    .andWhere("actor_id", opts.actorId)
+    .whereIn("subject_type", AUDITED_SUBJECTS)
+    .whereNotNull("branch_id")
+    .distinct("branch_id");
+  return rows.map((r) => Number(r.branch_id));
+}

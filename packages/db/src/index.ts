@@ -9,7 +9,7 @@ export {
   isDomainError,
   type DomainErrorCode,
 } from "./errors";
-export { appendActivity, type ActivityEntry } from "./activity";
+export { appendActivity, latestActivityId, branchesTouchedSince, type ActivityEntry } from "./activity";
 export type { ScopeFn, ActorRef } from "./types";
 export { findUserForSignIn, loadActor, type SignInUser, type Actor, type ActorMembership, type ActorInspectorGrant } from "./users";
 export { listBranches, type BranchSummary } from "./branches";

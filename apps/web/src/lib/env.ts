@@ -21,6 +21,8 @@ const schema = z.object({
   S3_BUCKET: z.string().default("coldtrail-files"),
   S3_ACCESS_KEY_ID: z.string().default("S3RVER"),
   S3_SECRET_ACCESS_KEY: z.string().default("S3RVER"),
+  /** "off" stops the daily digest timer (the end-to-end server sets it; tests send digests on demand). */
+  COLDTRAIL_DIGEST: z.enum(["on", "off"]).default("on"),
 });
 
 export const env = schema.parse(process.env);

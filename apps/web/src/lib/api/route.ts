@@ -6,6 +6,8 @@ import type { Action, Actor, AppAbility, SubjectName } from "@coldtrail/core";
 import { currentActor } from "../auth/current-actor";
 import { db } from "../db";
 import { errorResponse, fieldErrorsOf, toErrorResponse } from "./errors";
+import { branchesTouchedSince, latestActivityId } from "@coldtrail/db";
+import { reevaluateAfterWrite } from "../server/continuous-audit";
 
 export interface RouteContext<Q, B, P> {
   req: NextRequest;
@@ -72,7 +74,16 @@ export function route<
       }
 
       const params = (await context?.params) ?? ({} as P);
+      const writes = req.method !== "GET" && req.method !== "HEAD";
+      const before = writes ? await latestActivityId(db()) : 0;
       const result = await handler({ req, actor, ability, db: db(), query: query as Out<Q>, body: body as Out<B>, params });
+      if (writes && (!(result instanceof Response) || result.ok)) {
+        // Continuous audit: every write appends to the activity history, so the branches whose records
+        // this request changed are known; their rules run again in the background.
+        for (const branchId of await branchesTouchedSince(db(), { afterId: before, actorId: actor.userId })) {
+          void reevaluateAfterWrite(db(), { organisationId: actor.organisationId, branchId, actorId: actor.userId });
+        }
+      }
       if (result instanceof Response) return result;
       return NextResponse.json(result ?? null);
     } catch (err) {

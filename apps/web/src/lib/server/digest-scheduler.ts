@@ -1,5 +1,6 @@
 import { getDb } from "@coldtrail/db";
 import { sendDailyDigests } from "./finding-mail";
+import { env } from "../env";
 
 /**
  * Sends the daily digest once a day, at the first check after 07:00 UTC (checked every 10 minutes
@@ -11,7 +12,7 @@ const SEND_FROM_HOUR_UTC = 7;
 const globalForDigest = globalThis as unknown as { __coldtrailDigest?: { timer: ReturnType<typeof setInterval>; lastDay: string | null } };
 
 export function startDigestScheduler(): void {
-  if (globalForDigest.__coldtrailDigest) return;
+  if (globalForDigest.__coldtrailDigest || env.COLDTRAIL_DIGEST === "off") return;
   const state = { timer: setInterval(tick, CHECK_MS), lastDay: null as string | null };
   state.timer.unref?.();
   globalForDigest.__coldtrailDigest = state;

@@ -24,7 +24,6 @@ export const POST = route({ can: ["create", "Job"], body: jobInput }, async ({ a
     branchId: appliance.branchId,
     input: body,
   });
-  // Continuous audit: the branch's findings are re-checked in the background after the save.
-  void (await import("@/lib/server/continuous-audit")).reevaluateAfterWrite(db, { organisationId: actor.organisationId, branchId: appliance.branchId, actorId: actor.userId });
+  // Continuous audit: route() re-checks the branch's findings in the background after the save.
   return NextResponse.json({ id }, { status: 201 });
 });

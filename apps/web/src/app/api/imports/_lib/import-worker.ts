@@ -1,8 +1,10 @@
+import { reevaluateAfterWrite } from "@/lib/server/continuous-audit";
 import "server-only";
 import {
   checkImportRows,
   commitImportRows,
   createDb,
+  getDb,
   databaseFile,
   failAbandonedImports,
   failImport,
@@ -71,6 +73,9 @@ export function startCommit(id: number, actor: ActorRef): void {
     if (!file) return;
     const source = await storedRows(file);
     await commitImportRows(db, { importId: id, actor, source, onProgress });
+    // Continuous audit: the imported records' branch is re-checked like after any other write.
+    const row = await db("imports").where({ id }).first("branch_id", "organisation_id");
+    if (row) void reevaluateAfterWrite(getDb(), { organisationId: Number(row.organisation_id), branchId: Number(row.branch_id), actorId: actor.userId });
   });
 }
 
