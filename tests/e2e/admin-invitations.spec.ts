@@ -121,6 +121,11 @@ test("the invitation link cannot be used a second time", async ({ browser }) => 
 });
 
 test("a password reset by e-mail works once, and the form never tells whether an address has an account", async ({ browser, request }) => {
+  // A session opened with the old password, e.g. on a lost phone.
+  const lostPhone = await browser.newContext();
+  await signInApi(lostPhone.request, invitee.email, FIRST_PASSWORD);
+  expect((await lostPhone.request.get("/api/jobs?pageSize=1")).status()).toBe(200);
+
   const page = await anonymousPage(browser);
   await page.goto("/sign-in");
   await page.getByRole("link", { name: "Forgot your password?" }).click();
@@ -163,6 +168,10 @@ test("a password reset by e-mail works once, and the form never tells whether an
   await old.request.post("/api/auth/callback/credentials", { form: { csrfToken: csrf.csrfToken, email: invitee.email, password: FIRST_PASSWORD, json: "true" }, maxRedirects: 0 });
   expect((await (await old.request.get("/api/auth/session")).json())?.user).toBeUndefined();
   await old.close();
+
+  // The session opened before the reset has ended.
+  expect((await lostPhone.request.get("/api/jobs?pageSize=1")).status()).toBe(401);
+  await lostPhone.close();
 });
 
 test("the reset link is refused once used", async ({ browser }) => {

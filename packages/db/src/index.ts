@@ -1,4 +1,4 @@
-export { createDb, getDb, closeDb, databaseFile, repoRoot, sqliteConfig } from "./connection";
+export { createDb, getDb, closeDb, databaseFile, repoRoot, sqliteConfig, pgConfig, isPostgresUrl, isPostgres } from "./connection";
 export { migrationSource, MIGRATION_NAMES } from "./migration-source";
 export {
   DomainError,
@@ -11,7 +11,7 @@ export {
 } from "./errors";
 export { appendActivity, latestActivityId, branchesTouchedSince, type ActivityEntry } from "./activity";
 export type { ScopeFn, ActorRef } from "./types";
-export { findUserForSignIn, loadActor, type SignInUser, type Actor, type ActorMembership, type ActorInspectorGrant } from "./users";
+export { findUserForSignIn, loadActor, credentialStampOf, currentCredentialStamp, type SignInUser, type Actor, type ActorMembership, type ActorInspectorGrant } from "./users";
 export { listBranches, type BranchSummary } from "./branches";
 export {
   listJobs,

@@ -1,3 +1,4 @@
+import { createHash } from "node:crypto";
 import type { Knex } from "knex";
 import type { Role } from "@coldtrail/core";
 import { toBool } from "./types";
@@ -100,4 +101,19 @@ export async function loadActor(db: Knex, userId: number): Promise<Actor | undef
       revokedAt: g.revoked_at ?? null,
     })),
   };
+}
+
+/**
+ * A short fingerprint of a user's current password hash. A session remembers the one it was opened
+ * with; once the password changes (reset, invitation accepted again) older sessions no longer match.
+ */
+export function credentialStampOf(passwordHash: string | null | undefined): string | null {
+  return passwordHash ? createHash("sha256").update(passwordHash).digest("hex").slice(0, 24) : null;
+}
+
+/** The credential fingerprint of an active user now, or null (unknown, inactive, or no password). */
+export async function currentCredentialStamp(db: Knex, userId: number): Promise<string | null> {
+  const row = await db("users").where({ id: userId }).first("password_hash", "active");
+  if (!row || !toBool(row.active)) return null;
+  return credentialStampOf(row.password_hash);
 }

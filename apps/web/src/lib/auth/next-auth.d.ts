@@ -10,5 +10,7 @@ declare module "next-auth" {
 declare module "next-auth/jwt" {
   interface JWT {
     userId?: number;
+    /** Fingerprint of the password hash the session was opened with (see currentCredentialStamp). */
+    credentialStamp?: string | null;
   }
 }

@@ -3,7 +3,7 @@ import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import bcrypt from "bcryptjs";
 import { z } from "zod";
-import { findUserForSignIn } from "@coldtrail/db";
+import { credentialStampOf, currentCredentialStamp, findUserForSignIn } from "@coldtrail/db";
 import { db } from "../db";
 import { env } from "../env";
 
@@ -31,17 +31,26 @@ export const authOptions: NextAuthOptions = {
         const hash = user?.passwordHash ?? "$2b$10$QDffZTER43.CMZeTT4IEVuwOw/lL8BIXPUIgpjgYEeRb78UzHh5wC";
         const ok = await bcrypt.compare(parsed.data.password, hash);
         if (!user || !ok || !user.active) return null;
-        return { id: String(user.id), email: user.email, name: user.name };
+        return { id: String(user.id), email: user.email, name: user.name, credentialStamp: credentialStampOf(user.passwordHash) };
       },
     }),
   ],
   callbacks: {
     async jwt({ token, user }) {
-      if (user) token.userId = Number(user.id);
+      if (user) {
+        token.userId = Number(user.id);
+        token.credentialStamp = (user as { credentialStamp?: string | null }).credentialStamp ?? null;
+        return token;
+      }
+      // A session opened before the password changed (or the person was deactivated) ends here.
+      if (typeof token.userId === "number" && (await currentCredentialStamp(db(), token.userId)) !== token.credentialStamp) {
+        delete token.userId;
+      }
       return token;
     },
     async session({ session, token }) {
-      if (session.user && typeof token.userId === "number") session.user.id = token.userId;
+      if (typeof token.userId !== "number") return { ...session, user: undefined };
+      if (session.user) session.user.id = token.userId;
       return session;
     },
   },
