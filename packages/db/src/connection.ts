@@ -31,10 +31,35 @@ export function sqliteConfig(filename: string): Knex.Config {
   };
 }
 
-/** Opens (or creates) a SQLite database file. The folder is created when missing. */
-export function createDb(filename: string): Knex {
-  if (filename !== ":memory:") fs.mkdirSync(path.dirname(path.resolve(/*turbopackIgnore: true*/ filename)), { recursive: true });
-  return knexFactory(sqliteConfig(filename));
+/** True for a PostgreSQL connection URL (`postgres://…` or `postgresql://…`). */
+export function isPostgresUrl(target: string): boolean {
+  return /^postgres(ql)?:\/\//i.test(target.trim());
+}
+
+/** True when `knex` talks to PostgreSQL (for the few dialect-specific steps, each with a SQLite twin). */
+export function isPostgres(knex: Knex | Knex.Transaction): boolean {
+  const client = knex.client.config.client;
+  return client === "pg" || client === "postgres" || client === "postgresql";
+}
+
+/** The Knex configuration for a PostgreSQL URL: the same migration source and table as SQLite. */
+export function pgConfig(url: string): Knex.Config {
+  return {
+    client: "pg",
+    connection: url.trim(),
+    pool: { min: 0, max: 10 },
+    migrations: { migrationSource, tableName: "knex_migrations" },
+  };
+}
+
+/**
+ * Opens a database: a `postgres://` URL opens PostgreSQL, anything else is a SQLite file, opened
+ * (or created) with its folder created when missing. Both run the same migrations and queries.
+ */
+export function createDb(target: string): Knex {
+  if (isPostgresUrl(target)) return knexFactory(pgConfig(target));
+  if (target !== ":memory:") fs.mkdirSync(path.dirname(path.resolve(/*turbopackIgnore: true*/ target)), { recursive: true });
+  return knexFactory(sqliteConfig(target));
 }
 
 /** The repository root: the nearest folder upwards holding pnpm-workspace.yaml. */
@@ -48,9 +73,13 @@ export function repoRoot(start: string = process.cwd()): string {
   }
 }
 
-/** The database file: env COLDTRAIL_DB, or `<repo>/.coldtrail/coldtrail.sqlite`. */
+/**
+ * The database to open: env COLDTRAIL_DB (a SQLite file, or a `postgres://` URL returned as is),
+ * or `<repo>/.coldtrail/coldtrail.sqlite`. Pass it to `createDb`, which picks the client.
+ */
 export function databaseFile(): string {
   const fromEnv = process.env.COLDTRAIL_DB;
+  if (fromEnv && isPostgresUrl(fromEnv)) return fromEnv.trim();
   if (fromEnv && fromEnv.trim() !== "") return path.resolve(/*turbopackIgnore: true*/ fromEnv);
   return path.join(/*turbopackIgnore: true*/ repoRoot(), ".coldtrail", "coldtrail.sqlite");
 }
