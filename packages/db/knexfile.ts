@@ -1,7 +1,7 @@
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import type { Knex } from "knex";
-import { databaseFile, sqliteConfig } from "./src/connection";
+import { databaseFile, isPostgresUrl, pgConfig, sqliteConfig } from "./src/connection";
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 
@@ -10,7 +10,8 @@ const here = path.dirname(fileURLToPath(import.meta.url));
  * The project's own CLI (src/cli.ts) uses the same migrations through a static migration source;
  * migration names are the file names in both cases, so the two agree on what has run.
  */
-const base = sqliteConfig(databaseFile());
+const target = databaseFile();
+const base = isPostgresUrl(target) ? pgConfig(target) : sqliteConfig(target);
 const config: Knex.Config = {
   ...base,
   migrations: {

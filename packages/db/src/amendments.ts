@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import { appendActivity, rowId } from "./activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "./errors";
+import { storedLike } from "./types";
 
 /**
  * Regulated records (jobs, disposals, certifications, cylinder weighings …) are never silently
@@ -53,8 +54,10 @@ export async function amendRecord(trx: Knex.Transaction, opts: AmendOptions): Pr
   const next: Record<string, unknown> = {};
   for (const [column, value] of Object.entries(opts.changes)) {
     if (!(column in row)) throw new InvalidInputError(`Unknown field ${column}`, column);
-    if (!same(row[column], value)) {
-      previous[column] = row[column] ?? null;
+    // Booleans read back as 0/1 on SQLite and true/false on PostgreSQL: compare and keep them as booleans.
+    const stored = storedLike(row[column], value);
+    if (!same(stored, value)) {
+      previous[column] = stored ?? null;
       next[column] = value ?? null;
     }
   }

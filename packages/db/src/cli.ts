@@ -1,14 +1,21 @@
 import fs from "node:fs";
-import { closeDb, createDb, databaseFile } from "./connection";
+import { closeDb, createDb, databaseFile, isPostgresUrl } from "./connection";
 import { loadDemoData } from "./demo/load";
 
 function removeDatabaseFiles(file: string): void {
   for (const suffix of ["", "-wal", "-shm"]) fs.rmSync(`${file}${suffix}`, { force: true });
 }
 
+/** What the messages call the database: the file, or the PostgreSQL URL without its password. */
+function describeTarget(target: string): string {
+  return isPostgresUrl(target) ? target.replace(/\/\/([^:@/]+):[^@/]*@/, "//$1:***@") : target;
+}
+
 async function main(): Promise<void> {
   const command = process.argv[2];
-  const file = databaseFile();
+  const target = databaseFile();
+  const postgres = isPostgresUrl(target);
+  const file = describeTarget(target);
   if (command !== "migrate" && command !== "seed" && command !== "reset" && command !== "setup") {
     // setup = migrate, then load the demo data only if the database holds no organisation yet.
     console.error("Usage: tsx src/cli.ts migrate|seed|reset|setup");
@@ -16,9 +23,11 @@ async function main(): Promise<void> {
     return;
   }
   const started = performance.now();
-  if (command === "reset") removeDatabaseFiles(file);
-  const db = createDb(file);
+  if (command === "reset" && !postgres) removeDatabaseFiles(target);
+  const db = createDb(target);
   try {
+    // PostgreSQL has no file to delete: a reset rolls every migration back (dropping the tables) instead.
+    if (command === "reset" && postgres) await db.migrate.rollback(undefined, true);
     const [, applied] = (await db.migrate.latest()) as [number, string[]];
     console.log(applied.length ? `Migrated ${file}: ${applied.join(", ")}` : `${file} is up to date`);
     const empty = command === "setup" && !(await db("organisations").first("id"));

@@ -4,7 +4,8 @@ import knexFactory, { type Knex } from "knex";
 import { migrationSource } from "./migration-source";
 
 /**
- * Pragmas applied to every pooled better-sqlite3 connection.
+ * Pragmas applied to every pooled better-sqlite3 connection (SQLite only; PostgreSQL always enforces
+ * foreign keys, and its MVCC and row locks stand in for WAL and the busy timeout, so pgConfig needs no twin).
  * WAL lets readers work while one writer commits; synchronous=NORMAL is safe with WAL;
  * busy_timeout makes a second writer wait instead of failing at once.
  */

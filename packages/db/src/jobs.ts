@@ -13,7 +13,8 @@ import { listAmendments, type AmendmentRecord } from "./amendments";
 import { InvalidInputError } from "./errors";
 import { leakRateOfJob } from "./jobs/check-draft";
 import { createJob } from "./jobs/write-job";
-import { likePattern, toBoolOrNull, toNumOrNull, type ActorRef, type ScopeFn } from "./types";
+import { orderByNullable, toBoolOrNull, toNumOrNull, type ActorRef, type ScopeFn } from "./types";
+import { countRows, whereContains } from "./paging";
 
 export { createJob } from "./jobs/write-job";
 export { amendJob, voidJob, JOB_FIELD_WORDS } from "./jobs/amend-job";
@@ -161,27 +162,21 @@ export async function listJobs(
     if (query.technicianId) qb.where("jobs.technician_id", query.technicianId);
     if (query.from) qb.where("jobs.performed_on", ">=", query.from);
     if (query.to) qb.where("jobs.performed_on", "<=", query.to);
-    if (query.q && withAppliance) {
-      const pattern = likePattern(query.q);
-      qb.where((w) =>
-        w
-          .whereRaw("lower(appliance.tag) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(appliance.description) like ? escape ?", [pattern, "\\"]),
-      );
-    }
+    if (query.q && withAppliance) whereContains(qb, query.q, ["appliance.tag", "appliance.description"]);
     return qb;
   };
 
   // The count only joins the appliance when the text filter needs it.
   const countBase = db("jobs as jobs");
   if (query.q) countBase.join("appliances as appliance", "appliance.id", "jobs.appliance_id");
-  const countRow = await filtered(countBase, Boolean(query.q)).count({ n: "*" }).first();
-  const total = Number(countRow?.n ?? 0);
+  const total = await countRows(filtered(countBase, Boolean(query.q)));
 
   const dir = query.dir === "asc" ? "asc" : "desc";
   const rowsQuery = filtered(jobsWithJoins(db), true).select(LIST_COLUMNS);
   const column = SORT_COLUMNS[query.sort ?? "performedOn"];
-  if (column) rowsQuery.orderBy(column, dir);
+  // A job's refrigerant may be NULL; it sorts as in SQLite in both dialects.
+  if (column === "jobs.refrigerant") orderByNullable(rowsQuery, column, dir);
+  else if (column) rowsQuery.orderBy(column, dir);
   else rowsQuery.orderByRaw(`(jobs.recovered_g + jobs.charged_g) ${dir}`);
   rowsQuery.orderBy("jobs.id", dir);
   const rows = await rowsQuery.limit(pageSize).offset((page - 1) * pageSize);

@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import type { ApplianceCategory, ApplianceStatus, EquipmentCertificationState } from "@coldtrail/core";
-import { likePattern, toBool, type ScopeFn } from "./types";
+import { toBool, type ScopeFn } from "./types";
+import { whereContains } from "./paging";
 
 function scoped(qb: Knex.QueryBuilder, scope: ScopeFn): void {
   qb.where(function inner(this: Knex.QueryBuilder) {
@@ -35,15 +36,7 @@ export async function listApplianceOptions(
     .whereIn("appliances.status", opts.statuses ?? ["in_service"]);
   scoped(qb, opts.scope);
   if (opts.branchIds) qb.whereIn("appliances.branch_id", opts.branchIds);
-  if (opts.q) {
-    const pattern = likePattern(opts.q);
-    qb.where((w) =>
-      w
-        .whereRaw("lower(appliances.tag) like ? escape ?", [pattern, "\\"])
-        .orWhereRaw("lower(appliances.description) like ? escape ?", [pattern, "\\"])
-        .orWhereRaw("lower(site.name) like ? escape ?", [pattern, "\\"]),
-    );
-  }
+  if (opts.q) whereContains(qb, opts.q, ["appliances.tag", "appliances.description", "site.name"]);
   const rows = await qb
     .orderBy([{ column: "appliances.tag" }, { column: "appliances.id" }])
     .limit(opts.limit)
@@ -96,7 +89,7 @@ export async function listCylinderOptions(
     .where("cylinders.unregistered", false)
     .where("cylinders.purpose", "recovery");
   scoped(qb, opts.scope);
-  if (opts.q) qb.whereRaw("lower(cylinders.serial) like ? escape ?", [likePattern(opts.q), "\\"]);
+  if (opts.q) whereContains(qb, opts.q, ["cylinders.serial"]);
   const rows = await qb
     .orderBy([{ column: "cylinders.serial" }, { column: "cylinders.id" }])
     .limit(opts.limit ?? 200)

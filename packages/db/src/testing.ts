@@ -2,8 +2,8 @@ import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import type { Knex } from "knex";
-import { createDb } from "./connection";
+import knexFactory, { type Knex } from "knex";
+import { createDb, pgConfig } from "./connection";
 import { loadDemoData } from "./demo/load";
 
 export interface TestDb {
@@ -65,4 +65,37 @@ export async function createSeededTestDb(): Promise<TestDb> {
   const file = tempFile("seeded");
   fs.copyFileSync(source, file);
   return handle(file);
+}
+
+/**
+ * A fresh, migrated PostgreSQL database for tests: its own schema (`coldtrail_test_…`) in the
+ * database at `url`, so test files can run side by side; `seeded` also loads the demo data.
+ * `file` holds the schema name; `destroy` drops the schema and closes the pool.
+ */
+export async function createPgTestDb(url: string, opts: { seeded?: boolean } = {}): Promise<TestDb> {
+  const schema = `coldtrail_test_${process.pid}_${randomUUID().replace(/-/g, "").slice(0, 12)}`;
+  const admin = knexFactory({ ...pgConfig(url), pool: { min: 0, max: 1 } });
+  try {
+    await admin.raw("CREATE SCHEMA ??", [schema]);
+  } finally {
+    await admin.destroy();
+  }
+  const db = knexFactory({ ...pgConfig(url), searchPath: [schema], pool: { min: 0, max: 4 } });
+  const destroy = async () => {
+    await db.destroy();
+    const cleanup = knexFactory({ ...pgConfig(url), pool: { min: 0, max: 1 } });
+    try {
+      await cleanup.raw("DROP SCHEMA IF EXISTS ?? CASCADE", [schema]);
+    } finally {
+      await cleanup.destroy();
+    }
+  };
+  try {
+    await db.migrate.latest();
+    if (opts.seeded) await loadDemoData(db);
+  } catch (err) {
+    await destroy();
+    throw err;
+  }
+  return { db, file: schema, destroy };
 }

@@ -2,7 +2,8 @@ import type { Knex } from "knex";
 import { MASS_DISPLAY_UNIT_LABELS, type BranchInput, type BranchListQuery, type BranchUpdate, type MassDisplayUnit } from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
 import { RecordConflictError, RecordNotFoundError } from "../errors";
-import { likePattern, type ActorRef, type ScopeFn } from "../types";
+import { type ActorRef, type ScopeFn } from "../types";
+import { countRows, whereContains } from "../paging";
 
 export interface AdminBranchRow {
   id: number;
@@ -60,19 +61,16 @@ export async function listAdminBranches(db: Knex, opts: { scope: ScopeFn; query:
     qb.where((w) => opts.scope(w));
     if (query.archived === "exclude") qb.whereNull("branches.archived_at");
     if (query.archived === "only") qb.whereNotNull("branches.archived_at");
-    if (query.q) {
-      const p = likePattern(query.q);
-      qb.where((w) => w.whereRaw("lower(branches.name) like ? escape ?", [p, "\\"]).orWhereRaw("lower(branches.code) like ? escape ?", [p, "\\"]));
-    }
+    if (query.q) whereContains(qb, query.q, ["branches.name", "branches.code"]);
     return qb;
   };
-  const countRow = await filtered(db("branches as branches")).count({ n: "*" }).first();
+  const total = await countRows(filtered(db("branches as branches")));
   const rows = await withPeopleCount(db, filtered(db("branches as branches")))
     .orderByRaw("case when branches.archived_at is null then 0 else 1 end")
     .orderBy([{ column: "branches.name" }, { column: "branches.id" }])
     .limit(query.pageSize)
     .offset((query.page - 1) * query.pageSize);
-  return { rows: rows.map(toRow), total: Number(countRow?.n ?? 0), page: query.page, pageSize: query.pageSize };
+  return { rows: rows.map(toRow), total, page: query.page, pageSize: query.pageSize };
 }
 
 /** One branch the scope allows, archived or not; undefined otherwise. */

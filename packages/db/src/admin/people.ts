@@ -13,7 +13,8 @@ import {
 } from "@coldtrail/core";
 import { appendActivity } from "../activity";
 import { ActionForbiddenError, InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
-import { likePattern, toBool, type ActorRef, type ScopeFn } from "../types";
+import { toBool, type ActorRef, type ScopeFn } from "../types";
+import { countRows, whereContains } from "../paging";
 
 /**
  * Who may see a person is decided by the ability on "User" (and on "Certification" for their cards),
@@ -158,8 +159,7 @@ export async function listPeople(db: Knex, opts: { scope: ScopeFn; query: People
   const filtered = (qb: Knex.QueryBuilder) => {
     wherePersonInScope(db, qb, "u.id", opts.scope);
     if (query.q) {
-      const p = likePattern(query.q);
-      qb.where((w) => w.whereRaw("lower(u.name) like ? escape ?", [p, "\\"]).orWhereRaw("lower(u.email) like ? escape ?", [p, "\\"]));
+      whereContains(qb, query.q, ["u.name", "u.email"]);
     }
     if (query.role || query.branchId) {
       qb.whereExists(function hasMembership(this: Knex.QueryBuilder) {
@@ -173,7 +173,7 @@ export async function listPeople(db: Knex, opts: { scope: ScopeFn; query: People
     if (query.status === "invited") qb.where("u.active", true).whereNull("u.password_hash");
     return qb;
   };
-  const countRow = await filtered(db("users as u")).count({ n: "*" }).first();
+  const total = await countRows(filtered(db("users as u")));
   // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await filtered(db("users as u"))
     .select([...PERSON_COLUMNS, db.raw("case when u.password_hash is null then 0 else 1 end as has_password")])
@@ -184,7 +184,7 @@ export async function listPeople(db: Knex, opts: { scope: ScopeFn; query: People
   const m = await membershipsOf(db, rows.map((r) => Number(r.id)));
   return {
     rows: rows.map((r) => toPerson(r, m.get(Number(r.id)))),
-    total: Number(countRow?.n ?? 0),
+    total,
     page: query.page,
     pageSize: query.pageSize,
   };
@@ -444,7 +444,7 @@ export async function listPersonCertifications(db: Knex, opts: { scope: ScopeFn;
     )
     .limit(200);
   const types = rows.length
-    ? await db("certification_types").whereIn("certification_id", rows.map((r) => r.id)).select("certification_id", "type")
+    ? await db("certification_types").whereIn("certification_id", rows.map((r) => r.id)).orderBy(["certification_id", "type"]).select("certification_id", "type") // same order in both dialects
     : [];
   return rows.map((r) => ({
     id: Number(r.id),

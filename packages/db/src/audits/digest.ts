@@ -26,6 +26,8 @@ export async function collectDigests(db: Knex, opts: { organisationId: number; t
     .join("users as u", "u.id", "m.user_id")
     .where({ "m.organisation_id": opts.organisationId, "u.active": true })
     .whereIn("m.role", ["owner", "compliance_officer", "branch_manager"])
+    // Ordered, so the digests come out in the same order on SQLite and PostgreSQL (a join's row order is the planner's).
+    .orderBy(["u.id", "m.id"])
     .select("u.id", "u.name", "u.email", "m.role", "m.branch_id");
   const assignees = new Set(findings.map((f) => toNumOrNull(f.assignee_id)).filter((x): x is number => x !== null));
   const extra = assignees.size

@@ -14,7 +14,8 @@ import {
 } from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
-import { likePattern, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
+import { toNumOrNull, type ActorRef, type ScopeFn } from "../types";
+import { whereContains } from "../paging";
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
@@ -199,15 +200,7 @@ function applyFilters(qb: Knex.QueryBuilder, query: FindingViewQuery, today: str
       this.select(1).from("audit_findings as af").whereRaw("af.finding_id = findings.id").andWhere("af.audit_id", query.auditId as number);
     });
   }
-  if (query.q) {
-    const pattern = likePattern(query.q);
-    qb.where((w) => {
-      w.whereRaw("lower(findings.title) like ? escape ?", [pattern, "\\"])
-        .orWhereRaw("lower(findings.detail) like ? escape ?", [pattern, "\\"])
-        .orWhereRaw("lower(findings.rule_id) like ? escape ?", [pattern, "\\"]);
-      if (withAppliance) w.orWhereRaw("lower(appliance.tag) like ? escape ?", [pattern, "\\"]);
-    });
-  }
+  if (query.q) whereContains(qb, query.q, ["findings.title", "findings.detail", "findings.rule_id", ...(withAppliance ? ["appliance.tag"] : [])]);
 }
 
 /** SQL expression (with bindings) of a grouping key, and its order. */
@@ -714,13 +707,14 @@ async function reviewersOf(trx: Knex.Transaction, f: FindingForWrite): Promise<n
   const officers = await trx("memberships as m")
     .join("users as u", "u.id", "m.user_id")
     .where({ "m.organisation_id": f.organisation_id, "m.role": "compliance_officer", "u.active": true })
-    .distinct("u.id");
+    .distinct("u.id")
+    .orderBy("u.id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
   return officers.map((o) => Number(o.id));
 }
 
 /** The people who proposed fixes on a finding (for reopen notices). */
 async function proposersOf(trx: Knex.Transaction, findingId: number): Promise<number[]> {
-  const rows = await trx("finding_events").where({ finding_id: findingId, action: "fix_proposed" }).whereNotNull("actor_id").distinct("actor_id");
+  const rows = await trx("finding_events").where({ finding_id: findingId, action: "fix_proposed" }).whereNotNull("actor_id").distinct("actor_id").orderBy("actor_id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
   return rows.map((r) => Number(r.actor_id));
 }
 
@@ -892,7 +886,7 @@ export async function waiveFinding(db: Knex, opts: { actor: ActorRef; scope: Sco
       summary: `Waived finding #${f.id} (${f.rule_id}): ${reason}`.slice(0, 500),
     });
     const actor = await trx("users").where({ id: opts.actor.userId }).first("name");
-    const managers = await trx("memberships").where({ organisation_id: f.organisation_id, branch_id: f.branch_id, role: "branch_manager" }).distinct("user_id");
+    const managers = await trx("memberships").where({ organisation_id: f.organisation_id, branch_id: f.branch_id, role: "branch_manager" }).distinct("user_id").orderBy("user_id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
     const people = new Set([...(f.assignee_id ? [f.assignee_id] : []), ...managers.map((m) => Number(m.user_id))]);
     people.delete(opts.actor.userId);
     const notificationIds = await insertFindingNotifications(

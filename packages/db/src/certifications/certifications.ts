@@ -14,8 +14,9 @@ import {
 import { appendActivity, rowId } from "../activity";
 import { listAmendments, voidRecord, type AmendmentRecord } from "../amendments";
 import { ActionForbiddenError, InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
-import { likePattern, type ActorRef, type ScopeFn } from "../types";
+import { orderByNullable, type ActorRef, type ScopeFn } from "../types";
 import { createNotification } from "./notifications";
+import { countRows, whereContains } from "../paging";
 
 /**
  * Technicians' certification cards: upload (state pending), the officer's decision (verified or not
@@ -160,7 +161,8 @@ export async function createCertification(
       .where({ "m.organisation_id": actor.organisationId, "m.role": "compliance_officer" })
       .where("u.active", true)
       .whereNot("u.id", actor.userId)
-      .distinct("u.id");
+      .distinct("u.id")
+      .orderBy("u.id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
     for (const o of officers) {
       await createNotification(trx, {
         organisationId: actor.organisationId,
@@ -261,25 +263,18 @@ export async function listCertifications(
         this.select(db.raw("1")).from("memberships as bm").whereRaw("bm.user_id = cert.user_id").where({ "bm.role": "technician", "bm.branch_id": query.branchId });
       });
     }
-    if (query.q) {
-      const pattern = likePattern(query.q);
-      qb.where((w) =>
-        w
-          .whereRaw("lower(holder.name) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(holder.email) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(cert.certificate_number) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(cert.certifying_organisation) like ? escape ?", [pattern, "\\"]),
-      );
-    }
+    if (query.q) whereContains(qb, query.q, ["holder.name", "holder.email", "cert.certificate_number", "cert.certifying_organisation"]);
     return qb;
   };
 
-  const countRow = await filtered().count({ n: "*" }).first();
-  const total = Number(countRow?.n ?? 0);
+  const total = await countRows(filtered());
   const dir = query.dir === "desc" ? "desc" : "asc";
-  const rows = await filtered()
-    .leftJoin("users as decider", "decider.id", "cert.verified_by")
-    .orderBy(SORT_COLUMNS[query.sort], dir)
+  const sortColumn = SORT_COLUMNS[query.sort];
+  const rowsQuery = filtered().leftJoin("users as decider", "decider.id", "cert.verified_by");
+  // The decision time is NULL until a card is decided; it sorts as in SQLite in both dialects.
+  if (sortColumn === "cert.verified_at") orderByNullable(rowsQuery, sortColumn, dir);
+  else rowsQuery.orderBy(sortColumn, dir);
+  const rows = await rowsQuery
     .orderBy("cert.id", dir)
     .limit(query.pageSize)
     .offset((query.page - 1) * query.pageSize)

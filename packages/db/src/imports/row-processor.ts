@@ -346,7 +346,8 @@ class JobRows implements RowProcessor {
     const rows = await this.q("memberships as m")
       .join("users as u", "u.id", "m.user_id")
       .where({ "m.organisation_id": this.env.organisationId, "m.branch_id": this.env.branch.id, "m.role": "technician" })
-      .distinct("u.id", "u.name", "u.email");
+      .distinct("u.id", "u.name", "u.email")
+      .orderBy("u.id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
     const byEmail = new Map<string, Technician>();
     const byName = new Map<string, Technician[]>();
     for (const r of rows) {

@@ -13,7 +13,7 @@ import { appendActivity } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
 import { moveCylinderContents } from "../records/common";
-import type { ActorRef } from "../types";
+import { storedLike, type ActorRef } from "../types";
 import { jobCylinder, jobEquipment } from "./write-job";
 
 /** Which corrections make sense for which kind of job. */
@@ -145,7 +145,7 @@ export async function amendJob(
     if (c.equipmentId !== undefined) await jobEquipment(trx, actor.organisationId, Number(job.branch_id), c.equipmentId, "changes.equipmentId");
 
     const words = Object.keys(changes)
-      .filter((k) => String(job[k] ?? "") !== String(changes[k] ?? ""))
+      .filter((k) => String(storedLike(job[k], changes[k]) ?? "") !== String(changes[k] ?? ""))
       .map((k) => JOB_FIELD_WORDS[k] ?? k);
     const amendmentId = await amendRecord(trx, {
       table: "jobs",

@@ -72,7 +72,10 @@ export async function moveCylinderContents(
   trx: Knex.Transaction,
   opts: { cylinderId: number; deltaG: number; refrigerant: string; at: string; field: string; describe: (g: number) => string },
 ): Promise<void> {
-  const c = await trx("cylinders").where({ id: opts.cylinderId }).first("id", "serial", "contents_g", "refrigerant");
+  // FOR UPDATE: PostgreSQL runs writers side by side, so two jobs on one cylinder could both read the
+  // old contents and the later write would lose the earlier one; the row lock makes the second wait
+  // and read the first one's result. SQLite serialises writers; knex leaves the clause out there.
+  const c = await trx("cylinders").where({ id: opts.cylinderId }).forUpdate().first("id", "serial", "contents_g", "refrigerant");
   if (!c) throw new RecordNotFoundError("That cylinder does not exist", opts.field);
   const before = Number(c.contents_g);
   const after = before + opts.deltaG;

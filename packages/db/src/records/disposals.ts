@@ -16,8 +16,9 @@ import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from ".
 import { RecordConflictError, RecordNotFoundError } from "../errors";
 import { insertJob } from "../jobs/write-job";
 import { describeMass } from "../mass";
-import { likePattern, toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
+import { orderByNullable, toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
 import { applyVoided, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
+import { countRows, whereContains } from "../paging";
 
 /**
  * Disposal records (82.155(c), appliances of more than 5 and less than 50 lb) and signed statements
@@ -75,18 +76,12 @@ export async function listDisposals(db: Knex, opts: { scope: ScopeFn; query: Dis
     if (query.branchId) qb.where("d.branch_id", query.branchId);
     if (query.from) qb.where(dateColumn, ">=", query.from);
     if (query.to) qb.where(dateColumn, "<=", query.to);
-    if (query.q) {
-      const pattern = likePattern(query.q);
-      qb.where((w) =>
-        w.whereRaw("lower(appliance.tag) like ? escape ?", [pattern, "\\"]).orWhereRaw("lower(appliance.description) like ? escape ?", [pattern, "\\"]),
-      );
-    }
+    if (query.q) whereContains(qb, query.q, ["appliance.tag", "appliance.description"]);
     return qb;
   };
   const joined = () =>
     db(`${table} as d`).join("appliances as appliance", "appliance.id", "d.appliance_id").join("branches as branch", "branch.id", "d.branch_id");
-  const countRow = await filtered(joined()).count({ n: "*" }).first();
-  const total = Number(countRow?.n ?? 0);
+  const total = await countRows(filtered(joined()));
   const page = query.page;
   const pageSize = query.pageSize;
   const dir = query.dir === "asc" ? "asc" : "desc";
@@ -107,7 +102,10 @@ export async function listDisposals(db: Knex, opts: { scope: ScopeFn; query: Dis
       : ["d.recovered_on as date", "d.recovered_by_name as who", "d.recovered_by_address as where_text", "d.document_file_key"]),
   );
   const column = (isRecord ? RECORD_SORT : STATEMENT_SORT)[query.sort] ?? dateColumn;
-  rowsQuery.orderBy(column, dir).orderBy("d.id", dir);
+  // A record's refrigerant and amount may be NULL; they sort as in SQLite in both dialects.
+  if (column === "d.refrigerant" || column === "d.recovered_g") orderByNullable(rowsQuery, column, dir);
+  else rowsQuery.orderBy(column, dir);
+  rowsQuery.orderBy("d.id", dir);
   // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await rowsQuery.limit(pageSize).offset((page - 1) * pageSize);
   return {
@@ -590,8 +588,10 @@ export async function listShopQueue(db: Knex, opts: { scope: ScopeFn; branchId?:
     .where("appliances.status", "retired");
   scoped(q, opts.scope);
   if (opts.branchId) q.where("appliances.branch_id", opts.branchId);
+  q.orderBy("appliances.awaiting_disposal_at_shop", "desc");
+  orderByNullable(q, "appliances.retired_on", "asc"); // a retired unit may lack its date; sorts as in SQLite in both dialects
   const rows = await q
-    .orderBy([{ column: "appliances.awaiting_disposal_at_shop", order: "desc" }, { column: "appliances.retired_on" }, { column: "appliances.tag" }])
+    .orderBy("appliances.tag")
     .limit(opts.limit ?? 100)
     .select(
       "appliances.id",

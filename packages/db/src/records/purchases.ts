@@ -4,8 +4,9 @@ import { appendActivity, rowId } from "../activity";
 import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from "../amendments";
 import { RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
-import { likePattern, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
+import { toNumOrNull, type ActorRef, type ScopeFn } from "../types";
 import { applyVoided, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
+import { countRows, whereContains } from "../paging";
 
 /** Refrigerant bought by a branch; each purchase has one `purchased` movement. List scopes see the table as `p`. */
 
@@ -89,13 +90,10 @@ export async function listPurchases(db: Knex, opts: { scope: ScopeFn; query: Pur
     if (query.refrigerant) qb.where("p.refrigerant", query.refrigerant);
     if (query.from) qb.where("p.purchased_on", ">=", query.from);
     if (query.to) qb.where("p.purchased_on", "<=", query.to);
-    if (query.q) {
-      const pattern = likePattern(query.q);
-      qb.where((w) => w.whereRaw("lower(p.supplier_name) like ? escape ?", [pattern, "\\"]).orWhereRaw("lower(p.invoice_reference) like ? escape ?", [pattern, "\\"]));
-    }
+    if (query.q) whereContains(qb, query.q, ["p.supplier_name", "p.invoice_reference"]);
     return qb;
   };
-  const total = Number((await filtered(db("purchases as p")).count({ n: "*" }).first())?.n ?? 0);
+  const total = await countRows(filtered(db("purchases as p")));
   const dir = query.dir === "asc" ? "asc" : "desc";
   const rows = await filtered(joined(db))
     .select(COLUMNS)

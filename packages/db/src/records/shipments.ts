@@ -4,8 +4,9 @@ import { appendActivity, rowId } from "../activity";
 import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from "../amendments";
 import { RecordConflictError, RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
-import { likePattern, toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
+import { toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
 import { applyVoided, moveCylinderContents, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
+import { countRows, whereContains } from "../paging";
 
 /**
  * Reclaim shipments: recovered refrigerant sent to a reclaimer. Each cylinder ships its recorded
@@ -37,13 +38,10 @@ export async function listShipments(db: Knex, opts: { scope: ScopeFn; query: Shi
     if (query.branchId) qb.where("s.branch_id", query.branchId);
     if (query.from) qb.where("s.shipped_on", ">=", query.from);
     if (query.to) qb.where("s.shipped_on", "<=", query.to);
-    if (query.q) {
-      const p = likePattern(query.q);
-      qb.where((w) => w.whereRaw("lower(s.reclaimer_name) like ? escape ?", [p, "\\"]).orWhereRaw("lower(s.reference) like ? escape ?", [p, "\\"]));
-    }
+    if (query.q) whereContains(qb, query.q, ["s.reclaimer_name", "s.reference"]);
     return qb;
   };
-  const total = Number((await filtered(db("reclaim_shipments as s")).count({ n: "*" }).first())?.n ?? 0);
+  const total = await countRows(filtered(db("reclaim_shipments as s")));
   const dir = query.dir === "asc" ? "asc" : "desc";
   const rowsQuery = filtered(db("reclaim_shipments as s").join("branches as branch", "branch.id", "s.branch_id")).select(
     "s.id",
@@ -63,7 +61,8 @@ export async function listShipments(db: Knex, opts: { scope: ScopeFn; query: Shi
   // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await rowsQuery.limit(query.pageSize).offset((query.page - 1) * query.pageSize);
   const ids = rows.map((r) => Number(r.id));
-  const lines = ids.length ? await db("reclaim_shipment_lines").whereIn("shipment_id", ids).select("shipment_id", "refrigerant", "mass_g", "cylinder_id") : [];
+  // Ordered so each shipment's refrigerants come out in the same order on SQLite and PostgreSQL.
+  const lines = ids.length ? await db("reclaim_shipment_lines").whereIn("shipment_id", ids).orderBy("id").select("shipment_id", "refrigerant", "mass_g", "cylinder_id") : [];
   return {
     total,
     page: query.page,

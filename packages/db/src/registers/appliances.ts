@@ -22,7 +22,7 @@ import {
 import { appendActivity, rowId } from "../activity";
 import { amendRecord } from "../amendments";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
-import { likePattern, toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
+import { toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
 import {
   applyScope,
   changedColumns,
@@ -33,6 +33,7 @@ import {
   type RegisterBranch,
   type RegisterPage,
 } from "./common";
+import { countRows, sortedPage, whereContains } from "../paging";
 
 /** What the rules derive from an appliance's register entry (core classification). */
 export interface ApplianceDerived {
@@ -166,6 +167,8 @@ const SORT_COLUMNS: Record<ApplianceListQuery["sort"], string> = {
   site: "site.name",
   installedOn: "appliances.installed_on",
 };
+/** Sort columns that may hold NULL (ordered as SQLite does in both dialects). */
+const NULLABLE_SORTS = new Set(["appliances.installed_on"]);
 
 /**
  * One page of the appliance register, filtered and sorted on the server. The scope sees the table
@@ -181,28 +184,19 @@ export async function listAppliances(db: Knex, opts: { scope: ScopeFn; query: Ap
     if (query.category) qb.where("appliances.category", query.category);
     if (query.status) qb.where("appliances.status", query.status);
     if (query.refrigerant) qb.where("appliances.refrigerant", query.refrigerant);
-    if (query.q) {
-      const pattern = likePattern(query.q);
-      qb.where((w) =>
-        w
-          .whereRaw("lower(appliances.tag) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(appliances.description) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(site.name) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(coalesce(customer.name, '')) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(coalesce(appliances.serial_number, '')) like ? escape ?", [pattern, "\\"]),
-      );
-    }
+    if (query.q) whereContains(qb, query.q, ["appliances.tag", "appliances.description", "site.name", "coalesce(customer.name, '')", "coalesce(appliances.serial_number, '')"]);
     return qb;
   };
-  const countRow = await filtered(appliancesWithJoins(db)).count({ n: "*" }).first();
-  const total = Number(countRow?.n ?? 0);
+  const total = await countRows(filtered(appliancesWithJoins(db)));
   const dir = query.dir === "desc" ? "desc" : "asc";
-  const rows = await filtered(appliancesWithJoins(db))
-    .select(COLUMNS)
-    .orderBy(SORT_COLUMNS[query.sort ?? "tag"], dir)
-    .orderBy("appliances.id", dir)
-    .limit(pageSize)
-    .offset((page - 1) * pageSize);
+  const rows = await sortedPage(filtered(appliancesWithJoins(db)).select(COLUMNS), {
+    column: SORT_COLUMNS[query.sort ?? "tag"],
+    dir,
+    nullable: NULLABLE_SORTS,
+    id: "appliances.id",
+    page,
+    pageSize,
+  });
   return { rows: rows.map(toRow), total, page, pageSize };
 }
 
@@ -234,15 +228,7 @@ export async function listSiteOptions(db: Knex, opts: { scope: ScopeFn; branchId
     .where("sites.branch_id", opts.branchId)
     .whereNull("sites.archived_at");
   applyScope(qb, opts.scope);
-  if (opts.q) {
-    const pattern = likePattern(opts.q);
-    qb.where((w) =>
-      w
-        .whereRaw("lower(sites.name) like ? escape ?", [pattern, "\\"])
-        .orWhereRaw("lower(coalesce(sites.address, '')) like ? escape ?", [pattern, "\\"])
-        .orWhereRaw("lower(coalesce(customer.name, '')) like ? escape ?", [pattern, "\\"]),
-    );
-  }
+  if (opts.q) whereContains(qb, opts.q, ["sites.name", "coalesce(sites.address, '')", "coalesce(customer.name, '')"]);
   const rows = await qb
     .orderBy([{ column: "sites.name" }, { column: "sites.id" }])
     .limit(opts.limit)
@@ -267,7 +253,7 @@ export interface CustomerOption {
 export async function listCustomerOptions(db: Knex, opts: { scope: ScopeFn; branchId: number; q?: string; limit: number }): Promise<CustomerOption[]> {
   const qb = db("customers as customers").where("customers.branch_id", opts.branchId).whereNull("customers.archived_at");
   applyScope(qb, opts.scope);
-  if (opts.q) qb.whereRaw("lower(customers.name) like ? escape ?", [likePattern(opts.q), "\\"]);
+  if (opts.q) whereContains(qb, opts.q, ["customers.name"]);
   const rows = await qb.orderBy([{ column: "customers.name" }, { column: "customers.id" }]).limit(opts.limit).select("customers.id", "customers.branch_id", "customers.name");
   return rows.map((r) => ({ id: Number(r.id), branchId: Number(r.branch_id), name: r.name }));
 }

@@ -2,7 +2,7 @@ import type { Knex } from "knex";
 import { DEFAULT_SETTINGS, addDays, addYears, resolveSettings, toLocalDate, type AuditSettings, type MassDisplayUnit } from "@coldtrail/core";
 import { appendActivity } from "../activity";
 import { RecordConflictError, RecordNotFoundError } from "../errors";
-import type { ScopeFn } from "../types";
+import { storedLike, type ScopeFn } from "../types";
 
 /** One page of a register list. */
 export interface RegisterPage<T> {
@@ -102,7 +102,7 @@ export function changedColumns(row: Record<string, unknown>, next: Record<string
   const nxt: Record<string, unknown> = {};
   for (const [column, value] of Object.entries(next)) {
     if (!sameValue(row[column], value)) {
-      prev[column] = row[column] ?? null;
+      prev[column] = storedLike(row[column], value) ?? null; // a boolean is kept as a boolean in both dialects
       nxt[column] = value ?? null;
     }
   }

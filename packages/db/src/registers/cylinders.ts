@@ -24,7 +24,7 @@ import {
 import { appendActivity, rowId } from "../activity";
 import { amendRecord, voidRecord } from "../amendments";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
-import { likePattern, toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
+import { toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
 import {
   DUE_SOON_DAYS,
   applyScope,
@@ -40,6 +40,7 @@ import {
   type DueState,
   type RegisterPage,
 } from "./common";
+import { countRows, sortedPage, whereContains } from "../paging";
 
 export interface CylinderFill {
   /** Maximum net contents for the refrigerant (AHRI Guideline K: 80 % of WC × SG), grams. */
@@ -236,6 +237,8 @@ const SORT_COLUMNS: Record<CylinderListQuery["sort"], string> = {
   lastRequalifiedOn: "cylinders.last_requalified_on",
   status: "cylinders.status",
 };
+/** Sort columns that may hold NULL (ordered as SQLite does in both dialects). */
+const NULLABLE_SORTS = new Set(["cylinders.refrigerant", "cylinders.last_requalified_on"]);
 
 /**
  * One page of the cylinder register with each cylinder's fill and requalification computed by the
@@ -261,14 +264,7 @@ export async function listCylinders(
     if (query.branchId) qb.where("cylinders.branch_id", query.branchId);
     if (query.status) qb.where("cylinders.status", query.status);
     if (query.refrigerant) qb.where("cylinders.refrigerant", query.refrigerant);
-    if (query.q) {
-      const pattern = likePattern(query.q);
-      qb.where((w) =>
-        w
-          .whereRaw("lower(cylinders.serial) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(coalesce(cylinders.specification, '')) like ? escape ?", [pattern, "\\"]),
-      );
-    }
+    if (query.q) whereContains(qb, query.q, ["cylinders.serial", "coalesce(cylinders.specification, '')"]);
     if (query.requalification === "unknown") qb.whereNull("cylinders.last_requalified_on");
     else if (query.requalification) {
       const filter = query.requalification;
@@ -290,16 +286,17 @@ export async function listCylinders(
     return qb;
   };
 
-  const countRow = await filtered(db("cylinders as cylinders")).count({ n: "*" }).first();
-  const total = Number(countRow?.n ?? 0);
+  const total = await countRows(filtered(db("cylinders as cylinders")));
   const dir = query.dir === "desc" ? "desc" : "asc";
   // eslint-disable-next-line @typescript-eslint/no-explicit-any
-  const rows: any[] = await filtered(withJoins(db))
-    .select(columns(db))
-    .orderBy(SORT_COLUMNS[query.sort ?? "serial"], dir)
-    .orderBy("cylinders.id", dir)
-    .limit(pageSize)
-    .offset((page - 1) * pageSize);
+  const rows: any[] = await sortedPage(filtered(withJoins(db)).select(columns(db)), {
+    column: SORT_COLUMNS[query.sort ?? "serial"],
+    dir,
+    nullable: NULLABLE_SORTS,
+    id: "cylinders.id",
+    page,
+    pageSize,
+  });
   const latest = await latestOf(db, rows);
   return {
     rows: rows.map((r) => {

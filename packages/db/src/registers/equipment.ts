@@ -13,8 +13,9 @@ import {
 import { appendActivity, rowId } from "../activity";
 import { amendRecord } from "../amendments";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
-import { likePattern, toBool, type ActorRef, type ScopeFn } from "../types";
+import { toBool, type ActorRef, type ScopeFn } from "../types";
 import { applyScope, changedColumns, describeColumns, isUniqueViolation, loadWritableBranch, updateWithActivity, type RegisterPage } from "./common";
+import { countRows, sortedPage, whereContains } from "../paging";
 
 export interface EquipmentRow {
   id: number;
@@ -90,6 +91,8 @@ const SORT_COLUMNS: Record<EquipmentListQuery["sort"], string> = {
   certificationState: "recovery_equipment.certification_state",
   status: "recovery_equipment.status",
 };
+/** Sort columns that may hold NULL (ordered as SQLite does in both dialects). */
+const NULLABLE_SORTS = new Set(["recovery_equipment.make_model", "recovery_equipment.manufactured_on"]);
 
 /** One page of the recovery-equipment register. The scope sees the table as `recovery_equipment`. */
 export async function listEquipment(db: Knex, opts: { scope: ScopeFn; query: EquipmentListQuery }): Promise<RegisterPage<EquipmentRow>> {
@@ -101,25 +104,19 @@ export async function listEquipment(db: Knex, opts: { scope: ScopeFn; query: Equ
     if (query.branchId) qb.where("recovery_equipment.branch_id", query.branchId);
     if (query.certificationState) qb.where("recovery_equipment.certification_state", query.certificationState);
     if (query.status) qb.where("recovery_equipment.status", query.status);
-    if (query.q) {
-      const pattern = likePattern(query.q);
-      qb.where((w) =>
-        w
-          .whereRaw("lower(recovery_equipment.serial) like ? escape ?", [pattern, "\\"])
-          .orWhereRaw("lower(coalesce(recovery_equipment.make_model, '')) like ? escape ?", [pattern, "\\"]),
-      );
-    }
+    if (query.q) whereContains(qb, query.q, ["recovery_equipment.serial", "coalesce(recovery_equipment.make_model, '')"]);
     return qb;
   };
-  const countRow = await filtered(db("recovery_equipment as recovery_equipment")).count({ n: "*" }).first();
-  const total = Number(countRow?.n ?? 0);
+  const total = await countRows(filtered(db("recovery_equipment as recovery_equipment")));
   const dir = query.dir === "desc" ? "desc" : "asc";
-  const rows = await filtered(withJoins(db))
-    .select(COLUMNS)
-    .orderBy(SORT_COLUMNS[query.sort ?? "serial"], dir)
-    .orderBy("recovery_equipment.id", dir)
-    .limit(pageSize)
-    .offset((page - 1) * pageSize);
+  const rows = await sortedPage(filtered(withJoins(db)).select(COLUMNS), {
+    column: SORT_COLUMNS[query.sort ?? "serial"],
+    dir,
+    nullable: NULLABLE_SORTS,
+    id: "recovery_equipment.id",
+    page,
+    pageSize,
+  });
   return { rows: rows.map(toRow), total, page, pageSize };
 }
 

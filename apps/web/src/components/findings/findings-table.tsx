@@ -2,19 +2,9 @@
 
 import Link from "next/link";
 import { usePathname, useRouter } from "next/navigation";
-import { useEffect, useMemo, useState } from "react";
+import { useEffect, useId, useMemo, useState } from "react";
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import {
-  createColumnHelper,
-  rowPaginationFeature,
-  rowSelectionFeature,
-  rowSortingFeature,
-  tableFeatures,
-  useTable,
-  type PaginationState,
-  type RowSelectionState,
-  type SortingState,
-} from "@tanstack/react-table";
+import { createColumnHelper, rowSelectionFeature, tableFeatures, useTable, type PaginationState, type RowSelectionState, type SortingState } from "@tanstack/react-table";
 import {
   DUE_BUCKETS,
   FINDING_GROUP_FIELDS,
@@ -29,11 +19,12 @@ import {
   type FindingViewQuery,
 } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import type { BranchOption } from "@/lib/client/types";
+import { useBranchOptions } from "@/lib/client/use-branch-options";
+import { FilterBar, FilterField, TableView, serverTableFeatures } from "@/components/data-table";
 import { DueText, SeverityBadge, StateBadge } from "./finding-badges";
 import type { Assignee, FindingListRow, FindingPage, SavedView } from "./types";
 
-const features = tableFeatures({ rowSortingFeature, rowPaginationFeature, rowSelectionFeature });
+const features = tableFeatures({ ...serverTableFeatures, rowSelectionFeature });
 const helper = createColumnHelper<typeof features, FindingListRow>();
 const emptyRows: FindingListRow[] = [];
 
@@ -105,6 +96,7 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
   const [assignTo, setAssignTo] = useState("");
   const [notice, setNotice] = useState<{ ok: boolean; text: string } | null>(null);
   const [viewName, setViewName] = useState("");
+  const statusId = `${useId()}-status`;
 
   const sorting: SortingState = [{ id: view.sort, desc: view.dir === "desc" }];
   const params = useMemo(() => {
@@ -125,7 +117,7 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
     queryFn: () => fetchJson<FindingPage>(`/api/findings?${params}`),
     placeholderData: keepPreviousData,
   });
-  const branches = useQuery({ queryKey: ["branches"], queryFn: () => fetchJson<{ rows: BranchOption[] }>("/api/lookup/branches"), enabled: !compact });
+  const branches = useBranchOptions(!compact);
   const assignees = useQuery({ queryKey: ["assignees"], queryFn: () => fetchJson<{ rows: Assignee[] }>("/api/findings/assignees"), enabled: canAssign });
   const views = useQuery({ queryKey: ["saved-views"], queryFn: () => fetchJson<{ rows: SavedView[] }>("/api/saved-views"), enabled: !compact });
 
@@ -250,25 +242,20 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
   };
 
   const total = findings.data?.total ?? 0;
-  const firstRow = total === 0 ? 0 : pagination.pageIndex * pagination.pageSize + 1;
-  const lastRow = Math.min(total, (pagination.pageIndex + 1) * pagination.pageSize);
   const groups = new Map((findings.data?.groups ?? []).map((g) => [g.key, g]));
   const groupBy = (findings.data?.groupBy ?? null) as FindingGroupField | null;
   const selectClass = "mt-1 w-full rounded-md border border-ink-300 bg-white px-2 py-1.5 text-sm";
   const visibleColumns = table.getAllLeafColumns().length;
-  const rows = table.getRowModel().rows;
 
   return (
     <div className="space-y-3">
       {!compact && (
-        <form className="grid gap-3 rounded-lg border border-ink-200 bg-white p-3 sm:grid-cols-3 lg:grid-cols-6" role="search" aria-label="Filter findings" onSubmit={(e) => e.preventDefault()}>
-          <label className="text-sm sm:col-span-2">
-            <span className="block font-medium text-ink-700">Search</span>
+        <FilterBar label="Filter findings" className="sm:grid-cols-3 lg:grid-cols-6">
+          <FilterField label="Search" className="sm:col-span-2">
             <input type="search" value={view.q ?? ""} onChange={(e) => set("q", e.target.value)} placeholder="Words, rule id or appliance tag" className={selectClass} />
-          </label>
+          </FilterField>
           {!fixed.branchId && (branches.data?.rows.length ?? 0) > 1 && (
-            <label className="text-sm">
-              <span className="block font-medium text-ink-700">Branch</span>
+            <FilterField label="Branch">
               <select value={view.branchId ?? ""} onChange={(e) => set("branchId", e.target.value ? Number(e.target.value) : "")} className={selectClass}>
                 <option value="">All branches</option>
                 {branches.data!.rows.map((b) => (
@@ -277,10 +264,9 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                   </option>
                 ))}
               </select>
-            </label>
+            </FilterField>
           )}
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Rule</span>
+          <FilterField label="Rule">
             <select value={view.ruleId ?? ""} onChange={(e) => set("ruleId", e.target.value)} className={selectClass}>
               <option value="">All rules</option>
               {RULES.map((r) => (
@@ -289,9 +275,8 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                 </option>
               ))}
             </select>
-          </label>
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Severity</span>
+          </FilterField>
+          <FilterField label="Severity">
             <select value={view.severity ?? ""} onChange={(e) => set("severity", e.target.value as ViewState["severity"])} className={selectClass}>
               <option value="">Every severity</option>
               {SEVERITIES.map((s) => (
@@ -300,9 +285,8 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                 </option>
               ))}
             </select>
-          </label>
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Status</span>
+          </FilterField>
+          <FilterField label="Status">
             <select value={view.state ?? "active"} onChange={(e) => set("state", e.target.value as ViewState["state"])} className={selectClass}>
               <option value="active">To act on</option>
               <option value="all">Every status</option>
@@ -312,9 +296,8 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                 </option>
               ))}
             </select>
-          </label>
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Assignee</span>
+          </FilterField>
+          <FilterField label="Assignee">
             <select value={view.assignee === undefined ? "" : String(view.assignee)} onChange={(e) => set("assignee", e.target.value === "" ? "" : e.target.value === "none" ? "none" : Number(e.target.value))} className={selectClass}>
               <option value="">Anyone</option>
               <option value="none">Not assigned</option>
@@ -324,9 +307,8 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                 </option>
               ))}
             </select>
-          </label>
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Due</span>
+          </FilterField>
+          <FilterField label="Due">
             <select value={view.due ?? ""} onChange={(e) => set("due", e.target.value as ViewState["due"])} className={selectClass}>
               <option value="">Any due date</option>
               {DUE_BUCKETS.map((d) => (
@@ -335,9 +317,8 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                 </option>
               ))}
             </select>
-          </label>
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Group by</span>
+          </FilterField>
+          <FilterField label="Group by">
             <select value={view.groupBy ?? ""} onChange={(e) => set("groupBy", e.target.value as FindingGroupField)} className={selectClass}>
               <option value="">No grouping</option>
               {FINDING_GROUP_FIELDS.map((g) => (
@@ -346,9 +327,8 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                 </option>
               ))}
             </select>
-          </label>
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Sort by</span>
+          </FilterField>
+          <FilterField label="Sort by">
             <select value={`${view.sort}:${view.dir}`} onChange={(e) => {
               const [sort, dir] = e.target.value.split(":") as [FindingSortField, "asc" | "desc"];
               setView((v) => ({ ...v, sort, dir }));
@@ -362,7 +342,7 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                 </option>,
               ])}
             </select>
-          </label>
+          </FilterField>
           <div className="flex items-end gap-2 text-sm sm:col-span-3 lg:col-span-3">
             <label className="flex-1">
               <span className="block font-medium text-ink-700">Saved views</span>
@@ -408,7 +388,7 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
               ))}
             </ul>
           )}
-        </form>
+        </FilterBar>
       )}
 
       {notice && (
@@ -449,106 +429,37 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
         </div>
       )}
 
-      {findings.isError && (
-        <p role="alert" className="rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sm text-sev-critical">
-          ⚠ Findings could not be loaded: {(findings.error as Error).message}
-        </p>
-      )}
-
-      <div className="overflow-x-auto rounded-lg border border-ink-200 bg-white">
-        <table className="min-w-full text-sm" aria-busy={findings.isFetching} aria-describedby="findings-table-status">
-          <thead className="bg-ink-100 text-left text-xs uppercase tracking-wide text-ink-600">
-            {table.getHeaderGroups().map((group) => (
-              <tr key={group.id}>
-                {group.headers.map((header) => {
-                  const sorted = header.column.getIsSorted();
-                  const sortable = (FINDING_SORT_FIELDS as readonly string[]).includes(header.column.id);
-                  return (
-                    <th key={header.id} scope="col" className="px-3 py-2 font-semibold" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : sortable ? "none" : undefined}>
-                      {sortable ? (
-                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink-950">
-                          <table.FlexRender header={header} />
-                          <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
-                        </button>
-                      ) : (
-                        <table.FlexRender header={header} />
-                      )}
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody className="divide-y divide-ink-100">
-            {rows.map((row, i) => {
-              const key = groupBy ? groupKeyOf(row.original, groupBy, today) : null;
-              const prev = groupBy && i > 0 ? groupKeyOf(rows[i - 1]!.original, groupBy, today) : null;
-              const group = key !== null ? groups.get(key) : undefined;
-              return (
-                <FragmentRow key={row.id}>
-                  {groupBy && (i === 0 || key !== prev) && (
-                    <tr className="bg-ink-50" data-testid="finding-group">
-                      <th colSpan={visibleColumns} scope="colgroup" className="px-3 py-1.5 text-left text-sm font-semibold text-ink-900">
-                        {GROUP_WORDS[groupBy]}: {group?.label ?? (key || "—")}
-                        <span className="ml-2 font-normal text-ink-600">
-                          {group?.count ?? "?"} finding{group?.count === 1 ? "" : "s"}
-                        </span>
-                      </th>
-                    </tr>
-                  )}
-                  <tr className="hover:bg-fjord-50" data-testid="finding-row" data-finding-id={row.original.id} data-rule={row.original.ruleId}>
-                    {row.getAllCells().map((cell) => (
-                      <td key={cell.id} className="px-3 py-2 align-top">
-                        <table.FlexRender cell={cell} />
-                      </td>
-                    ))}
-                  </tr>
-                </FragmentRow>
-              );
-            })}
-            {!findings.isLoading && total === 0 && (
-              <tr>
-                <td colSpan={visibleColumns} className="px-3 py-8 text-center text-ink-600">
-                  No findings match these filters.
-                </td>
-              </tr>
-            )}
-          </tbody>
-        </table>
-      </div>
-
-      <div className="flex flex-wrap items-center justify-between gap-3 text-sm">
-        <p id="findings-table-status" aria-live="polite" className="tabular text-ink-600">
-          {findings.isLoading ? "Loading findings…" : `Showing ${firstRow}–${lastRow} of ${total.toLocaleString("en-US")} findings`}
-        </p>
-        <div className="flex items-center gap-2">
-          {!compact && (
-            <label className="flex items-center gap-2">
-              <span className="text-ink-700">Rows per page</span>
-              <select value={pagination.pageSize} onChange={(e) => setPagination({ pageIndex: 0, pageSize: Number(e.target.value) })} className="rounded-md border border-ink-300 bg-white px-2 py-1">
-                {[10, 25, 50, 100, 200].map((n) => (
-                  <option key={n} value={n}>
-                    {n}
-                  </option>
-                ))}
-              </select>
-            </label>
-          )}
-          <button type="button" onClick={() => table.previousPage()} disabled={!table.getCanPreviousPage()} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
-            Previous
-          </button>
-          <span className="tabular text-ink-700">
-            Page {pagination.pageIndex + 1} of {Math.max(1, table.getPageCount())}
-          </span>
-          <button type="button" onClick={() => table.nextPage()} disabled={!table.getCanNextPage()} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
-            Next
-          </button>
-        </div>
-      </div>
+      <TableView
+        table={table}
+        query={findings}
+        total={total}
+        pageIndex={pagination.pageIndex}
+        pageSize={pagination.pageSize}
+        statusId={statusId}
+        noun="findings"
+        emptyText="No findings match these filters."
+        errorText="Findings could not be loaded"
+        rowTestId="finding-row"
+        rowAttributes={(row) => ({ "data-finding-id": row.id, "data-rule": row.ruleId })}
+        renderBeforeRow={(row, i, rows) => {
+          if (!groupBy) return null;
+          const key = groupKeyOf(row.original, groupBy, today);
+          if (i > 0 && key === groupKeyOf(rows[i - 1]!.original, groupBy, today)) return null;
+          const group = groups.get(key);
+          return (
+            <tr className="bg-ink-50" data-testid="finding-group">
+              <th colSpan={visibleColumns} scope="colgroup" className="px-3 py-1.5 text-left text-sm font-semibold text-ink-900">
+                {GROUP_WORDS[groupBy]}: {group?.label ?? (key || "—")}
+                <span className="ml-2 font-normal text-ink-600">
+                  {group?.count ?? "?"} finding{group?.count === 1 ? "" : "s"}
+                </span>
+              </th>
+            </tr>
+          );
+        }}
+        pager={compact ? "pages" : "full"}
+        pageSizes={[10, 25, 50, 100, 200]}
+      />
     </div>
   );
-}
-
-function FragmentRow({ children }: { children: React.ReactNode }) {
-  return <>{children}</>;
 }

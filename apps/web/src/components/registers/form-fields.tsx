@@ -1,73 +1,61 @@
 "use client";
 
-import type { ReactNode } from "react";
+import type { UseFormRegisterReturn } from "react-hook-form";
+import {
+  AmountField as SharedAmountField,
+  SelectField as SharedSelectField,
+  TextField as SharedTextField,
+  type AmountInputProps,
+  type FieldProps,
+  type SelectFieldProps,
+  type TextFieldProps,
+} from "@/components/form";
+
+export { Field, FieldError, FormAlert, describedBy, fieldAria } from "@/components/form";
 
 export const inputClass =
   "mt-1 block w-full rounded-lg border border-ink-300 bg-white px-3 py-2.5 text-base text-ink-950 shadow-sm aria-[invalid=true]:border-2 aria-[invalid=true]:border-sev-critical";
 export const selectClass = "mt-1 block w-full rounded-lg border border-ink-300 bg-white px-3 py-2.5 text-base text-ink-950";
+/** The unit beside an amount (`AmountInput`). */
+export const unitSelectClass = "w-24 rounded-lg border border-ink-300 bg-white px-2 text-base";
 export const labelClass = "block text-sm font-semibold text-ink-900";
 export const buttonPrimary =
   "inline-flex min-h-11 items-center justify-center rounded-lg bg-fjord-600 px-4 py-2.5 font-semibold text-white hover:bg-fjord-700 disabled:opacity-60";
 export const buttonSecondary =
   "inline-flex min-h-11 items-center justify-center rounded-lg border border-ink-300 bg-white px-4 py-2.5 font-medium text-ink-800 hover:border-fjord-600";
 
-export function FieldError({ id, message }: { id: string; message?: string }) {
-  if (!message) return null;
-  return (
-    <p id={id} className="mt-1 flex items-start gap-1.5 text-sm font-medium text-sev-critical">
-      <span aria-hidden="true">⚠</span>
-      <span>{message}</span>
-    </p>
-  );
+/** A labelled input or textarea of the register forms, with its hint and error. */
+export function TextField(props: Omit<TextFieldProps, "inputClassName"> & { inputClassName?: string }) {
+  return <SharedTextField inputClassName={inputClass} {...props} />;
 }
 
-/** A labelled field with its hint and error, wired for screen readers (`describedBy` on the input). */
-export function Field({
-  id,
-  label,
-  hint,
-  error,
-  optional,
-  children,
-  className,
-}: {
-  id: string;
-  label: ReactNode;
-  hint?: ReactNode;
-  error?: string;
-  optional?: boolean;
-  children: ReactNode;
-  className?: string;
-}) {
+/** A labelled amount and unit of the register forms (a mass unless `options` says otherwise). */
+export function AmountField(props: Omit<FieldProps, "children"> & Omit<AmountInputProps, "id" | "hint" | "error" | "inputClassName" | "unitClassName"> & { inputClassName?: string; unitClassName?: string }) {
+  return <SharedAmountField inputClassName={inputClass} unitClassName={unitSelectClass} {...props} />;
+}
+
+/** Save and Cancel kept in view at the bottom of a long register form. */
+export function StickyFormActions({ pending, label, onCancel }: { pending: boolean; label: string; onCancel: () => void }) {
   return (
-    <div className={className}>
-      <label htmlFor={id} className={labelClass}>
-        {label}
-        {optional && <span className="font-normal text-ink-600"> (optional)</span>}
-      </label>
-      {children}
-      {hint && (
-        <p id={`${id}-hint`} className="mt-1 text-sm text-ink-600">
-          {hint}
-        </p>
-      )}
-      <FieldError id={`${id}-error`} message={error} />
+    <div className="sticky bottom-0 -mx-4 flex gap-2 border-t border-ink-200 bg-white/95 px-4 py-3 backdrop-blur">
+      <button type="submit" disabled={pending} className={`${buttonPrimary} flex-1`}>
+        {pending ? "Saving…" : label}
+      </button>
+      <button type="button" onClick={onCancel} className={buttonSecondary}>
+        Cancel
+      </button>
     </div>
   );
 }
 
-/** `aria-describedby` for an input rendered inside `Field`. */
-export function describedBy(id: string, opts: { hint?: boolean; error?: string }): string | undefined {
-  const ids = [opts.hint ? `${id}-hint` : null, opts.error ? `${id}-error` : null].filter(Boolean);
-  return ids.length ? ids.join(" ") : undefined;
+/** A labelled select of the register forms, with its hint and error. */
+export function SelectField(props: Omit<SelectFieldProps, "selectClassName"> & { selectClassName?: string }) {
+  return <SharedSelectField selectClassName={selectClass} {...props} />;
 }
 
-export function FormAlert({ message }: { message: string | null }) {
-  if (!message) return null;
-  return (
-    <p role="alert" className="rounded-lg border border-sev-critical/50 bg-red-50 px-4 py-3 font-medium text-sev-critical">
-      <span aria-hidden="true">⚠ </span>
-      {message}
-    </p>
-  );
+/** The branch a new record belongs to: a choice when the person may write in several, otherwise fixed. */
+export function BranchField({ id, branches, registration, error }: { id: string; branches: readonly { id: number; name: string }[]; registration: UseFormRegisterReturn; error?: string }) {
+  if (branches.length === 1) return <input type="hidden" {...registration} />;
+  if (branches.length === 0) return null;
+  return <SelectField id={id} label="Branch" error={error} registration={registration} options={branches.map((b) => ({ value: b.id, label: b.name }))} />;
 }

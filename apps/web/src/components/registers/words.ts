@@ -8,10 +8,7 @@ export const PRESSURE_CLASS_WORDS: Record<PressureClass, string> = {
   very_high: "Very high pressure",
 };
 
-/** Today's calendar date in an IANA time zone (the branch's), for default dates in forms. */
-export function todayIn(timeZone: string): string {
-  return new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).format(new Date());
-}
+export { todayIn } from "@/lib/client/form-values";
 
 /** Which column of 40 CFR 82.156 Table 1 a recovery unit's manufacture date puts it in. */
 export const ERA_WORDS = {

@@ -3,7 +3,7 @@
 import { useId, useMemo, useState } from "react";
 import { useRouter } from "next/navigation";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { useForm, type FieldPath, type Resolver } from "react-hook-form";
+import { useForm, type Resolver } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import {
@@ -11,8 +11,6 @@ import {
   APPLIANCE_CATEGORY_LABELS,
   CERTIFICATION_TYPE_LABELS,
   FULL_CHARGE_METHODS,
-  MASS_INPUT_UNITS,
-  REFRIGERANTS,
   REGISTER_LABELS,
   applianceInput,
   applianceUpdateInput,
@@ -22,14 +20,17 @@ import {
   leakRepairRegime,
   normaliseDesignation,
   requiredCertificationTypes,
-  roundTo,
   toGrams,
   type MassDisplayUnit,
   type MassInputUnit,
 } from "@coldtrail/core";
 import type { ApplianceRow, CustomerOption, SiteOption } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { Field, FieldError, FormAlert, buttonPrimary, buttonSecondary, describedBy, inputClass, labelClass, selectClass } from "@/components/registers/form-fields";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { optionsOf } from "@/lib/client/options";
+import { editAmount } from "@/lib/client/form-values";
+import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
+import { RadioCards, RefrigerantList } from "@/components/form";
+import { AmountField, Field, FieldError, FormAlert, TextField, buttonSecondary, describedBy, fieldAria, inputClass, labelClass, selectClass, StickyFormActions, SelectField } from "@/components/registers/form-fields";
 import { PRESSURE_CLASS_WORDS, todayIn } from "@/components/registers/words";
 
 export interface WritableBranch {
@@ -41,11 +42,6 @@ export interface WritableBranch {
 
 type FormIn = z.input<typeof applianceInput> & { reason?: string };
 type FormOut = z.output<typeof applianceInput> & { reason?: string };
-
-/** A stored mass shown in the branch's unit for editing (rounded for reading; untouched values are sent back in grams). */
-function editAmount(grams: number, massUnit: MassDisplayUnit): { amount: string; unit: MassInputUnit } {
-  return massUnit === "kg" ? { amount: String(roundTo(grams / 1000, 3)), unit: "kg" } : { amount: String(roundTo(grams / 453.59237, 2)), unit: "lb" };
-}
 
 /** What the rules core derives from what is typed so far: shown before saving. */
 function DerivedPreview({ refrigerant, amount, unit, factorySealed, category, today }: { refrigerant: string; amount: unknown; unit: MassInputUnit; factorySealed: boolean; category: string; today: string }) {
@@ -205,22 +201,11 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
       router.push(`/appliances/${id}?saved=${editing ? "updated" : "created"}`);
     },
     onError: (e) => {
-      if (e instanceof ApiError) {
-        for (const [field, messages] of Object.entries(e.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
-        setFormError(e.message);
-      } else {
-        setFormError("The appliance could not be sent. Check your connection; nothing was saved.");
-      }
+      setFormError(saveErrorMessage(e, setError, "The appliance could not be sent. Check your connection; nothing was saved."));
     },
   });
 
-  const onSubmit = handleSubmit(
-    (values) => {
-      setFormError(null);
-      save.mutate(values);
-    },
-    () => setFormError("Some fields need attention before the appliance can be saved."),
-  );
+  const onSubmit = submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the appliance can be saved." });
 
   const f = (name: string) => `${uid}-${name}`;
   const today = todayIn(branch?.timeZone ?? "UTC");
@@ -249,8 +234,7 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
                 },
               })}
               className={selectClass}
-              aria-invalid={err("branchId") ? true : undefined}
-              aria-describedby={describedBy(f("branchId"), { error: err("branchId") })}
+              {...fieldAria(f("branchId"), { error: err("branchId") })}
             >
               {props.branches.map((b) => (
                 <option key={b.id} value={b.id}>
@@ -264,17 +248,17 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
 
       <fieldset className="space-y-3 rounded-lg border border-ink-200 bg-white p-4">
         <legend className="px-1 text-base font-semibold text-ink-950">Where it is</legend>
-        <div className="flex flex-wrap gap-2" role="radiogroup" aria-label="Site">
-          {[
-            { v: "existing", label: "A site already on file" },
-            { v: "new", label: "A new site" },
-          ].map((o) => (
-            <label key={o.v} className="flex min-h-11 flex-1 cursor-pointer items-center gap-2 rounded-lg border border-ink-200 px-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600 has-[:checked]:bg-fjord-50">
-              <input type="radio" value={o.v} {...register("siteChoice")} className="size-5 accent-fjord-600" />
-              {o.label}
-            </label>
-          ))}
-        </div>
+        <RadioCards
+          size="medium"
+          className="flex flex-wrap gap-2"
+          cardClassName="flex-1"
+          groupProps={{ role: "radiogroup", "aria-label": "Site" }}
+          registration={register("siteChoice")}
+          options={[
+            { value: "existing", label: "A site already on file" },
+            { value: "new", label: "A new site" },
+          ]}
+        />
 
         {siteChoice === "existing" && (
           <div>
@@ -307,8 +291,7 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
                   onChange={(e) => setSiteSearch(e.target.value)}
                   placeholder="Site, address or customer"
                   className={inputClass}
-                  aria-invalid={err("siteId") ? true : undefined}
-                  aria-describedby={describedBy(f("siteId"), { error: err("siteId") })}
+                  {...fieldAria(f("siteId"), { error: err("siteId") })}
                 />
                 <FieldError id={`${f("siteId")}-error`} message={err("siteId")} />
                 <ul className="space-y-1.5" aria-label="Matching sites">
@@ -337,43 +320,33 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
 
         {siteChoice === "new" && (
           <div className="space-y-3">
-            <Field id={f("newSiteName")} label="Site name" error={err("newSiteName")}>
-              <input id={f("newSiteName")} {...register("newSiteName")} className={inputClass} aria-invalid={err("newSiteName") ? true : undefined} aria-describedby={describedBy(f("newSiteName"), { error: err("newSiteName") })} />
-            </Field>
-            <Field id={f("newSiteAddress")} label="Address" optional error={err("newSiteAddress")}>
-              <input id={f("newSiteAddress")} {...register("newSiteAddress")} autoComplete="street-address" className={inputClass} />
-            </Field>
+            <TextField id={f("newSiteName")} label="Site name" error={err("newSiteName")} registration={register("newSiteName")} />
+            <TextField id={f("newSiteAddress")} label="Address" optional error={err("newSiteAddress")} registration={register("newSiteAddress")} autoComplete="street-address" />
             <fieldset>
               <legend className={labelClass}>Customer</legend>
-              <div className="mt-1 flex flex-wrap gap-2">
-                {[
-                  { v: "none", label: "Our own shop" },
-                  { v: "existing", label: "A customer on file" },
-                  { v: "new", label: "A new customer" },
-                ].map((o) => (
-                  <label key={o.v} className="flex min-h-11 cursor-pointer items-center gap-2 rounded-lg border border-ink-200 px-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600 has-[:checked]:bg-fjord-50">
-                    <input type="radio" value={o.v} {...register("customerChoice")} className="size-5 accent-fjord-600" />
-                    {o.label}
-                  </label>
-                ))}
-              </div>
+              <RadioCards
+                size="medium"
+                className="mt-1 flex flex-wrap gap-2"
+                registration={register("customerChoice")}
+                options={[
+                  { value: "none", label: "Our own shop" },
+                  { value: "existing", label: "A customer on file" },
+                  { value: "new", label: "A new customer" },
+                ]}
+              />
             </fieldset>
             {customerChoice === "existing" && (
-              <Field id={f("customerId")} label="Which customer" error={err("customerId")}>
-                <select id={f("customerId")} {...register("customerId")} className={selectClass} aria-invalid={err("customerId") ? true : undefined} aria-describedby={describedBy(f("customerId"), { error: err("customerId") })}>
-                  <option value="">Choose…</option>
-                  {customers.data?.rows.map((c) => (
-                    <option key={c.id} value={c.id}>
-                      {c.name}
-                    </option>
-                  ))}
-                </select>
-              </Field>
+              <SelectField
+                id={f("customerId")}
+                label="Which customer"
+                error={err("customerId")}
+                registration={register("customerId")}
+                placeholder="Choose…"
+                options={(customers.data?.rows ?? []).map((c) => ({ value: c.id, label: c.name }))}
+              />
             )}
             {customerChoice === "new" && (
-              <Field id={f("newCustomerName")} label="Customer name" error={err("newCustomerName")}>
-                <input id={f("newCustomerName")} {...register("newCustomerName")} className={inputClass} aria-invalid={err("newCustomerName") ? true : undefined} aria-describedby={describedBy(f("newCustomerName"), { error: err("newCustomerName") })} />
-              </Field>
+              <TextField id={f("newCustomerName")} label="Customer name" error={err("newCustomerName")} registration={register("newCustomerName")} />
             )}
           </div>
         )}
@@ -382,79 +355,39 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
       <fieldset className="space-y-4 rounded-lg border border-ink-200 bg-white p-4">
         <legend className="px-1 text-base font-semibold text-ink-950">The appliance</legend>
         <div className="grid gap-4 sm:grid-cols-2">
-          <Field id={f("tag")} label="Tag" hint="How people name it, e.g. RTU-07" error={err("tag")}>
-            <input id={f("tag")} {...register("tag")} autoComplete="off" className={inputClass} aria-invalid={err("tag") ? true : undefined} aria-describedby={describedBy(f("tag"), { hint: true, error: err("tag") })} />
-          </Field>
-          <Field id={f("category")} label="Kind of appliance" error={err("category")}>
-            <select id={f("category")} {...register("category")} className={selectClass} aria-invalid={err("category") ? true : undefined} aria-describedby={describedBy(f("category"), { error: err("category") })}>
-              <option value="">Choose…</option>
-              {categoryOptions.map((c) => (
-                <option key={c.value} value={c.value}>
-                  {c.label}
-                </option>
-              ))}
-            </select>
-          </Field>
+          <TextField id={f("tag")} label="Tag" hint="How people name it, e.g. RTU-07" error={err("tag")} registration={register("tag")} autoComplete="off" />
+          <SelectField id={f("category")} label="Kind of appliance" error={err("category")} registration={register("category")} placeholder="Choose…" options={categoryOptions} />
         </div>
-        <Field id={f("description")} label="Description" error={err("description")}>
-          <input id={f("description")} {...register("description")} className={inputClass} aria-invalid={err("description") ? true : undefined} aria-describedby={describedBy(f("description"), { error: err("description") })} />
-        </Field>
+        <TextField id={f("description")} label="Description" error={err("description")} registration={register("description")} />
         <div className="grid gap-4 sm:grid-cols-2">
-          <Field id={f("refrigerant")} label="Refrigerant" hint="ASHRAE designation; any spelling, e.g. r410a" error={err("refrigerant")}>
-            <input
-              id={f("refrigerant")}
-              list={f("refrigerants")}
-              autoComplete="off"
-              autoCapitalize="characters"
-              {...register("refrigerant")}
-              className={inputClass}
-              aria-invalid={err("refrigerant") ? true : undefined}
-              aria-describedby={describedBy(f("refrigerant"), { hint: true, error: err("refrigerant") })}
-            />
-            <datalist id={f("refrigerants")}>
-              {REFRIGERANTS.map((r) => (
-                <option key={r.designation} value={r.designation} />
-              ))}
-            </datalist>
-          </Field>
-          <div>
-            <label htmlFor={f("fullChargeAmount")} className={labelClass}>
-              Full charge
-            </label>
-            <div className="mt-1 flex gap-2">
-              <input
-                id={f("fullChargeAmount")}
-                type="text"
-                inputMode="decimal"
-                autoComplete="off"
-                {...register("fullChargeAmount")}
-                className={`${inputClass} mt-0 flex-1 tabular`}
-                aria-invalid={err("fullChargeAmount") ? true : undefined}
-                aria-describedby={describedBy(f("fullChargeAmount"), { error: err("fullChargeAmount") })}
-              />
-              <label htmlFor={f("fullChargeUnit")} className="sr-only">
-                Unit of the full charge
-              </label>
-              <select id={f("fullChargeUnit")} {...register("fullChargeUnit")} className="w-24 rounded-lg border border-ink-300 bg-white px-2 text-base">
-                {MASS_INPUT_UNITS.map((u) => (
-                  <option key={u} value={u}>
-                    {u}
-                  </option>
-                ))}
-              </select>
-            </div>
-            <FieldError id={`${f("fullChargeAmount")}-error`} message={err("fullChargeAmount")} />
-          </div>
+          <TextField
+            id={f("refrigerant")}
+            label="Refrigerant"
+            hint="ASHRAE designation; any spelling, e.g. r410a"
+            error={err("refrigerant")}
+            registration={register("refrigerant")}
+            list={f("refrigerants")}
+            autoComplete="off"
+            autoCapitalize="characters"
+            after={<RefrigerantList id={f("refrigerants")} />}
+          />
+          <AmountField
+            id={f("fullChargeAmount")}
+            label="Full charge"
+            error={err("fullChargeAmount")}
+            unitId={f("fullChargeUnit")}
+            unitLabel="Unit of the full charge"
+            amount={register("fullChargeAmount")}
+            unit={register("fullChargeUnit")}
+          />
         </div>
-        <Field id={f("fullChargeMethod")} label="How the full charge was determined" error={err("fullChargeMethod")}>
-          <select id={f("fullChargeMethod")} {...register("fullChargeMethod")} className={selectClass}>
-            {FULL_CHARGE_METHODS.map((m) => (
-              <option key={m} value={m}>
-                {REGISTER_LABELS.fullChargeMethod[m]}
-              </option>
-            ))}
-          </select>
-        </Field>
+        <SelectField
+          id={f("fullChargeMethod")}
+          label="How the full charge was determined"
+          error={err("fullChargeMethod")}
+          registration={register("fullChargeMethod")}
+          options={optionsOf(FULL_CHARGE_METHODS, REGISTER_LABELS.fullChargeMethod)}
+        />
         <div className="space-y-2">
           <label className="flex min-h-11 items-start gap-3">
             <input type="checkbox" {...register("factorySealed")} className="mt-1 size-5 accent-fjord-600" aria-describedby={describedBy(f("factorySealed"), { error: err("factorySealed") })} />
@@ -494,38 +427,32 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
       <fieldset className="space-y-4 rounded-lg border border-ink-200 bg-white p-4">
         <legend className="px-1 text-base font-semibold text-ink-950">Nameplate and dates</legend>
         <div className="grid gap-4 sm:grid-cols-2">
-          <Field id={f("makeModel")} label="Make and model" optional error={err("makeModel")}>
-            <input id={f("makeModel")} {...register("makeModel")} className={inputClass} />
-          </Field>
-          <Field id={f("serialNumber")} label="Serial number" optional error={err("serialNumber")}>
-            <input id={f("serialNumber")} {...register("serialNumber")} autoComplete="off" className={inputClass} />
-          </Field>
-          <Field id={f("manufacturedOn")} label="Manufactured on" optional error={err("manufacturedOn")}>
-            <input id={f("manufacturedOn")} type="date" {...register("manufacturedOn")} className={inputClass} aria-invalid={err("manufacturedOn") ? true : undefined} aria-describedby={describedBy(f("manufacturedOn"), { error: err("manufacturedOn") })} />
-          </Field>
-          <Field id={f("installedOn")} label="Installed on" optional error={err("installedOn")}>
-            <input id={f("installedOn")} type="date" {...register("installedOn")} className={inputClass} aria-invalid={err("installedOn") ? true : undefined} aria-describedby={describedBy(f("installedOn"), { error: err("installedOn") })} />
-          </Field>
+          <TextField id={f("makeModel")} label="Make and model" optional error={err("makeModel")} registration={register("makeModel")} />
+          <TextField id={f("serialNumber")} label="Serial number" optional error={err("serialNumber")} registration={register("serialNumber")} autoComplete="off" />
+          <TextField id={f("manufacturedOn")} label="Manufactured on" optional error={err("manufacturedOn")} registration={register("manufacturedOn")} type="date" />
+          <TextField id={f("installedOn")} label="Installed on" optional error={err("installedOn")} registration={register("installedOn")} type="date" />
         </div>
         {!editing && (
           <div className="grid gap-4 sm:grid-cols-2">
-            <Field id={f("status")} label="Status" error={err("status")}>
-              <select id={f("status")} {...register("status")} className={selectClass}>
-                <option value="in_service">{REGISTER_LABELS.applianceStatus.in_service}</option>
-                <option value="retired">{REGISTER_LABELS.applianceStatus.retired} (e.g. waiting at the shop to be scrapped)</option>
-              </select>
-            </Field>
+            <SelectField
+              id={f("status")}
+              label="Status"
+              error={err("status")}
+              registration={register("status")}
+              options={[
+                { value: "in_service", label: REGISTER_LABELS.applianceStatus.in_service },
+                { value: "retired", label: `${REGISTER_LABELS.applianceStatus.retired} (e.g. waiting at the shop to be scrapped)` },
+              ]}
+            />
             {status === "retired" && (
-              <Field id={f("retiredOn")} label="Taken out of service on" error={err("retiredOn")}>
-                <input id={f("retiredOn")} type="date" {...register("retiredOn")} className={inputClass} aria-invalid={err("retiredOn") ? true : undefined} aria-describedby={describedBy(f("retiredOn"), { error: err("retiredOn") })} />
-              </Field>
+              <TextField id={f("retiredOn")} label="Taken out of service on" error={err("retiredOn")} registration={register("retiredOn")} type="date" />
             )}
           </div>
         )}
       </fieldset>
 
       {editing && (
-        <Field
+        <TextField
           id={f("reason")}
           label="Reason for the change"
           optional={!regulatedDirty}
@@ -535,19 +462,12 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
               : "Needed when you correct the refrigerant, full charge, how it was determined, the kind or factory sealing."
           }
           error={err("reason")}
-        >
-          <textarea id={f("reason")} rows={2} {...register("reason")} className={inputClass} aria-invalid={err("reason") ? true : undefined} aria-describedby={describedBy(f("reason"), { hint: true, error: err("reason") })} />
-        </Field>
+          registration={register("reason")}
+          rows={2}
+        />
       )}
 
-      <div className="sticky bottom-0 -mx-4 flex gap-2 border-t border-ink-200 bg-white/95 px-4 py-3 backdrop-blur">
-        <button type="submit" disabled={save.isPending} className={`${buttonPrimary} flex-1`}>
-          {save.isPending ? "Saving…" : editing ? "Save changes" : "Add appliance"}
-        </button>
-        <button type="button" onClick={() => router.back()} className={buttonSecondary}>
-          Cancel
-        </button>
-      </div>
+      <StickyFormActions pending={save.isPending} label={editing ? "Save changes" : "Add appliance"} onCancel={() => router.back()} />
     </form>
   );
 }

@@ -1,21 +1,17 @@
 "use client";
 
 import Link from "next/link";
-import { useState } from "react";
-import { useQuery } from "@tanstack/react-query";
 import {
   APPLIANCE_CATEGORIES,
   APPLIANCE_CATEGORY_LABELS,
   APPLIANCE_STATUSES,
   CERTIFICATION_TYPE_LABELS,
-  REFRIGERANTS,
   REGISTER_LABELS,
   formatMass,
 } from "@coldtrail/core";
 import type { ApplianceRow } from "@coldtrail/db";
-import { fetchJson } from "@/lib/client/fetch-json";
-import type { BranchOption } from "@/lib/client/types";
-import { DataTable, serverColumnHelper } from "@/components/registers/data-table";
+import { useBranchOptions } from "@/lib/client/use-branch-options";
+import { BranchFilter, DataTable, FilterBar, RefrigerantFilter, SearchFilter, SelectFilter, optionsOf, serverColumnHelper, useFilters } from "@/components/data-table";
 import { StatusBadge } from "@/components/registers/badges";
 import { PRESSURE_CLASS_WORDS } from "@/components/registers/words";
 
@@ -86,74 +82,25 @@ function ApplianceCard({ a }: { a: ApplianceRow }) {
   );
 }
 
-const filterInput = "mt-1 w-full rounded-md border border-ink-300 bg-white px-2 py-2";
-
 export function AppliancesTable() {
-  const [filters, setFilters] = useState({ q: "", branchId: "", category: "", status: "in_service", refrigerant: "" });
-  const branches = useQuery({ queryKey: ["branches"], queryFn: () => fetchJson<{ rows: BranchOption[] }>("/api/lookup/branches") });
-  const set = (key: keyof typeof filters, value: string) => setFilters((f) => ({ ...f, [key]: value }));
+  const [filters, set] = useFilters({ q: "", branchId: "", category: "", status: "in_service", refrigerant: "" });
+  const branches = useBranchOptions();
   const branchRows = branches.data?.rows ?? [];
 
   return (
     <div className="space-y-3">
-      <form role="search" aria-label="Filter appliances" className="grid gap-3 rounded-lg border border-ink-200 bg-white p-3 sm:grid-cols-2 lg:grid-cols-5" onSubmit={(e) => e.preventDefault()}>
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Search</span>
-          <input type="search" value={filters.q} onChange={(e) => set("q", e.target.value)} placeholder="Tag, site, customer, serial" className={filterInput} />
-        </label>
-        {branchRows.length > 1 && (
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Branch</span>
-            <select value={filters.branchId} onChange={(e) => set("branchId", e.target.value)} className={filterInput}>
-              <option value="">All branches</option>
-              {branchRows.map((b) => (
-                <option key={b.id} value={b.id}>
-                  {b.name}
-                </option>
-              ))}
-            </select>
-          </label>
-        )}
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Kind</span>
-          <select value={filters.category} onChange={(e) => set("category", e.target.value)} className={filterInput}>
-            <option value="">All kinds</option>
-            {APPLIANCE_CATEGORIES.map((c) => (
-              <option key={c} value={c}>
-                {APPLIANCE_CATEGORY_LABELS[c]}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Refrigerant</span>
-          <select value={filters.refrigerant} onChange={(e) => set("refrigerant", e.target.value)} className={filterInput}>
-            <option value="">All refrigerants</option>
-            {REFRIGERANTS.map((r) => (
-              <option key={r.designation} value={r.designation}>
-                {r.designation}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Status</span>
-          <select value={filters.status} onChange={(e) => set("status", e.target.value)} className={filterInput}>
-            <option value="">Any status</option>
-            {APPLIANCE_STATUSES.map((s) => (
-              <option key={s} value={s}>
-                {REGISTER_LABELS.applianceStatus[s]}
-              </option>
-            ))}
-          </select>
-        </label>
-      </form>
+      <FilterBar label="Filter appliances" className="sm:grid-cols-2 lg:grid-cols-5">
+        <SearchFilter label="Search" value={filters.q} onChange={(v) => set("q", v)} placeholder="Tag, site, customer, serial" />
+        <BranchFilter branches={branchRows} value={filters.branchId} onChange={(v) => set("branchId", v)} />
+        <SelectFilter label="Kind" value={filters.category} onChange={(v) => set("category", v)} anyLabel="All kinds" options={optionsOf(APPLIANCE_CATEGORIES, APPLIANCE_CATEGORY_LABELS)} />
+        <RefrigerantFilter value={filters.refrigerant} onChange={(v) => set("refrigerant", v)} anyLabel="All refrigerants" />
+        <SelectFilter label="Status" value={filters.status} onChange={(v) => set("status", v)} anyLabel="Any status" options={optionsOf(APPLIANCE_STATUSES, REGISTER_LABELS.applianceStatus)} />
+      </FilterBar>
       <DataTable
         label="Appliances"
         url="/api/appliances"
         queryKey="appliances"
         columns={columns}
-        getRowId={(r) => String(r.id)}
         filters={filters}
         defaultSort={{ id: "tag", desc: false }}
         noun="appliances"

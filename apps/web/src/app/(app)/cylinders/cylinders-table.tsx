@@ -1,13 +1,10 @@
 "use client";
 
 import Link from "next/link";
-import { useState } from "react";
-import { useQuery } from "@tanstack/react-query";
-import { CYLINDER_STATUSES, REFRIGERANTS, REGISTER_LABELS, formatMass } from "@coldtrail/core";
+import { CYLINDER_STATUSES, REGISTER_LABELS, formatMass } from "@coldtrail/core";
 import type { CylinderRow } from "@coldtrail/db";
-import { fetchJson } from "@/lib/client/fetch-json";
-import type { BranchOption } from "@/lib/client/types";
-import { DataTable, serverColumnHelper } from "@/components/registers/data-table";
+import { useBranchOptions } from "@/lib/client/use-branch-options";
+import { BranchFilter, DataTable, FilterBar, RefrigerantFilter, SearchFilter, SelectFilter, optionsOf, serverColumnHelper, useFilters } from "@/components/data-table";
 import { RequalificationBadge, StatusBadge } from "@/components/registers/badges";
 import { FillGauge } from "@/components/registers/fill-gauge";
 
@@ -73,72 +70,31 @@ function CylinderCard({ c }: { c: CylinderRow }) {
   );
 }
 
-const filterInput = "mt-1 w-full rounded-md border border-ink-300 bg-white px-2 py-2";
+const REQUALIFICATION_OPTIONS = [
+  { value: "overdue", label: "Overdue" },
+  { value: "due_soon", label: "Due within 90 days" },
+  { value: "current", label: "Current" },
+  { value: "unknown", label: "No date on record" },
+];
 
 export function CylindersTable() {
-  const [filters, setFilters] = useState({ q: "", branchId: "", status: "in_service", refrigerant: "", requalification: "" });
-  const branches = useQuery({ queryKey: ["branches"], queryFn: () => fetchJson<{ rows: BranchOption[] }>("/api/lookup/branches") });
-  const set = (key: keyof typeof filters, value: string) => setFilters((f) => ({ ...f, [key]: value }));
+  const [filters, set] = useFilters({ q: "", branchId: "", status: "in_service", refrigerant: "", requalification: "" });
+  const branches = useBranchOptions();
   const branchRows = branches.data?.rows ?? [];
   return (
     <div className="space-y-3">
-      <form role="search" aria-label="Filter cylinders" className="grid gap-3 rounded-lg border border-ink-200 bg-white p-3 sm:grid-cols-2 lg:grid-cols-5" onSubmit={(e) => e.preventDefault()}>
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Search</span>
-          <input type="search" value={filters.q} onChange={(e) => set("q", e.target.value)} placeholder="Serial or specification" className={filterInput} />
-        </label>
-        {branchRows.length > 1 && (
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Branch</span>
-            <select value={filters.branchId} onChange={(e) => set("branchId", e.target.value)} className={filterInput}>
-              <option value="">All branches</option>
-              {branchRows.map((b) => (
-                <option key={b.id} value={b.id}>
-                  {b.name}
-                </option>
-              ))}
-            </select>
-          </label>
-        )}
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Refrigerant</span>
-          <select value={filters.refrigerant} onChange={(e) => set("refrigerant", e.target.value)} className={filterInput}>
-            <option value="">Any</option>
-            {REFRIGERANTS.map((r) => (
-              <option key={r.designation} value={r.designation}>
-                {r.designation}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Requalification</span>
-          <select value={filters.requalification} onChange={(e) => set("requalification", e.target.value)} className={filterInput}>
-            <option value="">Any</option>
-            <option value="overdue">Overdue</option>
-            <option value="due_soon">Due within 90 days</option>
-            <option value="current">Current</option>
-            <option value="unknown">No date on record</option>
-          </select>
-        </label>
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Status</span>
-          <select value={filters.status} onChange={(e) => set("status", e.target.value)} className={filterInput}>
-            <option value="">Any status</option>
-            {CYLINDER_STATUSES.map((s) => (
-              <option key={s} value={s}>
-                {REGISTER_LABELS.cylinderStatus[s]}
-              </option>
-            ))}
-          </select>
-        </label>
-      </form>
+      <FilterBar label="Filter cylinders" className="sm:grid-cols-2 lg:grid-cols-5">
+        <SearchFilter label="Search" value={filters.q} onChange={(v) => set("q", v)} placeholder="Serial or specification" />
+        <BranchFilter branches={branchRows} value={filters.branchId} onChange={(v) => set("branchId", v)} />
+        <RefrigerantFilter value={filters.refrigerant} onChange={(v) => set("refrigerant", v)} anyLabel="Any" />
+        <SelectFilter label="Requalification" value={filters.requalification} onChange={(v) => set("requalification", v)} anyLabel="Any" options={REQUALIFICATION_OPTIONS} />
+        <SelectFilter label="Status" value={filters.status} onChange={(v) => set("status", v)} anyLabel="Any status" options={optionsOf(CYLINDER_STATUSES, REGISTER_LABELS.cylinderStatus)} />
+      </FilterBar>
       <DataTable
         label="Cylinders"
         url="/api/cylinders"
         queryKey="cylinders"
         columns={columns}
-        getRowId={(r) => String(r.id)}
         filters={filters}
         defaultSort={{ id: "serial", desc: false }}
         noun="cylinders"

@@ -7,6 +7,7 @@ import { formatMass } from "@coldtrail/core";
 import type { DisposalListRow, MonthlyDisposalTotals } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
 import type { BranchOption } from "@/lib/client/types";
+import { useBranchOptions } from "@/lib/client/use-branch-options";
 import { RecordFilters, RecordTable, VoidTag, type RecordColumn } from "../jobs/_components/record-table";
 
 const recordColumns: RecordColumn<DisposalListRow>[] = [
@@ -66,7 +67,7 @@ const statementColumns: RecordColumn<DisposalListRow>[] = [
 export function DisposalsView({ initialTab }: { initialTab: "record" | "statement" }) {
   const [tab, setTab] = useState<"record" | "statement">(initialTab);
   const [filters, setFilters] = useState<Record<string, string>>({});
-  const branches = useQuery({ queryKey: ["branches"], queryFn: () => fetchJson<{ rows: BranchOption[] }>("/api/lookup/branches") });
+  const branches = useBranchOptions();
   const params = useMemo(() => ({ ...filters, type: tab }), [filters, tab]);
   const branchRows = branches.data?.rows ?? [];
 

@@ -1,13 +1,10 @@
 "use client";
 
 import Link from "next/link";
-import { useState } from "react";
-import { useQuery } from "@tanstack/react-query";
 import { EQUIPMENT_CERTIFICATION_STATES, EQUIPMENT_STATUSES, REGISTER_LABELS } from "@coldtrail/core";
 import type { EquipmentRow } from "@coldtrail/db";
-import { fetchJson } from "@/lib/client/fetch-json";
-import type { BranchOption } from "@/lib/client/types";
-import { DataTable, serverColumnHelper } from "@/components/registers/data-table";
+import { useBranchOptions } from "@/lib/client/use-branch-options";
+import { BranchFilter, DataTable, FilterBar, SearchFilter, SelectFilter, optionsOf, serverColumnHelper, useFilters } from "@/components/data-table";
 import { CertificationBadge, StatusBadge } from "@/components/registers/badges";
 import { ERA_WORDS, equipmentKind } from "@/components/registers/words";
 
@@ -68,62 +65,29 @@ function EquipmentCard({ e }: { e: EquipmentRow }) {
   );
 }
 
-const filterInput = "mt-1 w-full rounded-md border border-ink-300 bg-white px-2 py-2";
-
 export function EquipmentTable() {
-  const [filters, setFilters] = useState({ q: "", branchId: "", certificationState: "", status: "in_service" });
-  const branches = useQuery({ queryKey: ["branches"], queryFn: () => fetchJson<{ rows: BranchOption[] }>("/api/lookup/branches") });
-  const set = (key: keyof typeof filters, value: string) => setFilters((f) => ({ ...f, [key]: value }));
+  const [filters, set] = useFilters({ q: "", branchId: "", certificationState: "", status: "in_service" });
+  const branches = useBranchOptions();
   const branchRows = branches.data?.rows ?? [];
   return (
     <div className="space-y-3">
-      <form role="search" aria-label="Filter recovery equipment" className="grid gap-3 rounded-lg border border-ink-200 bg-white p-3 sm:grid-cols-2 lg:grid-cols-4" onSubmit={(e) => e.preventDefault()}>
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Search</span>
-          <input type="search" value={filters.q} onChange={(e) => set("q", e.target.value)} placeholder="Serial, make or model" className={filterInput} />
-        </label>
-        {branchRows.length > 1 && (
-          <label className="text-sm">
-            <span className="block font-medium text-ink-700">Branch</span>
-            <select value={filters.branchId} onChange={(e) => set("branchId", e.target.value)} className={filterInput}>
-              <option value="">All branches</option>
-              {branchRows.map((b) => (
-                <option key={b.id} value={b.id}>
-                  {b.name}
-                </option>
-              ))}
-            </select>
-          </label>
-        )}
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Certification</span>
-          <select value={filters.certificationState} onChange={(e) => set("certificationState", e.target.value)} className={filterInput}>
-            <option value="">Any</option>
-            {EQUIPMENT_CERTIFICATION_STATES.map((s) => (
-              <option key={s} value={s}>
-                {REGISTER_LABELS.equipmentCertification[s]}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="text-sm">
-          <span className="block font-medium text-ink-700">Status</span>
-          <select value={filters.status} onChange={(e) => set("status", e.target.value)} className={filterInput}>
-            <option value="">Any status</option>
-            {EQUIPMENT_STATUSES.map((s) => (
-              <option key={s} value={s}>
-                {REGISTER_LABELS.equipmentStatus[s]}
-              </option>
-            ))}
-          </select>
-        </label>
-      </form>
+      <FilterBar label="Filter recovery equipment" className="sm:grid-cols-2 lg:grid-cols-4">
+        <SearchFilter label="Search" value={filters.q} onChange={(v) => set("q", v)} placeholder="Serial, make or model" />
+        <BranchFilter branches={branchRows} value={filters.branchId} onChange={(v) => set("branchId", v)} />
+        <SelectFilter
+          label="Certification"
+          value={filters.certificationState}
+          onChange={(v) => set("certificationState", v)}
+          anyLabel="Any"
+          options={optionsOf(EQUIPMENT_CERTIFICATION_STATES, REGISTER_LABELS.equipmentCertification)}
+        />
+        <SelectFilter label="Status" value={filters.status} onChange={(v) => set("status", v)} anyLabel="Any status" options={optionsOf(EQUIPMENT_STATUSES, REGISTER_LABELS.equipmentStatus)} />
+      </FilterBar>
       <DataTable
         label="Recovery equipment"
         url="/api/equipment"
         queryKey="equipment"
         columns={columns}
-        getRowId={(r) => String(r.id)}
         filters={filters}
         defaultSort={{ id: "serial", desc: false }}
         noun="units"

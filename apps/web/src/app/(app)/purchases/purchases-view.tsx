@@ -2,11 +2,9 @@
 
 import Link from "next/link";
 import { useState } from "react";
-import { useQuery } from "@tanstack/react-query";
 import { formatMass } from "@coldtrail/core";
 import type { PurchaseRow } from "@coldtrail/db";
-import { fetchJson } from "@/lib/client/fetch-json";
-import type { BranchOption } from "@/lib/client/types";
+import { useBranchOptions } from "@/lib/client/use-branch-options";
 import { RecordFilters, RecordTable, VoidTag, type RecordColumn } from "../jobs/_components/record-table";
 
 const columns: RecordColumn<PurchaseRow>[] = [
@@ -30,7 +28,7 @@ const columns: RecordColumn<PurchaseRow>[] = [
 
 export function PurchasesView() {
   const [filters, setFilters] = useState<Record<string, string>>({});
-  const branches = useQuery({ queryKey: ["branches"], queryFn: () => fetchJson<{ rows: BranchOption[] }>("/api/lookup/branches") });
+  const branches = useBranchOptions();
   return (
     <div className="space-y-3">
       <RecordFilters branches={branches.data?.rows ?? []} value={filters} onChange={setFilters} searchLabel="Search supplier" searchPlaceholder="Supplier or invoice" />

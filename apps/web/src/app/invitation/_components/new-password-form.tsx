@@ -3,19 +3,10 @@
 import { useId, useState } from "react";
 import { signIn } from "next-auth/react";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { FieldError } from "@/components/form";
 
 const inputClass =
   "mt-1 block w-full rounded-md border border-ink-300 bg-white px-3 py-3 text-base text-ink-950 shadow-sm aria-[invalid=true]:border-sev-critical";
-
-function FieldError({ id, message }: { id: string; message?: string }) {
-  if (!message) return null;
-  return (
-    <p id={id} className="mt-1 flex items-start gap-1.5 text-sm font-medium text-sev-critical">
-      <span aria-hidden="true">⚠</span>
-      <span>{message}</span>
-    </p>
-  );
-}
 
 /**
  * Choose a password from an e-mail link (invitation or reset), then sign in with it. `askName`

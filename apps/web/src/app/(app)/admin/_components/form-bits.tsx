@@ -1,6 +1,8 @@
 "use client";
 
 import { ApiError } from "@/lib/client/fetch-json";
+import { PageControls, showingText } from "@/components/data-table";
+import { FormAlert as SharedFormAlert, Notice as SharedNotice } from "@/components/form";
 
 export const inputClass =
   "mt-1 block w-full rounded-md border border-ink-300 bg-white px-3 py-2.5 text-base text-ink-950 shadow-sm aria-[invalid=true]:border-sev-critical disabled:bg-ink-100";
@@ -13,34 +15,15 @@ export const secondaryButton =
 export const dangerButton =
   "inline-flex items-center justify-center rounded-md border border-sev-critical/50 bg-white px-4 py-2.5 font-semibold text-sev-critical hover:bg-red-50 disabled:opacity-60";
 
-export function FieldError({ id, message }: { id: string; message?: string }) {
-  if (!message) return null;
-  return (
-    <p id={id} className="mt-1 flex items-start gap-1.5 text-sm font-medium text-sev-critical">
-      <span aria-hidden="true">⚠</span>
-      <span>{message}</span>
-    </p>
-  );
-}
+export { FieldError } from "@/components/form";
 
 export function FormAlert({ id, message }: { id?: string; message: string | null }) {
-  if (!message) return null;
-  return (
-    <p id={id} role="alert" className="flex items-start gap-2 rounded-md border border-sev-critical/50 bg-red-50 px-3 py-2 text-sm font-medium text-sev-critical">
-      <span aria-hidden="true">⚠</span>
-      <span>{message}</span>
-    </p>
-  );
+  return <SharedFormAlert id={id} message={message} variant="inline" />;
 }
 
 export function Notice({ message }: { message: string | null }) {
   if (!message) return null;
-  return (
-    <p role="status" className="flex items-start gap-2 rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">
-      <span aria-hidden="true">✓</span>
-      <span>{message}</span>
-    </p>
-  );
+  return <SharedNotice>{message}</SharedNotice>;
 }
 
 /** The message to show for a failed request; the caller puts field errors beside their inputs. */
@@ -55,6 +38,7 @@ export function when(iso: string | null | undefined): string {
   return new Date(iso).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" });
 }
 
+/** The status line and previous/next under a short list paged by the caller. */
 export function Pager({
   page,
   pageSize,
@@ -69,26 +53,16 @@ export function Pager({
   onPage: (page: number) => void;
 }) {
   const pages = Math.max(1, Math.ceil(total / pageSize));
-  const first = total === 0 ? 0 : (page - 1) * pageSize + 1;
-  const last = Math.min(total, page * pageSize);
   return (
-    <div className="flex flex-wrap items-center justify-between gap-3 text-sm">
-      <p aria-live="polite" className="tabular text-ink-600">
-        Showing {first}–{last} of {total.toLocaleString("en-US")} {noun}
-      </p>
-      {pages > 1 && (
-        <div className="flex items-center gap-2">
-          <button type="button" onClick={() => onPage(page - 1)} disabled={page <= 1} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
-            Previous
-          </button>
-          <span className="tabular text-ink-700">
-            Page {page} of {pages}
-          </span>
-          <button type="button" onClick={() => onPage(page + 1)} disabled={page >= pages} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
-            Next
-          </button>
-        </div>
-      )}
-    </div>
+    <PageControls
+      status={showingText(page, pageSize, total, noun)}
+      page={page}
+      pageCount={pages}
+      mode="pages-when-needed"
+      onPrevious={() => onPage(page - 1)}
+      onNext={() => onPage(page + 1)}
+      canPrevious={page > 1}
+      canNext={page < pages}
+    />
   );
 }

@@ -3,13 +3,14 @@
 import { useEffect, useId, useMemo, useState } from "react";
 import { useRouter } from "next/navigation";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { useForm, type FieldPath } from "react-hook-form";
+import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import { MASS_DISPLAY_UNITS, MASS_DISPLAY_UNIT_LABELS, branchInput, isValidTimeZone } from "@coldtrail/core";
 import type { AdminBranchRow } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { FieldError, FormAlert, Notice, errorMessage, hintClass, inputClass, labelClass, primaryButton } from "../_components/form-bits";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { saveErrorMessage } from "@/lib/client/form-save";
+import { FieldError, FormAlert, Notice, hintClass, inputClass, labelClass, primaryButton } from "../_components/form-bits";
 
 type FormIn = z.input<typeof branchInput>;
 type FormOut = z.output<typeof branchInput>;
@@ -64,8 +65,7 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
       }
     },
     onError: (err) => {
-      if (err instanceof ApiError) for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
-      setFormError(errorMessage(err, "The branch could not be saved. Check your connection; nothing was saved."));
+      setFormError(saveErrorMessage(err, setError, "The branch could not be saved. Check your connection; nothing was saved."));
     },
   });
 

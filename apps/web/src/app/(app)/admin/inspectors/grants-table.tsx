@@ -2,17 +2,15 @@
 
 import Link from "next/link";
 import { useMemo, useState } from "react";
-import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { createColumnHelper, rowPaginationFeature, tableFeatures, useTable, type PaginationState } from "@tanstack/react-table";
+import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { GRANT_STATES, GRANT_STATE_LABELS, type GrantState } from "@coldtrail/core";
-import type { InspectorGrantPage, InspectorGrantRow } from "@coldtrail/db";
+import type { InspectorGrantRow } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
+import { DataTable, ShowFilter, optionsOf, serverColumnHelper } from "@/components/data-table";
 import { GrantStateBadge, PersonStatusBadge } from "../_components/badges";
-import { FormAlert, Notice, Pager, errorMessage, when } from "../_components/form-bits";
+import { FormAlert, Notice, errorMessage, when } from "../_components/form-bits";
 
-const features = tableFeatures({ rowPaginationFeature });
-const helper = createColumnHelper<typeof features, InspectorGrantRow>();
-const emptyRows: InspectorGrantRow[] = [];
+const helper = serverColumnHelper<InspectorGrantRow>();
 
 function RevokeButton({ grant, onDone }: { grant: InspectorGrantRow; onDone: (error: string | null) => void }) {
   const queryClient = useQueryClient();
@@ -63,19 +61,8 @@ function ResendButton({ grant, onDone }: { grant: InspectorGrantRow; onDone: (er
 
 export function GrantsTable({ canRevoke, canInvite }: { canRevoke: boolean; canInvite: boolean }) {
   const [notice, setNotice] = useState<string | null>(null);
-  const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 25 });
   const [state, setState] = useState<GrantState | "all">("all");
   const [error, setError] = useState<string | null>(null);
-  const params = useMemo(
-    () => new URLSearchParams({ page: String(pagination.pageIndex + 1), pageSize: String(pagination.pageSize), state }).toString(),
-    [pagination, state],
-  );
-  const grants = useQuery({
-    queryKey: ["inspector-grants", params],
-    queryFn: () => fetchJson<InspectorGrantPage>(`/api/admin/inspector-grants?${params}`),
-    placeholderData: keepPreviousData,
-  });
-
   const columns = useMemo(
     () =>
       helper.columns([
@@ -165,79 +152,27 @@ export function GrantsTable({ canRevoke, canInvite }: { canRevoke: boolean; canI
     [canRevoke, canInvite],
   );
 
-  const table = useTable({
-    features,
-    columns,
-    data: grants.data?.rows ?? emptyRows,
-    rowCount: grants.data?.total ?? 0,
-    state: { pagination },
-    onPaginationChange: setPagination,
-    manualPagination: true,
-    getRowId: (row) => String(row.id),
-  });
-
   return (
     <div className="space-y-3">
-      <label className="inline-flex items-center gap-2 text-sm">
-        <span className="font-medium text-ink-700">Show</span>
-        <select
-          value={state}
-          onChange={(e) => {
-            setState(e.target.value as GrantState | "all");
-            setPagination((p) => ({ ...p, pageIndex: 0 }));
-          }}
-          className="rounded-md border border-ink-300 bg-white px-2 py-1.5"
-        >
-          <option value="all">Every access</option>
-          {GRANT_STATES.map((s) => (
-            <option key={s} value={s}>
-              {GRANT_STATE_LABELS[s]}
-            </option>
-          ))}
-        </select>
-      </label>
+      <ShowFilter
+        value={state}
+        onChange={(v) => setState(v as GrantState | "all")}
+        options={[{ value: "all", label: "Every access" }, ...optionsOf(GRANT_STATES, GRANT_STATE_LABELS)]}
+      />
       <FormAlert message={error} />
       <Notice message={notice} />
-      {grants.isError && <FormAlert message={`Inspector access could not be loaded: ${(grants.error as Error).message}`} />}
-      <div className="overflow-x-auto rounded-lg border border-ink-200 bg-white">
-        <table className="min-w-full text-sm" aria-busy={grants.isFetching}>
-          <thead className="bg-ink-100 text-left text-xs uppercase tracking-wide text-ink-600">
-            {table.getHeaderGroups().map((group) => (
-              <tr key={group.id}>
-                {group.headers.map((header) => (
-                  <th key={header.id} scope="col" className="px-3 py-2 font-semibold">
-                    <table.FlexRender header={header} />
-                  </th>
-                ))}
-              </tr>
-            ))}
-          </thead>
-          <tbody className="divide-y divide-ink-100">
-            {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} data-testid="grant-row" data-state={row.original.state}>
-                {row.getAllCells().map((cell) => (
-                  <td key={cell.id} className="px-3 py-2 align-top">
-                    <table.FlexRender cell={cell} />
-                  </td>
-                ))}
-              </tr>
-            ))}
-            {!grants.isLoading && (grants.data?.total ?? 0) === 0 && (
-              <tr>
-                <td colSpan={columns.length} className="px-3 py-8 text-center text-ink-600">
-                  No inspector access to show.
-                </td>
-              </tr>
-            )}
-          </tbody>
-        </table>
-      </div>
-      <Pager
-        page={pagination.pageIndex + 1}
-        pageSize={pagination.pageSize}
-        total={grants.data?.total ?? 0}
+      <DataTable
+        url="/api/admin/inspector-grants"
+        queryKey="inspector-grants"
+        columns={columns}
+        filters={{ state }}
         noun="accesses"
-        onPage={(page) => setPagination((p) => ({ ...p, pageIndex: page - 1 }))}
+        emptyText="No inspector access to show."
+        errorText="Inspector access could not be loaded"
+        rowTestId="grant-row"
+        rowClassName={() => ""}
+        rowAttributes={(row) => ({ "data-state": row.state })}
+        pager="pages-when-needed"
       />
     </div>
   );

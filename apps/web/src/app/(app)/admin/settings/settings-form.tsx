@@ -2,7 +2,7 @@
 
 import { useEffect, useId, useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { Controller, useForm, type FieldPath } from "react-hook-form";
+import { Controller, useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import {
@@ -19,8 +19,9 @@ import {
   type RulePack,
 } from "@coldtrail/core";
 import type { OrganisationSettings } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { FieldError, FormAlert, Notice, errorMessage, inputClass, labelClass, primaryButton, secondaryButton } from "../_components/form-bits";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { saveErrorMessage } from "@/lib/client/form-save";
+import { FieldError, FormAlert, Notice, inputClass, labelClass, primaryButton, secondaryButton } from "../_components/form-bits";
 
 type FormIn = z.input<typeof organisationSettingsInput>;
 type FormOut = z.output<typeof organisationSettingsInput>;
@@ -58,8 +59,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
       setNotice("Settings saved. The next audit uses them; the change is in the activity history.");
     },
     onError: (err) => {
-      if (err instanceof ApiError) for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
-      setFormError(errorMessage(err, "The settings could not be saved; nothing was changed."));
+      setFormError(saveErrorMessage(err, setError, "The settings could not be saved; nothing was changed."));
     },
   });
 

@@ -3,7 +3,7 @@
 import Link from "next/link";
 import { useId, useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { useForm, type FieldPath } from "react-hook-form";
+import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import {
@@ -18,8 +18,11 @@ import {
   type JobKind,
 } from "@coldtrail/core";
 import type { AmendmentRecord, ApplianceJobRow, ApplianceLeakReview, ApplianceRow, RegisterActivity } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { DataTable, serverColumnHelper } from "@/components/registers/data-table";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { DetailRow, LoadError } from "@/components/detail";
+import { Notice } from "@/components/form";
+import { saveErrorMessage } from "@/lib/client/form-save";
+import { DataTable, serverColumnHelper } from "@/components/data-table";
 import { DueBadge, StatusBadge } from "@/components/registers/badges";
 import { ActivityPanel, AmendmentsPanel } from "@/components/registers/history-panels";
 import { LeakRateChart } from "@/components/registers/leak-rate-chart";
@@ -32,15 +35,6 @@ interface ApplianceResponse {
   amendments: AmendmentRecord[];
   activity: RegisterActivity[] | null;
   permissions: { update: boolean; readActivity: boolean };
-}
-
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid grid-cols-[9.5rem_1fr] gap-3 py-2">
-      <dt className="text-sm font-medium text-ink-600">{label}</dt>
-      <dd className="text-ink-950">{children}</dd>
-    </div>
-  );
 }
 
 const DIRECTION_WORDS: Record<string, string> = {
@@ -120,10 +114,7 @@ function StatusChange({ appliance, onDone }: { appliance: ApplianceRow; onDone: 
       onDone();
     },
     onError: (e) => {
-      if (e instanceof ApiError) {
-        for (const [field, messages] of Object.entries(e.fieldErrors)) form.setError(field as FieldPath<StatusIn>, { type: "server", message: messages[0] });
-        setFormError(e.message);
-      } else setFormError("The change could not be sent; nothing was saved.");
+      setFormError(saveErrorMessage(e, form.setError, "The change could not be sent; nothing was saved."));
     },
   });
   const f = (n: string) => `${uid}-${n}`;
@@ -170,15 +161,7 @@ export function ApplianceDetail({ id, saved }: { id: string; saved?: string }) {
   const query = useQuery({ queryKey: ["appliance", id], queryFn: () => fetchJson<ApplianceResponse>(`/api/appliances/${encodeURIComponent(id)}`), retry: false });
   if (query.isLoading) return <p className="text-ink-600">Loading the appliance…</p>;
   if (query.isError) {
-    const notFound = query.error instanceof ApiError && query.error.status === 404;
-    return (
-      <div role="alert" className="rounded-lg border border-ink-200 bg-white p-6">
-        <p className="font-semibold">{notFound ? "No such appliance, or it is not one you may see." : "The appliance could not be loaded."}</p>
-        <Link href="/appliances" className="mt-2 inline-block text-fjord-700 underline">
-          Back to appliances
-        </Link>
-      </div>
-    );
+    return <LoadError error={query.error} noun="appliance" back={{ href: "/appliances", label: "Back to appliances" }} />;
   }
   const { appliance: a, leaks, amendments, activity, permissions } = query.data!;
   const refrigerant = getRefrigerant(a.refrigerant);
@@ -187,11 +170,7 @@ export function ApplianceDetail({ id, saved }: { id: string; saved?: string }) {
       <Link href="/appliances" className="text-sm text-fjord-700 underline">
         ← All appliances
       </Link>
-      {saved && (
-        <p role="status" className="flex items-center gap-2 rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">
-          <span aria-hidden="true">✓</span> {saved === "created" ? "Appliance added to the register." : "Changes saved."}
-        </p>
-      )}
+      {saved && <Notice>{saved === "created" ? "Appliance added to the register." : "Changes saved."}</Notice>}
       <header className="flex flex-wrap items-start justify-between gap-3">
         <div>
           <p className="text-sm font-medium uppercase tracking-wide text-ink-600">
@@ -232,16 +211,16 @@ export function ApplianceDetail({ id, saved }: { id: string; saved?: string }) {
             What the rules derive
           </h2>
           <dl className="divide-y divide-ink-100">
-            <Row label="Refrigerant">
+            <DetailRow label="Refrigerant">
               {a.refrigerant}
               {refrigerant && <span className="text-ink-600"> · safety group {refrigerant.safetyGroup}</span>}
-            </Row>
-            <Row label="Pressure class">{a.pressureClass ? PRESSURE_CLASS_WORDS[a.pressureClass] : "Unknown"}</Row>
-            <Row label="Small appliance">{a.smallAppliance ? "Yes: factory sealed with 5 lb or less" : "No"}</Row>
-            <Row label="Certification needed">
+            </DetailRow>
+            <DetailRow label="Pressure class">{a.pressureClass ? PRESSURE_CLASS_WORDS[a.pressureClass] : "Unknown"}</DetailRow>
+            <DetailRow label="Small appliance">{a.smallAppliance ? "Yes: factory sealed with 5 lb or less" : "No"}</DetailRow>
+            <DetailRow label="Certification needed">
               <span data-testid="certification-needed">{a.certificationTypes.map((t) => CERTIFICATION_TYPE_LABELS[t]).join(" or ") || "—"}</span>
-            </Row>
-            <Row label="Leak repair rules">
+            </DetailRow>
+            <DetailRow label="Leak repair rules">
               {leaks.coverage.regime ? (
                 <span>
                   Apply: {leaks.coverage.reason} <span className="text-ink-600">({leaks.coverage.citation})</span>
@@ -249,7 +228,7 @@ export function ApplianceDetail({ id, saved }: { id: string; saved?: string }) {
               ) : (
                 <span>Do not apply: {leaks.coverage.reason}</span>
               )}
-            </Row>
+            </DetailRow>
           </dl>
         </section>
         <section aria-labelledby="register-h" className="rounded-lg border border-ink-200 bg-white p-4">
@@ -257,18 +236,18 @@ export function ApplianceDetail({ id, saved }: { id: string; saved?: string }) {
             Register entry
           </h2>
           <dl className="divide-y divide-ink-100">
-            <Row label="Full charge">
+            <DetailRow label="Full charge">
               <span className="tabular" data-testid="full-charge">
                 {formatMass(a.fullChargeG, a.massUnit)}
               </span>
               <span className="block text-sm text-ink-600">{REGISTER_LABELS.fullChargeMethod[a.fullChargeMethod]}</span>
-            </Row>
-            <Row label="Factory sealed">{a.factorySealed ? "Yes" : "No"}</Row>
-            <Row label="Leak detection">{a.hasLeakDetection ? "Fitted" : "None"}</Row>
-            <Row label="Make and model">{a.makeModel ?? "—"}</Row>
-            <Row label="Serial number">{a.serialNumber ?? "—"}</Row>
-            <Row label="Manufactured">{a.manufacturedOn ?? "—"}</Row>
-            <Row label="Installed">{a.installedOn ?? "—"}</Row>
+            </DetailRow>
+            <DetailRow label="Factory sealed">{a.factorySealed ? "Yes" : "No"}</DetailRow>
+            <DetailRow label="Leak detection">{a.hasLeakDetection ? "Fitted" : "None"}</DetailRow>
+            <DetailRow label="Make and model">{a.makeModel ?? "—"}</DetailRow>
+            <DetailRow label="Serial number">{a.serialNumber ?? "—"}</DetailRow>
+            <DetailRow label="Manufactured">{a.manufacturedOn ?? "—"}</DetailRow>
+            <DetailRow label="Installed">{a.installedOn ?? "—"}</DetailRow>
           </dl>
         </section>
       </div>
@@ -306,14 +285,13 @@ export function ApplianceDetail({ id, saved }: { id: string; saved?: string }) {
           url={`/api/appliances/${a.id}/history`}
           queryKey="appliance-history"
           columns={historyColumns(a.massUnit)}
-          getRowId={(r) => String(r.id)}
           defaultSort={null}
           initialPageSize={10}
           noun="jobs"
           emptyText="No jobs recorded on this appliance."
           rowTestId="appliance-job"
           renderCard={(j) => <JobCard j={j} massUnit={a.massUnit} />}
-          compact
+          pager="pages-when-needed"
         />
       </section>
 

@@ -14,9 +14,12 @@ import {
   type CertificationType,
 } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { DetailRow, LoadError } from "@/components/detail";
+import { saveErrorMessage } from "@/lib/client/form-save";
 import { CardImage } from "../_components/card-image";
 import { CardState } from "../_components/card-state";
 import type { CardDetail } from "../_components/card-types";
+import { FieldError } from "@/components/form";
 
 const typesText = (types: CertificationType[]) => types.map((t) => CERTIFICATION_TYPE_LABELS[t]).join(" + ") || "—";
 const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" }) : "—");
@@ -27,25 +30,6 @@ const FIELD_WORDS: Record<string, string> = {
   types: "Type",
 };
 const shown = (key: string, v: unknown) => (v === null || v === undefined || v === "" ? "—" : key === "types" && Array.isArray(v) ? typesText(v as CertificationType[]) : String(v));
-
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid grid-cols-[9rem_1fr] gap-3 py-2">
-      <dt className="text-sm font-medium text-ink-600">{label}</dt>
-      <dd className="min-w-0 break-words text-ink-950">{children}</dd>
-    </div>
-  );
-}
-
-function ErrorText({ id, message }: { id?: string; message?: string | null }) {
-  if (!message) return null;
-  return (
-    <p id={id} className="mt-1 flex items-start gap-1.5 text-sm font-medium text-sev-critical">
-      <span aria-hidden="true">⚠</span>
-      <span>{message}</span>
-    </p>
-  );
-}
 
 export function CardDetailView({ id }: { id: string }) {
   const queryClient = useQueryClient();
@@ -59,15 +43,7 @@ export function CardDetailView({ id }: { id: string }) {
 
   if (card.isLoading) return <p className="text-ink-600">Loading the card…</p>;
   if (card.isError) {
-    const notFound = card.error instanceof ApiError && card.error.status === 404;
-    return (
-      <div role="alert" className="rounded-lg border border-ink-200 bg-white p-6">
-        <p className="font-semibold">{notFound ? "No such card, or it is not one you may see." : "The card could not be loaded."}</p>
-        <Link href="/certifications" className="mt-2 inline-block text-fjord-700 underline">
-          Back to certification cards
-        </Link>
-      </div>
-    );
+    return <LoadError error={card.error} noun="card" back={{ href: "/certifications", label: "Back to certification cards" }} />;
   }
   const c = card.data!;
   const label = `${typesText(c.types)} certification card of ${c.technicianName}, number ${c.certificateNumber}`;
@@ -105,25 +81,25 @@ export function CardDetailView({ id }: { id: string }) {
           {c.can.verify && <DecisionPanel id={c.id} technician={c.technicianName} onDone={refresh} />}
 
           <dl className="divide-y divide-ink-100 rounded-lg border border-ink-200 bg-white px-4">
-            <Row label="Technician">
+            <DetailRow label="Technician">
               {c.technicianName}
               <span className="block text-sm text-ink-600">{c.technicianEmail}</span>
               <span className="block text-sm text-ink-600">{c.branchNames.length ? c.branchNames.join(", ") : "Not a technician of any branch"}</span>
-            </Row>
-            <Row label="Type">{typesText(c.types)}</Row>
-            <Row label="Certifying organisation">{c.certifyingOrganisation}</Row>
-            <Row label="Certificate number">
+            </DetailRow>
+            <DetailRow label="Type">{typesText(c.types)}</DetailRow>
+            <DetailRow label="Certifying organisation">{c.certifyingOrganisation}</DetailRow>
+            <DetailRow label="Certificate number">
               <span className="tabular">{c.certificateNumber}</span>
-            </Row>
-            <Row label="Issue date">{c.issuedOn ?? "—"}</Row>
-            <Row label="Uploaded">{when(c.uploadedAt)}</Row>
+            </DetailRow>
+            <DetailRow label="Issue date">{c.issuedOn ?? "—"}</DetailRow>
+            <DetailRow label="Uploaded">{when(c.uploadedAt)}</DetailRow>
             {c.state !== "pending" && (
-              <Row label={c.state === "verified" ? "Verified" : "Not accepted"}>
+              <DetailRow label={c.state === "verified" ? "Verified" : "Not accepted"}>
                 {when(c.decidedAt)}
                 {c.decidedByName && <span className="block text-sm text-ink-600">by {c.decidedByName}</span>}
-              </Row>
+              </DetailRow>
             )}
-            {c.state === "rejected" && c.rejectionReason && <Row label="Reason">{c.rejectionReason}</Row>}
+            {c.state === "rejected" && c.rejectionReason && <DetailRow label="Reason">{c.rejectionReason}</DetailRow>}
           </dl>
 
           {c.can.correct && <CorrectionForm key={c.updatedAt} card={c} onDone={refresh} />}
@@ -232,7 +208,7 @@ function DecisionPanel({ id, technician, onDone }: { id: number; technician: str
           </div>
         </form>
       )}
-      <ErrorText id={`${uid}-reason-error`} message={error} />
+      <FieldError id={`${uid}-reason-error`} message={error} />
     </section>
   );
 }
@@ -262,10 +238,7 @@ function CorrectionForm({ card, onDone }: { card: CardDetail; onDone: (message: 
       await onDone("Correction saved; the previous values are kept in the history.");
     },
     onError: (err) => {
-      if (err instanceof ApiError) {
-        for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field as keyof CorrectionIn, { type: "server", message: messages[0] });
-        setErrorText(err.message);
-      } else setErrorText("The correction could not be sent; nothing was changed.");
+      setErrorText(saveErrorMessage(err, setError, "The correction could not be sent; nothing was changed."));
     },
   });
   const e = formState.errors;
@@ -283,32 +256,32 @@ function CorrectionForm({ card, onDone }: { card: CardDetail; onDone: (message: 
               </label>
             ))}
           </div>
-          <ErrorText message={e.types?.message as string | undefined} />
+          <FieldError message={e.types?.message as string | undefined} />
         </fieldset>
         <label className="block text-sm font-medium text-ink-800">
           Certifying organisation
           <input {...register("certifyingOrganisation")} className="mt-1 block w-full rounded-md border border-ink-300 px-2 py-2" />
         </label>
-        <ErrorText message={e.certifyingOrganisation?.message} />
+        <FieldError message={e.certifyingOrganisation?.message} />
         <label className="block text-sm font-medium text-ink-800">
           Certificate number
           <input {...register("certificateNumber")} className="mt-1 block w-full rounded-md border border-ink-300 px-2 py-2" />
         </label>
-        <ErrorText message={e.certificateNumber?.message} />
+        <FieldError message={e.certificateNumber?.message} />
         <label className="block text-sm font-medium text-ink-800">
           Issue date
           <input type="date" {...register("issuedOn")} className="mt-1 block w-full rounded-md border border-ink-300 px-2 py-2" />
         </label>
-        <ErrorText message={e.issuedOn?.message} />
+        <FieldError message={e.issuedOn?.message} />
         <label htmlFor={`${uid}-why`} className="block text-sm font-medium text-ink-800">
           Why is it corrected?
         </label>
         <textarea id={`${uid}-why`} rows={2} {...register("reason")} className="block w-full rounded-md border border-ink-300 px-2 py-2" aria-invalid={e.reason ? true : undefined} />
-        <ErrorText message={e.reason?.message} />
+        <FieldError message={e.reason?.message} />
         <button type="submit" disabled={save.isPending} className="rounded-lg bg-fjord-600 px-4 py-2.5 font-semibold text-white disabled:opacity-60">
           Save the correction
         </button>
-        <ErrorText message={error} />
+        <FieldError message={error} />
       </form>
     </details>
   );
@@ -333,11 +306,11 @@ function WithdrawForm({ id, onDone }: { id: number; onDone: (message: string) =>
           Why? (e.g. the wrong card was uploaded)
         </label>
         <textarea id={`${uid}-why`} rows={2} {...register("reason")} className="block w-full rounded-md border border-ink-300 px-2 py-2" />
-        <ErrorText message={formState.errors.reason?.message} />
+        <FieldError message={formState.errors.reason?.message} />
         <button type="submit" disabled={withdraw.isPending} className="rounded-lg border border-sev-critical px-4 py-2.5 font-semibold text-sev-critical disabled:opacity-60">
           Withdraw the card
         </button>
-        <ErrorText message={error} />
+        <FieldError message={error} />
       </form>
     </details>
   );

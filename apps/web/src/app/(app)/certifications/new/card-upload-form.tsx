@@ -9,6 +9,7 @@ import type { z } from "zod";
 import { CERTIFICATION_CARD_MAX_BYTES, CERTIFICATION_TYPE_LABELS, CERTIFICATION_TYPES, certificationCardInput } from "@coldtrail/core";
 import { ApiError } from "@/lib/client/fetch-json";
 import { CameraIcon, FileIcon } from "../_components/icons";
+import { FieldError } from "@/components/form";
 
 type FormIn = z.input<typeof certificationCardInput>;
 type FormOut = z.output<typeof certificationCardInput>;
@@ -24,16 +25,6 @@ const inputClass = "mt-1 block w-full rounded-lg border border-ink-300 bg-white 
 const labelClass = "block text-base font-semibold text-ink-900";
 const pickerClass =
   "flex min-h-14 cursor-pointer items-center justify-center gap-2 rounded-lg border-2 px-4 py-3 text-center text-base font-semibold has-[:focus-visible]:outline has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-fjord-500";
-
-function FieldError({ id, message }: { id: string; message?: string }) {
-  if (!message) return null;
-  return (
-    <p id={id} className="mt-1 flex items-start gap-1.5 text-sm font-medium text-sev-critical">
-      <span aria-hidden="true">⚠</span>
-      <span>{message}</span>
-    </p>
-  );
-}
 
 async function postCard(values: FormOut, file: File): Promise<{ id: number }> {
   const data = new FormData();

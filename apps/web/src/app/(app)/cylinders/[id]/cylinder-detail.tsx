@@ -6,7 +6,9 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { JOB_KIND_LABELS, REGISTER_LABELS, celsiusToFahrenheit, formatMass, roundTo, type JobKind } from "@coldtrail/core";
 import type { CylinderMovementRow, CylinderRow, CylinderWeighingRow, RegisterActivity, RegisterAmendment } from "@coldtrail/db";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { DataTable, serverColumnHelper } from "@/components/registers/data-table";
+import { DetailRow, LoadError } from "@/components/detail";
+import { Notice } from "@/components/form";
+import { DataTable, serverColumnHelper } from "@/components/data-table";
 import { RequalificationBadge, StatusBadge } from "@/components/registers/badges";
 import { FillGauge } from "@/components/registers/fill-gauge";
 import { CylinderCautions } from "@/components/registers/cylinder-cautions";
@@ -19,15 +21,6 @@ interface CylinderResponse {
   amendments: RegisterAmendment[];
   activity: RegisterActivity[] | null;
   permissions: { update: boolean; readActivity: boolean };
-}
-
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid grid-cols-[9.5rem_1fr] gap-3 py-2">
-      <dt className="text-sm font-medium text-ink-600">{label}</dt>
-      <dd className="text-ink-950">{children}</dd>
-    </div>
-  );
 }
 
 const MOVEMENT_WORDS: Record<string, { words: string; sign: string }> = {
@@ -195,15 +188,7 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
 
   if (query.isLoading) return <p className="text-ink-600">Loading the cylinder…</p>;
   if (query.isError || !data || !c) {
-    const notFound = query.error instanceof ApiError && query.error.status === 404;
-    return (
-      <div role="alert" className="rounded-lg border border-ink-200 bg-white p-6">
-        <p className="font-semibold">{notFound ? "No such cylinder, or it is not one you may see." : "The cylinder could not be loaded."}</p>
-        <Link href="/cylinders" className="mt-2 inline-block text-fjord-700 underline">
-          Back to cylinders
-        </Link>
-      </div>
-    );
+    return <LoadError error={query.error} noun="cylinder" back={{ href: "/cylinders", label: "Back to cylinders" }} />;
   }
   const { amendments, activity } = data;
   const difference = c.lastWeighing && c.netSource === "weighing" ? c.lastWeighing.netG - c.recordedContentsG : null;
@@ -213,11 +198,7 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
       <Link href="/cylinders" className="text-sm text-fjord-700 underline">
         ← All cylinders
       </Link>
-      {saved && (
-        <p role="status" className="flex items-center gap-2 rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">
-          <span aria-hidden="true">✓</span> {saved === "created" ? "Cylinder added to the register. It starts empty: record a weighing to set its contents." : "Changes saved."}
-        </p>
-      )}
+      {saved && <Notice>{saved === "created" ? "Cylinder added to the register. It starts empty: record a weighing to set its contents." : "Changes saved."}</Notice>}
       <header className="flex flex-wrap items-start justify-between gap-3">
         <div>
           <p className="text-sm font-medium uppercase tracking-wide text-ink-600">
@@ -253,19 +234,19 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
             Contents
           </h2>
           <dl className="divide-y divide-ink-100">
-            <Row label="Holds now">
+            <DetailRow label="Holds now">
               <span className="tabular font-medium" data-testid="net-contents">
                 {c.netG > 0 ? `${formatMass(c.netG, c.massUnit)} ${c.refrigerant ?? ""}` : "Empty"}
               </span>
               <span className="block text-sm text-ink-600">
                 {c.netSource === "weighing" && c.lastWeighing ? `From the weighing of ${c.lastWeighing.on}` : "From the recorded fills, draws and shipments"}
               </span>
-            </Row>
-            <Row label="By the records">
+            </DetailRow>
+            <DetailRow label="By the records">
               <span className="tabular">{formatMass(c.recordedContentsG, c.massUnit)}</span>
               {c.lastMovementOn && <span className="block text-sm text-ink-600">last movement {c.lastMovementOn}</span>}
-            </Row>
-            <Row label="Last weighing">
+            </DetailRow>
+            <DetailRow label="Last weighing">
               {c.lastWeighing ? (
                 <>
                   <span className="tabular">
@@ -281,7 +262,7 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
               ) : (
                 "Never weighed"
               )}
-            </Row>
+            </DetailRow>
           </dl>
         </section>
       </div>
@@ -292,16 +273,16 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
             Requalification
           </h2>
           <dl className="divide-y divide-ink-100">
-            <Row label="Last requalified">{c.lastRequalifiedOn ?? "Not on record"}</Row>
-            <Row label="Next due">
+            <DetailRow label="Last requalified">{c.lastRequalifiedOn ?? "Not on record"}</DetailRow>
+            <DetailRow label="Next due">
               <span className="tabular" data-testid="requalification-due">
                 {c.requalification.dueOn ?? "Unknown"}
               </span>
               <span className="block text-sm text-ink-600">Every {c.requalification.years} years (49 CFR 180.209; organisation setting)</span>
-            </Row>
-            <Row label="Today">
+            </DetailRow>
+            <DetailRow label="Today">
               <RequalificationBadge {...c.requalification} />
-            </Row>
+            </DetailRow>
           </dl>
         </section>
         <section aria-labelledby="stamp-h" className="rounded-lg border border-ink-200 bg-white p-4">
@@ -309,14 +290,14 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
             Stamped figures
           </h2>
           <dl className="divide-y divide-ink-100">
-            <Row label="Water capacity">
+            <DetailRow label="Water capacity">
               <span className="tabular">{formatMass(c.waterCapacityG, c.massUnit)}</span>
-            </Row>
-            <Row label="Tare weight">
+            </DetailRow>
+            <DetailRow label="Tare weight">
               <span className="tabular">{formatMass(c.tareG, c.massUnit)}</span>
-            </Row>
-            <Row label="Specification">{c.specification ?? "—"}</Row>
-            <Row label="Manufactured">{c.manufacturedOn ?? "—"}</Row>
+            </DetailRow>
+            <DetailRow label="Specification">{c.specification ?? "—"}</DetailRow>
+            <DetailRow label="Manufactured">{c.manufacturedOn ?? "—"}</DetailRow>
           </dl>
         </section>
       </div>
@@ -334,7 +315,6 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
           url={`/api/cylinders/${c.id}/weighings`}
           queryKey="cylinder-weighings"
           columns={weighingColumns}
-          getRowId={(r) => String(r.id)}
           defaultSort={null}
           initialPageSize={10}
           noun="weighings"
@@ -360,7 +340,7 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
               </div>
             </div>
           )}
-          compact
+          pager="pages-when-needed"
         />
       </section>
 
@@ -373,7 +353,6 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
           url={`/api/cylinders/${c.id}/movements`}
           queryKey="cylinder-movements"
           columns={movementColumns}
-          getRowId={(r) => String(r.id)}
           defaultSort={null}
           initialPageSize={10}
           noun="movements"
@@ -391,7 +370,7 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
               <MovementRecord m={m} />
             </div>
           )}
-          compact
+          pager="pages-when-needed"
         />
       </section>
 

@@ -2,12 +2,10 @@
 
 import { useId, useState } from "react";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { useForm, type FieldPath, type Resolver } from "react-hook-form";
+import { useForm, type Resolver } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import {
-  MASS_INPUT_UNITS,
-  REFRIGERANTS,
   celsiusToFahrenheit,
   cylinderWeighingAmendInput,
   cylinderWeighingInput,
@@ -20,11 +18,18 @@ import {
   type MassInputUnit,
 } from "@coldtrail/core";
 import type { CylinderRow, CylinderWeighingRow } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { Field, FieldError, FormAlert, buttonPrimary, buttonSecondary, describedBy, inputClass, labelClass } from "@/components/registers/form-fields";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
+import { RefrigerantList } from "@/components/form";
+import { AmountField, FormAlert, TextField, buttonPrimary, buttonSecondary, inputClass } from "@/components/registers/form-fields";
 import { todayIn } from "@/components/registers/words";
 
 type FormIn = z.input<typeof cylinderWeighingAmendInput>;
+
+const TEMPERATURE_UNITS = [
+  { value: "F", label: "°F" },
+  { value: "C", label: "°C" },
+];
 type FormOut = z.output<typeof cylinderWeighingAmendInput>;
 
 /** What the reading means before it is saved: net contents against the maximum fill (rules core). */
@@ -121,10 +126,7 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
     },
     onError: (e) => {
       setSaved(null);
-      if (e instanceof ApiError) {
-        for (const [field, messages] of Object.entries(e.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
-        setFormError(e.message);
-      } else setFormError("The weighing could not be sent; nothing was saved.");
+      setFormError(saveErrorMessage(e, setError, "The weighing could not be sent; nothing was saved."));
     },
   });
 
@@ -135,13 +137,7 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
       className="space-y-4 rounded-lg border border-ink-200 bg-white p-4"
       aria-labelledby={f("title")}
       data-testid={amend ? "weighing-amend-form" : "weighing-form"}
-      onSubmit={handleSubmit(
-        (v) => {
-          setFormError(null);
-          save.mutate(v);
-        },
-        () => setFormError("Some fields need attention before the weighing can be saved."),
-      )}
+      onSubmit={submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the weighing can be saved." })}
     >
       <h2 id={f("title")} className="text-lg font-semibold text-ink-950">
         {amend ? `Correct the weighing of ${amend.weighedOn}` : "Record a weighing"}
@@ -154,100 +150,56 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
         </p>
       )}
       <div className="grid gap-4 sm:grid-cols-2">
-        <div>
-          <label htmlFor={f("grossAmount")} className={labelClass}>
-            Scale reading
-          </label>
-          <div className="mt-1 flex gap-2">
-            <input
-              id={f("grossAmount")}
-              type="text"
-              inputMode="decimal"
-              autoComplete="off"
-              {...register("grossAmount")}
-              className={`${inputClass} mt-0 flex-1 tabular text-lg`}
-              aria-invalid={err("grossAmount") ? true : undefined}
-              aria-describedby={describedBy(f("grossAmount"), { hint: true, error: err("grossAmount") })}
-            />
-            <label htmlFor={f("grossUnit")} className="sr-only">
-              Unit of the scale reading
-            </label>
-            <select id={f("grossUnit")} {...register("grossUnit")} className="w-24 rounded-lg border border-ink-300 bg-white px-2 text-base">
-              {MASS_INPUT_UNITS.map((u) => (
-                <option key={u} value={u}>
-                  {u}
-                </option>
-              ))}
-            </select>
-          </div>
-          <p id={`${f("grossAmount")}-hint`} className="mt-1 text-sm text-ink-600">
-            Cylinder and contents together (tare {formatMass(cylinder.tareG, cylinder.massUnit)}).
-          </p>
-          <FieldError id={`${f("grossAmount")}-error`} message={err("grossAmount")} />
-        </div>
-        <Field id={f("weighedOn")} label="Weighed on" error={err("weighedOn")}>
-          <input id={f("weighedOn")} type="date" {...register("weighedOn")} className={inputClass} aria-invalid={err("weighedOn") ? true : undefined} aria-describedby={describedBy(f("weighedOn"), { error: err("weighedOn") })} />
-        </Field>
-        <Field id={f("refrigerant")} label="Refrigerant" optional={!cylinder.refrigerant} error={err("refrigerant")}>
-          <input
-            id={f("refrigerant")}
-            list={f("refrigerants")}
-            autoComplete="off"
-            {...register("refrigerant")}
-            className={inputClass}
-            aria-invalid={err("refrigerant") ? true : undefined}
-            aria-describedby={describedBy(f("refrigerant"), { error: err("refrigerant") })}
-          />
-          <datalist id={f("refrigerants")}>
-            {REFRIGERANTS.map((r) => (
-              <option key={r.designation} value={r.designation} />
-            ))}
-          </datalist>
-        </Field>
-        <Field id={f("pressurePsig")} label="Gauge pressure (psig)" optional hint="With the temperature, checks for air in the cylinder" error={err("pressurePsig")}>
-          <input
-            id={f("pressurePsig")}
-            type="text"
-            inputMode="decimal"
-            {...register("pressurePsig")}
-            className={inputClass}
-            aria-invalid={err("pressurePsig") ? true : undefined}
-            aria-describedby={describedBy(f("pressurePsig"), { hint: true, error: err("pressurePsig") })}
-          />
-        </Field>
-        <div>
-          <label htmlFor={f("temperatureValue")} className={labelClass}>
-            Cylinder temperature <span className="font-normal text-ink-600">(optional)</span>
-          </label>
-          <div className="mt-1 flex gap-2">
-            <input
-              id={f("temperatureValue")}
-              type="text"
-              inputMode="decimal"
-              {...register("temperatureValue")}
-              className={`${inputClass} mt-0 flex-1`}
-              aria-invalid={err("temperatureValue") ? true : undefined}
-              aria-describedby={describedBy(f("temperatureValue"), { error: err("temperatureValue") })}
-            />
-            <label htmlFor={f("temperatureUnit")} className="sr-only">
-              Temperature unit
-            </label>
-            <select id={f("temperatureUnit")} {...register("temperatureUnit")} className="w-20 rounded-lg border border-ink-300 bg-white px-2 text-base">
-              <option value="F">°F</option>
-              <option value="C">°C</option>
-            </select>
-          </div>
-          <FieldError id={`${f("temperatureValue")}-error`} message={err("temperatureValue")} />
-        </div>
-        <Field id={f("notes")} label="Notes" optional error={err("notes")}>
-          <input id={f("notes")} {...register("notes")} className={inputClass} />
-        </Field>
+        <AmountField
+          id={f("grossAmount")}
+          label="Scale reading"
+          hint={`Cylinder and contents together (tare ${formatMass(cylinder.tareG, cylinder.massUnit)}).`}
+          error={err("grossAmount")}
+          unitId={f("grossUnit")}
+          unitLabel="Unit of the scale reading"
+          amount={register("grossAmount")}
+          unit={register("grossUnit")}
+          inputClassName={`${inputClass} text-lg`}
+        />
+        <TextField id={f("weighedOn")} label="Weighed on" error={err("weighedOn")} registration={register("weighedOn")} type="date" />
+        <TextField
+          id={f("refrigerant")}
+          label="Refrigerant"
+          optional={!cylinder.refrigerant}
+          error={err("refrigerant")}
+          registration={register("refrigerant")}
+          list={f("refrigerants")}
+          autoComplete="off"
+          after={<RefrigerantList id={f("refrigerants")} />}
+        />
+        <TextField
+          id={f("pressurePsig")}
+          label="Gauge pressure (psig)"
+          optional
+          hint="With the temperature, checks for air in the cylinder"
+          error={err("pressurePsig")}
+          registration={register("pressurePsig")}
+          type="text"
+          inputMode="decimal"
+        />
+        <AmountField
+          id={f("temperatureValue")}
+          label="Cylinder temperature"
+          optional
+          error={err("temperatureValue")}
+          unitId={f("temperatureUnit")}
+          unitLabel="Temperature unit"
+          amount={register("temperatureValue")}
+          unit={register("temperatureUnit")}
+          options={TEMPERATURE_UNITS}
+          unitClassName="w-20 rounded-lg border border-ink-300 bg-white px-2 text-base"
+          tabular={false}
+        />
+        <TextField id={f("notes")} label="Notes" optional error={err("notes")} registration={register("notes")} />
       </div>
       <NetPreview cylinder={cylinder} gross={watch("grossAmount")} unit={watch("grossUnit") as MassInputUnit} refrigerant={String(watch("refrigerant") ?? "")} />
       {amend && (
-        <Field id={f("reason")} label="Why it is corrected" hint="The previous values stay in the weighing's history." error={err("reason")}>
-          <textarea id={f("reason")} rows={2} {...register("reason")} className={inputClass} aria-invalid={err("reason") ? true : undefined} aria-describedby={describedBy(f("reason"), { hint: true, error: err("reason") })} />
-        </Field>
+        <TextField id={f("reason")} label="Why it is corrected" hint="The previous values stay in the weighing's history." error={err("reason")} registration={register("reason")} rows={2} />
       )}
       <div className="flex flex-wrap gap-2">
         <button type="submit" className={buttonPrimary} disabled={save.isPending}>

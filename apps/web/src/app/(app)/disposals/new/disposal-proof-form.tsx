@@ -4,20 +4,39 @@ import Link from "next/link";
 import { useId, useState } from "react";
 import { useRouter } from "next/navigation";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { useForm, type FieldValues, type Resolver } from "react-hook-form";
+import { useForm, type FieldValues, type Resolver, type UseFormReturn } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
-import { DISPOSAL_PATH_LABELS, DISPOSAL_PATHS, MASS_INPUT_UNITS, disposalRecordInput, disposalStatementInput, formatMass } from "@coldtrail/core";
+import { DISPOSAL_PATH_LABELS, DISPOSAL_PATHS, disposalRecordInput, disposalStatementInput, formatMass } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import type { JobDetail, JobListPage } from "@/lib/client/types";
-import { FieldError, FormAlert, choiceClass, hintClass, inputClass, labelClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
+import { RadioCards, fieldAria } from "@/components/form";
+import { AmountField, Field, FormAlert, TextField, labelClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
 
 const MAX_DOCUMENT_BYTES = 10 * 1024 * 1024;
+const DISPOSAL_PATH_OPTIONS = DISPOSAL_PATHS.map((p) => ({ value: p, label: DISPOSAL_PATH_LABELS[p] }));
 const DOCUMENT_TYPES = ["image/jpeg", "image/png", "image/webp", "image/heic", "application/pdf"];
 
 /** Grams shown back in the branch's unit, for prefilling a form. */
 function massIn(grams: number, unit: "lb_oz" | "kg"): string {
   const v = unit === "kg" ? grams / 1000 : grams / 453.59237;
   return String(Math.round(v * 100) / 100);
+}
+
+/** A text, date or textarea field of these forms, by its name in the form. */
+function fieldsOf(uid: string, form: UseFormReturn<FieldValues>) {
+  return (name: string, label: string, opts: { type?: string; hint?: string; textarea?: boolean } = {}) => (
+    <TextField
+      id={`${uid}-${name}`}
+      label={label}
+      hint={opts.hint}
+      hintFirst
+      error={form.formState.errors[name]?.message as string | undefined}
+      registration={form.register(name)}
+      type={opts.type ?? "text"}
+      rows={opts.textarea ? 2 : undefined}
+    />
+  );
 }
 
 /** The record or signed statement that proves a disposal, chosen by the appliance's size. */
@@ -123,37 +142,15 @@ function RecordForm({ job }: { job: JobDetail }) {
       router.push(`/disposals/records/${id}?saved=1`);
     },
     onError: (err) => {
-      if (err instanceof ApiError) {
-        for (const [f, m] of Object.entries(err.fieldErrors)) setError(f, { type: "server", message: m[0] });
-        setFormError(err.message);
-      } else setFormError("The record could not be sent; nothing was saved.");
+      setFormError(saveErrorMessage(err, setError, "The record could not be sent; nothing was saved."));
     },
   });
-  const field = (name: string, label: string, opts: { type?: string; hint?: string; textarea?: boolean } = {}) => {
-    const err = errors[name]?.message as string | undefined;
-    const props = { id: `${uid}-${name}`, ...register(name), className: inputClass, "aria-invalid": err ? true : undefined, "aria-describedby": err ? `${uid}-${name}-error` : undefined };
-    return (
-      <div>
-        <label htmlFor={`${uid}-${name}`} className={labelClass}>
-          {label}
-        </label>
-        {opts.hint && <p className={hintClass}>{opts.hint}</p>}
-        {opts.textarea ? <textarea rows={2} {...props} /> : <input type={opts.type ?? "text"} {...props} />}
-        <FieldError id={`${uid}-${name}-error`} message={err} />
-      </div>
-    );
-  };
+  const field = fieldsOf(uid, form);
   return (
     <form
       noValidate
       className="space-y-5"
-      onSubmit={handleSubmit(
-        (v) => {
-          setFormError(null);
-          save.mutate(v);
-        },
-        () => setFormError("Some fields need attention before the record can be saved."),
-      )}
+      onSubmit={submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the record can be saved." })}
     >
       <FormAlert message={formError} />
       {field("companyName", "Company name", { hint: "The company whose appliance was disposed of." })}
@@ -163,43 +160,18 @@ function RecordForm({ job }: { job: JobDetail }) {
         {field("disposedOn", "Date of disposal", { type: "date" })}
       </div>
       {field("refrigerant", "Refrigerant recovered")}
-      <div>
-        <label htmlFor={`${uid}-amount`} className={labelClass}>
-          Quantity recovered
-        </label>
-        <div className="mt-1 flex gap-2">
-          <input
-            id={`${uid}-amount`}
-            type="text"
-            inputMode="decimal"
-            {...register("recoveredAmount")}
-            className={`${inputClass} mt-0 flex-1 tabular`}
-            aria-invalid={errors.recoveredAmount ? true : undefined}
-            aria-describedby={errors.recoveredAmount ? `${uid}-recoveredAmount-error` : undefined}
-          />
-          <label htmlFor={`${uid}-unit`} className="sr-only">
-            Unit of the quantity
-          </label>
-          <select id={`${uid}-unit`} {...register("recoveredUnit")} className="w-28 rounded-lg border border-ink-300 bg-white px-3 text-lg">
-            {MASS_INPUT_UNITS.map((u) => (
-              <option key={u} value={u}>
-                {u}
-              </option>
-            ))}
-          </select>
-        </div>
-        <FieldError id={`${uid}-recoveredAmount-error`} message={errors.recoveredAmount?.message as string | undefined} />
-      </div>
+      <AmountField
+        id={`${uid}-amount`}
+        label="Quantity recovered"
+        error={errors.recoveredAmount?.message as string | undefined}
+        unitId={`${uid}-unit`}
+        unitLabel="Unit of the quantity"
+        amount={register("recoveredAmount")}
+        unit={register("recoveredUnit")}
+      />
       <fieldset>
         <legend className={labelClass}>Where was it taken apart?</legend>
-        <div className="mt-2 grid gap-2">
-          {DISPOSAL_PATHS.map((p) => (
-            <label key={p} className={choiceClass}>
-              <input type="radio" value={p} {...register("disposalPath")} className="size-5 shrink-0 accent-fjord-600" />
-              {DISPOSAL_PATH_LABELS[p]}
-            </label>
-          ))}
-        </div>
+        <RadioCards className="mt-2 grid gap-2" registration={register("disposalPath")} options={DISPOSAL_PATH_OPTIONS} />
       </fieldset>
       {field("sentTo", "Sent to (scrap yard or disposal facility, optional)")}
       <button type="submit" disabled={save.isPending} className={primaryButton}>
@@ -230,8 +202,7 @@ function StatementForm({ job }: { job: JobDetail }) {
       contractReference: "",
     },
   });
-  const { register, handleSubmit, formState, setError } = form;
-  const errors = formState.errors;
+  const { handleSubmit, setError } = form;
   const save = useMutation({
     mutationFn: async (v: FieldValues) => {
       const body = new FormData();
@@ -257,20 +228,7 @@ function StatementForm({ job }: { job: JobDetail }) {
       } else setFormError("The statement could not be sent; nothing was saved.");
     },
   });
-  const field = (name: string, label: string, opts: { type?: string; hint?: string; textarea?: boolean } = {}) => {
-    const err = errors[name]?.message as string | undefined;
-    const props = { id: `${uid}-${name}`, ...register(name), className: inputClass, "aria-invalid": err ? true : undefined, "aria-describedby": err ? `${uid}-${name}-error` : undefined };
-    return (
-      <div>
-        <label htmlFor={`${uid}-${name}`} className={labelClass}>
-          {label}
-        </label>
-        {opts.hint && <p className={hintClass}>{opts.hint}</p>}
-        {opts.textarea ? <textarea rows={2} {...props} /> : <input type={opts.type ?? "text"} {...props} />}
-        <FieldError id={`${uid}-${name}-error`} message={err} />
-      </div>
-    );
-  };
+  const field = fieldsOf(uid, form);
   return (
     <form
       noValidate
@@ -296,11 +254,17 @@ function StatementForm({ job }: { job: JobDetail }) {
         {field("signedOn", "Date signed", { type: "date" })}
       </div>
       {field("contractReference", "Contract reference (optional)", { hint: "Only if a contract says the refrigerant is removed before delivery." })}
-      <div>
-        <label htmlFor={`${uid}-document`} className={labelClass}>
-          Signed document <span className="font-normal text-ink-600">(photo or PDF, optional)</span>
-        </label>
-        <p className={hintClass}>Take a photo of the signed paper or choose a PDF, up to 10 MB.</p>
+      <Field
+        id={`${uid}-document`}
+        label={
+          <>
+            Signed document <span className="font-normal text-ink-600">(photo or PDF, optional)</span>
+          </>
+        }
+        hint="Take a photo of the signed paper or choose a PDF, up to 10 MB."
+        hintFirst
+        error={fileError ?? undefined}
+      >
         <input
           id={`${uid}-document`}
           type="file"
@@ -311,12 +275,10 @@ function StatementForm({ job }: { job: JobDetail }) {
             setFileError(f && f.size > MAX_DOCUMENT_BYTES ? "The file is larger than 10 MB" : f && f.type && !DOCUMENT_TYPES.includes(f.type) ? "Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded" : null);
           }}
           className="mt-1 block w-full rounded-lg border border-ink-300 bg-white px-3 py-3 text-base file:mr-3 file:min-h-11 file:rounded-md file:border-0 file:bg-fjord-600 file:px-4 file:font-semibold file:text-white"
-          aria-invalid={fileError ? true : undefined}
-          aria-describedby={fileError ? `${uid}-document-error` : undefined}
+          {...fieldAria(`${uid}-document`, { hint: true, error: fileError ?? undefined })}
         />
         {file && !fileError && <p className="mt-1 text-sm text-ok">✓ {file.type === "application/pdf" ? "PDF" : "Photo"} chosen ({Math.ceil(file.size / 1024)} KB)</p>}
-        <FieldError id={`${uid}-document-error`} message={fileError ?? undefined} />
-      </div>
+      </Field>
       <button type="submit" disabled={save.isPending} className={primaryButton}>
         {save.isPending ? "Saving…" : "Save signed statement"}
       </button>

@@ -17,7 +17,9 @@ import type { ShopBatchResult, ShopQueueRow } from "@coldtrail/db";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import type { CylinderOption, EquipmentOption } from "@/lib/client/types";
 import { SafetyCautions } from "@/components/safety-cautions";
-import { FieldError, FormAlert, SavedNotice, YesNo, choiceClass, hintClass, inputClass, labelClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
+import { optionsOf } from "@/lib/client/options";
+import { RadioCards } from "@/components/form";
+import { FieldError, FormAlert, SavedNotice, YesNo, hintClass, inputClass, labelClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
 
 interface ItemState {
   amount: string;
@@ -291,27 +293,37 @@ export function ShopRunForm() {
 
       <fieldset>
         <legend className={labelClass}>Recovery cylinder</legend>
-        <div className="mt-2 space-y-2" role="radiogroup">
-          {cylinders.data?.rows.map((c) => (
-            <label key={c.id} className={choiceClass}>
-              <input type="radio" name={`${uid}-cyl`} value={c.id} checked={cylinderId === String(c.id)} onChange={() => setCylinderId(String(c.id))} className="size-5 shrink-0 accent-fjord-600" />
+        <RadioCards
+          className="mt-2 space-y-2"
+          groupProps={{ role: "radiogroup" }}
+          name={`${uid}-cyl`}
+          value={cylinderId}
+          onChange={setCylinderId}
+          options={(cylinders.data?.rows ?? []).map((c) => ({
+            value: String(c.id),
+            label: (
               <span>
                 <span className="block font-semibold">{c.serial}</span>
                 <span className="block text-sm text-ink-600">{c.refrigerant && c.contentsG > 0 ? `Holds ${formatMass(c.contentsG, massUnit)} ${c.refrigerant}` : "Empty"}</span>
               </span>
-            </label>
-          ))}
-        </div>
+            ),
+          }))}
+        />
         <FieldError id={`${uid}-cyl-error`} message={errors.cylinderId} />
         {totalG > 0 && <p className={hintClass}>This run adds about {formatMass(Math.round(totalG), massUnit)} to the cylinder.</p>}
       </fieldset>
 
       <fieldset>
         <legend className={labelClass}>Recovery equipment</legend>
-        <div className="mt-2 space-y-2" role="radiogroup">
-          {equipment.data?.rows.map((e) => (
-            <label key={e.id} className={choiceClass}>
-              <input type="radio" name={`${uid}-eq`} value={e.id} checked={equipmentId === String(e.id)} onChange={() => setEquipmentId(String(e.id))} className="size-5 shrink-0 accent-fjord-600" />
+        <RadioCards
+          className="mt-2 space-y-2"
+          groupProps={{ role: "radiogroup" }}
+          name={`${uid}-eq`}
+          value={equipmentId}
+          onChange={setEquipmentId}
+          options={(equipment.data?.rows ?? []).map((e) => ({
+            value: String(e.id),
+            label: (
               <span>
                 <span className="block font-semibold">{e.serial}</span>
                 <span className="block text-sm text-ink-600">
@@ -319,22 +331,15 @@ export function ShopRunForm() {
                   {e.smallApplianceOnly ? " · small appliances only" : ""}
                 </span>
               </span>
-            </label>
-          ))}
-        </div>
+            ),
+          }))}
+        />
         <FieldError id={`${uid}-eq-error`} message={errors.equipmentId} />
       </fieldset>
 
       <fieldset>
         <legend className={labelClass}>How were the circuits accessed?</legend>
-        <div className="mt-2 grid gap-2">
-          {ACCESS_METHODS.map((m) => (
-            <label key={m} className={choiceClass}>
-              <input type="radio" name={`${uid}-access`} checked={accessMethod === m} onChange={() => setAccessMethod(m)} className="size-5 shrink-0 accent-fjord-600" />
-              {ACCESS_METHOD_LABELS[m]}
-            </label>
-          ))}
-        </div>
+        <RadioCards className="mt-2 grid gap-2" name={`${uid}-access`} value={accessMethod} onChange={setAccessMethod} options={optionsOf(ACCESS_METHODS, ACCESS_METHOD_LABELS)} />
         <FieldError id={`${uid}-access-error`} message={errors.accessMethod} />
       </fieldset>
       {accessMethod && TEMPORARY_ACCESS_METHODS.includes(accessMethod) && (

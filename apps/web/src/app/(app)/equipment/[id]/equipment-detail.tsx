@@ -6,6 +6,8 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { EVACUATION_TABLE_1, PRESSURE_CLASSES, SMALL_APPLIANCE_RECOVERY, type EvacuationLevel } from "@coldtrail/core";
 import type { AmendmentRecord, EquipmentRow, RegisterActivity } from "@coldtrail/db";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { DetailRow, LoadError } from "@/components/detail";
+import { Notice } from "@/components/form";
 import { CertificationBadge, StatusBadge } from "@/components/registers/badges";
 import { ActivityPanel, AmendmentsPanel } from "@/components/registers/history-panels";
 import { FieldError, buttonPrimary, buttonSecondary, labelClass } from "@/components/registers/form-fields";
@@ -19,15 +21,6 @@ interface EquipmentResponse {
 }
 
 const level = (l: EvacuationLevel) => (l.unit === "mm_hg_abs" ? `${l.value} mm Hg absolute` : `${l.value} in Hg vacuum`);
-
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid grid-cols-[9.5rem_1fr] gap-3 py-2">
-      <dt className="text-sm font-medium text-ink-600">{label}</dt>
-      <dd className="text-ink-950">{children}</dd>
-    </div>
-  );
-}
 
 /** The evacuation levels a unit may be used to claim, by its era (40 CFR 82.156 Table 1 and 82.156(b)). */
 function EvacuationClaims({ e }: { e: EquipmentRow }) {
@@ -154,15 +147,7 @@ export function EquipmentDetail({ id, saved }: { id: string; saved?: string }) {
   const query = useQuery({ queryKey: ["equipment-unit", id], queryFn: () => fetchJson<EquipmentResponse>(`/api/equipment/${encodeURIComponent(id)}`), retry: false });
   if (query.isLoading) return <p className="text-ink-600">Loading the recovery equipment…</p>;
   if (query.isError) {
-    const notFound = query.error instanceof ApiError && query.error.status === 404;
-    return (
-      <div role="alert" className="rounded-lg border border-ink-200 bg-white p-6">
-        <p className="font-semibold">{notFound ? "No such recovery equipment, or it is not one you may see." : "The recovery equipment could not be loaded."}</p>
-        <Link href="/equipment" className="mt-2 inline-block text-fjord-700 underline">
-          Back to recovery equipment
-        </Link>
-      </div>
-    );
+    return <LoadError error={query.error} noun="recovery equipment" back={{ href: "/equipment", label: "Back to recovery equipment" }} />;
   }
   const { equipment: e, amendments, activity, permissions } = query.data!;
   const evidenceUrl = `/api/equipment/${e.id}/evidence?v=${encodeURIComponent(e.updatedAt)}`;
@@ -171,11 +156,7 @@ export function EquipmentDetail({ id, saved }: { id: string; saved?: string }) {
       <Link href="/equipment" className="text-sm text-fjord-700 underline">
         ← All recovery equipment
       </Link>
-      {saved && (
-        <p role="status" className="flex items-center gap-2 rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">
-          <span aria-hidden="true">✓</span> {saved === "created" ? "Recovery equipment added to the register." : "Changes saved."}
-        </p>
-      )}
+      {saved && <Notice>{saved === "created" ? "Recovery equipment added to the register." : "Changes saved."}</Notice>}
       <header className="flex flex-wrap items-start justify-between gap-3">
         <div>
           <p className="text-sm font-medium uppercase tracking-wide text-ink-600">Recovery equipment · {e.branchName}</p>
@@ -204,15 +185,15 @@ export function EquipmentDetail({ id, saved }: { id: string; saved?: string }) {
             Register entry
           </h2>
           <dl className="divide-y divide-ink-100">
-            <Row label="Manufactured">
+            <DetailRow label="Manufactured">
               {e.manufacturedOn ?? "Unknown"}
               <span className="block text-sm text-ink-600">{ERA_WORDS[e.era]}</span>
-            </Row>
-            <Row label="Kind">{equipmentKind(e)}</Row>
-            <Row label="Certification">
+            </DetailRow>
+            <DetailRow label="Kind">{equipmentKind(e)}</DetailRow>
+            <DetailRow label="Certification">
               <CertificationBadge state={e.certificationState} />
               {e.certifiedBy && <span className="block text-sm text-ink-600">by {e.certifiedBy}</span>}
-            </Row>
+            </DetailRow>
           </dl>
         </section>
         <section aria-labelledby="evidence-h" className="rounded-lg border border-ink-200 bg-white p-4" data-testid="evidence">

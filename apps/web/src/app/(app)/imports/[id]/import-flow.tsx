@@ -6,6 +6,7 @@ import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tansta
 import { createColumnHelper, rowPaginationFeature, tableFeatures, useTable, type PaginationState } from "@tanstack/react-table";
 import { IMPORT_FIELDS, IMPORT_KIND_LABELS, checkImportMapping, type ImportMapping } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { LoadError } from "@/components/detail";
 import { ImportStateBadge } from "../_components/import-state";
 import type { ImportIssueRow, ImportView, Paged } from "../_components/import-types";
 
@@ -26,15 +27,7 @@ export function ImportFlow({ id }: { id: string }) {
 
   if (view.isLoading) return <p className="text-ink-600">Loading the import…</p>;
   if (view.isError) {
-    const notFound = view.error instanceof ApiError && view.error.status === 404;
-    return (
-      <div role="alert" className="rounded-lg border border-ink-200 bg-white p-6">
-        <p className="font-semibold">{notFound ? "No such import, or it is not one you may see." : "The import could not be loaded."}</p>
-        <Link href="/imports" className="mt-2 inline-block text-fjord-700 underline">
-          Back to imports
-        </Link>
-      </div>
-    );
+    return <LoadError error={view.error} noun="import" back={{ href: "/imports", label: "Back to imports" }} />;
   }
   const d = view.data!;
   const what = IMPORT_KIND_LABELS[d.kind].toLowerCase();

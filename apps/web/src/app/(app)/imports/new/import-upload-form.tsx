@@ -9,6 +9,7 @@ import type { z } from "zod";
 import { IMPORT_FIELDS, IMPORT_KIND_LABELS, IMPORT_KINDS, IMPORT_MAX_BYTES, importUploadInput } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import type { BranchOption } from "@/lib/client/types";
+import { FieldError } from "@/components/form";
 
 type FormIn = z.input<typeof importUploadInput>;
 type FormOut = z.output<typeof importUploadInput>;
@@ -18,16 +19,6 @@ const KIND_HINTS = {
   cylinders: "Serial, water capacity, tare, requalification date and contents of each recovery cylinder",
   jobs: "Date, kind, appliance tag, technician and amounts of jobs done before Coldtrail",
 } as const;
-
-function FieldError({ id, message }: { id: string; message?: string | null }) {
-  if (!message) return null;
-  return (
-    <p id={id} className="mt-1 flex items-start gap-1.5 text-sm font-medium text-sev-critical">
-      <span aria-hidden="true">⚠</span>
-      <span>{message}</span>
-    </p>
-  );
-}
 
 export function ImportUploadForm() {
   const router = useRouter();

@@ -18,7 +18,8 @@ import {
   formatMass,
   type LeakRateVerdict,
 } from "@coldtrail/core";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { DetailRow, LoadError } from "@/components/detail";
 import type { CylinderOption, EquipmentOption, JobDetail as Job } from "@/lib/client/types";
 import { useAbility } from "@/components/providers";
 import { SavedNotice } from "../_components/form-bits";
@@ -51,15 +52,6 @@ const VALUE_WORDS: Record<string, Record<string, string>> = {
   addition_exclusion: ADDITION_EXCLUSION_LABELS,
   verification_stage: VERIFICATION_STAGE_LABELS,
 };
-
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid gap-x-3 gap-y-0.5 py-2 sm:grid-cols-[11rem_1fr]">
-      <dt className="text-sm font-medium text-ink-600">{label}</dt>
-      <dd className="text-ink-950">{children}</dd>
-    </div>
-  );
-}
 
 function headline(j: Job): string {
   const g = j.kind === "charge" ? j.chargedG : j.recoveredG;
@@ -121,15 +113,7 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
 
   if (job.isLoading) return <p className="text-ink-600">Loading the job…</p>;
   if (job.isError || !j) {
-    const notFound = job.error instanceof ApiError && job.error.status === 404;
-    return (
-      <div role="alert" className="rounded-lg border border-ink-200 bg-white p-6">
-        <p className="font-semibold">{notFound ? "No such job, or it is not one you may see." : "The job could not be loaded."}</p>
-        <Link href="/jobs" className="mt-2 inline-block text-fjord-700 underline">
-          Back to jobs
-        </Link>
-      </div>
-    );
+    return <LoadError error={job.error} noun="job" back={{ href: "/jobs", label: "Back to jobs" }} />;
   }
 
   const record = subject("Job", { organisationId: j.organisationId, branchId: j.branchId, technicianId: j.technicianId, performedOn: j.performedOn });
@@ -226,55 +210,55 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
       )}
 
       <dl className="divide-y divide-ink-100 rounded-lg border border-ink-200 bg-white px-4">
-        <Row label="Appliance">
+        <DetailRow layout="stacked" label="Appliance">
           {j.applianceTag} {j.applianceDescription && <span className="text-ink-600">— {j.applianceDescription}</span>}
           <span className="block text-sm text-ink-600">
             {APPLIANCE_CATEGORY_LABELS[j.applianceCategory]} · full charge {formatMass(j.applianceFullChargeG, j.branchMassUnit)} · {j.siteName}
           </span>
-        </Row>
-        <Row label="Branch">{j.branchName}</Row>
-        <Row label="Technician">{j.technicianName}</Row>
-        {j.refrigerant && <Row label="Refrigerant">{j.refrigerant}</Row>}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Branch">{j.branchName}</DetailRow>
+        <DetailRow layout="stacked" label="Technician">{j.technicianName}</DetailRow>
+        {j.refrigerant && <DetailRow layout="stacked" label="Refrigerant">{j.refrigerant}</DetailRow>}
         {(recovering || j.kind === "charge") && (
-          <Row label={j.kind === "charge" ? "Amount added" : "Amount recovered"}>
+          <DetailRow layout="stacked" label={j.kind === "charge" ? "Amount added" : "Amount recovered"}>
             <span className="tabular">{formatMass(g, j.branchMassUnit)}</span>
-          </Row>
+          </DetailRow>
         )}
-        {j.kind === "charge" && <Row label="From">{j.chargeSource === "cylinder" ? `Recovery cylinder ${j.cylinderSerial ?? ""}` : "The branch's stock"}</Row>}
-        {j.kind === "charge" && j.additionExclusion && <Row label="Leak rate">Left out: {ADDITION_EXCLUSION_LABELS[j.additionExclusion as keyof typeof ADDITION_EXCLUSION_LABELS] ?? j.additionExclusion}</Row>}
-        {recovering && <Row label="Cylinder">{j.cylinderSerial ?? "—"}</Row>}
-        {recovering && <Row label="Recovery equipment">{j.equipmentSerial ?? "—"}</Row>}
+        {j.kind === "charge" && <DetailRow layout="stacked" label="From">{j.chargeSource === "cylinder" ? `Recovery cylinder ${j.cylinderSerial ?? ""}` : "The branch's stock"}</DetailRow>}
+        {j.kind === "charge" && j.additionExclusion && <DetailRow layout="stacked" label="Leak rate">Left out: {ADDITION_EXCLUSION_LABELS[j.additionExclusion as keyof typeof ADDITION_EXCLUSION_LABELS] ?? j.additionExclusion}</DetailRow>}
+        {recovering && <DetailRow layout="stacked" label="Cylinder">{j.cylinderSerial ?? "—"}</DetailRow>}
+        {recovering && <DetailRow layout="stacked" label="Recovery equipment">{j.equipmentSerial ?? "—"}</DetailRow>}
         {recovering && (
-          <Row label="Evacuation reached">
+          <DetailRow layout="stacked" label="Evacuation reached">
             {j.evacuationValue === null || !j.evacuationUnit ? "—" : <span className="tabular">{`${j.evacuationValue} ${EVACUATION_UNIT_LABELS[j.evacuationUnit]}`}</span>}
-          </Row>
+          </DetailRow>
         )}
         {j.kind === "leak_repair" && (
           <>
-            <Row label="Leak location">{j.leakLocation}</Row>
-            <Row label="Repair">{j.repairDescription}</Row>
-            {j.shutdownNeeded !== null && <Row label="Industrial shutdown">{j.shutdownNeeded ? "Needed" : "Not needed"}</Row>}
+            <DetailRow layout="stacked" label="Leak location">{j.leakLocation}</DetailRow>
+            <DetailRow layout="stacked" label="Repair">{j.repairDescription}</DetailRow>
+            {j.shutdownNeeded !== null && <DetailRow layout="stacked" label="Industrial shutdown">{j.shutdownNeeded ? "Needed" : "Not needed"}</DetailRow>}
           </>
         )}
         {j.kind === "verification_test" && (
           <>
-            <Row label="Test">{j.verificationStage ? VERIFICATION_STAGE_LABELS[j.verificationStage as keyof typeof VERIFICATION_STAGE_LABELS] : "—"}</Row>
-            <Row label="Result">{j.verificationPassed ? "✓ Passed" : "✕ Failed"}</Row>
-            <Row label="Method">{j.verificationMethod ?? "—"}</Row>
-            <Row label="Repair tested">{j.relatedJobId ? <Link className="text-fjord-700 underline" href={`/jobs/${j.relatedJobId}`}>Job #{j.relatedJobId}</Link> : "No repair on record"}</Row>
+            <DetailRow layout="stacked" label="Test">{j.verificationStage ? VERIFICATION_STAGE_LABELS[j.verificationStage as keyof typeof VERIFICATION_STAGE_LABELS] : "—"}</DetailRow>
+            <DetailRow layout="stacked" label="Result">{j.verificationPassed ? "✓ Passed" : "✕ Failed"}</DetailRow>
+            <DetailRow layout="stacked" label="Method">{j.verificationMethod ?? "—"}</DetailRow>
+            <DetailRow layout="stacked" label="Repair tested">{j.relatedJobId ? <Link className="text-fjord-700 underline" href={`/jobs/${j.relatedJobId}`}>Job #{j.relatedJobId}</Link> : "No repair on record"}</DetailRow>
           </>
         )}
         {j.kind !== "verification_test" && (
-          <Row label="Access">
+          <DetailRow layout="stacked" label="Access">
             {j.accessMethod ? ACCESS_METHOD_LABELS[j.accessMethod] : "—"}
             {j.temporaryAccessRemoved === true && <span className="block text-sm">✓ Temporary device removed</span>}
             {j.temporaryAccessRemoved === false && <span className="block text-sm font-medium text-sev-major">⚠ Temporary device left in place</span>}
-          </Row>
+          </DetailRow>
         )}
-        {j.compressorOperating !== null && <Row label="Compressor">{j.compressorOperating ? "Running" : "Not running"}</Row>}
-        {j.notes && <Row label="Notes">{j.notes}</Row>}
+        {j.compressorOperating !== null && <DetailRow layout="stacked" label="Compressor">{j.compressorOperating ? "Running" : "Not running"}</DetailRow>}
+        {j.notes && <DetailRow layout="stacked" label="Notes">{j.notes}</DetailRow>}
         {j.movements.length > 0 && (
-          <Row label="Refrigerant moved">
+          <DetailRow layout="stacked" label="Refrigerant moved">
             <ul className="text-sm">
               {j.movements.map((m) => (
                 <li key={m.id} className="tabular">
@@ -283,11 +267,11 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
                 </li>
               ))}
             </ul>
-          </Row>
+          </DetailRow>
         )}
-        <Row label="Recorded">
+        <DetailRow layout="stacked" label="Recorded">
           {new Date(j.createdAt).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short", timeZone: j.branchTimeZone })} by {j.createdByName}
-        </Row>
+        </DetailRow>
       </dl>
 
       {(canAmend || canVoid) && (

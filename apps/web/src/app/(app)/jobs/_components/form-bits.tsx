@@ -2,6 +2,19 @@
 
 import type { ReactNode } from "react";
 import type { DraftWarning, Severity } from "@coldtrail/core";
+import {
+  AmountField as SharedAmountField,
+  Field as SharedField,
+  Notice,
+  RadioCards,
+  TextField as SharedTextField,
+  radioCardClass,
+  type AmountInputProps,
+  type FieldProps,
+  type TextFieldProps,
+} from "@/components/form";
+
+export { FieldError, FormAlert } from "@/components/form";
 
 /** Field styles of the phone-first record forms: big targets, one column. */
 export const inputClass =
@@ -9,37 +22,29 @@ export const inputClass =
 export const selectClass = "rounded-lg border border-ink-300 bg-white px-3 text-lg";
 export const labelClass = "block text-base font-semibold text-ink-900";
 export const hintClass = "mt-1 text-sm text-ink-600";
-export const choiceClass =
-  "flex min-h-14 cursor-pointer items-center gap-3 rounded-lg border border-ink-200 bg-white px-4 py-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600 has-[:checked]:bg-fjord-50";
+export const choiceClass = radioCardClass.large;
+/** The unit beside an amount (`AmountInput`). */
+export const unitSelectClass = "w-28 rounded-lg border border-ink-300 bg-white px-3 text-lg";
 export const primaryButton = "w-full rounded-lg bg-fjord-600 px-4 py-4 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60";
 export const secondaryButton = "rounded-md border border-ink-300 bg-white px-4 py-2 text-base font-medium text-ink-800 hover:border-fjord-600";
 
-export function FieldError({ id, message }: { id: string; message?: string }) {
-  if (!message) return null;
-  return (
-    <p id={id} className="mt-1 flex items-start gap-1.5 text-sm font-medium text-sev-critical">
-      <span aria-hidden="true">⚠</span>
-      <span>{message}</span>
-    </p>
-  );
-}
-
-export function FormAlert({ id, message }: { id?: string; message: string | null }) {
-  if (!message) return null;
-  return (
-    <p id={id} role="alert" className="rounded-lg border border-sev-critical/50 bg-red-50 px-4 py-3 font-medium text-sev-critical">
-      <span aria-hidden="true">⚠ </span>
-      {message}
-    </p>
-  );
-}
-
 export function SavedNotice({ children }: { children: ReactNode }) {
-  return (
-    <p role="status" className="flex items-center gap-2 rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">
-      <span aria-hidden="true">✓</span> {children}
-    </p>
-  );
+  return <Notice>{children}</Notice>;
+}
+
+/** A labelled field of the record forms (larger label), with its hint and error. */
+export function Field(props: FieldProps) {
+  return <SharedField labelClassName={labelClass} {...props} />;
+}
+
+/** A labelled input or textarea of the record forms, with its hint and error. */
+export function TextField(props: Omit<TextFieldProps, "inputClassName"> & { inputClassName?: string }) {
+  return <SharedTextField labelClassName={labelClass} inputClassName={inputClass} {...props} />;
+}
+
+/** A labelled amount and unit of the record forms (a mass unless `options` says otherwise). */
+export function AmountField(props: Omit<FieldProps, "children"> & Omit<AmountInputProps, "id" | "hint" | "error" | "inputClassName" | "unitClassName"> & { inputClassName?: string; unitClassName?: string }) {
+  return <SharedAmountField labelClassName={labelClass} inputClassName={inputClass} unitClassName={unitSelectClass} {...props} />;
 }
 
 const SEVERITY: Record<Severity, { word: string; icon: string; tone: string }> = {
@@ -90,21 +95,18 @@ export function YesNo({
   no?: string;
 }) {
   return (
-    <div className="mt-2 flex gap-2">
-      {[
-        { v: true, label: yes },
-        { v: false, label: no },
-      ].map((o) => (
-        <label key={String(o.v)} className={`${choiceClass} flex-1`}>
-          <input type="radio" name={name} checked={value === o.v} onChange={() => onChange(o.v)} className="size-5 shrink-0 accent-fjord-600" />
-          {o.label}
-        </label>
-      ))}
-    </div>
+    <RadioCards
+      name={name}
+      value={value}
+      onChange={onChange}
+      options={[
+        { value: true, label: yes },
+        { value: false, label: no },
+      ]}
+      className="mt-2 flex gap-2"
+      cardClassName="flex-1"
+    />
   );
 }
 
-/** Today's calendar date in a time zone (the branch's), not the server's. */
-export function todayIn(timeZone: string): string {
-  return new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).format(new Date());
-}
+export { todayIn } from "@/lib/client/form-values";

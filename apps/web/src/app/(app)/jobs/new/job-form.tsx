@@ -20,7 +20,6 @@ import {
   EVACUATION_UNITS,
   JOB_KIND_LABELS,
   JOB_KINDS,
-  MASS_INPUT_UNITS,
   TEMPORARY_ACCESS_METHODS,
   VERIFICATION_STAGE_LABELS,
   VERIFICATION_STAGES,
@@ -35,13 +34,18 @@ import {
   type DraftField,
   type JobKind,
 } from "@coldtrail/core";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import type { ApplianceOption, CylinderOption, EquipmentOption, JobListPage } from "@/lib/client/types";
 import { SafetyCautions } from "@/components/safety-cautions";
+import { optionsOf } from "@/lib/client/options";
+import { RadioCards } from "@/components/form";
 import {
+  AmountField,
   DraftWarningLine,
   FieldError,
   FormAlert,
+  TextField,
   YesNo,
   choiceClass,
   hintClass,
@@ -302,20 +306,11 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
       router.push(`/jobs/${id}?saved=1`);
     },
     onError: (err) => {
-      if (err instanceof ApiError) {
-        for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field, { type: "server", message: messages[0] });
-        setFormError(err.message);
-      } else setFormError("The job could not be sent. Check your connection; nothing was saved.");
+      setFormError(saveErrorMessage(err, setError, "The job could not be sent. Check your connection; nothing was saved."));
     },
   });
 
-  const onSubmit = handleSubmit(
-    (v) => {
-      setFormError(null);
-      save.mutate(v);
-    },
-    () => setFormError("Some fields need attention before the job can be saved."),
-  );
+  const onSubmit = submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the job can be saved." });
 
   const errorOf = (name: string) => errors[name]?.message as string | undefined;
   const describedBy = (name: string) => (errors[name] ? `${uid}-${name}-error` : undefined);
@@ -345,53 +340,28 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
 
       <div className="grid gap-5 sm:grid-cols-2">
         {(recovering || kind === "charge") && (
-          <div>
-            <label htmlFor={`${uid}-refrigerant`} className={labelClass}>
-              Refrigerant
-            </label>
-            <input id={`${uid}-refrigerant`} readOnly {...register("refrigerant")} className={`${inputClass} bg-ink-50`} aria-describedby={`${uid}-refrigerant-hint`} />
-            <p id={`${uid}-refrigerant-hint`} className={hintClass}>
-              Taken from the appliance register.
-            </p>
-          </div>
+          <TextField
+            id={`${uid}-refrigerant`}
+            label="Refrigerant"
+            hint="Taken from the appliance register."
+            registration={register("refrigerant")}
+            readOnly
+            inputClassName={`${inputClass} bg-ink-50`}
+          />
         )}
-        <div>
-          <label htmlFor={`${uid}-date`} className={labelClass}>
-            Date of the work
-          </label>
-          <input id={`${uid}-date`} type="date" {...register("performedOn")} className={inputClass} aria-invalid={errors.performedOn ? true : undefined} aria-describedby={describedBy("performedOn")} />
-          <FieldError id={`${uid}-performedOn-error`} message={errorOf("performedOn")} />
-        </div>
+        <TextField id={`${uid}-date`} label="Date of the work" error={errorOf("performedOn")} registration={register("performedOn")} type="date" />
       </div>
 
       {(recovering || kind === "charge") && (
         <div>
-          <label htmlFor={`${uid}-amount`} className={labelClass}>
-            {kind === "charge" ? "Amount added" : "Amount recovered"}
-          </label>
-          <div className="mt-1 flex gap-2">
-            <input
-              id={`${uid}-amount`}
-              type="text"
-              inputMode="decimal"
-              autoComplete="off"
-              {...register(amountName)}
-              className={`${inputClass} mt-0 flex-1 tabular`}
-              aria-invalid={errors[amountName] ? true : undefined}
-              aria-describedby={describedBy(amountName)}
-            />
-            <label htmlFor={`${uid}-amount-unit`} className="sr-only">
-              {kind === "charge" ? "Unit of the amount added" : "Unit of the amount recovered"}
-            </label>
-            <select id={`${uid}-amount-unit`} {...register(unitName)} className="w-28 rounded-lg border border-ink-300 bg-white px-3 text-lg">
-              {MASS_INPUT_UNITS.map((u) => (
-                <option key={u} value={u}>
-                  {u}
-                </option>
-              ))}
-            </select>
-          </div>
-          <FieldError id={`${uid}-${amountName}-error`} message={errorOf(amountName)} />
+          <AmountField
+            id={`${uid}-amount`}
+            label={kind === "charge" ? "Amount added" : "Amount recovered"}
+            error={errorOf(amountName)}
+            unitLabel={kind === "charge" ? "Unit of the amount added" : "Unit of the amount recovered"}
+            amount={register(amountName)}
+            unit={register(unitName)}
+          />
           {fieldWarnings(kind === "charge" ? "chargedAmount" : "recoveredAmount")}
         </div>
       )}
@@ -400,31 +370,17 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
         <>
           <fieldset aria-describedby={describedBy("chargeSource")}>
             <legend className={labelClass}>Where did the refrigerant come from?</legend>
-            <div className="mt-2 grid gap-2">
-              {CHARGE_SOURCES.map((s) => (
-                <label key={s} className={choiceClass}>
-                  <input type="radio" value={s} {...register("chargeSource")} className="size-5 shrink-0 accent-fjord-600" />
-                  <span>{CHARGE_SOURCE_LABELS[s]}</span>
-                </label>
-              ))}
-            </div>
+            <RadioCards className="mt-2 grid gap-2" registration={register("chargeSource")} options={optionsOf(CHARGE_SOURCES, CHARGE_SOURCE_LABELS)} />
             <FieldError id={`${uid}-chargeSource-error`} message={errorOf("chargeSource")} />
           </fieldset>
           <fieldset>
             <legend className={labelClass}>Leave this addition out of the leak rate?</legend>
             <p className={hintClass}>Only for these three cases; every other addition counts.</p>
-            <div className="mt-2 grid gap-2">
-              <label className={choiceClass}>
-                <input type="radio" value="" {...register("additionExclusion")} className="size-5 shrink-0 accent-fjord-600" />
-                <span>No, it counts (usual)</span>
-              </label>
-              {ADDITION_EXCLUSIONS.map((x) => (
-                <label key={x} className={choiceClass}>
-                  <input type="radio" value={x} {...register("additionExclusion")} className="size-5 shrink-0 accent-fjord-600" />
-                  <span>{ADDITION_EXCLUSION_LABELS[x]}</span>
-                </label>
-              ))}
-            </div>
+            <RadioCards
+              className="mt-2 grid gap-2"
+              registration={register("additionExclusion")}
+              options={[{ value: "", label: "No, it counts (usual)" }, ...optionsOf(ADDITION_EXCLUSIONS, ADDITION_EXCLUSION_LABELS)]}
+            />
           </fieldset>
         </>
       )}
@@ -434,10 +390,13 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
           <legend className={labelClass}>{chargeFromCylinder ? "Cylinder it came from" : "Recovery cylinder"}</legend>
           {!appliance && <p className={hintClass}>Choose the appliance first; the cylinders of its branch appear here.</p>}
           {appliance && chargeFromCylinder && cylinderRows.length === 0 && <p className={hintClass}>No cylinder of this branch holds {appliance.refrigerant} on record.</p>}
-          <div className="mt-2 space-y-2" role="radiogroup" aria-describedby={describedBy("cylinderId")}>
-            {cylinderRows.map((c) => (
-              <label key={c.id} className={choiceClass}>
-                <input type="radio" value={c.id} {...register("cylinderId")} className="size-5 shrink-0 accent-fjord-600" />
+          <RadioCards
+            className="mt-2 space-y-2"
+            groupProps={{ role: "radiogroup", "aria-describedby": describedBy("cylinderId") }}
+            registration={register("cylinderId")}
+            options={cylinderRows.map((c) => ({
+              value: c.id,
+              label: (
                 <span>
                   <span className="block font-semibold">{c.serial}</span>
                   <span className="block text-sm text-ink-600">
@@ -447,9 +406,9 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
                     )}
                   </span>
                 </span>
-              </label>
-            ))}
-          </div>
+              ),
+            }))}
+          />
           <FieldError id={`${uid}-cylinderId-error`} message={errorOf("cylinderId")} />
           {fieldWarnings("cylinderId")}
           {feedback.data?.cylinderAfter && values.cylinderId && (
@@ -465,55 +424,39 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
         <>
           <fieldset>
             <legend className={labelClass}>Recovery equipment</legend>
-            <div className="mt-2 space-y-2" role="radiogroup" aria-describedby={describedBy("equipmentId")}>
-              {equipment.data?.rows.map((e) => (
-                <label key={e.id} className={choiceClass}>
-                  <input type="radio" value={e.id} {...register("equipmentId")} className="size-5 shrink-0 accent-fjord-600" />
+            <RadioCards
+              className="mt-2 space-y-2"
+              groupProps={{ role: "radiogroup", "aria-describedby": describedBy("equipmentId") }}
+              registration={register("equipmentId")}
+              options={(equipment.data?.rows ?? []).map((e) => ({
+                value: e.id,
+                label: (
                   <span>
                     <span className="block font-semibold">{e.serial}</span>
                     <span className="block text-sm text-ink-600">
                       {e.makeModel} · {e.certificationState === "certified" ? "✓ certified" : "⚠ no certification on file"}
                     </span>
                   </span>
-                </label>
-              ))}
-            </div>
+                ),
+              }))}
+            />
             <FieldError id={`${uid}-equipmentId-error`} message={errorOf("equipmentId")} />
             {fieldWarnings("equipmentId")}
           </fieldset>
 
           <div>
-            <label htmlFor={`${uid}-evac`} className={labelClass}>
-              Evacuation level reached
-            </label>
-            {feedback.data?.evacuationRequired && appliance && (
-              <p className={hintClass} data-testid="evacuation-required">
-                Required here: {feedback.data.evacuationRequired}
-              </p>
-            )}
-            <div className="mt-1 flex gap-2">
-              <input
-                id={`${uid}-evac`}
-                type="text"
-                inputMode="decimal"
-                autoComplete="off"
-                {...register("evacuationValue")}
-                className={`${inputClass} mt-0 flex-1 tabular`}
-                aria-invalid={errors.evacuationValue ? true : undefined}
-                aria-describedby={describedBy("evacuationValue")}
-              />
-              <label htmlFor={`${uid}-evac-unit`} className="sr-only">
-                Unit of the evacuation level
-              </label>
-              <select id={`${uid}-evac-unit`} {...register("evacuationUnit")} className="w-40 rounded-lg border border-ink-300 bg-white px-2 text-base">
-                {EVACUATION_UNITS.map((u) => (
-                  <option key={u} value={u}>
-                    {EVACUATION_UNIT_LABELS[u]}
-                  </option>
-                ))}
-              </select>
-            </div>
-            <FieldError id={`${uid}-evacuationValue-error`} message={errorOf("evacuationValue")} />
+            <AmountField
+              id={`${uid}-evac`}
+              label="Evacuation level reached"
+              hint={feedback.data?.evacuationRequired && appliance ? <span data-testid="evacuation-required">Required here: {feedback.data.evacuationRequired}</span> : undefined}
+              hintFirst
+              error={errorOf("evacuationValue")}
+              unitLabel="Unit of the evacuation level"
+              amount={register("evacuationValue")}
+              unit={register("evacuationUnit")}
+              options={optionsOf(EVACUATION_UNITS, EVACUATION_UNIT_LABELS)}
+              unitClassName="w-40 rounded-lg border border-ink-300 bg-white px-2 text-base"
+            />
             {fieldWarnings("evacuationValue")}
           </div>
         </>
@@ -521,20 +464,8 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
 
       {kind === "leak_repair" && (
         <>
-          <div>
-            <label htmlFor={`${uid}-leak`} className={labelClass}>
-              Where was the leak?
-            </label>
-            <input id={`${uid}-leak`} type="text" {...register("leakLocation")} className={inputClass} aria-invalid={errors.leakLocation ? true : undefined} aria-describedby={describedBy("leakLocation")} placeholder="e.g. Evaporator return bend" />
-            <FieldError id={`${uid}-leakLocation-error`} message={errorOf("leakLocation")} />
-          </div>
-          <div>
-            <label htmlFor={`${uid}-repair`} className={labelClass}>
-              What was repaired?
-            </label>
-            <textarea id={`${uid}-repair`} rows={3} {...register("repairDescription")} className={inputClass} aria-invalid={errors.repairDescription ? true : undefined} aria-describedby={describedBy("repairDescription")} />
-            <FieldError id={`${uid}-repairDescription-error`} message={errorOf("repairDescription")} />
-          </div>
+          <TextField id={`${uid}-leak`} label="Where was the leak?" error={errorOf("leakLocation")} registration={register("leakLocation")} type="text" placeholder="e.g. Evaporator return bend" />
+          <TextField id={`${uid}-repair`} label="What was repaired?" error={errorOf("repairDescription")} registration={register("repairDescription")} rows={3} />
           {appliance?.category === "industrial_process" && (
             <Controller
               control={control}
@@ -555,14 +486,7 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
         <>
           <fieldset aria-describedby={describedBy("verificationStage")}>
             <legend className={labelClass}>Which test?</legend>
-            <div className="mt-2 grid gap-2">
-              {VERIFICATION_STAGES.map((s) => (
-                <label key={s} className={choiceClass}>
-                  <input type="radio" value={s} {...register("verificationStage")} className="size-5 shrink-0 accent-fjord-600" />
-                  <span>{VERIFICATION_STAGE_LABELS[s]}</span>
-                </label>
-              ))}
-            </div>
+            <RadioCards className="mt-2 grid gap-2" registration={register("verificationStage")} options={optionsOf(VERIFICATION_STAGES, VERIFICATION_STAGE_LABELS)} />
             <FieldError id={`${uid}-verificationStage-error`} message={errorOf("verificationStage")} />
           </fieldset>
           <Controller
@@ -576,18 +500,21 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
               </fieldset>
             )}
           />
-          <div>
-            <label htmlFor={`${uid}-method`} className={labelClass}>
-              How was it tested?
-            </label>
-            <input id={`${uid}-method`} type="text" list={`${uid}-methods`} {...register("verificationMethod")} className={inputClass} aria-invalid={errors.verificationMethod ? true : undefined} aria-describedby={describedBy("verificationMethod")} />
-            <datalist id={`${uid}-methods`}>
-              {TEST_METHODS.map((m) => (
-                <option key={m} value={m} />
-              ))}
-            </datalist>
-            <FieldError id={`${uid}-verificationMethod-error`} message={errorOf("verificationMethod")} />
-          </div>
+          <TextField
+            id={`${uid}-method`}
+            label="How was it tested?"
+            error={errorOf("verificationMethod")}
+            registration={register("verificationMethod")}
+            type="text"
+            list={`${uid}-methods`}
+            after={
+              <datalist id={`${uid}-methods`}>
+                {TEST_METHODS.map((m) => (
+                  <option key={m} value={m} />
+                ))}
+              </datalist>
+            }
+          />
           <div>
             <label htmlFor={`${uid}-related`} className={labelClass}>
               Repair this test checks
@@ -607,14 +534,7 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
       {kind === "disposal" && (
         <fieldset>
           <legend className={labelClass}>Where is it taken apart?</legend>
-          <div className="mt-2 grid gap-2">
-            {DISPOSAL_PATHS.map((p) => (
-              <label key={p} className={choiceClass}>
-                <input type="radio" value={p} {...register("disposalPath")} className="size-5 shrink-0 accent-fjord-600" />
-                <span>{DISPOSAL_PATH_LABELS[p]}</span>
-              </label>
-            ))}
-          </div>
+          <RadioCards className="mt-2 grid gap-2" registration={register("disposalPath")} options={optionsOf(DISPOSAL_PATHS, DISPOSAL_PATH_LABELS)} />
           <p className={hintClass}>After saving, add the disposal record (more than 5 lb) or the signed statement (small appliance).</p>
         </fieldset>
       )}
@@ -624,14 +544,12 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
           <legend className={labelClass}>
             How was the circuit accessed?{kind === "charge" || kind === "leak_repair" ? <span className="font-normal text-ink-600"> (optional)</span> : null}
           </legend>
-          <div className="mt-2 grid gap-2 sm:grid-cols-2" aria-describedby={describedBy("accessMethod")}>
-            {ACCESS_METHODS.map((m) => (
-              <label key={m} className={choiceClass}>
-                <input type="radio" value={m} {...register("accessMethod")} className="size-5 shrink-0 accent-fjord-600" />
-                <span>{ACCESS_METHOD_LABELS[m]}</span>
-              </label>
-            ))}
-          </div>
+          <RadioCards
+            className="mt-2 grid gap-2 sm:grid-cols-2"
+            groupProps={{ "aria-describedby": describedBy("accessMethod") }}
+            registration={register("accessMethod")}
+            options={optionsOf(ACCESS_METHODS, ACCESS_METHOD_LABELS)}
+          />
           <FieldError id={`${uid}-accessMethod-error`} message={errorOf("accessMethod")} />
         </fieldset>
       )}
@@ -666,13 +584,7 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
         />
       )}
 
-      <div>
-        <label htmlFor={`${uid}-notes`} className={labelClass}>
-          Notes <span className="font-normal text-ink-600">(optional)</span>
-        </label>
-        <textarea id={`${uid}-notes`} rows={3} {...register("notes")} className={inputClass} aria-describedby={describedBy("notes")} />
-        <FieldError id={`${uid}-notes-error`} message={errorOf("notes")} />
-      </div>
+      <TextField id={`${uid}-notes`} label="Notes" optional error={errorOf("notes")} registration={register("notes")} rows={3} />
 
       <DraftFeedback appliance={appliance} feedback={feedback.data} checking={feedback.isFetching} massUnitLabel={kind === "charge"} />
 

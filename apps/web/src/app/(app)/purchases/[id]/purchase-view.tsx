@@ -5,7 +5,8 @@ import { useQuery } from "@tanstack/react-query";
 import { subject } from "@casl/ability";
 import { formatMass } from "@coldtrail/core";
 import type { PurchaseDetail } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { LoadError } from "@/components/detail";
 import { useAbility } from "@/components/providers";
 import { SavedNotice } from "../../jobs/_components/form-bits";
 import { AmendPanel, AmendmentHistory, VoidPanel, VoidedBanner } from "../../jobs/_components/record-history";
@@ -23,8 +24,7 @@ export function PurchaseView({ id, saved }: { id: string; saved: boolean }) {
   const q = useQuery({ queryKey: ["purchase", id], queryFn: () => fetchJson<PurchaseDetail>(`/api/purchases/${encodeURIComponent(id)}`), retry: false });
   if (q.isLoading) return <p className="text-ink-600">Loading the purchase…</p>;
   if (q.isError || !q.data) {
-    const notFound = q.error instanceof ApiError && q.error.status === 404;
-    return <p role="alert">{notFound ? "No such purchase, or it is not one you may see." : "The purchase could not be loaded."}</p>;
+    return <LoadError error={q.error} noun="purchase" />;
   }
   const p = q.data;
   const where = subject("Purchase", { organisationId: p.organisationId, branchId: p.branchId });

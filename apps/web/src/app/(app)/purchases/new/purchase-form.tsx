@@ -2,15 +2,17 @@
 
 import { useEffect, useId, useState } from "react";
 import { useRouter } from "next/navigation";
-import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useForm, type FieldValues, type Resolver } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { subject } from "@casl/ability";
-import { MASS_INPUT_UNITS, REFRIGERANTS, purchaseInput } from "@coldtrail/core";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import type { BranchOption } from "@/lib/client/types";
+import { purchaseInput } from "@coldtrail/core";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
+import { useBranchOptions } from "@/lib/client/use-branch-options";
 import { useAbility } from "@/components/providers";
-import { FieldError, FormAlert, inputClass, labelClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
+import { fieldAria, RefrigerantList } from "@/components/form";
+import { AmountField, Field, FormAlert, TextField, inputClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
 
 /** Refrigerant bought by a branch. */
 export function PurchaseForm({ organisationId }: { organisationId: number }) {
@@ -19,7 +21,7 @@ export function PurchaseForm({ organisationId }: { organisationId: number }) {
   const ability = useAbility();
   const queryClient = useQueryClient();
   const [formError, setFormError] = useState<string | null>(null);
-  const branches = useQuery({ queryKey: ["branches"], queryFn: () => fetchJson<{ rows: BranchOption[] }>("/api/lookup/branches") });
+  const branches = useBranchOptions();
   const writable = (branches.data?.rows ?? []).filter((b) => !b.archivedAt && ability.can("create", subject("Purchase", { organisationId, branchId: b.id })));
   const form = useForm<FieldValues>({
     resolver: zodResolver(purchaseInput as never) as unknown as Resolver<FieldValues>,
@@ -43,100 +45,48 @@ export function PurchaseForm({ organisationId }: { organisationId: number }) {
       router.push(`/purchases/${id}?saved=1`);
     },
     onError: (err) => {
-      if (err instanceof ApiError) {
-        for (const [f, m] of Object.entries(err.fieldErrors)) setError(f, { type: "server", message: m[0] });
-        setFormError(err.message);
-      } else setFormError("The purchase could not be sent; nothing was saved.");
+      setFormError(saveErrorMessage(err, setError, "The purchase could not be sent; nothing was saved."));
     },
   });
-  const field = (name: string, label: string, opts: { type?: string; inputMode?: "decimal" | "numeric"; list?: string } = {}) => {
-    const err = errors[name]?.message as string | undefined;
-    return (
-      <div>
-        <label htmlFor={`${uid}-${name}`} className={labelClass}>
-          {label}
-        </label>
-        <input
-          id={`${uid}-${name}`}
-          type={opts.type ?? "text"}
-          inputMode={opts.inputMode}
-          list={opts.list}
-          autoComplete="off"
-          {...register(name)}
-          className={`${inputClass} ${opts.inputMode ? "tabular" : ""}`}
-          aria-invalid={err ? true : undefined}
-          aria-describedby={err ? `${uid}-${name}-error` : undefined}
-        />
-        <FieldError id={`${uid}-${name}-error`} message={err} />
-      </div>
-    );
-  };
+  const err = (name: string) => errors[name]?.message as string | undefined;
+  const field = (name: string, label: string, opts: { type?: string; inputMode?: "decimal" | "numeric"; list?: string } = {}) => (
+    <TextField
+      id={`${uid}-${name}`}
+      label={label}
+      error={err(name)}
+      registration={register(name)}
+      type={opts.type ?? "text"}
+      inputMode={opts.inputMode}
+      list={opts.list}
+      autoComplete="off"
+      inputClassName={`${inputClass} ${opts.inputMode ? "tabular" : ""}`}
+    />
+  );
   return (
     <form
       noValidate
       className="space-y-5"
-      onSubmit={handleSubmit(
-        (v) => {
-          setFormError(null);
-          save.mutate(v);
-        },
-        () => setFormError("Some fields need attention before the purchase can be saved."),
-      )}
+      onSubmit={submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the purchase can be saved." })}
     >
       <header>
         <h1 className="text-2xl font-semibold text-ink-950">Record a purchase</h1>
         <p className="text-ink-600">Refrigerant the branch bought; it counts in the branch&apos;s refrigerant balance.</p>
       </header>
       <FormAlert message={formError} />
-      <div>
-        <label htmlFor={`${uid}-branch`} className={labelClass}>
-          Branch
-        </label>
-        <select id={`${uid}-branch`} {...register("branchId")} className={`${inputClass} py-3`} aria-invalid={errors.branchId ? true : undefined}>
+      <Field id={`${uid}-branchId`} label="Branch" error={err("branchId")}>
+        <select id={`${uid}-branchId`} {...register("branchId")} className={`${inputClass} py-3`} {...fieldAria(`${uid}-branchId`, { error: err("branchId") })}>
           {writable.map((b) => (
             <option key={b.id} value={b.id}>
               {b.name}
             </option>
           ))}
         </select>
-        <FieldError id={`${uid}-branchId-error`} message={errors.branchId?.message as string | undefined} />
-      </div>
+      </Field>
       {field("purchasedOn", "Date bought", { type: "date" })}
       {field("supplierName", "Supplier")}
       {field("refrigerant", "Refrigerant", { list: `${uid}-refrigerants` })}
-      <datalist id={`${uid}-refrigerants`}>
-        {REFRIGERANTS.map((r) => (
-          <option key={r.designation} value={r.designation} />
-        ))}
-      </datalist>
-      <div>
-        <label htmlFor={`${uid}-amount`} className={labelClass}>
-          Quantity bought
-        </label>
-        <div className="mt-1 flex gap-2">
-          <input
-            id={`${uid}-amount`}
-            type="text"
-            inputMode="decimal"
-            autoComplete="off"
-            {...register("amount")}
-            className={`${inputClass} mt-0 flex-1 tabular`}
-            aria-invalid={errors.amount ? true : undefined}
-            aria-describedby={errors.amount ? `${uid}-amount-error` : undefined}
-          />
-          <label htmlFor={`${uid}-unit`} className="sr-only">
-            Unit of the quantity
-          </label>
-          <select id={`${uid}-unit`} {...register("unit")} className="w-28 rounded-lg border border-ink-300 bg-white px-3 text-lg">
-            {MASS_INPUT_UNITS.map((u) => (
-              <option key={u} value={u}>
-                {u}
-              </option>
-            ))}
-          </select>
-        </div>
-        <FieldError id={`${uid}-amount-error`} message={errors.amount?.message as string | undefined} />
-      </div>
+      <RefrigerantList id={`${uid}-refrigerants`} />
+      <AmountField id={`${uid}-amount`} label="Quantity bought" error={err("amount")} unitId={`${uid}-unit`} unitLabel="Unit of the quantity" amount={register("amount")} unit={register("unit")} />
       {field("containerCount", "Number of containers (optional)", { inputMode: "numeric" })}
       {field("invoiceReference", "Invoice reference (optional)")}
       <button type="submit" disabled={save.isPending} className={primaryButton}>

@@ -5,7 +5,8 @@ import { useQuery } from "@tanstack/react-query";
 import { subject } from "@casl/ability";
 import { formatMass } from "@coldtrail/core";
 import type { ShipmentDetail } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { LoadError } from "@/components/detail";
 import { useAbility } from "@/components/providers";
 import { SavedNotice } from "../../jobs/_components/form-bits";
 import { AmendPanel, AmendmentHistory, VoidPanel, VoidedBanner } from "../../jobs/_components/record-history";
@@ -23,8 +24,7 @@ export function ShipmentView({ id, saved }: { id: string; saved: boolean }) {
   const q = useQuery({ queryKey: ["shipment", id], queryFn: () => fetchJson<ShipmentDetail>(`/api/shipments/${encodeURIComponent(id)}`), retry: false });
   if (q.isLoading) return <p className="text-ink-600">Loading the shipment…</p>;
   if (q.isError || !q.data) {
-    const notFound = q.error instanceof ApiError && q.error.status === 404;
-    return <p role="alert">{notFound ? "No such shipment, or it is not one you may see." : "The shipment could not be loaded."}</p>;
+    return <LoadError error={q.error} noun="shipment" />;
   }
   const s = q.data;
   const where = subject("ReclaimShipment", { organisationId: s.organisationId, branchId: s.branchId });

@@ -3,13 +3,14 @@
 import { useId, useState } from "react";
 import { useRouter } from "next/navigation";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { Controller, useForm, type FieldPath } from "react-hook-form";
+import { Controller, useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import { inspectorGrantInput } from "@coldtrail/core";
 import type { AdminBranchPage } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { FieldError, FormAlert, errorMessage, hintClass, inputClass, labelClass, primaryButton } from "../../_components/form-bits";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
+import { FieldError, FormAlert, hintClass, inputClass, labelClass, primaryButton } from "../../_components/form-bits";
 
 type FormIn = z.input<typeof inspectorGrantInput>;
 type FormOut = z.output<typeof inspectorGrantInput>;
@@ -50,17 +51,10 @@ export function GrantForm() {
       router.push(`/admin/inspectors?granted=${res.mailSent ? res.kind : "unsent"}`);
     },
     onError: (err) => {
-      if (err instanceof ApiError) for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
-      setFormError(errorMessage(err, "The access could not be given. Check your connection; nothing was saved."));
+      setFormError(saveErrorMessage(err, setError, "The access could not be given. Check your connection; nothing was saved."));
     },
   });
-  const onSubmit = handleSubmit(
-    (values) => {
-      setFormError(null);
-      grant.mutate(values);
-    },
-    () => setFormError("Some fields need attention before access can be given."),
-  );
+  const onSubmit = submitOrExplain(handleSubmit, { save: grant.mutate, setFormError, invalid: "Some fields need attention before access can be given." });
   const field = (name: keyof FormIn, label: string, type = "text", hint?: string) => (
     <div>
       <label htmlFor={`${uid}-${name}`} className={labelClass}>

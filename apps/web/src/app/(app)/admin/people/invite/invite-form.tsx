@@ -3,14 +3,15 @@
 import { useId, useState } from "react";
 import { useRouter } from "next/navigation";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { Controller, useForm, type FieldPath } from "react-hook-form";
+import { Controller, useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import { invitationInput } from "@coldtrail/core";
 import type { AdminBranchPage } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import { AccessFields, accessPayload } from "../../_components/access-fields";
-import { FieldError, FormAlert, errorMessage, inputClass, labelClass, primaryButton } from "../../_components/form-bits";
+import { FieldError, FormAlert, inputClass, labelClass, primaryButton } from "../../_components/form-bits";
 
 type FormIn = z.input<typeof invitationInput>;
 type FormOut = z.output<typeof invitationInput>;
@@ -43,18 +44,11 @@ export function InviteForm() {
       router.push(`/admin/people?invited=${encodeURIComponent(input.email)}`);
     },
     onError: (err) => {
-      if (err instanceof ApiError) for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
-      setFormError(errorMessage(err, "The invitation could not be sent. Check your connection; nothing was saved."));
+      setFormError(saveErrorMessage(err, setError, "The invitation could not be sent. Check your connection; nothing was saved."));
     },
   });
 
-  const onSubmit = handleSubmit(
-    (values) => {
-      setFormError(null);
-      invite.mutate(values);
-    },
-    () => setFormError("Some fields need attention before the invitation can be sent."),
-  );
+  const onSubmit = submitOrExplain(handleSubmit, { save: invite.mutate, setFormError, invalid: "Some fields need attention before the invitation can be sent." });
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-6 rounded-lg border border-ink-200 bg-white p-5">

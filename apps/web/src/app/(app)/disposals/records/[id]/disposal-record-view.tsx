@@ -5,7 +5,8 @@ import { useQuery } from "@tanstack/react-query";
 import { subject } from "@casl/ability";
 import { APPLIANCE_CATEGORY_LABELS, DISPOSAL_PATH_LABELS, disposalRecordCompleteness, formatMass } from "@coldtrail/core";
 import type { DisposalRecordDetail } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { DetailRow, LoadError, CompletenessLine } from "@/components/detail";
 import { useAbility } from "@/components/providers";
 import { SavedNotice } from "../../../jobs/_components/form-bits";
 import { AmendPanel, AmendmentHistory, VoidPanel, VoidedBanner } from "../../../jobs/_components/record-history";
@@ -20,22 +21,12 @@ const FIELD_WORDS: Record<string, string> = {
   sent_to: "Sent to",
 };
 
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid gap-x-3 gap-y-0.5 py-2 sm:grid-cols-[12rem_1fr]">
-      <dt className="text-sm font-medium text-ink-600">{label}</dt>
-      <dd className="text-ink-950">{children}</dd>
-    </div>
-  );
-}
-
 export function DisposalRecordView({ id, saved }: { id: string; saved: boolean }) {
   const ability = useAbility();
   const q = useQuery({ queryKey: ["disposal-record", id], queryFn: () => fetchJson<DisposalRecordDetail>(`/api/disposals/records/${encodeURIComponent(id)}`), retry: false });
   if (q.isLoading) return <p className="text-ink-600">Loading the disposal record…</p>;
   if (q.isError || !q.data) {
-    const notFound = q.error instanceof ApiError && q.error.status === 404;
-    return <p role="alert">{notFound ? "No such disposal record, or it is not one you may see." : "The disposal record could not be loaded."}</p>;
+    return <LoadError error={q.error} noun="disposal record" />;
   }
   const r = q.data;
   const where = subject("Disposal", { organisationId: r.organisationId, branchId: r.branchId });
@@ -54,38 +45,35 @@ export function DisposalRecordView({ id, saved }: { id: string; saved: boolean }
         </h1>
       </header>
       <VoidedBanner at={r.voidedAt} reason={r.voidReason} />
-      <p className={`flex items-start gap-2 rounded-md border px-3 py-2 ${complete.complete ? "border-ok/40 bg-green-50 text-ok" : "border-sev-major/50 bg-orange-50 text-sev-major"}`} data-testid="record-completeness">
-        <span aria-hidden="true">{complete.complete ? "✓" : "⚠"}</span>
-        {complete.complete ? "Every field the rule asks for is on the record." : `Missing: ${complete.missing.join(", ")}.`}
-      </p>
+      <CompletenessLine complete={complete.complete} missing={complete.missing} completeText="Every field the rule asks for is on the record." testId="record-completeness" />
       <dl className="divide-y divide-ink-100 rounded-lg border border-ink-200 bg-white px-4">
-        <Row label="Appliance">
+        <DetailRow layout="stacked" label="Appliance">
           {r.applianceTag} — {r.applianceDescription}
           <span className="block text-sm text-ink-600">
             {APPLIANCE_CATEGORY_LABELS[r.applianceCategory]} · full charge {formatMass(r.applianceFullChargeG, r.branchMassUnit)}
           </span>
-        </Row>
-        <Row label="Company name">{r.companyName ?? "—"}</Row>
-        <Row label="Location">{r.applianceLocation ?? "—"}</Row>
-        <Row label="Date of recovery">{r.recoveredOn ?? "—"}</Row>
-        <Row label="Refrigerant">{r.refrigerant ?? "—"}</Row>
-        <Row label="Quantity recovered">
+        </DetailRow>
+        <DetailRow layout="stacked" label="Company name">{r.companyName ?? "—"}</DetailRow>
+        <DetailRow layout="stacked" label="Location">{r.applianceLocation ?? "—"}</DetailRow>
+        <DetailRow layout="stacked" label="Date of recovery">{r.recoveredOn ?? "—"}</DetailRow>
+        <DetailRow layout="stacked" label="Refrigerant">{r.refrigerant ?? "—"}</DetailRow>
+        <DetailRow layout="stacked" label="Quantity recovered">
           <span className="tabular">{r.recoveredG === null ? "—" : formatMass(r.recoveredG, r.branchMassUnit)}</span>
-        </Row>
-        <Row label="Recovered by">{r.recoveredByName ?? "—"}</Row>
-        <Row label="Taken apart">{DISPOSAL_PATH_LABELS[r.disposalPath] ?? r.disposalPath}</Row>
-        <Row label="Sent to">{r.sentTo ?? "—"}</Row>
-        <Row label="Branch">{r.branchName}</Row>
+        </DetailRow>
+        <DetailRow layout="stacked" label="Recovered by">{r.recoveredByName ?? "—"}</DetailRow>
+        <DetailRow layout="stacked" label="Taken apart">{DISPOSAL_PATH_LABELS[r.disposalPath] ?? r.disposalPath}</DetailRow>
+        <DetailRow layout="stacked" label="Sent to">{r.sentTo ?? "—"}</DetailRow>
+        <DetailRow layout="stacked" label="Branch">{r.branchName}</DetailRow>
         {r.jobId && (
-          <Row label="Disposal job">
+          <DetailRow layout="stacked" label="Disposal job">
             <Link href={`/jobs/${r.jobId}`} className="text-fjord-700 underline">
               Job #{r.jobId}
             </Link>
-          </Row>
+          </DetailRow>
         )}
-        <Row label="Recorded">
+        <DetailRow layout="stacked" label="Recorded">
           {new Date(r.createdAt).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" })} by {r.createdByName}
-        </Row>
+        </DetailRow>
       </dl>
       {!r.voidedAt && (
         <div className="flex flex-wrap items-start gap-3">

@@ -7,6 +7,7 @@ import { subject } from "@casl/ability";
 import { APPLIANCE_CATEGORY_LABELS, smallApplianceStatementCompleteness } from "@coldtrail/core";
 import type { DisposalStatementDetail } from "@coldtrail/db";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { DetailRow, LoadError, CompletenessLine } from "@/components/detail";
 import { useAbility } from "@/components/providers";
 import { FieldError, SavedNotice, inputClass, labelClass, secondaryButton } from "../../../jobs/_components/form-bits";
 import { AmendPanel, AmendmentHistory, VoidPanel, VoidedBanner } from "../../../jobs/_components/record-history";
@@ -21,15 +22,6 @@ const FIELD_WORDS: Record<string, string> = {
   document_file_key: "Signed document",
   document_mime: "Document type",
 };
-
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid gap-x-3 gap-y-0.5 py-2 sm:grid-cols-[12rem_1fr]">
-      <dt className="text-sm font-medium text-ink-600">{label}</dt>
-      <dd className="text-ink-950">{children}</dd>
-    </div>
-  );
-}
 
 /** Attach the signed document to a statement already on file: an amendment with a reason. */
 function AttachDocument({ id, invalidate }: { id: number; invalidate: string[][] }) {
@@ -109,8 +101,7 @@ export function DisposalStatementView({ id, saved }: { id: string; saved: boolea
   const q = useQuery({ queryKey: ["disposal-statement", id], queryFn: () => fetchJson<DisposalStatementDetail>(`/api/disposals/statements/${encodeURIComponent(id)}`), retry: false });
   if (q.isLoading) return <p className="text-ink-600">Loading the signed statement…</p>;
   if (q.isError || !q.data) {
-    const notFound = q.error instanceof ApiError && q.error.status === 404;
-    return <p role="alert">{notFound ? "No such signed statement, or it is not one you may see." : "The signed statement could not be loaded."}</p>;
+    return <LoadError error={q.error} noun="signed statement" />;
   }
   const s = q.data;
   const where = subject("Disposal", { organisationId: s.organisationId, branchId: s.branchId });
@@ -136,10 +127,7 @@ export function DisposalStatementView({ id, saved }: { id: string; saved: boolea
         <h1 className="text-2xl font-semibold text-ink-950">Refrigerant recovered from {s.applianceTag}</h1>
       </header>
       <VoidedBanner at={s.voidedAt} reason={s.voidReason} />
-      <p className={`flex items-start gap-2 rounded-md border px-3 py-2 ${complete.complete ? "border-ok/40 bg-green-50 text-ok" : "border-sev-major/50 bg-orange-50 text-sev-major"}`}>
-        <span aria-hidden="true">{complete.complete ? "✓" : "⚠"}</span>
-        {complete.complete ? "The statement has everything the rule asks for." : `Missing: ${complete.missing.join(", ")}.`}
-      </p>
+      <CompletenessLine complete={complete.complete} missing={complete.missing} completeText="The statement has everything the rule asks for." />
       <section aria-labelledby="doc-h" className="rounded-lg border border-ink-200 bg-white p-4" data-testid="statement-document">
         <h2 id="doc-h" className="text-lg font-semibold text-ink-950">
           Signed document
@@ -163,27 +151,27 @@ export function DisposalStatementView({ id, saved }: { id: string; saved: boolea
         )}
       </section>
       <dl className="divide-y divide-ink-100 rounded-lg border border-ink-200 bg-white px-4">
-        <Row label="Appliance">
+        <DetailRow layout="stacked" label="Appliance">
           {s.applianceTag} — {s.applianceDescription}
           <span className="block text-sm text-ink-600">{APPLIANCE_CATEGORY_LABELS[s.applianceCategory]}</span>
-        </Row>
-        <Row label="Recovered by">{s.recoveredByName}</Row>
-        <Row label="Their address">{s.recoveredByAddress}</Row>
-        <Row label="Date of recovery">{s.recoveredOn}</Row>
-        <Row label="Signed by">{s.signedByName ?? "—"}</Row>
-        <Row label="Date signed">{s.signedOn ?? "—"}</Row>
-        {s.contractReference && <Row label="Contract">{s.contractReference}</Row>}
-        <Row label="Branch">{s.branchName}</Row>
+        </DetailRow>
+        <DetailRow layout="stacked" label="Recovered by">{s.recoveredByName}</DetailRow>
+        <DetailRow layout="stacked" label="Their address">{s.recoveredByAddress}</DetailRow>
+        <DetailRow layout="stacked" label="Date of recovery">{s.recoveredOn}</DetailRow>
+        <DetailRow layout="stacked" label="Signed by">{s.signedByName ?? "—"}</DetailRow>
+        <DetailRow layout="stacked" label="Date signed">{s.signedOn ?? "—"}</DetailRow>
+        {s.contractReference && <DetailRow layout="stacked" label="Contract">{s.contractReference}</DetailRow>}
+        <DetailRow layout="stacked" label="Branch">{s.branchName}</DetailRow>
         {s.jobId && (
-          <Row label="Disposal job">
+          <DetailRow layout="stacked" label="Disposal job">
             <Link href={`/jobs/${s.jobId}`} className="text-fjord-700 underline">
               Job #{s.jobId}
             </Link>
-          </Row>
+          </DetailRow>
         )}
-        <Row label="Recorded">
+        <DetailRow layout="stacked" label="Recorded">
           {new Date(s.createdAt).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" })} by {s.createdByName}
-        </Row>
+        </DetailRow>
       </dl>
       {!s.voidedAt && (
         <div className="flex flex-wrap items-start gap-3">

@@ -1,0 +1,3 @@
+export * from "./completeness-line";
+export * from "./detail-row";
+export * from "./load-error";
