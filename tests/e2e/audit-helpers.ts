@@ -34,6 +34,9 @@ export interface AuditRow {
 }
 
 export const todayUtc = () => new Date().toISOString().slice(0, 10);
+/** Today's calendar date in a branch's time zone (a job's date is the branch's date, not UTC's). */
+export const todayIn = (timeZone: string) =>
+  new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).format(new Date());
 
 /** Waits for an audit to finish (the run is in the background) and returns it. */
 export async function waitForAudit(request: APIRequestContext, id: number): Promise<AuditRow> {

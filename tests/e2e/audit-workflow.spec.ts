@@ -4,7 +4,7 @@ import { join } from "node:path";
 import ExcelJS from "exceljs";
 import { DEMO, contextAs, expect, mailTo, snap, test } from "./fixtures";
 import { PLANTED_GAPS } from "./demo-data";
-import { allFindings, TINY_PNG, todayUtc, waitForAudit, type FindingRow } from "./audit-helpers";
+import { allFindings, TINY_PNG, todayIn, todayUtc, waitForAudit, type FindingRow } from "./audit-helpers";
 
 /**
  * The compliance officer's main job, end to end on the demo data: run an audit of every branch, see
@@ -154,7 +154,7 @@ test.describe.serial("audits end to end", () => {
       data: {
         kind: "recovery",
         applianceId: appliance.id,
-        performedOn: todayUtc(),
+        performedOn: todayIn("America/New_York"), // Columbus: the branch's date, inside the audited period
         refrigerant: appliance.refrigerant,
         recoveredAmount: 0.25,
         recoveredUnit: "lb",
