@@ -15,7 +15,9 @@ async function main(): Promise<void> {
   const started = performance.now();
   try {
     const { sent, people } = await sendDailyDigests(getDb());
-    console.log(`Digest: ${sent} e-mail(s) sent to ${people} person(s) with findings due within 7 days or overdue (${((performance.now() - started) / 1000).toFixed(1)} s)`);
+    console.log(
+      `Digest: ${sent} e-mail(s) sent to ${people} person(s) with findings due within 7 days or overdue (${((performance.now() - started) / 1000).toFixed(1)} s)`,
+    );
   } finally {
     await closeDb();
   }

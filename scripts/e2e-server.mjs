@@ -27,7 +27,10 @@ const env = {
 
 run(process.execPath, [tsxBin, "packages/db/src/cli.ts", "reset"], { env });
 const fakes = start(process.execPath, [tsxBin, "scripts/fakes.ts"], { env });
-const web = start(process.execPath, [nextBin, "start", "-H", "127.0.0.1", "-p", String(ports.app)], { cwd: join(root, "apps", "web"), env });
+const web = start(process.execPath, [nextBin, "start", "-H", "127.0.0.1", "-p", String(ports.app)], {
+  cwd: join(root, "apps", "web"),
+  env,
+});
 
 const stop = () => {
   fakes.kill("SIGTERM");

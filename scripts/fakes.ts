@@ -98,10 +98,18 @@ const mailUi = createServer((req, res) => {
     .join("<hr>");
   res
     .writeHead(200, { "content-type": "text/html; charset=utf-8" })
-    .end(`<!doctype html><html lang="en"><title>Coldtrail local inbox</title><body style="font-family:sans-serif;max-width:60rem;margin:2rem auto"><h1>Local inbox (development only)</h1>${rows || "<p>No mail yet.</p>"}</body></html>`);
+    .end(
+      `<!doctype html><html lang="en"><title>Coldtrail local inbox</title><body style="font-family:sans-serif;max-width:60rem;margin:2rem auto"><h1>Local inbox (development only)</h1>${rows || "<p>No mail yet.</p>"}</body></html>`,
+    );
 });
 
-const s3 = new S3rver({ port: s3Port, address: "127.0.0.1", directory: s3Dir, silent: true, configureBuckets: [{ name: bucket, configs: [] }] });
+const s3 = new S3rver({
+  port: s3Port,
+  address: "127.0.0.1",
+  directory: s3Dir,
+  silent: true,
+  configureBuckets: [{ name: bucket, configs: [] }],
+});
 
 async function main() {
   await new Promise<void>((ok, fail) => smtp.listen(smtpPort, "127.0.0.1", () => ok()).once("error", fail));

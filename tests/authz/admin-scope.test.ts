@@ -38,7 +38,11 @@ describe("people list scope agrees with the record-level permission", () => {
     const memberships = await t.db("memberships").select("user_id", "organisation_id", "branch_id");
     const users = await t.db("users").select("id", "organisation_id");
     rows = [
-      ...memberships.map((m) => ({ userId: Number(m.user_id), organisationId: Number(m.organisation_id), branchId: m.branch_id === null ? null : Number(m.branch_id) })),
+      ...memberships.map((m) => ({
+        userId: Number(m.user_id),
+        organisationId: Number(m.organisation_id),
+        branchId: m.branch_id === null ? null : Number(m.branch_id),
+      })),
       ...users.map((u) => ({ userId: Number(u.id), organisationId: Number(u.organisation_id), branchId: null })),
     ];
   }, 120_000);
@@ -49,8 +53,15 @@ describe("people list scope agrees with the record-level permission", () => {
   for (const [role, email] of Object.entries(DEMO_SIGN_INS)) {
     it(`${role}: a person is listed exactly when one of their memberships is readable`, async () => {
       const ability = await abilityOf(t.db, email);
-      const page = await listPeople(t.db, { scope: scopeByAbility(ability, "read", "User", "pb"), query: { page: 1, pageSize: 200, sort: "name", dir: "asc" } });
-      const readable = new Set(rows.filter((r) => ability.can("read", subject("User", { organisationId: r.organisationId, branchId: r.branchId }))).map((r) => r.userId));
+      const page = await listPeople(t.db, {
+        scope: scopeByAbility(ability, "read", "User", "pb"),
+        query: { page: 1, pageSize: 200, sort: "name", dir: "asc" },
+      });
+      const readable = new Set(
+        rows
+          .filter((r) => ability.can("read", subject("User", { organisationId: r.organisationId, branchId: r.branchId })))
+          .map((r) => r.userId),
+      );
       expect(page.rows.map((p) => p.id).sort((a, b) => a - b)).toEqual([...readable].sort((a, b) => a - b));
     });
   }
@@ -69,14 +80,19 @@ describe("inspector access reaches the permission rules", () => {
   const email = "orla.brennick@cold-review.example";
 
   async function jobsSeen(ability: AppAbility) {
-    const res = await listJobs(t.db, { scope: scopeByAbility(ability, "read", "Job", "jobs"), query: { page: 1, pageSize: 200, sort: "performedOn", dir: "desc" } });
+    const res = await listJobs(t.db, {
+      scope: scopeByAbility(ability, "read", "Job", "jobs"),
+      query: { page: 1, pageSize: 200, sort: "performedOn", dir: "desc" },
+    });
     return res;
   }
 
   it("a new inspector reads only the granted branches and dates; after withdrawal or expiry, nothing", async () => {
     const officer = await t.db("users").where({ email: DEMO_SIGN_INS.compliance_officer }).first("id");
     const actor = { userId: Number(officer.id), organisationId: 1 };
-    const branches = Object.fromEntries((await t.db("branches").where({ organisation_id: 1 }).select("id", "code")).map((b) => [b.code, Number(b.id)]));
+    const branches = Object.fromEntries(
+      (await t.db("branches").where({ organisation_id: 1 }).select("id", "code")).map((b) => [b.code, Number(b.id)]),
+    );
 
     const created = await createInspectorGrant(t.db, {
       actor,
@@ -93,7 +109,10 @@ describe("inspector access reaches the permission rules", () => {
     });
     expect(created.kind).toBe("invited");
     expect(created.token).toBeTruthy();
-    await acceptInvitation(t.db, { input: { token: created.token!, name: "Orla Brennick", password: "inspector-pass-1", confirmPassword: "inspector-pass-1" }, now: NOW });
+    await acceptInvitation(t.db, {
+      input: { token: created.token!, name: "Orla Brennick", password: "inspector-pass-1", confirmPassword: "inspector-pass-1" },
+      now: NOW,
+    });
 
     const ability = await abilityOf(t.db, email, NOW);
     const seen = await jobsSeen(ability);
@@ -115,9 +134,17 @@ describe("inspector access reaches the permission rules", () => {
     expect(revoked.can("read", "Job")).toBe(false);
     expect((await jobsSeen(revoked)).total).toBe(0);
 
-    const grants = await listInspectorGrants(t.db, { scope: scopeByAbility(await abilityOf(t.db, DEMO_SIGN_INS.compliance_officer, NOW), "read", "InspectorGrant", "g"), query: { page: 1, pageSize: 25, state: "revoked" }, now: NOW });
+    const grants = await listInspectorGrants(t.db, {
+      scope: scopeByAbility(await abilityOf(t.db, DEMO_SIGN_INS.compliance_officer, NOW), "read", "InspectorGrant", "g"),
+      query: { page: 1, pageSize: 25, state: "revoked" },
+      now: NOW,
+    });
     expect(grants.rows.map((g) => g.id)).toContain(created.grantId);
-    expect(grants.rows.find((g) => g.id === created.grantId)).toMatchObject({ state: "revoked", inspectorEmail: email, branches: expect.arrayContaining([expect.objectContaining({ id: branches.PIA })]) });
+    expect(grants.rows.find((g) => g.id === created.grantId)).toMatchObject({
+      state: "revoked",
+      inspectorEmail: email,
+      branches: expect.arrayContaining([expect.objectContaining({ id: branches.PIA })]),
+    });
     await expect(revokeInspectorGrant(t.db, { actor, id: created.grantId, now: NOW })).rejects.toMatchObject({ code: "conflict" });
   });
 
@@ -127,7 +154,14 @@ describe("inspector access reaches the permission rules", () => {
     const col = Number((await t.db("branches").where({ code: "COL", organisation_id: 1 }).first("id")).id);
     const created = await createInspectorGrant(t.db, {
       actor,
-      input: grantInput({ email: DEMO_SIGN_INS.inspector, name: "Harold Penwick", branchIds: [col], recordsFrom: "2026-01-01", recordsTo: "2026-03-31", expiresOn: "2027-01-31" }),
+      input: grantInput({
+        email: DEMO_SIGN_INS.inspector,
+        name: "Harold Penwick",
+        branchIds: [col],
+        recordsFrom: "2026-01-01",
+        recordsTo: "2026-03-31",
+        expiresOn: "2027-01-31",
+      }),
       now: NOW,
     });
     expect(created.kind).toBe("notified");
@@ -145,7 +179,15 @@ describe("inspector access reaches the permission rules", () => {
     const grant = (over: Record<string, unknown>) =>
       createInspectorGrant(t.db, {
         actor,
-        input: grantInput({ email, name: "Orla Brennick", branchIds: [col], recordsFrom: "2026-01-01", recordsTo: "2026-03-31", expiresOn: "2027-01-31", ...over }),
+        input: grantInput({
+          email,
+          name: "Orla Brennick",
+          branchIds: [col],
+          recordsFrom: "2026-01-01",
+          recordsTo: "2026-03-31",
+          expiresOn: "2027-01-31",
+          ...over,
+        }),
         now: NOW,
       });
     await expect(grant({ email: DEMO_SIGN_INS.branch_manager })).rejects.toMatchObject({ code: "conflict", field: "email" });

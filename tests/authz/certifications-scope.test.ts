@@ -66,7 +66,10 @@ describe("certification list scope agrees with the record-level permission", () 
     it(`${role}: listed exactly when readable`, async () => {
       const { actor, ability } = await who(email);
       const listed = await listedIds(ability, actor.userId);
-      const readable = refs.filter((r) => canOnCertification(ability, "read", r)).map((r) => r.id).sort((a, b) => a - b);
+      const readable = refs
+        .filter((r) => canOnCertification(ability, "read", r))
+        .map((r) => r.id)
+        .sort((a, b) => a - b);
       expect(listed).toEqual(readable);
       if (role !== "other_org_manager") expect(readable.length).toBeGreaterThan(0);
     });
@@ -151,14 +154,39 @@ describe("who may import", () => {
     const own = manager.actor.memberships.find((m) => m.role === "branch_manager")!.branchId!;
     const other = Number((await t.db("branches").where({ organisation_id: 1 }).whereNot({ id: own }).first("id")).id);
     const at = new Date().toISOString();
-    const base = { organisation_id: 1, kind: "appliances", state: "mapping", file_key: "imports/x.csv", file_format: "csv", file_label: "x.csv", file_size: 10, headings: "[]", sample: "[]", created_by: manager.actor.userId, created_at: at, updated_at: at };
-    await t.db("imports").insert([{ ...base, branch_id: own }, { ...base, branch_id: other }]);
-    const list = await listImports(t.db, { scope: scopeByAbility(manager.ability, "read", "Import", "imports"), query: { page: 1, pageSize: 50 } });
+    const base = {
+      organisation_id: 1,
+      kind: "appliances",
+      state: "mapping",
+      file_key: "imports/x.csv",
+      file_format: "csv",
+      file_label: "x.csv",
+      file_size: 10,
+      headings: "[]",
+      sample: "[]",
+      created_by: manager.actor.userId,
+      created_at: at,
+      updated_at: at,
+    };
+    await t.db("imports").insert([
+      { ...base, branch_id: own },
+      { ...base, branch_id: other },
+    ]);
+    const list = await listImports(t.db, {
+      scope: scopeByAbility(manager.ability, "read", "Import", "imports"),
+      query: { page: 1, pageSize: 50 },
+    });
     expect(list.rows.length).toBeGreaterThan(0);
     expect(list.rows.every((r) => r.branchId === own)).toBe(true);
     const tech = await who(DEMO_SIGN_INS.technician);
-    expect((await listImports(t.db, { scope: scopeByAbility(tech.ability, "read", "Import", "imports"), query: { page: 1, pageSize: 50 } })).total).toBe(0);
+    expect(
+      (await listImports(t.db, { scope: scopeByAbility(tech.ability, "read", "Import", "imports"), query: { page: 1, pageSize: 50 } }))
+        .total,
+    ).toBe(0);
     const stranger = await who(DEMO_SIGN_INS.other_org_manager);
-    expect((await listImports(t.db, { scope: scopeByAbility(stranger.ability, "read", "Import", "imports"), query: { page: 1, pageSize: 50 } })).total).toBe(0);
+    expect(
+      (await listImports(t.db, { scope: scopeByAbility(stranger.ability, "read", "Import", "imports"), query: { page: 1, pageSize: 50 } }))
+        .total,
+    ).toBe(0);
   });
 });

@@ -1,7 +1,16 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { subject } from "@casl/ability";
 import { defineAbilityFor, findingListQuery, type Action, type AppAbility } from "@coldtrail/core";
-import { claimAudit, createAudit, DEMO_SIGN_INS, listFindings, loadActor, runAuditBranches, scopeByAbility, type Knex } from "@coldtrail/db";
+import {
+  claimAudit,
+  createAudit,
+  DEMO_SIGN_INS,
+  listFindings,
+  loadActor,
+  runAuditBranches,
+  scopeByAbility,
+  type Knex,
+} from "@coldtrail/db";
 import { createSeededTestDb, type TestDb } from "@coldtrail/db/testing";
 
 /**
@@ -21,7 +30,8 @@ async function abilityOf(email: string): Promise<AppAbility> {
 
 async function idsInScope(ability: AppAbility, action: Action): Promise<number[]> {
   const scope = scopeByAbility(ability, action, "Finding", "findings");
-  const rows = await t.db("findings as findings")
+  const rows = await t
+    .db("findings as findings")
     .where(function scoped(this: Knex.QueryBuilder) {
       scope(this);
     })
@@ -32,9 +42,17 @@ async function idsInScope(ability: AppAbility, action: Action): Promise<number[]
 beforeAll(async () => {
   t = await createSeededTestDb();
   for (const org of [1, 2]) {
-    const officer = await t.db("memberships").where({ organisation_id: org }).whereIn("role", ["compliance_officer", "owner"]).first("user_id");
+    const officer = await t
+      .db("memberships")
+      .where({ organisation_id: org })
+      .whereIn("role", ["compliance_officer", "owner"])
+      .first("user_id");
     const branchIds = (await t.db("branches").where({ organisation_id: org }).select("id")).map((b) => Number(b.id));
-    const id = await createAudit(t.db, { actor: { userId: Number(officer.user_id), organisationId: org }, input: { branchIds, periodFrom: "2024-12-01", periodTo: "2026-12-01", packs: ["us_federal"] }, now: NOW });
+    const id = await createAudit(t.db, {
+      actor: { userId: Number(officer.user_id), organisationId: org },
+      input: { branchIds, periodFrom: "2024-12-01", periodTo: "2026-12-01", packs: ["us_federal"] },
+      now: NOW,
+    });
     await claimAudit(t.db, { id, now: NOW });
     await runAuditBranches(t.db, { id, now: () => NOW });
   }
@@ -58,7 +76,10 @@ describe("finding scopes agree with the record-level permission", () => {
     for (const action of ACTIONS) {
       it(`${role} · ${action}: in scope exactly when allowed`, async () => {
         const ability = await abilityOf(email);
-        const allowed = all.filter((f) => ability.can(action, subject("Finding", { ...f }))).map((f) => f.id).sort((a, b) => a - b);
+        const allowed = all
+          .filter((f) => ability.can(action, subject("Finding", { ...f })))
+          .map((f) => f.id)
+          .sort((a, b) => a - b);
         expect(await idsInScope(ability, action)).toEqual(allowed);
       });
     }
@@ -93,7 +114,8 @@ describe("who sees which findings", () => {
     const ids = await idsInScope(ability, "read");
     expect(ids.length).toBeGreaterThan(0);
     expect(all.filter((f) => ids.includes(f.id)).every((f) => f.branchId === den)).toBe(true);
-    for (const action of ["assign", "propose_fix", "accept", "waive", "reopen", "comment"] as Action[]) expect(await idsInScope(ability, action)).toEqual([]);
+    for (const action of ["assign", "propose_fix", "accept", "waive", "reopen", "comment"] as Action[])
+      expect(await idsInScope(ability, action)).toEqual([]);
   });
 
   it("another organisation's people see none of Kestrelmoor's findings, through the list query too", async () => {
@@ -101,7 +123,12 @@ describe("who sees which findings", () => {
       const ability = await abilityOf(email);
       const ids = await idsInScope(ability, "read");
       expect(all.filter((f) => ids.includes(f.id)).every((f) => f.organisationId === 2)).toBe(true);
-      const listed = await listFindings(t.db, { organisationId: 1, scope: scopeByAbility(ability, "read", "Finding", "findings"), query: findingListQuery.parse({ state: "all" }), today: "2026-12-01" });
+      const listed = await listFindings(t.db, {
+        organisationId: 1,
+        scope: scopeByAbility(ability, "read", "Finding", "findings"),
+        query: findingListQuery.parse({ state: "all" }),
+        today: "2026-12-01",
+      });
       expect(listed.total).toBe(0);
     }
   });

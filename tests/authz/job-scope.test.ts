@@ -13,7 +13,10 @@ import { createSeededTestDb, type TestDb } from "@coldtrail/db/testing";
 let t: TestDb;
 let allJobs: Array<{ id: number; organisationId: number; branchId: number; technicianId: number; performedOn: string }>;
 
-async function abilityOf(email: string, now = new Date("2026-12-01T12:00:00Z")): Promise<{ ability: AppAbility; userId: number; organisationId: number }> {
+async function abilityOf(
+  email: string,
+  now = new Date("2026-12-01T12:00:00Z"),
+): Promise<{ ability: AppAbility; userId: number; organisationId: number }> {
   const user = await t.db("users").where({ email }).first("id");
   const actor = await loadActor(t.db, Number(user.id));
   if (!actor) throw new Error(`no actor for ${email}`);
@@ -90,7 +93,14 @@ describe("job list scope agrees with the record-level permission", () => {
   });
 
   it("someone with no membership lists nothing", async () => {
-    const ability = defineAbilityFor({ userId: 999_999, organisationId: 1, name: "Nobody", email: "nobody@x.example", memberships: [], inspectorGrants: [] });
+    const ability = defineAbilityFor({
+      userId: 999_999,
+      organisationId: 1,
+      name: "Nobody",
+      email: "nobody@x.example",
+      memberships: [],
+      inspectorGrants: [],
+    });
     expect((await listedIds(ability)).size).toBe(0);
   });
 });

@@ -31,7 +31,11 @@ async function pages(fetch: (page: number) => Promise<{ rows: { id: number }[] }
 }
 
 const rowsOf = async (table: string): Promise<Row[]> =>
-  (await t.db(table).whereNull("voided_at").select("id", "organisation_id", "branch_id")).map((r) => ({ id: Number(r.id), organisationId: Number(r.organisation_id), branchId: Number(r.branch_id) }));
+  (await t.db(table).whereNull("voided_at").select("id", "organisation_id", "branch_id")).map((r) => ({
+    id: Number(r.id),
+    organisationId: Number(r.organisation_id),
+    branchId: Number(r.branch_id),
+  }));
 
 beforeAll(async () => {
   t = await createSeededTestDb();
@@ -45,7 +49,10 @@ afterAll(async () => {
 });
 
 const readable = (ability: AppAbility, name: SubjectName, rows: Row[]) =>
-  rows.filter((r) => ability.can("read", subject(name, { ...r }))).map((r) => r.id).sort((a, b) => a - b);
+  rows
+    .filter((r) => ability.can("read", subject(name, { ...r })))
+    .map((r) => r.id)
+    .sort((a, b) => a - b);
 
 describe("record lists agree with the record-level permission", () => {
   for (const [role, email] of Object.entries(DEMO_SIGN_INS)) {
@@ -53,19 +60,30 @@ describe("record lists agree with the record-level permission", () => {
       const { ability } = await abilityOf(email);
       const base = { pageSize: 200, dir: "desc" as const };
       for (const type of ["record", "statement"] as const) {
-        const listed = await pages((page) => listDisposals(t.db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), query: { ...base, page, type, sort: "date" } }));
+        const listed = await pages((page) =>
+          listDisposals(t.db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), query: { ...base, page, type, sort: "date" } }),
+        );
         expect(listed, `${role} ${type}s`).toEqual(readable(ability, "Disposal", all[type]));
       }
-      const shipments = await pages((page) => listShipments(t.db, { scope: scopeByAbility(ability, "read", "ReclaimShipment", "s"), query: { ...base, page, sort: "date" } }));
+      const shipments = await pages((page) =>
+        listShipments(t.db, { scope: scopeByAbility(ability, "read", "ReclaimShipment", "s"), query: { ...base, page, sort: "date" } }),
+      );
       expect(shipments).toEqual(readable(ability, "ReclaimShipment", all.shipment));
-      const purchases = await pages((page) => listPurchases(t.db, { scope: scopeByAbility(ability, "read", "Purchase", "p"), query: { ...base, page, sort: "date" } }));
+      const purchases = await pages((page) =>
+        listPurchases(t.db, { scope: scopeByAbility(ability, "read", "Purchase", "p"), query: { ...base, page, sort: "date" } }),
+      );
       expect(purchases).toEqual(readable(ability, "Purchase", all.purchase));
     });
   }
 
   it("a branch manager sees only their branch; the other organisation's rows never appear", async () => {
     const { ability, organisationId } = await abilityOf(DEMO_SIGN_INS.branch_manager);
-    const listed = await pages((page) => listShipments(t.db, { scope: scopeByAbility(ability, "read", "ReclaimShipment", "s"), query: { page, pageSize: 200, dir: "desc", sort: "date" } }));
+    const listed = await pages((page) =>
+      listShipments(t.db, {
+        scope: scopeByAbility(ability, "read", "ReclaimShipment", "s"),
+        query: { page, pageSize: 200, dir: "desc", sort: "date" },
+      }),
+    );
     expect(listed.length).toBeGreaterThan(0);
     const rows = all.shipment.filter((r) => listed.includes(r.id));
     expect(new Set(rows.map((r) => r.branchId)).size).toBe(1);
@@ -74,10 +92,29 @@ describe("record lists agree with the record-level permission", () => {
 
   it("a technician lists their branch's disposals but no shipments or purchases", async () => {
     const { ability } = await abilityOf(DEMO_SIGN_INS.technician);
-    const disposals = await pages((page) => listDisposals(t.db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), query: { page, pageSize: 200, dir: "desc", sort: "date", type: "record" } }));
+    const disposals = await pages((page) =>
+      listDisposals(t.db, {
+        scope: scopeByAbility(ability, "read", "Disposal", "d"),
+        query: { page, pageSize: 200, dir: "desc", sort: "date", type: "record" },
+      }),
+    );
     expect(disposals.length).toBeGreaterThan(0);
-    expect(await pages((page) => listShipments(t.db, { scope: scopeByAbility(ability, "read", "ReclaimShipment", "s"), query: { page, pageSize: 200, dir: "desc", sort: "date" } }))).toEqual([]);
-    expect(await pages((page) => listPurchases(t.db, { scope: scopeByAbility(ability, "read", "Purchase", "p"), query: { page, pageSize: 200, dir: "desc", sort: "date" } }))).toEqual([]);
+    expect(
+      await pages((page) =>
+        listShipments(t.db, {
+          scope: scopeByAbility(ability, "read", "ReclaimShipment", "s"),
+          query: { page, pageSize: 200, dir: "desc", sort: "date" },
+        }),
+      ),
+    ).toEqual([]);
+    expect(
+      await pages((page) =>
+        listPurchases(t.db, {
+          scope: scopeByAbility(ability, "read", "Purchase", "p"),
+          query: { page, pageSize: 200, dir: "desc", sort: "date" },
+        }),
+      ),
+    ).toEqual([]);
   });
 });
 
@@ -87,8 +124,18 @@ describe("who may correct and void which job", () => {
     const manager = await abilityOf(DEMO_SIGN_INS.branch_manager);
     const officer = await abilityOf(DEMO_SIGN_INS.compliance_officer);
     const inspector = await abilityOf(DEMO_SIGN_INS.inspector);
-    const jobs = await t.db("jobs").whereNull("voided_at").where({ organisation_id: tech.organisationId }).select("id", "organisation_id", "branch_id", "technician_id", "performed_on");
-    const shape = (j: (typeof jobs)[number]) => subject("Job", { organisationId: Number(j.organisation_id), branchId: Number(j.branch_id), technicianId: Number(j.technician_id), performedOn: j.performed_on });
+    const jobs = await t
+      .db("jobs")
+      .whereNull("voided_at")
+      .where({ organisation_id: tech.organisationId })
+      .select("id", "organisation_id", "branch_id", "technician_id", "performed_on");
+    const shape = (j: (typeof jobs)[number]) =>
+      subject("Job", {
+        organisationId: Number(j.organisation_id),
+        branchId: Number(j.branch_id),
+        technicianId: Number(j.technician_id),
+        performedOn: j.performed_on,
+      });
     const own = jobs.find((j) => Number(j.technician_id) === tech.userId)!;
     const colleague = jobs.find((j) => Number(j.branch_id) === Number(own.branch_id) && Number(j.technician_id) !== tech.userId)!;
     const elsewhere = jobs.find((j) => Number(j.branch_id) !== Number(own.branch_id))!;

@@ -40,7 +40,11 @@ async function signInAs(role: RoleKey | null) {
   session.signedIn = { actor, ability: defineAbilityFor(actor, new Date("2026-12-01T12:00:00Z")) };
 }
 
-async function call(route: string, method: "GET" | "POST" | "PATCH", opts: { query?: string; params?: Record<string, string>; body?: unknown; form?: FormData } = {}) {
+async function call(
+  route: string,
+  method: "GET" | "POST" | "PATCH",
+  opts: { query?: string; params?: Record<string, string>; body?: unknown; form?: FormData } = {},
+) {
   const handler = routes[route]?.[method];
   if (!handler) throw new Error(`${method} ${route} is not exported`);
   const init: RequestInit = { method };
@@ -49,7 +53,9 @@ async function call(route: string, method: "GET" | "POST" | "PATCH", opts: { que
     init.headers = { "content-type": "application/json" };
   }
   if (opts.form) init.body = opts.form;
-  const res = await handler(new NextRequest(`http://localhost/api/x${opts.query ? `?${opts.query}` : ""}`, init), { params: Promise.resolve(opts.params ?? {}) });
+  const res = await handler(new NextRequest(`http://localhost/api/x${opts.query ? `?${opts.query}` : ""}`, init), {
+    params: Promise.resolve(opts.params ?? {}),
+  });
   const text = await res.text();
   let json: unknown = null;
   try {
@@ -78,7 +84,8 @@ beforeAll(async () => {
       UploadRejected,
       // The real check sniffs bytes with file-type; this stand-in accepts a PNG signature only.
       checkUpload: async (bytes: Uint8Array) => {
-        if (!PNG.every((b, i) => bytes[i] === b)) throw new UploadRejected("Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded");
+        if (!PNG.every((b, i) => bytes[i] === b))
+          throw new UploadRejected("Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded");
         return { mime: "image/png", ext: "png" };
       },
       putFile: async (o: { prefix: string; bytes: Uint8Array; mime: string; ext: string }) => {
@@ -283,13 +290,26 @@ describe.each(ROLES)("%s", (role) => {
     await signInAs(role);
     for (const place of PLACES) {
       const expected = WRITE[role][place];
-      const before = { activity: await count("activity"), amendments: await count("amendments"), weighings: await count("cylinder_weighings") };
+      const before = {
+        activity: await count("activity"),
+        amendments: await count("amendments"),
+        weighings: await count("cylinder_weighings"),
+      };
       const note = `Checked by ${role} ${place} ${++serialNo}`;
-      const a = await call("appliances/[id]", "PATCH", { params: { id: String(records.appliance[place]) }, body: await appliancePatchBody(records.appliance[place], note) });
+      const a = await call("appliances/[id]", "PATCH", {
+        params: { id: String(records.appliance[place]) },
+        body: await appliancePatchBody(records.appliance[place], note),
+      });
       expect(a.status, `${role} edits appliance (${place})`).toBe(expected);
-      const c = await call("cylinders/[id]", "PATCH", { params: { id: String(records.cylinder[place]) }, body: await cylinderPatchBody(records.cylinder[place], note) });
+      const c = await call("cylinders/[id]", "PATCH", {
+        params: { id: String(records.cylinder[place]) },
+        body: await cylinderPatchBody(records.cylinder[place], note),
+      });
       expect(c.status, `${role} edits cylinder (${place})`).toBe(expected);
-      const e = await call("equipment/[id]", "PATCH", { params: { id: String(records.equipment[place]) }, body: await equipmentPatchBody(records.equipment[place], note) });
+      const e = await call("equipment/[id]", "PATCH", {
+        params: { id: String(records.equipment[place]) },
+        body: await equipmentPatchBody(records.equipment[place], note),
+      });
       expect(e.status, `${role} edits equipment (${place})`).toBe(expected);
       const cyl = await t.db("cylinders").where({ id: records.cylinder[place] }).first("tare_g");
       const w = await call("cylinders/[id]/weighings", "POST", {
@@ -304,7 +324,10 @@ describe.each(ROLES)("%s", (role) => {
       expect(s.status, `${role} retires appliance (${place})`).toBe(expected);
       if (expected === 200) {
         // Put it back so later roles see the same starting point.
-        const back = await call("appliances/[id]/status", "POST", { params: { id: String(records.appliance[place]) }, body: { status: "in_service", on: "2026-11-21", reason: "Back in service" } });
+        const back = await call("appliances/[id]/status", "POST", {
+          params: { id: String(records.appliance[place]) },
+          body: { status: "in_service", on: "2026-11-21", reason: "Back in service" },
+        });
         expect(back.status).toBe(200);
       } else {
         expect(await count("activity"), `${role} refused (${place}) writes no activity`).toBe(before.activity);
@@ -318,7 +341,12 @@ describe.each(ROLES)("%s", (role) => {
     await signInAs(role);
     for (const place of PLACES) {
       const expected = CREATE[role][place];
-      const before = { appliances: await count("appliances"), cylinders: await count("cylinders"), equipment: await count("recovery_equipment"), sites: await count("sites") };
+      const before = {
+        appliances: await count("appliances"),
+        cylinders: await count("cylinders"),
+        equipment: await count("recovery_equipment"),
+        sites: await count("sites"),
+      };
       const a = await call("appliances", "POST", {
         body: {
           branchId: branch[place],
@@ -338,10 +366,20 @@ describe.each(ROLES)("%s", (role) => {
       });
       expect(a.status, `${role} adds an appliance (${place})`).toBe(expected);
       const c = await call("cylinders", "POST", {
-        body: { branchId: branch[place], serial: unique("MATRIX-C"), waterCapacityAmount: 50, waterCapacityUnit: "lb", tareAmount: 17.5, tareUnit: "lb", lastRequalifiedOn: "2025-01-10" },
+        body: {
+          branchId: branch[place],
+          serial: unique("MATRIX-C"),
+          waterCapacityAmount: 50,
+          waterCapacityUnit: "lb",
+          tareAmount: 17.5,
+          tareUnit: "lb",
+          lastRequalifiedOn: "2025-01-10",
+        },
       });
       expect(c.status, `${role} adds a cylinder (${place})`).toBe(expected);
-      const e = await call("equipment", "POST", { body: { branchId: branch[place], serial: unique("MATRIX-RE"), certificationState: "unknown" } });
+      const e = await call("equipment", "POST", {
+        body: { branchId: branch[place], serial: unique("MATRIX-RE"), certificationState: "unknown" },
+      });
       expect(e.status, `${role} adds equipment (${place})`).toBe(expected);
       if (expected !== 201) {
         expect(await count("appliances")).toBe(before.appliances);
@@ -356,7 +394,11 @@ describe.each(ROLES)("%s", (role) => {
     await signInAs(role);
     for (const place of PLACES) {
       const form = new FormData();
-      form.set("file", new Blob([new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 1, 2, 3])], { type: "image/png" }), "../../etc/passwd.png");
+      form.set(
+        "file",
+        new Blob([new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 1, 2, 3])], { type: "image/png" }),
+        "../../etc/passwd.png",
+      );
       const up = await call("equipment/[id]/evidence", "POST", { params: { id: String(records.equipment[place]) }, form });
       expect(up.status, `${role} uploads evidence (${place})`).toBe(WRITE[role][place] === 200 ? 201 : WRITE[role][place]);
       const down = await call("equipment/[id]/evidence", "GET", { params: { id: String(records.equipment[place]) } });
@@ -371,7 +413,16 @@ describe("bad input and uploads", () => {
   it("an invalid cylinder names the field and writes nothing", async () => {
     await signInAs("branch_manager");
     const before = { cylinders: await count("cylinders"), activity: await count("activity") };
-    const res = await call("cylinders", "POST", { body: { branchId: branch.own, serial: "MATRIX-BAD", waterCapacityAmount: 50, waterCapacityUnit: "lb", tareAmount: "", tareUnit: "lb" } });
+    const res = await call("cylinders", "POST", {
+      body: {
+        branchId: branch.own,
+        serial: "MATRIX-BAD",
+        waterCapacityAmount: 50,
+        waterCapacityUnit: "lb",
+        tareAmount: "",
+        tareUnit: "lb",
+      },
+    });
     expect(res.status).toBe(400);
     const fieldErrors = (res.json.error as { fieldErrors: Record<string, string[]> }).fieldErrors;
     expect(fieldErrors.tareAmount?.[0]).toContain("tare weight");
@@ -397,27 +448,43 @@ describe("bad input and uploads", () => {
   it("a weighing lighter than the empty cylinder is refused on the reading's field", async () => {
     await signInAs("branch_manager");
     const before = await count("cylinder_weighings");
-    const res = await call("cylinders/[id]/weighings", "POST", { params: { id: String(records.cylinder.own) }, body: { weighedOn: "2026-11-20", grossAmount: 1, grossUnit: "lb" } });
+    const res = await call("cylinders/[id]/weighings", "POST", {
+      params: { id: String(records.cylinder.own) },
+      body: { weighedOn: "2026-11-20", grossAmount: 1, grossUnit: "lb" },
+    });
     expect(res.status).toBe(400);
-    expect((res.json.error as { fieldErrors: Record<string, string[]> }).fieldErrors.grossAmount?.[0]).toMatch(/lighter than the empty cylinder/);
+    expect((res.json.error as { fieldErrors: Record<string, string[]> }).fieldErrors.grossAmount?.[0]).toMatch(
+      /lighter than the empty cylinder/,
+    );
     expect(await count("cylinder_weighings")).toBe(before);
   });
 
   it("a weighing of another cylinder cannot be corrected or voided through this one", async () => {
     await signInAs("branch_manager");
     const cyl = await t.db("cylinders").where({ id: records.cylinder.own }).first("tare_g");
-    const made = await call("cylinders/[id]/weighings", "POST", { params: { id: String(records.cylinder.own) }, body: { weighedOn: "2026-11-22", grossAmount: Number(cyl.tare_g) + 100, grossUnit: "g", refrigerant: "R-410A" } });
+    const made = await call("cylinders/[id]/weighings", "POST", {
+      params: { id: String(records.cylinder.own) },
+      body: { weighedOn: "2026-11-22", grossAmount: Number(cyl.tare_g) + 100, grossUnit: "g", refrigerant: "R-410A" },
+    });
     expect(made.status).toBe(201);
     const weighingId = String(made.json.id);
-    const otherOwn = Number((await t.db("cylinders").where({ branch_id: branch.own }).whereNot({ id: records.cylinder.own }).first("id")).id);
+    const otherOwn = Number(
+      (await t.db("cylinders").where({ branch_id: branch.own }).whereNot({ id: records.cylinder.own }).first("id")).id,
+    );
     const amend = await call("cylinders/[id]/weighings/[weighingId]", "PATCH", {
       params: { id: String(otherOwn), weighingId },
       body: { weighedOn: "2026-11-22", grossAmount: Number(cyl.tare_g) + 90, grossUnit: "g", reason: "Scale misread" },
     });
     expect(amend.status).toBe(404);
-    const voided = await call("cylinders/[id]/weighings/[weighingId]/void", "POST", { params: { id: String(otherOwn), weighingId }, body: { reason: "Entered twice" } });
+    const voided = await call("cylinders/[id]/weighings/[weighingId]/void", "POST", {
+      params: { id: String(otherOwn), weighingId },
+      body: { reason: "Entered twice" },
+    });
     expect(voided.status).toBe(404);
-    const ok = await call("cylinders/[id]/weighings/[weighingId]/void", "POST", { params: { id: String(records.cylinder.own), weighingId }, body: { reason: "Entered twice" } });
+    const ok = await call("cylinders/[id]/weighings/[weighingId]/void", "POST", {
+      params: { id: String(records.cylinder.own), weighingId },
+      body: { reason: "Entered twice" },
+    });
     expect(ok.status).toBe(200);
   });
 });

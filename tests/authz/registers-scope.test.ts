@@ -1,6 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { subject } from "@casl/ability";
-import { applianceListQuery, cylinderListQuery, defineAbilityFor, equipmentListQuery, type AppAbility, type SubjectName } from "@coldtrail/core";
+import {
+  applianceListQuery,
+  cylinderListQuery,
+  defineAbilityFor,
+  equipmentListQuery,
+  type AppAbility,
+  type SubjectName,
+} from "@coldtrail/core";
 import { DEMO_SIGN_INS, listAppliances, listCylinders, listEquipment, loadActor, scopeByAbility } from "@coldtrail/db";
 import { createSeededTestDb, type TestDb } from "@coldtrail/db/testing";
 
@@ -31,12 +38,19 @@ async function pages(fetch: (page: number) => Promise<{ rows: { id: number }[] }
 }
 
 const readable = (ability: AppAbility, name: SubjectName, rows: Row[]) =>
-  rows.filter((r) => ability.can("read", subject(name, { ...r }))).map((r) => r.id).sort((a, b) => a - b);
+  rows
+    .filter((r) => ability.can("read", subject(name, { ...r })))
+    .map((r) => r.id)
+    .sort((a, b) => a - b);
 
 beforeAll(async () => {
   t = await createSeededTestDb();
   for (const table of Object.keys(all) as (keyof typeof all)[]) {
-    all[table] = (await t.db(table).select("id", "organisation_id", "branch_id")).map((r) => ({ id: Number(r.id), organisationId: Number(r.organisation_id), branchId: Number(r.branch_id) }));
+    all[table] = (await t.db(table).select("id", "organisation_id", "branch_id")).map((r) => ({
+      id: Number(r.id),
+      organisationId: Number(r.organisation_id),
+      branchId: Number(r.branch_id),
+    }));
   }
 }, 120_000);
 afterAll(async () => {
@@ -47,13 +61,27 @@ describe("register lists agree with the record-level permission", () => {
   for (const [role, email] of Object.entries(DEMO_SIGN_INS)) {
     it(`${role}: appliances, cylinders and equipment are listed exactly when readable`, async () => {
       const { ability, actor } = await abilityOf(email);
-      const appliances = await pages((page) => listAppliances(t.db, { scope: scopeByAbility(ability, "read", "Appliance", "appliances"), query: applianceListQuery.parse({ page, pageSize: 200 }) }));
+      const appliances = await pages((page) =>
+        listAppliances(t.db, {
+          scope: scopeByAbility(ability, "read", "Appliance", "appliances"),
+          query: applianceListQuery.parse({ page, pageSize: 200 }),
+        }),
+      );
       expect(appliances).toEqual(readable(ability, "Appliance", all.appliances));
       const cylinders = await pages((page) =>
-        listCylinders(t.db, { scope: scopeByAbility(ability, "read", "Cylinder", "cylinders"), organisationId: actor.organisationId, query: cylinderListQuery.parse({ page, pageSize: 200 }) }),
+        listCylinders(t.db, {
+          scope: scopeByAbility(ability, "read", "Cylinder", "cylinders"),
+          organisationId: actor.organisationId,
+          query: cylinderListQuery.parse({ page, pageSize: 200 }),
+        }),
       );
       expect(cylinders).toEqual(readable(ability, "Cylinder", all.cylinders));
-      const equipment = await pages((page) => listEquipment(t.db, { scope: scopeByAbility(ability, "read", "RecoveryEquipment", "recovery_equipment"), query: equipmentListQuery.parse({ page, pageSize: 200 }) }));
+      const equipment = await pages((page) =>
+        listEquipment(t.db, {
+          scope: scopeByAbility(ability, "read", "RecoveryEquipment", "recovery_equipment"),
+          query: equipmentListQuery.parse({ page, pageSize: 200 }),
+        }),
+      );
       expect(equipment).toEqual(readable(ability, "RecoveryEquipment", all.recovery_equipment));
       expect(appliances.length + cylinders.length + equipment.length, `${role} sees some register`).toBeGreaterThan(0);
     });
@@ -61,23 +89,43 @@ describe("register lists agree with the record-level permission", () => {
 
   it("the inspector lists only the granted branch, and nothing once the grant has expired", async () => {
     const { ability } = await abilityOf(DEMO_SIGN_INS.inspector);
-    const ids = await pages((page) => listAppliances(t.db, { scope: scopeByAbility(ability, "read", "Appliance", "appliances"), query: applianceListQuery.parse({ page, pageSize: 200 }) }));
+    const ids = await pages((page) =>
+      listAppliances(t.db, {
+        scope: scopeByAbility(ability, "read", "Appliance", "appliances"),
+        query: applianceListQuery.parse({ page, pageSize: 200 }),
+      }),
+    );
     expect(new Set(all.appliances.filter((a) => ids.includes(a.id)).map((a) => a.branchId)).size).toBe(1);
     const later = await abilityOf(DEMO_SIGN_INS.inspector, new Date("2027-04-01T00:00:00Z"));
-    const none = await listCylinders(t.db, { scope: scopeByAbility(later.ability, "read", "Cylinder", "cylinders"), organisationId: later.actor.organisationId, query: cylinderListQuery.parse({}) });
+    const none = await listCylinders(t.db, {
+      scope: scopeByAbility(later.ability, "read", "Cylinder", "cylinders"),
+      organisationId: later.actor.organisationId,
+      query: cylinderListQuery.parse({}),
+    });
     expect(none.total).toBe(0);
     expect(none.rows).toEqual([]);
   });
 
   it("someone with no membership lists nothing", async () => {
-    const ability = defineAbilityFor({ userId: 999_999, organisationId: 1, name: "Nobody", email: "nobody@x.example", memberships: [], inspectorGrants: [] });
-    const res = await listAppliances(t.db, { scope: scopeByAbility(ability, "read", "Appliance", "appliances"), query: applianceListQuery.parse({}) });
+    const ability = defineAbilityFor({
+      userId: 999_999,
+      organisationId: 1,
+      name: "Nobody",
+      email: "nobody@x.example",
+      memberships: [],
+      inspectorGrants: [],
+    });
+    const res = await listAppliances(t.db, {
+      scope: scopeByAbility(ability, "read", "Appliance", "appliances"),
+      query: applianceListQuery.parse({}),
+    });
     expect(res.total).toBe(0);
   });
 });
 
 describe("who may change a register", () => {
-  const branchOf = (table: keyof typeof all, orgId: number, not?: number) => all[table].find((r) => r.organisationId === orgId && r.branchId !== not)!;
+  const branchOf = (table: keyof typeof all, orgId: number, not?: number) =>
+    all[table].find((r) => r.organisationId === orgId && r.branchId !== not)!;
   it("a branch manager changes their own branch's registers only; technicians, officers and inspectors change none", async () => {
     const manager = await abilityOf(DEMO_SIGN_INS.branch_manager);
     const managed = manager.actor.memberships.find((m) => m.role === "branch_manager")!.branchId!;
@@ -96,7 +144,10 @@ describe("who may change a register", () => {
         const { ability } = await abilityOf(DEMO_SIGN_INS[role]);
         for (const r of [own, other, foreign]) {
           expect(ability.can("update", subject(name, { ...r })), `${role} updates ${name}`).toBe(false);
-          expect(ability.can("create", subject(name, { organisationId: r.organisationId, branchId: r.branchId })), `${role} creates ${name}`).toBe(false);
+          expect(
+            ability.can("create", subject(name, { organisationId: r.organisationId, branchId: r.branchId })),
+            `${role} creates ${name}`,
+          ).toBe(false);
         }
       }
       const owner = await abilityOf(DEMO_SIGN_INS.owner);

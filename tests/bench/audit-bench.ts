@@ -30,7 +30,7 @@ const AT = "2026-11-30T12:00:00.000Z";
 const PERIOD = { from: "2024-01-01", to: "2026-12-01" };
 
 let seed = 7;
-const rand = () => ((seed = (seed * 1_103_515_245 + 12_345) % 2 ** 31) / 2 ** 31);
+const rand = () => (seed = (seed * 1_103_515_245 + 12_345) % 2 ** 31) / 2 ** 31;
 const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)]!;
 const day = (i: number) => new Date(Date.UTC(2024, 0, 1) + i * 86_400_000).toISOString().slice(0, 10);
 
@@ -48,18 +48,30 @@ async function time<T>(label: string, fn: () => Promise<T>): Promise<T> {
 async function insertChunks(db: Knex, table: string, rows: Record<string, unknown>[], size = 400): Promise<number[]> {
   const ids: number[] = [];
   for (let i = 0; i < rows.length; i += size) {
-    const inserted = await db(table).insert(rows.slice(i, i + size)).returning("id");
+    const inserted = await db(table)
+      .insert(rows.slice(i, i + size))
+      .returning("id");
     for (const r of inserted) ids.push(Number(typeof r === "object" ? r.id : r));
   }
   return ids;
 }
 
 async function grow(db: Knex): Promise<number> {
-  const [branch] = await db("branches").insert({ organisation_id: 1, name: "Benchmark", code: "BEN", time_zone: "America/Chicago", mass_unit: "lb_oz", created_at: AT }).returning("id");
+  const [branch] = await db("branches")
+    .insert({ organisation_id: 1, name: "Benchmark", code: "BEN", time_zone: "America/Chicago", mass_unit: "lb_oz", created_at: AT })
+    .returning("id");
   const branchId = Number(branch.id ?? branch);
-  const techs = (await db("memberships").where({ organisation_id: 1, role: "technician" }).select("user_id")).map((r) => Number(r.user_id)).slice(0, 12);
-  for (const t of techs) await db("memberships").insert({ organisation_id: 1, user_id: t, branch_id: branchId, role: "technician", created_at: AT }).onConflict(["user_id", "branch_id", "role"]).ignore();
-  const [site] = await db("sites").insert({ organisation_id: 1, branch_id: branchId, name: "Benchmark site", address: "1 Bench Way", created_at: AT }).returning("id");
+  const techs = (await db("memberships").where({ organisation_id: 1, role: "technician" }).select("user_id"))
+    .map((r) => Number(r.user_id))
+    .slice(0, 12);
+  for (const t of techs)
+    await db("memberships")
+      .insert({ organisation_id: 1, user_id: t, branch_id: branchId, role: "technician", created_at: AT })
+      .onConflict(["user_id", "branch_id", "role"])
+      .ignore();
+  const [site] = await db("sites")
+    .insert({ organisation_id: 1, branch_id: branchId, name: "Benchmark site", address: "1 Bench Way", created_at: AT })
+    .returning("id");
   const siteId = Number(site.id ?? site);
   const refrigerants = ["R-410A", "R-22", "R-404A", "R-134a", "R-454B"];
   const appliances = await insertChunks(
@@ -84,9 +96,28 @@ async function grow(db: Knex): Promise<number> {
   const cylinders = await insertChunks(
     db,
     "cylinders",
-    Array.from({ length: CYLINDERS }, (_, i) => ({ organisation_id: 1, branch_id: branchId, serial: `BEN-C-${i}`, water_capacity_g: 108_862, tare_g: 21_772, last_requalified_on: "2023-06-01", created_at: AT, updated_at: AT })),
+    Array.from({ length: CYLINDERS }, (_, i) => ({
+      organisation_id: 1,
+      branch_id: branchId,
+      serial: `BEN-C-${i}`,
+      water_capacity_g: 108_862,
+      tare_g: 21_772,
+      last_requalified_on: "2023-06-01",
+      created_at: AT,
+      updated_at: AT,
+    })),
   );
-  const [equipment] = await db("recovery_equipment").insert({ organisation_id: 1, branch_id: branchId, serial: "BEN-RE-1", manufactured_on: "2020-01-01", certification_state: "certified", created_at: AT, updated_at: AT }).returning("id");
+  const [equipment] = await db("recovery_equipment")
+    .insert({
+      organisation_id: 1,
+      branch_id: branchId,
+      serial: "BEN-RE-1",
+      manufactured_on: "2020-01-01",
+      certification_state: "certified",
+      created_at: AT,
+      updated_at: AT,
+    })
+    .returning("id");
   const equipmentId = Number(equipment.id ?? equipment);
 
   const jobs: Record<string, unknown>[] = [];
@@ -146,31 +177,63 @@ class NullSink extends Writable {
 }
 
 async function main() {
-  console.log(`Audit benchmark: one branch of ${JOBS.toLocaleString("en-US")} jobs and ${APPLIANCES.toLocaleString("en-US")} appliances (Node ${process.version})`);
+  console.log(
+    `Audit benchmark: one branch of ${JOBS.toLocaleString("en-US")} jobs and ${APPLIANCES.toLocaleString("en-US")} appliances (Node ${process.version})`,
+  );
   const t = await createSeededTestDb();
   try {
     const branchId = await time(`Generate the branch (${JOBS.toLocaleString("en-US")} jobs + movements)`, () => grow(t.db));
-    const loaded = await time("Read the branch once (loadBranchRecords)", () => loadBranchRecords(t.db, { organisationId: 1, branchId, period: PERIOD, asOf: "2026-12-01T12:00:00Z" }));
-    const findings = await time("Run the rules (runAudit, US federal)", async () => runAudit(loaded.records, { packs: ["us_federal"], period: PERIOD, asOf: "2026-12-01T12:00:00Z", settings: DEFAULT_SETTINGS }));
+    const loaded = await time("Read the branch once (loadBranchRecords)", () =>
+      loadBranchRecords(t.db, { organisationId: 1, branchId, period: PERIOD, asOf: "2026-12-01T12:00:00Z" }),
+    );
+    const findings = await time("Run the rules (runAudit, US federal)", async () =>
+      runAudit(loaded.records, { packs: ["us_federal"], period: PERIOD, asOf: "2026-12-01T12:00:00Z", settings: DEFAULT_SETTINGS }),
+    );
     console.log(`  ${findings.length.toLocaleString("en-US")} findings from ${loaded.records.jobs.length.toLocaleString("en-US")} jobs`);
 
     const officer = Number((await t.db("users").where({ email: "teodora.vasquez-lind@kestrelmoor.example" }).first("id")).id);
-    const auditId = await createAudit(t.db, { actor: { userId: officer, organisationId: 1 }, input: { branchIds: [branchId], periodFrom: PERIOD.from, periodTo: PERIOD.to, packs: ["us_federal"] } });
+    const auditId = await createAudit(t.db, {
+      actor: { userId: officer, organisationId: 1 },
+      input: { branchIds: [branchId], periodFrom: PERIOD.from, periodTo: PERIOD.to, packs: ["us_federal"] },
+    });
     await claimAudit(t.db, { id: auditId });
     const now = new Date("2026-12-01T12:00:00Z");
     const first = await time("Audit the branch and store its findings (first run)", () =>
-      auditBranchFindings(t.db, { organisationId: 1, branchId, period: PERIOD, packs: ["us_federal"], settings: DEFAULT_SETTINGS, auditId, now }),
+      auditBranchFindings(t.db, {
+        organisationId: 1,
+        branchId,
+        period: PERIOD,
+        packs: ["us_federal"],
+        settings: DEFAULT_SETTINGS,
+        auditId,
+        now,
+      }),
     );
     console.log(`  ${first.created.toLocaleString("en-US")} new findings`);
     await time("Audit again: reconcile with the stored findings", () =>
-      auditBranchFindings(t.db, { organisationId: 1, branchId, period: PERIOD, packs: ["us_federal"], settings: DEFAULT_SETTINGS, auditId, now }),
+      auditBranchFindings(t.db, {
+        organisationId: 1,
+        branchId,
+        period: PERIOD,
+        packs: ["us_federal"],
+        settings: DEFAULT_SETTINGS,
+        auditId,
+        now,
+      }),
     );
 
     const actor = (await loadActor(t.db, officer))!;
     const scope = scopeByAbility(defineAbilityFor(actor, now), "read", "Finding", "findings");
-    await time("Findings list: first page, sorted by due date", () => listFindings(t.db, { organisationId: 1, scope, query: findingListQuery.parse({ pageSize: 50 }), today: "2026-12-01" }));
+    await time("Findings list: first page, sorted by due date", () =>
+      listFindings(t.db, { organisationId: 1, scope, query: findingListQuery.parse({ pageSize: 50 }), today: "2026-12-01" }),
+    );
     await time("Findings list: grouped by rule, filtered by severity", () =>
-      listFindings(t.db, { organisationId: 1, scope, query: findingListQuery.parse({ pageSize: 50, groupBy: "rule", severity: "major", state: "all" }), today: "2026-12-01" }),
+      listFindings(t.db, {
+        organisationId: 1,
+        scope,
+        query: findingListQuery.parse({ pageSize: 50, groupBy: "rule", severity: "major", state: "all" }),
+        today: "2026-12-01",
+      }),
     );
 
     const sink = new NullSink();
@@ -180,7 +243,12 @@ async function main() {
     const t0 = performance.now();
     const wb = new ExcelJS.stream.xlsx.WorkbookWriter({ stream: sink, useStyles: true, useSharedStrings: false });
     const fs = wb.addWorksheet("Findings", { views: [{ state: "frozen", ySplit: 1 }] });
-    fs.columns = [{ header: "Finding id", key: "id" }, { header: "Rule id", key: "rule" }, { header: "What is wrong", key: "detail" }, { header: "Due", key: "due" }];
+    fs.columns = [
+      { header: "Finding id", key: "id" },
+      { header: "Rule id", key: "rule" },
+      { header: "What is wrong", key: "detail" },
+      { header: "Due", key: "due" },
+    ];
     let rows = 0;
     for await (const f of auditFindingExportRows(t.db, { organisationId: 1, auditId, scope })) {
       fs.addRow({ id: f.id, rule: f.ruleId, detail: f.detail, due: f.dueOn ? new Date(f.dueOn) : null }).commit();
@@ -188,9 +256,29 @@ async function main() {
     }
     await fs.commit();
     const js = wb.addWorksheet("Jobs", { views: [{ state: "frozen", ySplit: 1 }] });
-    js.columns = [{ header: "Job id", key: "id" }, { header: "Date", key: "date" }, { header: "Appliance", key: "appliance" }, { header: "Refrigerant", key: "refrigerant" }, { header: "Recovered (kg)", key: "rec" }, { header: "Charged (kg)", key: "chg" }];
-    for await (const j of jobExportRows(t.db, { organisationId: 1, branchIds: [branchId], from: PERIOD.from, to: PERIOD.to, scope: scopeByAbility(defineAbilityFor(actor, now), "read", "Job", "jobs") })) {
-      js.addRow({ id: j.id, date: new Date(j.performedOn), appliance: j.applianceTag, refrigerant: j.refrigerant, rec: j.recoveredG / 1000, chg: j.chargedG / 1000 }).commit();
+    js.columns = [
+      { header: "Job id", key: "id" },
+      { header: "Date", key: "date" },
+      { header: "Appliance", key: "appliance" },
+      { header: "Refrigerant", key: "refrigerant" },
+      { header: "Recovered (kg)", key: "rec" },
+      { header: "Charged (kg)", key: "chg" },
+    ];
+    for await (const j of jobExportRows(t.db, {
+      organisationId: 1,
+      branchIds: [branchId],
+      from: PERIOD.from,
+      to: PERIOD.to,
+      scope: scopeByAbility(defineAbilityFor(actor, now), "read", "Job", "jobs"),
+    })) {
+      js.addRow({
+        id: j.id,
+        date: new Date(j.performedOn),
+        appliance: j.applianceTag,
+        refrigerant: j.refrigerant,
+        rec: j.recoveredG / 1000,
+        chg: j.chargedG / 1000,
+      }).commit();
       rows++;
     }
     await js.commit();

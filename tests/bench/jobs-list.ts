@@ -9,9 +9,27 @@ import { createSeededTestDb } from "@coldtrail/db/testing";
 
 const target = Number(process.env.BENCH_JOBS ?? 1_000_000);
 const COLUMNS = [
-  "organisation_id", "branch_id", "appliance_id", "technician_id", "kind", "performed_on", "refrigerant",
-  "recovered_g", "charged_g", "equipment_id", "cylinder_id", "access_method", "temporary_access_removed",
-  "evacuation_value", "evacuation_unit", "compressor_operating", "notes", "source", "created_by", "created_at", "updated_at",
+  "organisation_id",
+  "branch_id",
+  "appliance_id",
+  "technician_id",
+  "kind",
+  "performed_on",
+  "refrigerant",
+  "recovered_g",
+  "charged_g",
+  "equipment_id",
+  "cylinder_id",
+  "access_method",
+  "temporary_access_removed",
+  "evacuation_value",
+  "evacuation_unit",
+  "compressor_operating",
+  "notes",
+  "source",
+  "created_by",
+  "created_at",
+  "updated_at",
 ];
 
 async function time<T>(label: string, fn: () => Promise<T>, runs = 5): Promise<T> {
@@ -23,7 +41,9 @@ async function time<T>(label: string, fn: () => Promise<T>, runs = 5): Promise<T
     ms.push(performance.now() - t0);
   }
   ms.sort((a, b) => a - b);
-  console.log(`${label.padEnd(58)} median ${ms[Math.floor(runs / 2)]!.toFixed(1).padStart(8)} ms   min ${ms[0]!.toFixed(1).padStart(8)} ms`);
+  console.log(
+    `${label.padEnd(58)} median ${ms[Math.floor(runs / 2)]!.toFixed(1).padStart(8)} ms   min ${ms[0]!.toFixed(1).padStart(8)} ms`,
+  );
   return result;
 }
 
@@ -38,7 +58,9 @@ async function main() {
       const take = Math.min(n, target - n);
       const maxId = Number((await db("jobs").max({ m: "id" }).first())!.m);
       await db.transaction(async (trx) => {
-        await trx.into(trx.raw(`jobs (${COLUMNS.join(", ")})`)).insert(trx("jobs").select(COLUMNS).where("id", "<=", maxId).orderBy("id").limit(take));
+        await trx
+          .into(trx.raw(`jobs (${COLUMNS.join(", ")})`))
+          .insert(trx("jobs").select(COLUMNS).where("id", "<=", maxId).orderBy("id").limit(take));
       });
     }
     await db.raw("ANALYZE");
@@ -53,8 +75,12 @@ async function main() {
       const ability = defineAbilityFor(actor, new Date("2026-12-01T12:00:00Z"));
       const scope = scopeByAbility(ability, "read", "Job", "jobs");
       const first = await time(`${role}: first page, newest first`, () => listJobs(db, { scope, query: base }));
-      await time(`${role}: page 200, sorted by technician`, () => listJobs(db, { scope, query: { ...base, page: 200, sort: "technician", dir: "asc" } }));
-      await time(`${role}: kind = charge, 2025 only`, () => listJobs(db, { scope, query: { ...base, kind: "charge", from: "2025-01-01", to: "2025-12-31" } }));
+      await time(`${role}: page 200, sorted by technician`, () =>
+        listJobs(db, { scope, query: { ...base, page: 200, sort: "technician", dir: "asc" } }),
+      );
+      await time(`${role}: kind = charge, 2025 only`, () =>
+        listJobs(db, { scope, query: { ...base, kind: "charge", from: "2025-01-01", to: "2025-12-31" } }),
+      );
       await time(`${role}: search "rack"`, () => listJobs(db, { scope, query: { ...base, q: "rack" } }), 3);
       console.log(`${"".padEnd(4)}(${first.total.toLocaleString("en-US")} rows visible)\n`);
     }

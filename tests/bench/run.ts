@@ -16,7 +16,10 @@ const files = readdirSync(here)
 let failed = 0;
 for (const file of files) {
   console.log(`\n=== ${file} ===`);
-  const res = spawnSync(process.execPath, [join(here, "..", "..", "node_modules", "tsx", "dist", "cli.mjs"), join(here, file)], { stdio: "inherit", env: process.env });
+  const res = spawnSync(process.execPath, [join(here, "..", "..", "node_modules", "tsx", "dist", "cli.mjs"), join(here, file)], {
+    stdio: "inherit",
+    env: process.env,
+  });
   if (res.status !== 0) failed++;
 }
 process.exitCode = failed ? 1 : 0;

@@ -23,7 +23,11 @@ export async function branchId(db: Knex, code: string, organisationId = 1): Prom
 }
 
 /** The actor reference and the ability of a user as the app builds them on each request. */
-export async function signedIn(db: Knex, email: string, now = new Date()): Promise<{ actor: { userId: number; organisationId: number }; ability: AppAbility }> {
+export async function signedIn(
+  db: Knex,
+  email: string,
+  now = new Date(),
+): Promise<{ actor: { userId: number; organisationId: number }; ability: AppAbility }> {
   const loaded = await loadActor(db, await userId(db, email));
   if (!loaded) throw new Error(`${email} cannot sign in`);
   return { actor: { userId: loaded.userId, organisationId: loaded.organisationId }, ability: defineAbilityFor(loaded, now) };

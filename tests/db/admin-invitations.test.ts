@@ -70,7 +70,10 @@ describe("invitations", () => {
     expect(await lastActivity(t.db)).toMatchObject({ action: "person.invitation_accepted", actor_id: userId });
 
     expect((await describeInvitation(t.db, { token: issued.token, now: days(1) })).state).toBe("used");
-    const again = await acceptInvitation(t.db, { input: { token: issued.token, name: "Someone Else", password: "another-password-1", confirmPassword: "another-password-1" }, now: days(1) }).catch((e) => e);
+    const again = await acceptInvitation(t.db, {
+      input: { token: issued.token, name: "Someone Else", password: "another-password-1", confirmPassword: "another-password-1" },
+      now: days(1),
+    }).catch((e) => e);
     expect(again).toMatchObject({ code: "conflict", field: "token" });
     expect(again.message).toContain("already been used");
     expect(await verifyPassword(PASSWORD, (await findUserForSignIn(t.db, email))!.passwordHash)).toBe(true);
@@ -137,7 +140,10 @@ describe("password reset", () => {
     const first = await requestPasswordReset(t.db, { email: OWNER.toUpperCase(), now: NOW });
     const second = await requestPasswordReset(t.db, { email: OWNER, now: minutes(1) });
     expect(first && second).toBeTruthy();
-    const row = await t.db("password_reset_tokens").where({ token_hash: sha256(second!.token) }).first();
+    const row = await t
+      .db("password_reset_tokens")
+      .where({ token_hash: sha256(second!.token) })
+      .first();
     expect(row.expires_at).toBe(minutes(61).toISOString());
     expect(await lastActivity(t.db)).toMatchObject({ action: "person.password_reset_requested", actor_id: null });
 
@@ -147,7 +153,9 @@ describe("password reset", () => {
 
     for (const token of [second!.token, first!.token]) {
       expect((await describePasswordReset(t.db, { token, now: minutes(3) })).state).toBe("used");
-      await expect(resetPassword(t.db, { input: { token, password: "another-password-1", confirmPassword: "another-password-1" }, now: minutes(3) })).rejects.toMatchObject({
+      await expect(
+        resetPassword(t.db, { input: { token, password: "another-password-1", confirmPassword: "another-password-1" }, now: minutes(3) }),
+      ).rejects.toMatchObject({
         code: "conflict",
         field: "token",
       });
@@ -158,13 +166,17 @@ describe("password reset", () => {
   it("an expired link is refused with a clear message", async () => {
     const issued = await requestPasswordReset(t.db, { email: OWNER, now: NOW });
     expect((await describePasswordReset(t.db, { token: issued!.token, now: minutes(60) })).state).toBe("expired");
-    const err = await resetPassword(t.db, { input: { token: issued!.token, password: PASSWORD, confirmPassword: PASSWORD }, now: minutes(61) }).catch((e) => e);
+    const err = await resetPassword(t.db, {
+      input: { token: issued!.token, password: PASSWORD, confirmPassword: PASSWORD },
+      now: minutes(61),
+    }).catch((e) => e);
     expect(err).toMatchObject({ code: "conflict", message: "This link has expired. Ask for a new one." });
     expect(await verifyPassword("coldtrail-demo", (await findUserForSignIn(t.db, OWNER))!.passwordHash)).toBe(true);
   });
 
   it(`sends at most ${RESET_REQUESTS_PER_HOUR} links an hour to one account`, async () => {
-    for (let i = 0; i < RESET_REQUESTS_PER_HOUR; i++) expect(await requestPasswordReset(t.db, { email: OWNER, now: minutes(i) })).not.toBeNull();
+    for (let i = 0; i < RESET_REQUESTS_PER_HOUR; i++)
+      expect(await requestPasswordReset(t.db, { email: OWNER, now: minutes(i) })).not.toBeNull();
     expect(await requestPasswordReset(t.db, { email: OWNER, now: minutes(10) })).toBeNull();
     expect(await requestPasswordReset(t.db, { email: OWNER, now: minutes(61) })).not.toBeNull();
   });
@@ -174,7 +186,9 @@ describe("password reset", () => {
     const { actor } = await signedIn(t.db, OWNER);
     await setPersonActive(t.db, { actor, id: issued!.userId, active: false, now: minutes(1) });
     expect((await describePasswordReset(t.db, { token: issued!.token, now: minutes(2) })).state).not.toBe("valid");
-    await expect(resetPassword(t.db, { input: { token: issued!.token, password: PASSWORD, confirmPassword: PASSWORD }, now: minutes(2) })).rejects.toMatchObject({
+    await expect(
+      resetPassword(t.db, { input: { token: issued!.token, password: PASSWORD, confirmPassword: PASSWORD }, now: minutes(2) }),
+    ).rejects.toMatchObject({
       code: "conflict",
     });
   });

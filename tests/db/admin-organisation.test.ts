@@ -46,8 +46,13 @@ describe("branches", () => {
     expect(row).toMatchObject({ organisation_id: 1, code: "LAN", time_zone: "America/Detroit", mass_unit: "kg", archived_at: null });
     expect(await lastActivity(t.db)).toMatchObject({ action: "branch.created", actor_id: actor.userId, branch_id: id, subject_id: id });
 
-    await expect(createBranch(t.db, { actor, input: branchInput.parse({ ...NEW_BRANCH, name: "Elsewhere" }) })).rejects.toMatchObject({ code: "conflict", field: "code" });
-    await expect(createBranch(t.db, { actor, input: branchInput.parse({ ...NEW_BRANCH, code: "LN2", name: "lansing" }) })).rejects.toMatchObject({ code: "conflict", field: "name" });
+    await expect(createBranch(t.db, { actor, input: branchInput.parse({ ...NEW_BRANCH, name: "Elsewhere" }) })).rejects.toMatchObject({
+      code: "conflict",
+      field: "code",
+    });
+    await expect(
+      createBranch(t.db, { actor, input: branchInput.parse({ ...NEW_BRANCH, code: "LN2", name: "lansing" }) }),
+    ).rejects.toMatchObject({ code: "conflict", field: "name" });
     // Codes are per organisation: another company may use the same.
     const other = await signedIn(t.db, OTHER_OWNER);
     await createBranch(t.db, { actor: other.actor, input: branchInput.parse(NEW_BRANCH) });
@@ -65,7 +70,10 @@ describe("branches", () => {
     await updateBranch(t.db, { actor, id: den, input: { archived: true } });
     expect(await lastActivity(t.db)).toMatchObject({ action: "branch.archived" });
     expect((await listBranches(t.db, { organisationId: 1 })).map((b) => b.id)).not.toContain(den);
-    const listed = await listAdminBranches(t.db, { scope: scopeByAbility(ability, "read", "Branch", "branches"), query: { page: 1, pageSize: 25, archived: "include" } });
+    const listed = await listAdminBranches(t.db, {
+      scope: scopeByAbility(ability, "read", "Branch", "branches"),
+      query: { page: 1, pageSize: 25, archived: "include" },
+    });
     expect(listed.rows.at(-1)).toMatchObject({ id: den, name: "Denver Metro" });
     expect(listed.rows.at(-1)!.archivedAt).not.toBeNull();
     expect(await count(t.db, "jobs", { branch_id: den })).toBe(jobs);
@@ -77,10 +85,15 @@ describe("branches", () => {
 
   it("a branch manager's scope holds only their branch; another organisation's branch cannot be changed", async () => {
     const { ability } = await signedIn(t.db, MANAGER_COL);
-    const listed = await listAdminBranches(t.db, { scope: scopeByAbility(ability, "read", "Branch", "branches"), query: { page: 1, pageSize: 25, archived: "include" } });
+    const listed = await listAdminBranches(t.db, {
+      scope: scopeByAbility(ability, "read", "Branch", "branches"),
+      query: { page: 1, pageSize: 25, archived: "include" },
+    });
     expect(listed.rows.map((b) => b.code)).toEqual(["COL"]);
     expect(listed.rows[0]!.peopleCount).toBeGreaterThan(1);
-    expect(await getAdminBranch(t.db, { scope: scopeByAbility(ability, "read", "Branch", "branches"), id: await branchId(t.db, "TUC") })).toBeUndefined();
+    expect(
+      await getAdminBranch(t.db, { scope: scopeByAbility(ability, "read", "Branch", "branches"), id: await branchId(t.db, "TUC") }),
+    ).toBeUndefined();
 
     const { actor } = await signedIn(t.db, OWNER);
     const boise = await branchId(t.db, "BOI", 2);
@@ -117,13 +130,23 @@ describe("settings", () => {
   });
 
   it("refuses bad values naming the field", () => {
-    const bad = organisationSettingsInput.safeParse({ ...DEFAULT_SETTINGS, name: "K", rulePacks: [], ptTolerancePsi: -1, requalificationYears: 7, strictFill130F: true });
+    const bad = organisationSettingsInput.safeParse({
+      ...DEFAULT_SETTINGS,
+      name: "K",
+      rulePacks: [],
+      ptTolerancePsi: -1,
+      requalificationYears: 7,
+      strictFill130F: true,
+    });
     expect(bad.success).toBe(false);
     expect(bad.error!.issues.map((i) => i.path.join(".")).sort()).toEqual(["name", "ptTolerancePsi", "requalificationYears", "rulePacks"]);
   });
 
   it("ignores unknown or mistyped keys stored by hand", async () => {
-    await t.db("organisations").where({ id: 1 }).update({ settings: JSON.stringify({ ptTolerancePsi: "lots", requalificationYears: 12, colour: "red" }) });
+    await t
+      .db("organisations")
+      .where({ id: 1 })
+      .update({ settings: JSON.stringify({ ptTolerancePsi: "lots", requalificationYears: 12, colour: "red" }) });
     expect((await getOrganisationSettings(t.db, 1)).settings).toEqual({ ...DEFAULT_SETTINGS, requalificationYears: 12 });
   });
 });
@@ -132,9 +155,15 @@ describe("a new company", () => {
   it("starts with an owner who sets a password through a single-use link", async () => {
     const empty = await createTestDb();
     try {
-      const created = await createOrganisationWithOwner(empty.db, { name: "Brightwater Cooling", ownerName: "Ines Marlowe", ownerEmail: "Ines@Brightwater.example" });
+      const created = await createOrganisationWithOwner(empty.db, {
+        name: "Brightwater Cooling",
+        ownerName: "Ines Marlowe",
+        ownerEmail: "Ines@Brightwater.example",
+      });
       expect((await describeInvitation(empty.db, { token: created.token })).state).toBe("valid");
-      await acceptInvitation(empty.db, { input: { token: created.token, name: "Ines Marlowe", password: "first-owner-pass", confirmPassword: "first-owner-pass" } });
+      await acceptInvitation(empty.db, {
+        input: { token: created.token, name: "Ines Marlowe", password: "first-owner-pass", confirmPassword: "first-owner-pass" },
+      });
       const actor = await loadActor(empty.db, created.ownerId);
       expect(actor).toMatchObject({ email: "ines@brightwater.example", roles: ["owner"] });
     } finally {

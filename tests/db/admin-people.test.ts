@@ -82,7 +82,11 @@ describe("changing roles and branches", () => {
     const { actor } = await signedIn(t.db, OWNER);
     const tech = await userId(t.db, TECH_COL);
     const [col, den] = [await branchId(t.db, "COL"), await branchId(t.db, "DEN")];
-    await updatePersonAccess(t.db, { actor, id: tech, input: personAccessInput.parse({ roles: ["branch_manager", "technician"], branchIds: [col, den] }) });
+    await updatePersonAccess(t.db, {
+      actor,
+      id: tech,
+      input: personAccessInput.parse({ roles: ["branch_manager", "technician"], branchIds: [col, den] }),
+    });
     const loaded = await loadActor(t.db, tech);
     expect(loaded!.memberships.map((m) => `${m.role}:${m.branchId}`).sort()).toEqual(
       [`branch_manager:${col}`, `branch_manager:${den}`, `technician:${col}`, `technician:${den}`].sort(),
@@ -97,10 +101,12 @@ describe("changing roles and branches", () => {
     const tech = await userId(t.db, TECH_COL);
     const boise = await branchId(t.db, "BOI", 2);
     const before = { m: await count(t.db, "memberships"), a: await count(t.db, "activity") };
-    await expect(updatePersonAccess(t.db, { actor, id: tech, input: { roles: ["technician"], branchIds: [boise] } })).rejects.toMatchObject({
-      code: "invalid",
-      field: "branchIds",
-    });
+    await expect(updatePersonAccess(t.db, { actor, id: tech, input: { roles: ["technician"], branchIds: [boise] } })).rejects.toMatchObject(
+      {
+        code: "invalid",
+        field: "branchIds",
+      },
+    );
     expect({ m: await count(t.db, "memberships"), a: await count(t.db, "activity") }).toEqual(before);
   });
 
@@ -116,14 +122,18 @@ describe("changing roles and branches", () => {
   it("nobody raises their own role or adds a branch to themselves", async () => {
     const owner = await signedIn(t.db, OWNER);
     const col = await branchId(t.db, "COL");
-    const err = await updatePersonAccess(t.db, { actor: owner.actor, id: owner.actor.userId, input: { roles: ["owner", "technician"], branchIds: [col] } }).catch((e) => e);
+    const err = await updatePersonAccess(t.db, {
+      actor: owner.actor,
+      id: owner.actor.userId,
+      input: { roles: ["owner", "technician"], branchIds: [col] },
+    }).catch((e) => e);
     expect(err).toBeInstanceOf(ActionForbiddenError);
     expect(err.message).toMatch(/cannot raise your own role/);
 
     const officer = await signedIn(t.db, OFFICER);
-    await expect(updatePersonAccess(t.db, { actor: officer.actor, id: officer.actor.userId, input: { roles: ["owner"], branchIds: [] } })).rejects.toBeInstanceOf(
-      ActionForbiddenError,
-    );
+    await expect(
+      updatePersonAccess(t.db, { actor: officer.actor, id: officer.actor.userId, input: { roles: ["owner"], branchIds: [] } }),
+    ).rejects.toBeInstanceOf(ActionForbiddenError);
     expect((await loadActor(t.db, officer.actor.userId))!.memberships.map((m) => m.role)).toEqual(["compliance_officer"]);
   });
 
@@ -136,22 +146,30 @@ describe("changing roles and branches", () => {
 
   it("the last owner keeps the owner role and stays active; with a second owner the first may step down", async () => {
     const owner = await signedIn(t.db, OWNER);
-    const stepDown = () => updatePersonAccess(t.db, { actor: owner.actor, id: owner.actor.userId, input: { roles: ["compliance_officer"], branchIds: [] } });
+    const stepDown = () =>
+      updatePersonAccess(t.db, { actor: owner.actor, id: owner.actor.userId, input: { roles: ["compliance_officer"], branchIds: [] } });
     const err = await stepDown().catch((e) => e);
     expect(err).toBeInstanceOf(RecordConflictError);
     expect(err.message).toContain("is the last owner");
 
     // An invited owner who has not set a password does not count: they cannot sign in yet.
-    const invited = await createInvitation(t.db, { actor: owner.actor, input: { email: "second.owner@kestrelmoor.example", name: "Second Owner", roles: ["owner"], branchIds: [] } });
+    const invited = await createInvitation(t.db, {
+      actor: owner.actor,
+      input: { email: "second.owner@kestrelmoor.example", name: "Second Owner", roles: ["owner"], branchIds: [] },
+    });
     await expect(stepDown()).rejects.toBeInstanceOf(RecordConflictError);
 
-    await acceptInvitation(t.db, { input: { token: invited.token, name: "Second Owner", password: "a-long-password", confirmPassword: "a-long-password" } });
+    await acceptInvitation(t.db, {
+      input: { token: invited.token, name: "Second Owner", password: "a-long-password", confirmPassword: "a-long-password" },
+    });
     await stepDown();
     expect((await loadActor(t.db, owner.actor.userId))!.memberships.map((m) => m.role)).toEqual(["compliance_officer"]);
 
     // Now the second owner is the last one: nobody can deactivate them, and they cannot deactivate themselves.
     const second = await signedIn(t.db, "second.owner@kestrelmoor.example");
-    await expect(setPersonActive(t.db, { actor: second.actor, id: second.actor.userId, active: false })).rejects.toBeInstanceOf(ActionForbiddenError);
+    await expect(setPersonActive(t.db, { actor: second.actor, id: second.actor.userId, active: false })).rejects.toBeInstanceOf(
+      ActionForbiddenError,
+    );
     await expect(
       updatePersonAccess(t.db, { actor: second.actor, id: second.actor.userId, input: { roles: ["compliance_officer"], branchIds: [] } }),
     ).rejects.toMatchObject({ code: "conflict" });
@@ -179,7 +197,9 @@ describe("deactivating", () => {
 
   it("a person of another organisation cannot be touched", async () => {
     const { actor } = await signedIn(t.db, OWNER);
-    await expect(setPersonActive(t.db, { actor, id: await userId(t.db, OTHER_OWNER), active: false })).rejects.toMatchObject({ code: "not_found" });
+    await expect(setPersonActive(t.db, { actor, id: await userId(t.db, OTHER_OWNER), active: false })).rejects.toMatchObject({
+      code: "not_found",
+    });
   });
 });
 

@@ -58,14 +58,30 @@ describe("regulated records are corrected by amendment", () => {
 
   it("a voided record keeps its row, cannot be voided twice or amended", async () => {
     await t.db.transaction((trx) =>
-      voidRecord(trx, { table: "jobs", subjectType: "Job", id: job.id, organisationId: job.organisation_id, actorId: job.technician_id, reason: "Entered on the wrong appliance", summary: "Voided a job" }),
+      voidRecord(trx, {
+        table: "jobs",
+        subjectType: "Job",
+        id: job.id,
+        organisationId: job.organisation_id,
+        actorId: job.technician_id,
+        reason: "Entered on the wrong appliance",
+        summary: "Voided a job",
+      }),
     );
     const row = await t.db("jobs").where({ id: job.id }).first("voided_at", "void_reason");
     expect(row.voided_at).toBeTruthy();
     expect(row.void_reason).toBe("Entered on the wrong appliance");
     await expect(
       t.db.transaction((trx) =>
-        voidRecord(trx, { table: "jobs", subjectType: "Job", id: job.id, organisationId: job.organisation_id, actorId: job.technician_id, reason: "again", summary: "Voided" }),
+        voidRecord(trx, {
+          table: "jobs",
+          subjectType: "Job",
+          id: job.id,
+          organisationId: job.organisation_id,
+          actorId: job.technician_id,
+          reason: "again",
+          summary: "Voided",
+        }),
       ),
     ).rejects.toBeInstanceOf(DomainError);
     await expect(amend(t.db, { evacuation_value: 9 })).rejects.toMatchObject({ code: "conflict" });

@@ -100,7 +100,15 @@ describe("an audit of every demo branch", () => {
   });
 
   it("writes one opened event per finding and one activity row per branch checked", async () => {
-    const events = await t.db("finding_events").whereIn("finding_id", firstFindings.map((f) => f.id)).where({ action: "opened" }).count({ n: "*" }).first();
+    const events = await t
+      .db("finding_events")
+      .whereIn(
+        "finding_id",
+        firstFindings.map((f) => f.id),
+      )
+      .where({ action: "opened" })
+      .count({ n: "*" })
+      .first();
     expect(Number(events!.n)).toBe(firstFindings.length);
     const activity = await t.db("activity").where({ action: "audit.branch_checked", subject_id: first }).count({ n: "*" }).first();
     expect(Number(activity!.n)).toBe(branchIds.length);
@@ -156,7 +164,8 @@ describe("continuous audit after a record is saved", () => {
     const tech = await userId("marcus.delacroix-byrd@kestrelmoor.example");
     const col = Number((await t.db("branches").where({ code: "COL" }).first("id")).id);
     const appliance = await t.db("appliances").where({ branch_id: col, tag: "COL-RES-101" }).first("id", "refrigerant");
-    const [job] = await t.db("jobs")
+    const [job] = await t
+      .db("jobs")
       .insert({
         organisation_id: 1,
         branch_id: col,
@@ -181,7 +190,10 @@ describe("continuous audit after a record is saved", () => {
     const summary = await reevaluateBranch(t.db, { organisationId: 1, branchId: col, now: NOW, triggeredBy: tech });
     expect(summary).not.toBeNull();
     expect(summary!.created).toBeGreaterThanOrEqual(1);
-    const finding = await t.db("findings").where({ identity_key: `CT-ACCESS-01:job:${jobId}` }).first("state", "audit_id", "technician_id");
+    const finding = await t
+      .db("findings")
+      .where({ identity_key: `CT-ACCESS-01:job:${jobId}` })
+      .first("state", "audit_id", "technician_id");
     expect(finding).toMatchObject({ state: "open", audit_id: null, technician_id: tech });
   });
 
@@ -197,7 +209,10 @@ describe("a run interrupted by a restart", () => {
     await claimAudit(t.db, { id, now: NOW });
     // The server stopped after the first branch.
     const firstBranch = (await getAuditRun(t.db, { organisationId: 1, id }))!.branchIds[0]!;
-    await t.db("audits").where({ id }).update({ branches_done: JSON.stringify([firstBranch]), heartbeat_at: "2026-12-01T14:00:00.000Z", progress: 25 });
+    await t
+      .db("audits")
+      .where({ id })
+      .update({ branches_done: JSON.stringify([firstBranch]), heartbeat_at: "2026-12-01T14:00:00.000Z", progress: 25 });
     const { requeued, failed } = await requeueInterruptedAudits(t.db, { staleBefore: new Date("2026-12-01T14:58:00Z"), now: NOW });
     expect(requeued).toContain(id);
     expect(failed).not.toContain(id);
@@ -211,7 +226,11 @@ describe("a run interrupted by a restart", () => {
   });
 
   it("fails with a reason after repeated interruptions", async () => {
-    const id = await createAudit(t.db, { actor: officer, input: { branchIds: [branchIds[0]!], ...PERIOD, packs: ["us_federal"] }, now: NOW });
+    const id = await createAudit(t.db, {
+      actor: officer,
+      input: { branchIds: [branchIds[0]!], ...PERIOD, packs: ["us_federal"] },
+      now: NOW,
+    });
     await claimAudit(t.db, { id, now: NOW });
     await t.db("audits").where({ id }).update({ attempts: 3, heartbeat_at: "2026-12-01T10:00:00.000Z" });
     const { failed } = await requeueInterruptedAudits(t.db, { staleBefore: new Date("2026-12-01T14:58:00Z"), now: NOW });
@@ -222,7 +241,11 @@ describe("a run interrupted by a restart", () => {
   });
 
   it("a queued run can be claimed once only", async () => {
-    const id = await createAudit(t.db, { actor: officer, input: { branchIds: [branchIds[0]!], ...PERIOD, packs: ["us_federal"] }, now: NOW });
+    const id = await createAudit(t.db, {
+      actor: officer,
+      input: { branchIds: [branchIds[0]!], ...PERIOD, packs: ["us_federal"] },
+      now: NOW,
+    });
     expect(await claimAudit(t.db, { id })).toBe(true);
     expect(await claimAudit(t.db, { id })).toBe(false);
   });
@@ -232,7 +255,9 @@ describe("creating an audit", () => {
   it("refuses a branch of another organisation and writes nothing", async () => {
     const boise = Number((await t.db("branches").where({ code: "BOI" }).first("id")).id);
     const before = await t.db("audits").count({ n: "*" }).first();
-    await expect(createAudit(t.db, { actor: officer, input: { branchIds: [branchIds[0]!, boise], ...PERIOD, packs: ["us_federal"] } })).rejects.toMatchObject({
+    await expect(
+      createAudit(t.db, { actor: officer, input: { branchIds: [branchIds[0]!, boise], ...PERIOD, packs: ["us_federal"] } }),
+    ).rejects.toMatchObject({
       code: "invalid",
       field: "branchIds",
     });

@@ -47,7 +47,11 @@ beforeAll(async () => {
   }
   const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
   const branchIds = (await t.db("branches").where({ organisation_id: 1 }).select("id")).map((b) => Number(b.id));
-  const id = await createAudit(t.db, { actor: officer.ref, input: { branchIds, periodFrom: "2024-12-01", periodTo: "2026-12-01", packs: ["us_federal"] }, now: NOW });
+  const id = await createAudit(t.db, {
+    actor: officer.ref,
+    input: { branchIds, periodFrom: "2024-12-01", periodTo: "2026-12-01", packs: ["us_federal"] },
+    now: NOW,
+  });
   await claimAudit(t.db, { id, now: NOW });
   await runAuditBranches(t.db, { id, now: () => NOW });
   const col = Number((await t.db("branches").where({ code: "COL" }).first("id")).id);
@@ -72,7 +76,15 @@ describe("the findings workflow", () => {
   it("refuses to assign a finding to a manager of another branch, naming the field, and writes nothing", async () => {
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
     const before = await t.db("activity").count({ n: "*" }).first();
-    await expect(assignFindings(t.db, { actor: officer.ref, scope: scope(officer, "assign"), findingIds: [findingCol, findingTuc], assigneeId: ids.managerCol!, now: NOW })).rejects.toMatchObject({
+    await expect(
+      assignFindings(t.db, {
+        actor: officer.ref,
+        scope: scope(officer, "assign"),
+        findingIds: [findingCol, findingTuc],
+        assigneeId: ids.managerCol!,
+        now: NOW,
+      }),
+    ).rejects.toMatchObject({
       code: "invalid",
       field: "assigneeId",
       message: expect.stringContaining("does not manage Tucson"),
@@ -83,16 +95,34 @@ describe("the findings workflow", () => {
 
   it("a branch manager cannot assign", async () => {
     const manager = await actorOf("grant.oyelaran@kestrelmoor.example");
-    await expect(assignFindings(t.db, { actor: manager.ref, scope: scope(manager, "assign"), findingIds: [findingCol], assigneeId: ids.managerCol!, now: NOW })).rejects.toMatchObject({ code: "not_found" });
+    await expect(
+      assignFindings(t.db, {
+        actor: manager.ref,
+        scope: scope(manager, "assign"),
+        findingIds: [findingCol],
+        assigneeId: ids.managerCol!,
+        now: NOW,
+      }),
+    ).rejects.toMatchObject({ code: "not_found" });
   });
 
   it("assigns, notifies the assignee, and records the history", async () => {
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
-    const res = await assignFindings(t.db, { actor: officer.ref, scope: scope(officer, "assign"), findingIds: [findingCol], assigneeId: ids.managerCol!, now: NOW });
+    const res = await assignFindings(t.db, {
+      actor: officer.ref,
+      scope: scope(officer, "assign"),
+      findingIds: [findingCol],
+      assigneeId: ids.managerCol!,
+      now: NOW,
+    });
     expect(res.assigned).toBe(1);
     const mail = await listUnsentFindingMail(t.db, { ids: res.notificationIds });
     expect(mail).toHaveLength(1);
-    expect(mail[0]).toMatchObject({ email: "grant.oyelaran@kestrelmoor.example", kind: "finding_assigned", link: `/findings/${findingCol}` });
+    expect(mail[0]).toMatchObject({
+      email: "grant.oyelaran@kestrelmoor.example",
+      kind: "finding_assigned",
+      link: `/findings/${findingCol}`,
+    });
     expect(mail[0]!.body).toContain("Teodora Vasquez-Lind assigned a finding to you");
     const events = await t.db("finding_events").where({ finding_id: findingCol, action: "assigned" }).select("actor_id", "note");
     expect(events).toEqual([{ actor_id: ids.officer, note: "Assigned to Grant Oyelaran" }]);
@@ -101,12 +131,16 @@ describe("the findings workflow", () => {
   it("the other branch's manager cannot see or propose a fix for it", async () => {
     const other = await actorOf("lucia.baptiste-moreno@kestrelmoor.example");
     expect(await getFinding(t.db, { organisationId: 1, scope: scope(other, "read"), id: findingCol })).toBeUndefined();
-    await expect(proposeFindingFix(t.db, { actor: other.ref, scope: scope(other, "propose_fix"), id: findingCol, note: "Not mine to fix", now: NOW })).rejects.toMatchObject({ code: "not_found" });
+    await expect(
+      proposeFindingFix(t.db, { actor: other.ref, scope: scope(other, "propose_fix"), id: findingCol, note: "Not mine to fix", now: NOW }),
+    ).rejects.toMatchObject({ code: "not_found" });
   });
 
   it("the officer cannot accept before a fix is proposed", async () => {
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
-    await expect(acceptFindingFix(t.db, { actor: officer.ref, scope: scope(officer, "accept"), id: findingCol, now: NOW })).rejects.toMatchObject({
+    await expect(
+      acceptFindingFix(t.db, { actor: officer.ref, scope: scope(officer, "accept"), id: findingCol, now: NOW }),
+    ).rejects.toMatchObject({
       code: "conflict",
       message: "Only a finding with a proposed fix can be accepted; this one is open",
     });
@@ -126,7 +160,13 @@ describe("the findings workflow", () => {
     const mail = await listUnsentFindingMail(t.db, { ids: proposed.notificationIds });
     expect(mail.map((m) => [m.email, m.kind])).toEqual([["teodora.vasquez-lind@kestrelmoor.example", "finding_fix_proposed"]]);
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
-    const accepted = await acceptFindingFix(t.db, { actor: officer.ref, scope: scope(officer, "accept"), id: findingCol, note: "Reading checked", now: NOW });
+    const accepted = await acceptFindingFix(t.db, {
+      actor: officer.ref,
+      scope: scope(officer, "accept"),
+      id: findingCol,
+      note: "Reading checked",
+      now: NOW,
+    });
     expect(accepted.state).toBe("closed");
     const detail = (await getFinding(t.db, { organisationId: 1, scope: scope(officer, "read"), id: findingCol }))!;
     expect(detail.state).toBe("closed");
@@ -137,7 +177,13 @@ describe("the findings workflow", () => {
 
   it("reopens a closed finding with a reason and tells the people who worked on it", async () => {
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
-    const res = await reopenFinding(t.db, { actor: officer.ref, scope: scope(officer, "reopen"), id: findingCol, reason: "The new reading was taken on the wrong unit", now: NOW });
+    const res = await reopenFinding(t.db, {
+      actor: officer.ref,
+      scope: scope(officer, "reopen"),
+      id: findingCol,
+      reason: "The new reading was taken on the wrong unit",
+      now: NOW,
+    });
     expect(res.state).toBe("open");
     const mail = await listUnsentFindingMail(t.db, { ids: res.notificationIds });
     expect(mail.map((m) => [m.email, m.kind])).toEqual([["grant.oyelaran@kestrelmoor.example", "finding_reopened"]]);
@@ -145,9 +191,17 @@ describe("the findings workflow", () => {
 
   it("waiving needs a reason of at least 10 characters, and then tells the branch", async () => {
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
-    await expect(waiveFinding(t.db, { actor: officer.ref, scope: scope(officer, "waive"), id: findingTuc, reason: "ok", now: NOW })).rejects.toMatchObject({ code: "invalid", field: "reason" });
+    await expect(
+      waiveFinding(t.db, { actor: officer.ref, scope: scope(officer, "waive"), id: findingTuc, reason: "ok", now: NOW }),
+    ).rejects.toMatchObject({ code: "invalid", field: "reason" });
     expect((await t.db("findings").where({ id: findingTuc }).first("state")).state).toBe("open");
-    const res = await waiveFinding(t.db, { actor: officer.ref, scope: scope(officer, "waive"), id: findingTuc, reason: "The unit was scrapped the same week with the tap on it", now: NOW });
+    const res = await waiveFinding(t.db, {
+      actor: officer.ref,
+      scope: scope(officer, "waive"),
+      id: findingTuc,
+      reason: "The unit was scrapped the same week with the tap on it",
+      now: NOW,
+    });
     expect(res.state).toBe("waived");
     const row = await t.db("findings").where({ id: findingTuc }).first("waiver_reason", "closed_at");
     expect(row.waiver_reason).toBe("The unit was scrapped the same week with the tap on it");
@@ -159,10 +213,18 @@ describe("the findings workflow", () => {
     const tech = await actorOf("marcus.delacroix-byrd@kestrelmoor.example");
     const own = await t.db("findings").where({ technician_id: ids.techCol }).first("id");
     expect(own).toBeTruthy();
-    const commentId = await addFindingComment(t.db, { actor: tech.ref, scope: scope(tech, "comment"), id: Number(own.id), body: "I will go back on Monday", now: NOW });
+    const commentId = await addFindingComment(t.db, {
+      actor: tech.ref,
+      scope: scope(tech, "comment"),
+      id: Number(own.id),
+      body: "I will go back on Monday",
+      now: NOW,
+    });
     expect(commentId).toBeGreaterThan(0);
     const notMine = await t.db("findings").whereNot({ technician_id: ids.techCol }).orWhereNull("technician_id").first("id");
-    await expect(addFindingComment(t.db, { actor: tech.ref, scope: scope(tech, "comment"), id: Number(notMine.id), body: "Hello", now: NOW })).rejects.toMatchObject({ code: "not_found" });
+    await expect(
+      addFindingComment(t.db, { actor: tech.ref, scope: scope(tech, "comment"), id: Number(notMine.id), body: "Hello", now: NOW }),
+    ).rejects.toMatchObject({ code: "not_found" });
   });
 });
 
@@ -190,7 +252,10 @@ describe("listing findings", () => {
         query: findingListQuery.parse({ groupBy, state: "all", pageSize: 200 }),
         today: "2026-12-01",
       });
-      expect(res.groups.reduce((n, g) => n + g.count, 0), groupBy).toBe(res.total);
+      expect(
+        res.groups.reduce((n, g) => n + g.count, 0),
+        groupBy,
+      ).toBe(res.total);
       expect(new Set(res.groups.map((g) => g.key)).size, groupBy).toBe(res.groups.length);
     }
   });
@@ -198,7 +263,12 @@ describe("listing findings", () => {
   it("filters by rule, branch, assignee and due date bucket", async () => {
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
     const list = (q: Record<string, unknown>) =>
-      listFindings(t.db, { organisationId: 1, scope: scope(officer, "read"), query: findingListQuery.parse({ pageSize: 200, state: "all", ...q }), today: "2026-12-01" });
+      listFindings(t.db, {
+        organisationId: 1,
+        scope: scope(officer, "read"),
+        query: findingListQuery.parse({ pageSize: 200, state: "all", ...q }),
+        today: "2026-12-01",
+      });
     const byRule = await list({ ruleId: "CT-CERT-01" });
     expect(byRule.total).toBeGreaterThanOrEqual(2);
     expect(byRule.rows.every((r) => r.ruleId === "CT-CERT-01")).toBe(true);
@@ -214,8 +284,20 @@ describe("saved views", () => {
   it("belong to one person: saving again replaces, others never see them", async () => {
     const officer = await actorOf("teodora.vasquez-lind@kestrelmoor.example");
     const other = await actorOf("anand.krishnaswamy@kestrelmoor.example");
-    const view = await saveView(t.db, { actor: officer.ref, list: "findings", name: "Overdue criticals", query: { sort: "due", dir: "asc", state: "active", severity: "critical", due: "overdue" }, now: NOW });
-    await saveView(t.db, { actor: officer.ref, list: "findings", name: "Overdue criticals", query: { sort: "due", dir: "asc", state: "active", severity: "major", due: "overdue" }, now: NOW });
+    const view = await saveView(t.db, {
+      actor: officer.ref,
+      list: "findings",
+      name: "Overdue criticals",
+      query: { sort: "due", dir: "asc", state: "active", severity: "critical", due: "overdue" },
+      now: NOW,
+    });
+    await saveView(t.db, {
+      actor: officer.ref,
+      list: "findings",
+      name: "Overdue criticals",
+      query: { sort: "due", dir: "asc", state: "active", severity: "major", due: "overdue" },
+      now: NOW,
+    });
     const mine = await listSavedViews(t.db, { actor: officer.ref, list: "findings" });
     expect(mine.map((v) => [v.name, v.query.severity])).toEqual([["Overdue criticals", "major"]]);
     expect(await listSavedViews(t.db, { actor: other.ref, list: "findings" })).toEqual([]);

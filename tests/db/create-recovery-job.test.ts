@@ -63,7 +63,12 @@ describe("createRecoveryJob", () => {
 
     const movements = await t.db("refrigerant_movements").where({ job_id: id });
     expect(movements).toHaveLength(1);
-    expect(movements[0]).toMatchObject({ direction: "recovered_into_cylinder", cylinder_id: f.northCylinder, refrigerant: "R-410A", mass_g: 5625 });
+    expect(movements[0]).toMatchObject({
+      direction: "recovered_into_cylinder",
+      cylinder_id: f.northCylinder,
+      refrigerant: "R-410A",
+      mass_g: 5625,
+    });
 
     const cylinder = await t.db("cylinders").where({ id: f.northCylinder }).first();
     expect(cylinder).toMatchObject({ contents_g: 5625, refrigerant: "R-410A" });
@@ -107,7 +112,11 @@ describe("createRecoveryJob", () => {
 
   it("refuses equipment of another branch by field", async () => {
     await expect(
-      createRecoveryJob(t.db, { actor: { userId: f.tech, organisationId: f.org }, branchId: f.north, input: input({ equipmentId: f.southEquipment }) }),
+      createRecoveryJob(t.db, {
+        actor: { userId: f.tech, organisationId: f.org },
+        branchId: f.north,
+        input: input({ equipmentId: f.southEquipment }),
+      }),
     ).rejects.toMatchObject({ code: "conflict", field: "equipmentId" });
   });
 
@@ -131,7 +140,11 @@ describe("createRecoveryJob", () => {
 
   it("refuses an appliance of another branch of the same organisation as a conflict", async () => {
     await expect(
-      createRecoveryJob(t.db, { actor: { userId: f.tech, organisationId: f.org }, branchId: f.north, input: input({ applianceId: f.southAppliance }) }),
+      createRecoveryJob(t.db, {
+        actor: { userId: f.tech, organisationId: f.org },
+        branchId: f.north,
+        input: input({ applianceId: f.southAppliance }),
+      }),
     ).rejects.toMatchObject({ code: "conflict", field: "applianceId" });
   });
 
@@ -139,7 +152,13 @@ describe("createRecoveryJob", () => {
     const id = await createRecoveryJob(t.db, {
       actor: { userId: f.tech, organisationId: f.org },
       branchId: f.south,
-      input: input({ applianceId: f.southAppliance, cylinderId: f.southCylinder, equipmentId: f.southEquipment, recoveredAmount: 5.62, recoveredUnit: "kg" }),
+      input: input({
+        applianceId: f.southAppliance,
+        cylinderId: f.southCylinder,
+        equipmentId: f.southEquipment,
+        recoveredAmount: 5.62,
+        recoveredUnit: "kg",
+      }),
     });
     const row = await t.db("activity").where({ subject_type: "job", subject_id: id }).first();
     expect(row.summary).toBe("Recovered 5.62 kg R-410A from RTU-S1 into cylinder C-0300");

@@ -19,7 +19,17 @@ afterAll(async () => {
   await b.destroy();
 });
 
-const TABLES = ["users", "appliances", "jobs", "cylinders", "refrigerant_movements", "reclaim_shipments", "purchases", "certifications", "activity"];
+const TABLES = [
+  "users",
+  "appliances",
+  "jobs",
+  "cylinders",
+  "refrigerant_movements",
+  "reclaim_shipments",
+  "purchases",
+  "certifications",
+  "activity",
+];
 
 async function fingerprint(d: Knex) {
   const counts: Record<string, number> = {};
@@ -27,8 +37,27 @@ async function fingerprint(d: Knex) {
   const hash = createHash("sha256");
   hash.update(JSON.stringify(await d("users").orderBy("id").select("id", "email", "name", "password_hash")));
   hash.update(JSON.stringify(await d("appliances").orderBy("id").select("id", "tag", "refrigerant", "full_charge_g", "status", "site_id")));
-  hash.update(JSON.stringify(await d("jobs").orderBy("id").select("id", "appliance_id", "technician_id", "kind", "performed_on", "recovered_g", "charged_g", "cylinder_id", "equipment_id", "created_at")));
-  hash.update(JSON.stringify(await d("cylinders").orderBy("id").select("id", "serial", "contents_g", "refrigerant", "last_requalified_on")));
+  hash.update(
+    JSON.stringify(
+      await d("jobs")
+        .orderBy("id")
+        .select(
+          "id",
+          "appliance_id",
+          "technician_id",
+          "kind",
+          "performed_on",
+          "recovered_g",
+          "charged_g",
+          "cylinder_id",
+          "equipment_id",
+          "created_at",
+        ),
+    ),
+  );
+  hash.update(
+    JSON.stringify(await d("cylinders").orderBy("id").select("id", "serial", "contents_g", "refrigerant", "last_requalified_on")),
+  );
   hash.update(JSON.stringify(await d("activity").orderBy("id").select("id", "at", "summary")));
   return { counts, checksum: hash.digest("hex") };
 }
@@ -64,7 +93,11 @@ describe("the demo seed", () => {
   });
 
   it("has people in all five roles, on .example addresses, all with the demo password", async () => {
-    const roles: Array<{ role: string; n: number }> = await db("memberships").where({ organisation_id: 1 }).select("role").count({ n: "*" }).groupBy("role");
+    const roles: Array<{ role: string; n: number }> = await db("memberships")
+      .where({ organisation_id: 1 })
+      .select("role")
+      .count({ n: "*" })
+      .groupBy("role");
     const byRole = Object.fromEntries(roles.map((r) => [r.role, Number(r.n)]));
     expect(byRole.owner).toBe(1);
     expect(byRole.compliance_officer).toBe(2);
@@ -84,8 +117,17 @@ describe("the demo seed", () => {
 
   it("has appliances of every category, including a low-pressure chiller", async () => {
     const cats = await db("appliances").distinct("category").pluck("category");
-    expect(cats.sort()).toEqual(["chiller", "commercial_refrigeration", "industrial_process", "packaged_rooftop", "residential_split", "small_appliance"]);
-    expect(await db("appliances").whereIn("refrigerant", ["R-123", "R-1233zd(E)"]).where({ category: "chiller" }).count({ n: "*" }).first()).toMatchObject({ n: 2 });
+    expect(cats.sort()).toEqual([
+      "chiller",
+      "commercial_refrigeration",
+      "industrial_process",
+      "packaged_rooftop",
+      "residential_split",
+      "small_appliance",
+    ]);
+    expect(
+      await db("appliances").whereIn("refrigerant", ["R-123", "R-1233zd(E)"]).where({ category: "chiller" }).count({ n: "*" }).first(),
+    ).toMatchObject({ n: 2 });
   });
 
   it("keeps every cylinder's contents equal to its movements, except where Peoria shipments went unrecorded", async () => {
@@ -106,9 +148,14 @@ describe("the demo seed", () => {
 
 describe("planted gaps (packages/db/README.md, Demo data)", () => {
   it("G01: a Type I-only technician recovered from a rooftop unit", async () => {
-    const job = await one(jobsOn("COL-RTU-901").join("users as u", "u.id", "j.technician_id").select("j.kind", "u.id as tech", "a.category"));
+    const job = await one(
+      jobsOn("COL-RTU-901").join("users as u", "u.id", "j.technician_id").select("j.kind", "u.id as tech", "a.category"),
+    );
     expect(job).toMatchObject({ kind: "recovery", category: "packaged_rooftop" });
-    const types = await db("certifications as c").join("certification_types as t", "t.certification_id", "c.id").where({ "c.user_id": job.tech, "c.state": "verified" }).pluck("t.type");
+    const types = await db("certifications as c")
+      .join("certification_types as t", "t.certification_id", "c.id")
+      .where({ "c.user_id": job.tech, "c.state": "verified" })
+      .pluck("t.type");
     expect(types).toEqual(["type_i"]);
   });
 
@@ -166,27 +213,58 @@ describe("planted gaps (packages/db/README.md, Demo data)", () => {
   });
 
   it("G10: PIA-RACK-910 had 130 % of its full charge added in 2025", async () => {
-    const rows = await jobsOn("PIA-RACK-910").where("j.kind", "charge").whereBetween("j.performed_on", ["2025-01-01", "2025-12-31"]).select("j.charged_g", "a.full_charge_g");
+    const rows = await jobsOn("PIA-RACK-910")
+      .where("j.kind", "charge")
+      .whereBetween("j.performed_on", ["2025-01-01", "2025-12-31"])
+      .select("j.charged_g", "a.full_charge_g");
     const added = rows.reduce((s, r) => s + r.charged_g, 0);
     expect(added / rows[0].full_charge_g).toBeGreaterThanOrEqual(1.25);
-    const verified = await jobsOn("PIA-RACK-910").where("j.kind", "verification_test").where("j.verification_passed", true).count({ n: "*" }).first();
+    const verified = await jobsOn("PIA-RACK-910")
+      .where("j.kind", "verification_test")
+      .where("j.verification_passed", true)
+      .count({ n: "*" })
+      .first();
     expect(Number(verified?.n)).toBe(10);
   });
 
   it("G11: only 4 in Hg reached on the 650 lb R-134a chiller COL-CH-911, with post-1993 certified equipment", async () => {
-    const job = await one(jobsOn("COL-CH-911").join("recovery_equipment as e", "e.id", "j.equipment_id").select("j.evacuation_value", "j.evacuation_unit", "a.full_charge_g", "a.refrigerant", "e.manufactured_on", "e.certification_state"));
-    expect(job).toMatchObject({ evacuation_value: 4, evacuation_unit: "in_hg_vacuum", refrigerant: "R-134a", certification_state: "certified" });
+    const job = await one(
+      jobsOn("COL-CH-911")
+        .join("recovery_equipment as e", "e.id", "j.equipment_id")
+        .select(
+          "j.evacuation_value",
+          "j.evacuation_unit",
+          "a.full_charge_g",
+          "a.refrigerant",
+          "e.manufactured_on",
+          "e.certification_state",
+        ),
+    );
+    expect(job).toMatchObject({
+      evacuation_value: 4,
+      evacuation_unit: "in_hg_vacuum",
+      refrigerant: "R-134a",
+      certification_state: "certified",
+    });
     expect(job.full_charge_g / 453.59237).toBeGreaterThanOrEqual(200);
     expect(job.manufactured_on > "1993-11-15").toBe(true);
   });
 
   it("G12: the temporary line tap on TUC-SA-912 was left in place — the only such job", async () => {
-    const left = await db("jobs as j").join("appliances as a", "a.id", "j.appliance_id").whereIn("j.access_method", ["piercing_pliers", "bolt_on_line_tap"]).where("j.temporary_access_removed", false).pluck("a.tag");
+    const left = await db("jobs as j")
+      .join("appliances as a", "a.id", "j.appliance_id")
+      .whereIn("j.access_method", ["piercing_pliers", "bolt_on_line_tap"])
+      .where("j.temporary_access_removed", false)
+      .pluck("a.tag");
     expect(left).toEqual(["TUC-SA-912"]);
   });
 
   it("G13: DEN-SA-913 recovered 57 % with the compressor off and no 4 in Hg vacuum", async () => {
-    const job = await one(jobsOn("DEN-SA-913").where("j.kind", "recovery").select("j.recovered_g", "j.compressor_operating", "j.evacuation_value", "a.full_charge_g"));
+    const job = await one(
+      jobsOn("DEN-SA-913")
+        .where("j.kind", "recovery")
+        .select("j.recovered_g", "j.compressor_operating", "j.evacuation_value", "a.full_charge_g"),
+    );
     expect(job.recovered_g / job.full_charge_g).toBeLessThan(0.8);
     expect(job.compressor_operating).toBe(0);
     expect(job.evacuation_value).toBeLessThan(4);
@@ -199,7 +277,12 @@ describe("planted gaps (packages/db/README.md, Demo data)", () => {
   });
 
   it("G15: a Tucson job used a Denver cylinder, and a Columbus job used equipment missing from the register", async () => {
-    const job = await one(jobsOn("TUC-RES-915").where("j.kind", "recovery").join("cylinders as c", "c.id", "j.cylinder_id").select("j.branch_id", "c.branch_id as cylinder_branch", "c.serial"));
+    const job = await one(
+      jobsOn("TUC-RES-915")
+        .where("j.kind", "recovery")
+        .join("cylinders as c", "c.id", "j.cylinder_id")
+        .select("j.branch_id", "c.branch_id as cylinder_branch", "c.serial"),
+    );
     expect(job.serial).toBe("DEN-C-915");
     expect(job.cylinder_branch).not.toBe(job.branch_id);
     const e = await one(db("recovery_equipment").where({ serial: "RE-UNREG-925", unregistered: true }));
@@ -232,7 +315,12 @@ describe("planted gaps (packages/db/README.md, Demo data)", () => {
               .where("t.type", "universal")
               .orWhere((x) => x.where("a.category", "small_appliance").where("t.type", "type_i"))
               .orWhere((x) => x.whereIn("a.refrigerant", ["R-123", "R-1233zd(E)"]).where("t.type", "type_iii"))
-              .orWhere((x) => x.whereNot("a.category", "small_appliance").whereNotIn("a.refrigerant", ["R-123", "R-1233zd(E)"]).where("t.type", "type_ii")),
+              .orWhere((x) =>
+                x
+                  .whereNot("a.category", "small_appliance")
+                  .whereNotIn("a.refrigerant", ["R-123", "R-1233zd(E)"])
+                  .where("t.type", "type_ii"),
+              ),
           ),
       )
       .distinct("a.tag")

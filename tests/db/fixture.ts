@@ -15,7 +15,14 @@ export async function smallFixture(db: Knex) {
   const north = await branch(org, "NORTH", "lb_oz");
   const south = await branch(org, "SOUTH", "kg");
   const away = await branch(otherOrg, "AWAY", "lb_oz");
-  const tech = await id("users", { organisation_id: org, email: "tech@fixture.example", name: "Fixture Tech", password_hash: "x", active: true, created_at: AT });
+  const tech = await id("users", {
+    organisation_id: org,
+    email: "tech@fixture.example",
+    name: "Fixture Tech",
+    password_hash: "x",
+    active: true,
+    created_at: AT,
+  });
   await id("memberships", { organisation_id: org, user_id: tech, branch_id: north, role: "technician", created_at: AT });
   const site = (organisation_id: number, branch_id: number) => id("sites", { organisation_id, branch_id, name: "Site", created_at: AT });
   const appliance = async (organisation_id: number, branch_id: number, tag: string) =>
@@ -32,7 +39,16 @@ export async function smallFixture(db: Knex) {
       updated_at: AT,
     });
   const cylinder = (organisation_id: number, branch_id: number, serial: string, extra: Record<string, unknown> = {}) =>
-    id("cylinders", { organisation_id, branch_id, serial, water_capacity_g: 22680, tare_g: 7938, created_at: AT, updated_at: AT, ...extra });
+    id("cylinders", {
+      organisation_id,
+      branch_id,
+      serial,
+      water_capacity_g: 22680,
+      tare_g: 7938,
+      created_at: AT,
+      updated_at: AT,
+      ...extra,
+    });
   const equipment = (organisation_id: number, branch_id: number, serial: string) =>
     id("recovery_equipment", { organisation_id, branch_id, serial, certification_state: "certified", created_at: AT, updated_at: AT });
   return {

@@ -28,7 +28,8 @@ import {
 import { createSeededTestDb, type TestDb } from "@coldtrail/db/testing";
 
 let t: TestDb;
-const count = async (db: Knex, table: string, where: Record<string, unknown> = {}) => Number((await db(table).where(where).count({ n: "*" }).first())!.n);
+const count = async (db: Knex, table: string, where: Record<string, unknown> = {}) =>
+  Number((await db(table).where(where).count({ n: "*" }).first())!.n);
 
 async function managerOfColumbus() {
   const user = await t.db("users").where({ email: DEMO_SIGN_INS.branch_manager }).first("id");
@@ -66,7 +67,12 @@ async function startImport(kind: ImportKind, csv: string) {
   return { m, id, rows, detail };
 }
 
-async function checkAndCommit(id: number, m: Awaited<ReturnType<typeof managerOfColumbus>>, rows: string[][], mapping: Record<string, number | null>) {
+async function checkAndCommit(
+  id: number,
+  m: Awaited<ReturnType<typeof managerOfColumbus>>,
+  rows: string[][],
+  mapping: Record<string, number | null>,
+) {
   await setImportMapping(t.db, { actor: m.ref, id, mapping });
   const checked = await checkImportRows(t.db, { importId: id, actor: m.ref, source: source(rows) });
   return checked;
@@ -123,14 +129,28 @@ describe("importing appliances", () => {
     ].join("\n");
     const { m, id, rows, detail } = await startImport("appliances", csv);
     expect(detail.state).toBe("mapping");
-    expect(detail.mapping).toMatchObject({ tag: 0, description: 1, category: 2, refrigerant: 3, fullCharge: 4, fullChargeUnit: 5, site: 6, customer: 7 });
+    expect(detail.mapping).toMatchObject({
+      tag: 0,
+      description: 1,
+      category: 2,
+      refrigerant: 3,
+      fullCharge: 4,
+      fullChargeUnit: 5,
+      site: 6,
+      customer: 7,
+    });
 
     const appliancesBefore = await count(t.db, "appliances");
     const checked = await checkAndCommit(id, m, rows, detail.mapping!);
     expect(checked).toEqual({ state: "checked", validRows: 2, invalidRows: 4 });
     expect(await count(t.db, "appliances")).toBe(appliancesBefore); // a check writes no records
 
-    const issues = await listImportIssues(t.db, { organisationId: m.actor.organisationId, importId: id, kind: "appliances", query: { page: 1, pageSize: 50 } });
+    const issues = await listImportIssues(t.db, {
+      organisationId: m.actor.organisationId,
+      importId: id,
+      kind: "appliances",
+      query: { page: 1, pageSize: 50 },
+    });
     expect(issues.rows.map((i) => [i.rowNumber, i.field, i.columnLabel])).toEqual([
       [3, "tag", "Tag"],
       [4, "category", "Category"],
@@ -147,13 +167,21 @@ describe("importing appliances", () => {
     const result = await commitImportRows(t.db, { importId: id, actor: m.ref, source: source(rows) });
     expect(result).toEqual({ state: "imported", importedRows: 2, invalidRows: 4 });
     expect(await count(t.db, "appliances")).toBe(appliancesBefore + 2);
-    const imported = await t.db("appliances").whereIn("tag", ["IMP-RTU-01", "IMP-SPLIT-03"]).orderBy("tag").select("tag", "branch_id", "refrigerant", "full_charge_g", "site_id");
+    const imported = await t
+      .db("appliances")
+      .whereIn("tag", ["IMP-RTU-01", "IMP-SPLIT-03"])
+      .orderBy("tag")
+      .select("tag", "branch_id", "refrigerant", "full_charge_g", "site_id");
     expect(imported.map((a) => [a.tag, Number(a.branch_id), a.refrigerant, Number(a.full_charge_g)])).toEqual([
       ["IMP-RTU-01", m.branchId, "R-410A", toGrams(12.5, "lb")],
       ["IMP-SPLIT-03", m.branchId, "R-32", 2100],
     ]);
     expect(imported[0]!.site_id).toBe(imported[1]!.site_id); // one new site, shared
-    const site = await t.db("sites as s").join("customers as c", "c.id", "s.customer_id").where("s.id", imported[0]!.site_id).first("s.name", "c.name as customer");
+    const site = await t
+      .db("sites as s")
+      .join("customers as c", "c.id", "s.customer_id")
+      .where("s.id", imported[0]!.site_id)
+      .first("s.name", "c.name as customer");
     expect(site).toEqual({ name: "Linden Row Bakery", customer: "Linden Row Foods" });
     expect(await count(t.db, "activity", { action: "appliance.imported" })).toBe(activityBefore + 2);
     expect(await count(t.db, "activity", { subject_type: "Import", subject_id: id, action: "import.completed" })).toBe(1);
@@ -186,7 +214,7 @@ describe("importing appliances", () => {
     expect(await count(t.db, "appliances")).toBe(appliances);
     expect(await count(t.db, "sites")).toBe(sites);
     expect(await count(t.db, "activity", { action: "appliance.imported" })).toBe(activity);
-    expect((await t.db("imports").where({ id }).first("state", "imported_rows"))).toEqual({ state: "failed", imported_rows: 0 });
+    expect(await t.db("imports").where({ id }).first("state", "imported_rows")).toEqual({ state: "failed", imported_rows: 0 });
   });
 
   it("reports progress batch by batch while it checks, for the page to poll", async () => {
@@ -205,19 +233,33 @@ describe("importing appliances", () => {
       })(),
       fraction: () => read / rows.length,
     };
-    await checkImportRows(t.db, { importId: id, actor: m.ref, source: progressing, onProgress: (p) => seen.push([p.state, p.rowsRead, p.progress]) });
+    await checkImportRows(t.db, {
+      importId: id,
+      actor: m.ref,
+      source: progressing,
+      onProgress: (p) => seen.push([p.state, p.rowsRead, p.progress]),
+    });
     expect(seen.map(([, r]) => r)).toEqual([250, 500, 600]);
     expect(seen.every(([state]) => state === "checking")).toBe(true);
     expect(seen.map(([, , p]) => p)).toEqual([...seen.map(([, , p]) => p)].sort((a, b) => a - b));
     expect(seen.at(-1)![2]).toBeLessThan(100); // 100 only once the import row says "checked"
-    expect(await t.db("imports").where({ id }).first("state", "progress", "total_rows")).toEqual({ state: "checked", progress: 100, total_rows: 600 });
+    expect(await t.db("imports").where({ id }).first("state", "progress", "total_rows")).toEqual({
+      state: "checked",
+      progress: 100,
+      total_rows: 600,
+    });
   });
 
   it("refuses a mapping without a required column and writes nothing", async () => {
     const { m, id } = await startImport("appliances", "Tag,Description\nA-1,Something\n");
-    await expect(setImportMapping(t.db, { actor: m.ref, id, mapping: { tag: 0, description: 1 } })).rejects.toMatchObject({ code: "invalid", field: "mapping.category" });
+    await expect(setImportMapping(t.db, { actor: m.ref, id, mapping: { tag: 0, description: 1 } })).rejects.toMatchObject({
+      code: "invalid",
+      field: "mapping.category",
+    });
     expect((await t.db("imports").where({ id }).first("state")).state).toBe("mapping");
-    await expect(setImportMapping(t.db, { actor: m.ref, id, mapping: { tag: 0, description: 0 } })).rejects.toMatchObject({ code: "invalid" });
+    await expect(setImportMapping(t.db, { actor: m.ref, id, mapping: { tag: 0, description: 0 } })).rejects.toMatchObject({
+      code: "invalid",
+    });
   });
 });
 
@@ -235,10 +277,21 @@ describe("importing cylinders and past jobs", () => {
     await startImportCommit(t.db, { actor: m.ref, id });
     expect((await commitImportRows(t.db, { importId: id, actor: m.ref, source: source(rows) })).importedRows).toBe(2);
     const c1 = await t.db("cylinders").where({ serial: "IMP-C-01" }).first();
-    expect(c1).toMatchObject({ specification: "DOT-4BA400", refrigerant: "R-410A", contents_g: toGrams(8.25, "lb"), water_capacity_g: toGrams(50, "lb"), branch_id: m.branchId });
+    expect(c1).toMatchObject({
+      specification: "DOT-4BA400",
+      refrigerant: "R-410A",
+      contents_g: toGrams(8.25, "lb"),
+      water_capacity_g: toGrams(50, "lb"),
+      branch_id: m.branchId,
+    });
     const c3 = await t.db("cylinders").where({ serial: "IMP-C-03" }).first();
     expect(c3).toMatchObject({ water_capacity_g: 22700, tare_g: 8000, contents_g: 0, refrigerant: null });
-    const issues = await listImportIssues(t.db, { organisationId: m.actor.organisationId, importId: id, kind: "cylinders", query: { page: 1, pageSize: 50 } });
+    const issues = await listImportIssues(t.db, {
+      organisationId: m.actor.organisationId,
+      importId: id,
+      kind: "cylinders",
+      query: { page: 1, pageSize: 50 },
+    });
     expect(issues.rows.map((i) => [i.rowNumber, i.field])).toEqual([
       [3, "lastRequalifiedOn"],
       [4, "serial"],
@@ -248,10 +301,22 @@ describe("importing cylinders and past jobs", () => {
   it("imports past jobs with their refrigerant movements; other branches, strangers and repeats are reported", async () => {
     const m = await managerOfColumbus();
     const col = m.branchId;
-    const appliance = await t.db("appliances").where({ branch_id: col, status: "in_service", category: "packaged_rooftop" }).orderBy("id").first("id", "tag", "refrigerant");
+    const appliance = await t
+      .db("appliances")
+      .where({ branch_id: col, status: "in_service", category: "packaged_rooftop" })
+      .orderBy("id")
+      .first("id", "tag", "refrigerant");
     const tucson = await t.db("appliances as a").join("branches as b", "b.id", "a.branch_id").where("b.code", "TUC").first("a.tag");
-    const cylinder = await t.db("cylinders").where({ branch_id: col, status: "in_service", unregistered: false, purpose: "recovery" }).orderBy("id").first("id", "serial", "contents_g", "refrigerant");
-    const equipment = await t.db("recovery_equipment").where({ branch_id: col, status: "in_service", unregistered: false }).orderBy("id").first("serial");
+    const cylinder = await t
+      .db("cylinders")
+      .where({ branch_id: col, status: "in_service", unregistered: false, purpose: "recovery" })
+      .orderBy("id")
+      .first("id", "serial", "contents_g", "refrigerant");
+    const equipment = await t
+      .db("recovery_equipment")
+      .where({ branch_id: col, status: "in_service", unregistered: false })
+      .orderBy("id")
+      .first("serial");
     const csv = [
       "Date,Job kind,Appliance tag,Technician,Amount recovered,Amount added,Unit of the amounts,Cylinder serial,Recovery equipment serial,Evacuation level reached,Access method",
       `2025-03-04,Recovery,${appliance.tag},${DEMO_SIGN_INS.technician},2.5,,lb,${cylinder.serial},${equipment.serial},10,Service valve`,
@@ -264,7 +329,12 @@ describe("importing cylinders and past jobs", () => {
     ].join("\n");
     const { id, rows, detail } = await startImport("jobs", csv);
     expect(await checkAndCommit(id, m, rows, detail.mapping!)).toEqual({ state: "checked", validRows: 2, invalidRows: 5 });
-    const issues = await listImportIssues(t.db, { organisationId: m.actor.organisationId, importId: id, kind: "jobs", query: { page: 1, pageSize: 50 } });
+    const issues = await listImportIssues(t.db, {
+      organisationId: m.actor.organisationId,
+      importId: id,
+      kind: "jobs",
+      query: { page: 1, pageSize: 50 },
+    });
     expect(issues.rows.map((i) => [i.rowNumber, i.field])).toEqual([
       [4, "applianceTag"],
       [5, "technician"],
@@ -277,23 +347,55 @@ describe("importing cylinders and past jobs", () => {
 
     await startImportCommit(t.db, { actor: m.ref, id });
     expect((await commitImportRows(t.db, { importId: id, actor: m.ref, source: source(rows) })).importedRows).toBe(2);
-    const jobs = await t.db("jobs").where({ appliance_id: appliance.id, source: "import" }).orderBy("performed_on").select("id", "kind", "recovered_g", "charged_g", "technician_id", "created_by", "refrigerant");
+    const jobs = await t
+      .db("jobs")
+      .where({ appliance_id: appliance.id, source: "import" })
+      .orderBy("performed_on")
+      .select("id", "kind", "recovered_g", "charged_g", "technician_id", "created_by", "refrigerant");
     expect(jobs.map((j) => [j.kind, j.recovered_g, j.charged_g, j.technician_id, j.created_by, j.refrigerant])).toEqual([
-      ["recovery", toGrams(2.5, "lb"), 0, (await t.db("users").where({ email: DEMO_SIGN_INS.technician }).first("id")).id, m.actor.userId, appliance.refrigerant],
-      ["charge", 0, toGrams(1.25, "lb"), (await t.db("users").where({ email: DEMO_SIGN_INS.technician }).first("id")).id, m.actor.userId, appliance.refrigerant],
+      [
+        "recovery",
+        toGrams(2.5, "lb"),
+        0,
+        (await t.db("users").where({ email: DEMO_SIGN_INS.technician }).first("id")).id,
+        m.actor.userId,
+        appliance.refrigerant,
+      ],
+      [
+        "charge",
+        0,
+        toGrams(1.25, "lb"),
+        (await t.db("users").where({ email: DEMO_SIGN_INS.technician }).first("id")).id,
+        m.actor.userId,
+        appliance.refrigerant,
+      ],
     ]);
-    const movements = await t.db("refrigerant_movements").whereIn("job_id", jobs.map((j) => j.id)).orderBy("id").select("direction", "cylinder_id", "mass_g");
+    const movements = await t
+      .db("refrigerant_movements")
+      .whereIn(
+        "job_id",
+        jobs.map((j) => j.id),
+      )
+      .orderBy("id")
+      .select("direction", "cylinder_id", "mass_g");
     expect(movements).toEqual([
       { direction: "recovered_into_cylinder", cylinder_id: cylinder.id, mass_g: toGrams(2.5, "lb") },
       { direction: "charged_from_stock", cylinder_id: null, mass_g: toGrams(1.25, "lb") },
     ]);
-    expect(Number((await t.db("cylinders").where({ id: cylinder.id }).first("contents_g")).contents_g)).toBe(Number(cylinder.contents_g) + toGrams(2.5, "lb"));
+    expect(Number((await t.db("cylinders").where({ id: cylinder.id }).first("contents_g")).contents_g)).toBe(
+      Number(cylinder.contents_g) + toGrams(2.5, "lb"),
+    );
     expect(await count(t.db, "activity", { action: "job.recovery.imported" })).toBe(1);
 
     // The same rows again: already on record, nothing doubled.
     const again = await startImport("jobs", csv);
     expect(await checkAndCommit(again.id, m, again.rows, again.detail.mapping!)).toMatchObject({ validRows: 0 });
-    const repeat = await listImportIssues(t.db, { organisationId: m.actor.organisationId, importId: again.id, kind: "jobs", query: { page: 1, pageSize: 3 } });
+    const repeat = await listImportIssues(t.db, {
+      organisationId: m.actor.organisationId,
+      importId: again.id,
+      kind: "jobs",
+      query: { page: 1, pageSize: 3 },
+    });
     expect(repeat.rows[0]).toMatchObject({ rowNumber: 2, field: null });
     expect(repeat.rows[0]!.message).toContain("already on record");
   });

@@ -52,7 +52,12 @@ describe("amending a job", () => {
     const detail = await getJob(t.db, { scope: orgScope(), id });
     expect(detail?.movements.map((m) => m.massG)).toEqual([4200]);
     expect(detail?.amendments).toHaveLength(1);
-    expect(detail?.amendments[0]).toMatchObject({ reason: "Scale ticket says 4.2 kg", previous: { recovered_g: 5000 }, next: { recovered_g: 4200 }, actorName: "Fixture Tech" });
+    expect(detail?.amendments[0]).toMatchObject({
+      reason: "Scale ticket says 4.2 kg",
+      previous: { recovered_g: 5000 },
+      next: { recovered_g: 4200 },
+      actorName: "Fixture Tech",
+    });
     const activity = await t.db("activity").where({ subject_type: "Job", subject_id: id, action: "job.amended" }).first();
     expect(activity.summary).toBe(`Corrected the amount recovered of job #${id} on RTU-07`);
   });
@@ -66,7 +71,16 @@ describe("amending a job", () => {
   });
 
   it("a charge from a cylinder corrected upwards draws more from the cylinder", async () => {
-    const id = await create({ kind: "charge", applianceId: f.walkIn, performedOn: "2026-03-01", refrigerant: "R-22", chargedAmount: 1, chargedUnit: "kg", chargeSource: "cylinder", cylinderId: f.northR22Cylinder });
+    const id = await create({
+      kind: "charge",
+      applianceId: f.walkIn,
+      performedOn: "2026-03-01",
+      refrigerant: "R-22",
+      chargedAmount: 1,
+      chargedUnit: "kg",
+      chargeSource: "cylinder",
+      cylinderId: f.northR22Cylinder,
+    });
     expect((await contentsOf(t.db, f.northR22Cylinder)).contents_g).toBe(4000);
     await amend(id, { reason: "Added a second kilogram", changes: { amount: 2, amountUnit: "kg" } });
     expect((await contentsOf(t.db, f.northR22Cylinder)).contents_g).toBe(3000);
@@ -74,18 +88,36 @@ describe("amending a job", () => {
   });
 
   it("refuses to move a charge onto a cylinder that does not hold its refrigerant", async () => {
-    const id = await create({ kind: "charge", applianceId: f.walkIn, performedOn: "2026-03-01", refrigerant: "R-22", chargedAmount: 1, chargedUnit: "kg", chargeSource: "cylinder", cylinderId: f.northR22Cylinder });
+    const id = await create({
+      kind: "charge",
+      applianceId: f.walkIn,
+      performedOn: "2026-03-01",
+      refrigerant: "R-22",
+      chargedAmount: 1,
+      chargedUnit: "kg",
+      chargeSource: "cylinder",
+      cylinderId: f.northR22Cylinder,
+    });
     const before = await writeCounts(t.db);
-    await expect(amend(id, { reason: "Other cylinder", changes: { cylinderId: f.northCylinder } })).rejects.toMatchObject({ code: "conflict", field: "changes.cylinderId" });
+    await expect(amend(id, { reason: "Other cylinder", changes: { cylinderId: f.northCylinder } })).rejects.toMatchObject({
+      code: "conflict",
+      field: "changes.cylinderId",
+    });
     expect(await writeCounts(t.db)).toEqual(before);
     expect((await contentsOf(t.db, f.northR22Cylinder)).contents_g).toBe(4000);
   });
 
   it("refuses a correction the cylinder's later history cannot absorb, and changes nothing", async () => {
     const id = await create(recovery());
-    await createShipment(t.db, { actor: { userId: f.manager, organisationId: f.org }, input: { branchId: f.north, shippedOn: "2026-03-31", reclaimerName: "Invented Reclaim Co", cylinderIds: [f.northCylinder] } });
+    await createShipment(t.db, {
+      actor: { userId: f.manager, organisationId: f.org },
+      input: { branchId: f.north, shippedOn: "2026-03-31", reclaimerName: "Invented Reclaim Co", cylinderIds: [f.northCylinder] },
+    });
     const before = await writeCounts(t.db);
-    await expect(amend(id, { reason: "Less than we thought", changes: { amount: 1, amountUnit: "kg" } })).rejects.toMatchObject({ code: "conflict", field: "changes.amount" });
+    await expect(amend(id, { reason: "Less than we thought", changes: { amount: 1, amountUnit: "kg" } })).rejects.toMatchObject({
+      code: "conflict",
+      field: "changes.amount",
+    });
     expect(await writeCounts(t.db)).toEqual(before);
     expect((await t.db("jobs").where({ id }).first()).recovered_g).toBe(5000);
     expect((await contentsOf(t.db, f.northCylinder)).contents_g).toBe(0);
@@ -93,7 +125,10 @@ describe("amending a job", () => {
 
   it("refuses a field the kind does not have, a change that changes nothing, and a missing reason", async () => {
     const id = await create(recovery());
-    await expect(amend(id, { reason: "Typo", changes: { leakLocation: "Somewhere" } })).rejects.toMatchObject({ code: "invalid", field: "changes.leakLocation" });
+    await expect(amend(id, { reason: "Typo", changes: { leakLocation: "Somewhere" } })).rejects.toMatchObject({
+      code: "invalid",
+      field: "changes.leakLocation",
+    });
     await expect(amend(id, { reason: "Same again", changes: { evacuationValue: 0 } })).rejects.toMatchObject({ code: "invalid" });
     expect(() => jobAmendmentInput.parse({ reason: " ", changes: { notes: "x" } })).toThrow();
     expect(await t.db("amendments").count({ n: "*" }).first()).toMatchObject({ n: 0 });
@@ -101,7 +136,9 @@ describe("amending a job", () => {
 
   it("a temporary access device must be said removed or left when the access is corrected to one", async () => {
     const id = await create(recovery());
-    await expect(amend(id, { reason: "Used pliers", changes: { accessMethod: "piercing_pliers" } })).rejects.toMatchObject({ field: "changes.temporaryAccessRemoved" });
+    await expect(amend(id, { reason: "Used pliers", changes: { accessMethod: "piercing_pliers" } })).rejects.toMatchObject({
+      field: "changes.temporaryAccessRemoved",
+    });
     await amend(id, { reason: "Used pliers", changes: { accessMethod: "piercing_pliers", temporaryAccessRemoved: true } });
     expect((await t.db("jobs").where({ id }).first()).access_method).toBe("piercing_pliers");
   });
@@ -139,9 +176,16 @@ describe("voiding a job", () => {
   });
 
   it("voiding a disposal gives the appliance back its earlier status", async () => {
-    const id = await create({ ...recovery({ applianceId: f.retiredSplit, recoveredAmount: 3 }), kind: "disposal", disposalPath: "shop" } as JobInput);
+    const id = await create({
+      ...recovery({ applianceId: f.retiredSplit, recoveredAmount: 3 }),
+      kind: "disposal",
+      disposalPath: "shop",
+    } as JobInput);
     expect((await t.db("appliances").where({ id: f.retiredSplit }).first()).status).toBe("disposed");
     await voidJob(t.db, { actor: actor(), id, reason: "Unit was not scrapped after all" });
-    expect(await t.db("appliances").where({ id: f.retiredSplit }).first("status", "disposed_on")).toEqual({ status: "retired", disposed_on: null });
+    expect(await t.db("appliances").where({ id: f.retiredSplit }).first("status", "disposed_on")).toEqual({
+      status: "retired",
+      disposed_on: null,
+    });
   });
 });

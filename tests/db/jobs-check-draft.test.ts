@@ -48,12 +48,18 @@ describe("checking a job draft against the demo registers", () => {
     const r = await checkJobDraftForActor(t.db, { actor, draft });
     // Source: 40 CFR 82.161 — Type II or Universal for high-pressure appliances
     expect(r.warnings.map((w) => w.ruleId)).toEqual(["CT-CERT-01"]);
-    expect(r.warnings[0]!.message).toMatch(/^Your Type I certification does not cover this high-pressure appliance: Type II or Universal is needed\./);
+    expect(r.warnings[0]!.message).toMatch(
+      /^Your Type I certification does not cover this high-pressure appliance: Type II or Universal is needed\./,
+    );
   });
 
   it("a technician with only a pending card hears that it does not count yet", async () => {
     const actor = await actorOf(t.db, "diego.castellanos-reyes@kestrelmoor.example");
-    const draft = jobDraftInput.parse({ kind: "charge", applianceId: await idOf("appliances", { tag: "TUC-RES-902" }), chargedAmount: "abc" });
+    const draft = jobDraftInput.parse({
+      kind: "charge",
+      applianceId: await idOf("appliances", { tag: "TUC-RES-902" }),
+      chargedAmount: "abc",
+    });
     const r = await checkJobDraftForActor(t.db, { actor, draft });
     expect(r.warnings[0]).toMatchObject({ ruleId: "CT-CERT-01" });
     expect(r.warnings[0]!.message).toContain("You hold no verified certification");
@@ -64,6 +70,8 @@ describe("checking a job draft against the demo registers", () => {
     const actor = await actorOf(t.db, "marcus.delacroix-byrd@kestrelmoor.example");
     expect((await checkJobDraftForActor(t.db, { actor, draft: jobDraftInput.parse({ kind: "recovery" }) })).warnings).toEqual([]);
     const foreign = await t.db("appliances").whereNot({ organisation_id: actor.organisationId }).first("id");
-    await expect(checkJobDraftForActor(t.db, { actor, draft: jobDraftInput.parse({ kind: "recovery", applianceId: foreign.id }) })).rejects.toMatchObject({ code: "not_found", field: "applianceId" });
+    await expect(
+      checkJobDraftForActor(t.db, { actor, draft: jobDraftInput.parse({ kind: "recovery", applianceId: foreign.id }) }),
+    ).rejects.toMatchObject({ code: "not_found", field: "applianceId" });
   });
 });

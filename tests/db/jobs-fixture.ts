@@ -15,7 +15,15 @@ export async function jobsFixture(db: Knex) {
   const org = await id("organisations", { name: "Fixture Cooling", created_at: AT });
   const otherOrg = await id("organisations", { name: "Elsewhere Cooling", created_at: AT });
   const branch = (organisation_id: number, code: string, mass_unit: string) =>
-    id("branches", { organisation_id, name: code, code, address: `1 ${code} Yard, Fixtureville`, time_zone: "America/Chicago", mass_unit, created_at: AT });
+    id("branches", {
+      organisation_id,
+      name: code,
+      code,
+      address: `1 ${code} Yard, Fixtureville`,
+      time_zone: "America/Chicago",
+      mass_unit,
+      created_at: AT,
+    });
   const north = await branch(org, "NORTH", "lb_oz");
   const south = await branch(org, "SOUTH", "kg");
   const away = await branch(otherOrg, "AWAY", "lb_oz");
@@ -26,11 +34,26 @@ export async function jobsFixture(db: Knex) {
   };
   const tech = await user("Fixture Tech", "tech@fixture.example", north, "technician");
   const manager = await user("Fixture Manager", "manager@fixture.example", north, "branch_manager");
-  const cert = await id("certifications", { organisation_id: org, user_id: tech, certifying_organisation: "Invented Exam Board", certificate_number: "F-1", state: "verified", uploaded_at: AT, updated_at: AT });
+  const cert = await id("certifications", {
+    organisation_id: org,
+    user_id: tech,
+    certifying_organisation: "Invented Exam Board",
+    certificate_number: "F-1",
+    state: "verified",
+    uploaded_at: AT,
+    updated_at: AT,
+  });
   await db("certification_types").insert({ certification_id: cert, organisation_id: org, type: "type_ii" });
 
   const customer = await id("customers", { organisation_id: org, branch_id: north, name: "Birchwood Grocers", created_at: AT });
-  const site = await id("sites", { organisation_id: org, branch_id: north, customer_id: customer, name: "Birchwood store", address: "12 Birch Rd, Fixtureville", created_at: AT });
+  const site = await id("sites", {
+    organisation_id: org,
+    branch_id: north,
+    customer_id: customer,
+    name: "Birchwood store",
+    address: "12 Birch Rd, Fixtureville",
+    created_at: AT,
+  });
   const southSite = await id("sites", { organisation_id: org, branch_id: south, name: "South shop", created_at: AT });
   const awaySite = await id("sites", { organisation_id: otherOrg, branch_id: away, name: "Away site", created_at: AT });
   const appliance = (branch_id: number, site_id: number, tag: string, extra: Record<string, unknown>, organisation_id = org) =>
@@ -48,9 +71,27 @@ export async function jobsFixture(db: Knex) {
       ...extra,
     });
   const cylinder = (organisation_id: number, branch_id: number, serial: string, extra: Record<string, unknown> = {}) =>
-    id("cylinders", { organisation_id, branch_id, serial, water_capacity_g: 22680, tare_g: 7938, last_requalified_on: "2024-05-01", created_at: AT, updated_at: AT, ...extra });
+    id("cylinders", {
+      organisation_id,
+      branch_id,
+      serial,
+      water_capacity_g: 22680,
+      tare_g: 7938,
+      last_requalified_on: "2024-05-01",
+      created_at: AT,
+      updated_at: AT,
+      ...extra,
+    });
   const equipment = (organisation_id: number, branch_id: number, serial: string) =>
-    id("recovery_equipment", { organisation_id, branch_id, serial, manufactured_on: "2021-03-01", certification_state: "certified", created_at: AT, updated_at: AT });
+    id("recovery_equipment", {
+      organisation_id,
+      branch_id,
+      serial,
+      manufactured_on: "2021-03-01",
+      certification_state: "certified",
+      created_at: AT,
+      updated_at: AT,
+    });
 
   return {
     org,
@@ -66,10 +107,30 @@ export async function jobsFixture(db: Knex) {
     /** 100 lb R-22 walk-in: a commercial-refrigeration appliance under the leak-repair rule. */
     walkIn: await appliance(north, site, "WALK-01", { category: "commercial_refrigeration", refrigerant: "R-22", full_charge_g: 45359 }),
     /** 280 g R-134a fridge: a small appliance. */
-    fridge: await appliance(north, site, "FRIDGE-01", { category: "small_appliance", refrigerant: "R-134a", full_charge_g: 280, factory_sealed: true }),
+    fridge: await appliance(north, site, "FRIDGE-01", {
+      category: "small_appliance",
+      refrigerant: "R-134a",
+      full_charge_g: 280,
+      factory_sealed: true,
+    }),
     /** Retired units waiting at the shop. */
-    retiredSmall: await appliance(north, site, "SHOP-SA-1", { category: "small_appliance", refrigerant: "R-134a", full_charge_g: 200, factory_sealed: true, status: "retired", retired_on: "2025-12-01", awaiting_disposal_at_shop: true }),
-    retiredSplit: await appliance(north, site, "SHOP-RES-1", { category: "residential_split", refrigerant: "R-410A", full_charge_g: 3600, status: "retired", retired_on: "2025-12-01", awaiting_disposal_at_shop: true }),
+    retiredSmall: await appliance(north, site, "SHOP-SA-1", {
+      category: "small_appliance",
+      refrigerant: "R-134a",
+      full_charge_g: 200,
+      factory_sealed: true,
+      status: "retired",
+      retired_on: "2025-12-01",
+      awaiting_disposal_at_shop: true,
+    }),
+    retiredSplit: await appliance(north, site, "SHOP-RES-1", {
+      category: "residential_split",
+      refrigerant: "R-410A",
+      full_charge_g: 3600,
+      status: "retired",
+      retired_on: "2025-12-01",
+      awaiting_disposal_at_shop: true,
+    }),
     southAppliance: await appliance(south, southSite, "RTU-S1", {}),
     awayAppliance: await appliance(away, awaySite, "RTU-A1", {}, otherOrg),
     northCylinder: await cylinder(org, north, "C-0142"),

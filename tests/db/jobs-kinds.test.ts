@@ -67,12 +67,18 @@ describe("charge jobs", () => {
   it("a charge from a cylinder draws the cylinder down; more than it holds is refused by field and writes nothing", async () => {
     const id = await create(charge({ chargeSource: "cylinder", cylinderId: f.northR22Cylinder, chargedAmount: 2, chargedUnit: "kg" }));
     expect(await contentsOf(t.db, f.northR22Cylinder)).toEqual({ contents_g: 3000, refrigerant: "R-22" });
-    expect(await t.db("refrigerant_movements").where({ job_id: id }).first()).toMatchObject({ direction: "charged_from_cylinder", cylinder_id: f.northR22Cylinder, mass_g: 2000 });
+    expect(await t.db("refrigerant_movements").where({ job_id: id }).first()).toMatchObject({
+      direction: "charged_from_cylinder",
+      cylinder_id: f.northR22Cylinder,
+      mass_g: 2000,
+    });
     const detail = await getJob(t.db, { scope: orgScope(), id });
     expect(detail?.chargeSource).toBe("cylinder");
 
     const before = await writeCounts(t.db);
-    await expect(create(charge({ chargeSource: "cylinder", cylinderId: f.northR22Cylinder, chargedAmount: 4, chargedUnit: "kg" }))).rejects.toMatchObject({
+    await expect(
+      create(charge({ chargeSource: "cylinder", cylinderId: f.northR22Cylinder, chargedAmount: 4, chargedUnit: "kg" })),
+    ).rejects.toMatchObject({
       code: "conflict",
       field: "chargedAmount",
     });
@@ -81,39 +87,106 @@ describe("charge jobs", () => {
   });
 
   it("refuses to charge from a cylinder that holds another refrigerant", async () => {
-    await expect(create(charge({ applianceId: f.rooftop, refrigerant: "R-410A", chargeSource: "cylinder", cylinderId: f.northR22Cylinder }))).rejects.toMatchObject({
+    await expect(
+      create(charge({ applianceId: f.rooftop, refrigerant: "R-410A", chargeSource: "cylinder", cylinderId: f.northR22Cylinder })),
+    ).rejects.toMatchObject({
       code: "conflict",
       field: "cylinderId",
     });
   });
 
   it("refuses a charge on a retired appliance", async () => {
-    await expect(create(charge({ applianceId: f.retiredSplit, refrigerant: "R-410A" }))).rejects.toMatchObject({ code: "conflict", field: "applianceId" });
+    await expect(create(charge({ applianceId: f.retiredSplit, refrigerant: "R-410A" }))).rejects.toMatchObject({
+      code: "conflict",
+      field: "applianceId",
+    });
   });
 });
 
 describe("leak repairs and verification tests", () => {
   it("a leak repair keeps where the leak was and what was repaired", async () => {
-    const id = await create({ kind: "leak_repair", applianceId: f.walkIn, performedOn: "2026-02-01", leakLocation: "Evaporator return bend", repairDescription: "Brazed the return bend", shutdownNeeded: false });
-    expect(await t.db("jobs").where({ id }).first()).toMatchObject({ kind: "leak_repair", leak_location: "Evaporator return bend", repair_description: "Brazed the return bend", charged_g: 0, recovered_g: 0 });
+    const id = await create({
+      kind: "leak_repair",
+      applianceId: f.walkIn,
+      performedOn: "2026-02-01",
+      leakLocation: "Evaporator return bend",
+      repairDescription: "Brazed the return bend",
+      shutdownNeeded: false,
+    });
+    expect(await t.db("jobs").where({ id }).first()).toMatchObject({
+      kind: "leak_repair",
+      leak_location: "Evaporator return bend",
+      repair_description: "Brazed the return bend",
+      charged_g: 0,
+      recovered_g: 0,
+    });
     expect(await t.db("refrigerant_movements").where({ job_id: id })).toHaveLength(0);
-    expect((await t.db("activity").where({ subject_type: "job", subject_id: id }).first()).summary).toBe("Repaired a leak on WALK-01: Evaporator return bend");
+    expect((await t.db("activity").where({ subject_type: "job", subject_id: id }).first()).summary).toBe(
+      "Repaired a leak on WALK-01: Evaporator return bend",
+    );
   });
 
   it("a verification test links to the latest repair on or before its date, or to the repair named", async () => {
-    const early = await create({ kind: "leak_repair", applianceId: f.walkIn, performedOn: "2026-02-01", leakLocation: "A", repairDescription: "A" });
-    const late = await create({ kind: "leak_repair", applianceId: f.walkIn, performedOn: "2026-03-01", leakLocation: "B", repairDescription: "B" });
-    const auto = await create({ kind: "verification_test", applianceId: f.walkIn, performedOn: "2026-03-01", verificationStage: "initial", verificationPassed: true, verificationMethod: "Bubble test" });
-    expect(await t.db("jobs").where({ id: auto }).first()).toMatchObject({ related_job_id: late, verification_stage: "initial", verification_method: "Bubble test" });
-    const named = await create({ kind: "verification_test", applianceId: f.walkIn, performedOn: "2026-03-05", verificationStage: "follow_up", verificationPassed: false, verificationMethod: "Electronic detector", relatedJobId: early });
+    const early = await create({
+      kind: "leak_repair",
+      applianceId: f.walkIn,
+      performedOn: "2026-02-01",
+      leakLocation: "A",
+      repairDescription: "A",
+    });
+    const late = await create({
+      kind: "leak_repair",
+      applianceId: f.walkIn,
+      performedOn: "2026-03-01",
+      leakLocation: "B",
+      repairDescription: "B",
+    });
+    const auto = await create({
+      kind: "verification_test",
+      applianceId: f.walkIn,
+      performedOn: "2026-03-01",
+      verificationStage: "initial",
+      verificationPassed: true,
+      verificationMethod: "Bubble test",
+    });
+    expect(await t.db("jobs").where({ id: auto }).first()).toMatchObject({
+      related_job_id: late,
+      verification_stage: "initial",
+      verification_method: "Bubble test",
+    });
+    const named = await create({
+      kind: "verification_test",
+      applianceId: f.walkIn,
+      performedOn: "2026-03-05",
+      verificationStage: "follow_up",
+      verificationPassed: false,
+      verificationMethod: "Electronic detector",
+      relatedJobId: early,
+    });
     expect(await t.db("jobs").where({ id: named }).first()).toMatchObject({ related_job_id: early });
-    expect((await t.db("activity").where({ subject_type: "job", subject_id: named }).first()).summary).toBe("Follow-up verification test failed on WALK-01");
+    expect((await t.db("activity").where({ subject_type: "job", subject_id: named }).first()).summary).toBe(
+      "Follow-up verification test failed on WALK-01",
+    );
   });
 
   it("refuses a repair of another appliance as the one tested", async () => {
-    const other = await create({ kind: "leak_repair", applianceId: f.rooftop, performedOn: "2026-02-01", leakLocation: "A", repairDescription: "A" });
+    const other = await create({
+      kind: "leak_repair",
+      applianceId: f.rooftop,
+      performedOn: "2026-02-01",
+      leakLocation: "A",
+      repairDescription: "A",
+    });
     await expect(
-      create({ kind: "verification_test", applianceId: f.walkIn, performedOn: "2026-03-01", verificationStage: "initial", verificationPassed: true, verificationMethod: "x", relatedJobId: other }),
+      create({
+        kind: "verification_test",
+        applianceId: f.walkIn,
+        performedOn: "2026-03-01",
+        verificationStage: "initial",
+        verificationPassed: true,
+        verificationMethod: "x",
+        relatedJobId: other,
+      }),
     ).rejects.toMatchObject({ code: "not_found", field: "relatedJobId" });
   });
 });
@@ -138,7 +211,11 @@ describe("disposal jobs", () => {
   it("recovers into the cylinder and marks the appliance disposed", async () => {
     const id = await create(disposal());
     expect(await contentsOf(t.db, f.northCylinder)).toEqual({ contents_g: 8500, refrigerant: "R-410A" });
-    expect(await t.db("appliances").where({ id: f.rooftop }).first("status", "disposed_on", "retired_on")).toEqual({ status: "disposed", disposed_on: "2026-04-02", retired_on: "2026-04-02" });
+    expect(await t.db("appliances").where({ id: f.rooftop }).first("status", "disposed_on", "retired_on")).toEqual({
+      status: "disposed",
+      disposed_on: "2026-04-02",
+      retired_on: "2026-04-02",
+    });
     const activity = await t.db("activity").where({ subject_type: "job", subject_id: id }).first();
     expect(activity.action).toBe("job.disposal.created");
     expect(JSON.parse(activity.data)).toMatchObject({ previousApplianceStatus: "in_service" });
@@ -155,7 +232,14 @@ describe("disposal jobs", () => {
   it("every kind lists, and the kind filter finds each", async () => {
     await create(charge());
     await create({ kind: "leak_repair", applianceId: f.walkIn, performedOn: "2026-02-01", leakLocation: "A", repairDescription: "A" });
-    await create({ kind: "verification_test", applianceId: f.walkIn, performedOn: "2026-02-01", verificationStage: "initial", verificationPassed: true, verificationMethod: "x" });
+    await create({
+      kind: "verification_test",
+      applianceId: f.walkIn,
+      performedOn: "2026-02-01",
+      verificationStage: "initial",
+      verificationPassed: true,
+      verificationMethod: "x",
+    });
     await create(disposal());
     for (const kind of ["charge", "leak_repair", "verification_test", "disposal"] as const) {
       const page = await listJobs(t.db, { scope: orgScope(), query: { page: 1, pageSize: 25, sort: "performedOn", dir: "desc", kind } });

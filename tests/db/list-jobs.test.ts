@@ -76,7 +76,8 @@ describe("listJobs", () => {
     expect(r.total).toBeGreaterThan(0);
     expect(r.rows.every((row) => row.kind === "recovery" && row.branchId === branch.COL)).toBe(true);
     expect(r.rows.every((row) => row.performedOn >= "2025-01-01" && row.performedOn <= "2025-12-31")).toBe(true);
-    const expected = await t.db("jobs")
+    const expected = await t
+      .db("jobs")
       .where({ kind: "recovery", branch_id: branch.COL })
       .whereBetween("performed_on", ["2025-01-01", "2025-12-31"])
       .count({ n: "*" })
@@ -99,7 +100,7 @@ describe("listJobs", () => {
   });
 
   it("joins what the list shows", async () => {
-    const r = await listJobs(t.db, { scope: org(), query: query({ q: "TUC-RES-915" , kind: "recovery" }) });
+    const r = await listJobs(t.db, { scope: org(), query: query({ q: "TUC-RES-915", kind: "recovery" }) });
     expect(r.rows[0]).toMatchObject({
       branchName: "Tucson",
       cylinderSerial: "DEN-C-915",
@@ -202,15 +203,24 @@ describe("branches and form options", () => {
   });
 
   it("offers a branch's registered cylinders and equipment only", async () => {
-    const cylinders = await listCylinderOptions(t.db, { scope: (qb) => qb.where("cylinders.organisation_id", orgId), branchId: branch.COL });
+    const cylinders = await listCylinderOptions(t.db, {
+      scope: (qb) => qb.where("cylinders.organisation_id", orgId),
+      branchId: branch.COL,
+    });
     expect(cylinders.length).toBeGreaterThan(0);
     expect(cylinders.every((c) => c.branchId === branch.COL)).toBe(true);
-    const equipment = await listEquipmentOptions(t.db, { scope: (qb) => qb.where("recovery_equipment.organisation_id", orgId), branchId: branch.COL });
+    const equipment = await listEquipmentOptions(t.db, {
+      scope: (qb) => qb.where("recovery_equipment.organisation_id", orgId),
+      branchId: branch.COL,
+    });
     const serials = equipment.map((e) => e.serial);
     expect(serials).toContain("COL-RE-01");
     expect(serials).not.toContain("RE-UNREG-925"); // flagged as missing from the register
     expect(serials).not.toContain("COL-RE-05"); // retired
-    const nothing = await listEquipmentOptions(t.db, { scope: (qb) => qb.where("recovery_equipment.organisation_id", otherOrgId), branchId: branch.COL });
+    const nothing = await listEquipmentOptions(t.db, {
+      scope: (qb) => qb.where("recovery_equipment.organisation_id", otherOrgId),
+      branchId: branch.COL,
+    });
     expect(nothing).toEqual([]);
   });
 });

@@ -3,13 +3,43 @@ import { MIGRATION_NAMES } from "@coldtrail/db";
 import { createTestDb, type TestDb } from "@coldtrail/db/testing";
 
 const TABLES = [
-  "organisations", "branches", "users", "memberships", "inspector_grants", "inspector_grant_branches", "invitations",
-  "password_reset_tokens", "customers", "sites", "appliances", "appliance_plans", "recovery_equipment", "cylinders",
-  "certifications", "certification_types", "jobs", "reclaim_shipments", "reclaim_shipment_lines", "purchases",
-  "refrigerant_movements", "cylinder_weighings", "disposal_records", "disposal_statements", "audits", "findings",
-  "audit_findings", "finding_events", "comments", "evidence", "saved_views", "notifications", "amendments", "activity",
+  "organisations",
+  "branches",
+  "users",
+  "memberships",
+  "inspector_grants",
+  "inspector_grant_branches",
+  "invitations",
+  "password_reset_tokens",
+  "customers",
+  "sites",
+  "appliances",
+  "appliance_plans",
+  "recovery_equipment",
+  "cylinders",
+  "certifications",
+  "certification_types",
+  "jobs",
+  "reclaim_shipments",
+  "reclaim_shipment_lines",
+  "purchases",
+  "refrigerant_movements",
+  "cylinder_weighings",
+  "disposal_records",
+  "disposal_statements",
+  "audits",
+  "findings",
+  "audit_findings",
+  "finding_events",
+  "comments",
+  "evidence",
+  "saved_views",
+  "notifications",
+  "amendments",
+  "activity",
   // Spreadsheet imports (cards and imports):
-  "imports", "import_row_issues",
+  "imports",
+  "import_row_issues",
 ];
 
 let t: TestDb;
@@ -21,7 +51,8 @@ afterAll(async () => {
 });
 
 async function userTables(): Promise<string[]> {
-  const rows: Array<{ name: string }> = await t.db("sqlite_master")
+  const rows: Array<{ name: string }> = await t
+    .db("sqlite_master")
     .where({ type: "table" })
     .whereNot("name", "like", "sqlite_%")
     .whereNot("name", "like", "knex_%")
@@ -68,7 +99,8 @@ describe("migrations", () => {
 
   it("keep the activity history append-only", async () => {
     const [org] = await t.db("organisations").insert({ name: "Test Co", created_at: "2026-01-01T00:00:00.000Z" }).returning("id");
-    const [row] = await t.db("activity")
+    const [row] = await t
+      .db("activity")
       .insert({
         organisation_id: org.id,
         action: "test.done",
@@ -84,8 +116,16 @@ describe("migrations", () => {
 
   it("allow only one finding per organisation and identity", async () => {
     const [org] = await t.db("organisations").insert({ name: "Finding Co", created_at: "2026-01-01T00:00:00.000Z" }).returning("id");
-    const [branch] = await t.db("branches")
-      .insert({ organisation_id: org.id, name: "Main", code: "M", time_zone: "America/Denver", mass_unit: "kg", created_at: "2026-01-01T00:00:00.000Z" })
+    const [branch] = await t
+      .db("branches")
+      .insert({
+        organisation_id: org.id,
+        name: "Main",
+        code: "M",
+        time_zone: "America/Denver",
+        mass_unit: "kg",
+        created_at: "2026-01-01T00:00:00.000Z",
+      })
       .returning("id");
     const finding = {
       organisation_id: org.id,

@@ -22,7 +22,8 @@ let columbus: number;
 let denver: number;
 const NOW = new Date("2026-11-30T15:00:00Z");
 
-const count = async (db: Knex, table: string, where: Record<string, unknown> = {}) => Number((await db(table).where(where).count({ n: "*" }).first())!.n);
+const count = async (db: Knex, table: string, where: Record<string, unknown> = {}) =>
+  Number((await db(table).where(where).count({ n: "*" }).first())!.n);
 
 const baseInput = (over: Record<string, unknown> = {}): ApplianceInput =>
   applianceInput.parse({
@@ -61,10 +62,22 @@ describe("the appliance input schema", () => {
     expect(unknown.success).toBe(false);
     expect(unknown.error!.issues[0]!.path).toEqual(["refrigerant"]);
     // Source: 40 CFR 82.152 "small appliance": factory-sealed, 5 lb or less.
-    const big = applianceInput.safeParse({ ...baseInput(), category: "small_appliance", factorySealed: true, fullChargeAmount: 6, fullChargeUnit: "lb" });
+    const big = applianceInput.safeParse({
+      ...baseInput(),
+      category: "small_appliance",
+      factorySealed: true,
+      fullChargeAmount: 6,
+      fullChargeUnit: "lb",
+    });
     expect(big.success).toBe(false);
     expect(big.error!.issues.map((i) => i.path.join("."))).toContain("fullChargeAmount");
-    const fieldCharged = applianceInput.safeParse({ ...baseInput(), category: "small_appliance", factorySealed: false, fullChargeAmount: 4, fullChargeUnit: "lb" });
+    const fieldCharged = applianceInput.safeParse({
+      ...baseInput(),
+      category: "small_appliance",
+      factorySealed: false,
+      fullChargeAmount: 4,
+      fullChargeUnit: "lb",
+    });
     expect(fieldCharged.error!.issues.map((i) => i.path.join("."))).toContain("factorySealed");
     const empty = applianceInput.safeParse({ ...baseInput(), fullChargeAmount: "" });
     expect(empty.error!.issues.find((i) => i.path[0] === "fullChargeAmount")!.message).toBe("Enter the full charge");
@@ -75,7 +88,11 @@ describe("the appliance input schema", () => {
 
 describe("adding an appliance", () => {
   it("writes the appliance, its new site and customer, and their activity in one go", async () => {
-    const before = { sites: await count(t.db, "sites"), customers: await count(t.db, "customers"), activity: await count(t.db, "activity") };
+    const before = {
+      sites: await count(t.db, "sites"),
+      customers: await count(t.db, "customers"),
+      activity: await count(t.db, "activity"),
+    };
     const id = await createAppliance(t.db, { actor, input: baseInput(), now: NOW });
     const row = await t.db("appliances").where({ id }).first();
     expect(row).toMatchObject({ tag: "REG-RTU-01", refrigerant: "R-410A", branch_id: columbus, status: "in_service" });
@@ -90,14 +107,29 @@ describe("adding an appliance", () => {
     const manager = await loadActor(t.db, actor.userId);
     const a = await getAppliance(t.db, { scope: scopeByAbility(defineAbilityFor(manager!), "read", "Appliance", "appliances"), id });
     // R-410A is high pressure by the 2004 classes; Type II or Universal covers it (40 CFR 82.161).
-    expect(a).toMatchObject({ pressureClass: "high", smallAppliance: false, certificationTypes: ["type_ii", "universal"], customerName: "Harrow Lane Bakers" });
+    expect(a).toMatchObject({
+      pressureClass: "high",
+      smallAppliance: false,
+      certificationTypes: ["type_ii", "universal"],
+      customerName: "Harrow Lane Bakers",
+    });
   });
 
   it("refuses a duplicate tag and a site of another branch, writing nothing", async () => {
-    const before = { appliances: await count(t.db, "appliances"), sites: await count(t.db, "sites"), customers: await count(t.db, "customers"), activity: await count(t.db, "activity") };
-    await expect(createAppliance(t.db, { actor, input: baseInput({ tag: "reg-rtu-01" }) })).rejects.toMatchObject({ code: "conflict", field: "tag" });
+    const before = {
+      appliances: await count(t.db, "appliances"),
+      sites: await count(t.db, "sites"),
+      customers: await count(t.db, "customers"),
+      activity: await count(t.db, "activity"),
+    };
+    await expect(createAppliance(t.db, { actor, input: baseInput({ tag: "reg-rtu-01" }) })).rejects.toMatchObject({
+      code: "conflict",
+      field: "tag",
+    });
     const denverSite = await t.db("sites").where({ branch_id: denver }).first("id");
-    await expect(createAppliance(t.db, { actor, input: baseInput({ tag: "REG-RTU-02", siteChoice: "existing", siteId: denverSite.id }) })).rejects.toMatchObject({
+    await expect(
+      createAppliance(t.db, { actor, input: baseInput({ tag: "REG-RTU-02", siteChoice: "existing", siteId: denverSite.id }) }),
+    ).rejects.toMatchObject({
       code: "conflict",
       field: "siteId",
     });
@@ -130,7 +162,11 @@ describe("editing an appliance", () => {
   it("writes plain changes with an activity row and no amendment", async () => {
     const id = await createAppliance(t.db, { actor, input: baseInput({ tag: "REG-RTU-10" }) });
     const amendments = await count(t.db, "amendments");
-    const result = await updateAppliance(t.db, { actor, id, input: await edit(id, { description: "Rooftop unit over the bakery ovens", makeModel: "Invented Air 3000" }) });
+    const result = await updateAppliance(t.db, {
+      actor,
+      id,
+      input: await edit(id, { description: "Rooftop unit over the bakery ovens", makeModel: "Invented Air 3000" }),
+    });
     expect(result).toEqual({ amendmentId: null, changed: ["description", "make_model"] });
     expect(await count(t.db, "amendments")).toBe(amendments);
     const activity = await t.db("activity").where({ subject_type: "Appliance", subject_id: id, action: "appliance.updated" }).first();
@@ -142,15 +178,25 @@ describe("editing an appliance", () => {
 
   it("a new full charge is a correction: refused without a reason, kept as an amendment with one", async () => {
     const id = await createAppliance(t.db, { actor, input: baseInput({ tag: "REG-RTU-11" }) });
-    await expect(updateAppliance(t.db, { actor, id, input: await edit(id, { fullChargeAmount: 21, fullChargeUnit: "lb" }) })).rejects.toMatchObject({ code: "invalid", field: "reason" });
+    await expect(
+      updateAppliance(t.db, { actor, id, input: await edit(id, { fullChargeAmount: 21, fullChargeUnit: "lb" }) }),
+    ).rejects.toMatchObject({ code: "invalid", field: "reason" });
     expect((await t.db("appliances").where({ id }).first("full_charge_g")).full_charge_g).toBe(8391);
 
-    const result = await updateAppliance(t.db, { actor, id, input: await edit(id, { fullChargeAmount: 21, fullChargeUnit: "lb", reason: "Nameplate read again: 21 lb" }) });
+    const result = await updateAppliance(t.db, {
+      actor,
+      id,
+      input: await edit(id, { fullChargeAmount: 21, fullChargeUnit: "lb", reason: "Nameplate read again: 21 lb" }),
+    });
     expect(result.amendmentId).toEqual(expect.any(Number));
     const history = await listAmendments(t.db, { organisationId: actor.organisationId, subjectType: "Appliance", subjectId: id });
     expect(history).toHaveLength(1);
     // 21 lb = 9525.44 g → 9525 g.
-    expect(history[0]).toMatchObject({ reason: "Nameplate read again: 21 lb", previous: { full_charge_g: 8391 }, next: { full_charge_g: 9525 } });
+    expect(history[0]).toMatchObject({
+      reason: "Nameplate read again: 21 lb",
+      previous: { full_charge_g: 8391 },
+      next: { full_charge_g: 9525 },
+    });
   });
 
   it("an unchanged charge sent back in grams changes nothing", async () => {
@@ -160,8 +206,12 @@ describe("editing an appliance", () => {
 
   it("status changes keep the date and the reason; the register entry stays", async () => {
     const id = await createAppliance(t.db, { actor, input: baseInput({ tag: "REG-RTU-13", installedOn: "2020-04-01" }) });
-    await expect(changeApplianceStatus(t.db, { actor, id, input: { status: "in_service", on: "2026-11-01", reason: "Still running" } })).rejects.toMatchObject({ field: "status" });
-    await expect(changeApplianceStatus(t.db, { actor, id, input: { status: "retired", on: "2019-01-01", reason: "Wrong date" } })).rejects.toMatchObject({ field: "on" });
+    await expect(
+      changeApplianceStatus(t.db, { actor, id, input: { status: "in_service", on: "2026-11-01", reason: "Still running" } }),
+    ).rejects.toMatchObject({ field: "status" });
+    await expect(
+      changeApplianceStatus(t.db, { actor, id, input: { status: "retired", on: "2019-01-01", reason: "Wrong date" } }),
+    ).rejects.toMatchObject({ field: "on" });
     await changeApplianceStatus(t.db, { actor, id, input: { status: "retired", on: "2026-11-02", reason: "Replaced by a new unit" } });
     await changeApplianceStatus(t.db, { actor, id, input: { status: "disposed", on: "2026-11-20", reason: "Scrapped after recovery" } });
     const row = await t.db("appliances").where({ id }).first("status", "retired_on", "disposed_on");
@@ -180,7 +230,10 @@ describe("listing appliances", () => {
     const scope = scopeByAbility(defineAbilityFor(manager!), "read", "Appliance", "appliances");
     const all = await listAppliances(t.db, { scope, query: applianceListQuery.parse({ pageSize: 200 }) });
     expect(all.rows.every((r) => r.branchId === columbus)).toBe(true);
-    const chillers = await listAppliances(t.db, { scope, query: applianceListQuery.parse({ category: "chiller", sort: "fullCharge", dir: "desc", pageSize: 200 }) });
+    const chillers = await listAppliances(t.db, {
+      scope,
+      query: applianceListQuery.parse({ category: "chiller", sort: "fullCharge", dir: "desc", pageSize: 200 }),
+    });
     expect(chillers.total).toBeGreaterThan(0);
     expect(chillers.rows.every((r) => r.category === "chiller")).toBe(true);
     const charges = chillers.rows.map((r) => r.fullChargeG);
@@ -229,7 +282,10 @@ describe("leak review of an appliance (rules core on the appliance's records)", 
   });
 
   it("an appliance no leak-repair rule covers shows why, with no deadlines", async () => {
-    const id = await createAppliance(t.db, { actor, input: baseInput({ tag: "REG-SPLIT-20", category: "residential_split", fullChargeAmount: 9, fullChargeUnit: "lb" }) });
+    const id = await createAppliance(t.db, {
+      actor,
+      input: baseInput({ tag: "REG-SPLIT-20", category: "residential_split", fullChargeAmount: 9, fullChargeUnit: "lb" }),
+    });
     const review = await reviewApplianceLeaks(t.db, { organisationId: 1, applianceId: id, now: NOW });
     expect(review.coverage.regime).toBeNull();
     expect(review.events).toEqual([]);
@@ -239,12 +295,20 @@ describe("leak review of an appliance (rules core on the appliance's records)", 
   it("lists the jobs on an appliance that the Job scope allows, with their movements", async () => {
     const id = await idOf("TUC-RACK-908");
     const officer = await loadActor(t.db, Number((await t.db("users").where({ email: DEMO_SIGN_INS.compliance_officer }).first("id")).id));
-    const page = await listApplianceJobs(t.db, { scope: scopeByAbility(defineAbilityFor(officer!), "read", "Job", "jobs"), applianceId: id, query: { page: 1, pageSize: 50, dir: "desc" } });
+    const page = await listApplianceJobs(t.db, {
+      scope: scopeByAbility(defineAbilityFor(officer!), "read", "Job", "jobs"),
+      applianceId: id,
+      query: { page: 1, pageSize: 50, dir: "desc" },
+    });
     const charge = page.rows.find((r) => r.performedOn === "2026-09-12")!;
     expect(charge).toMatchObject({ kind: "charge", chargedG: 95000 });
     expect(charge.movements).toEqual([expect.objectContaining({ direction: "charged_from_stock", massG: 95000 })]);
     const otherBranchManager = await loadActor(t.db, actor.userId);
-    const none = await listApplianceJobs(t.db, { scope: scopeByAbility(defineAbilityFor(otherBranchManager!), "read", "Job", "jobs"), applianceId: id, query: { page: 1, pageSize: 50, dir: "desc" } });
+    const none = await listApplianceJobs(t.db, {
+      scope: scopeByAbility(defineAbilityFor(otherBranchManager!), "read", "Job", "jobs"),
+      applianceId: id,
+      query: { page: 1, pageSize: 50, dir: "desc" },
+    });
     expect(none.total).toBe(0);
   });
 });

@@ -1,5 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { cylinderInput, cylinderListQuery, cylinderUpdateInput, cylinderWeighingAmendInput, cylinderWeighingInput, defineAbilityFor } from "@coldtrail/core";
+import {
+  cylinderInput,
+  cylinderListQuery,
+  cylinderUpdateInput,
+  cylinderWeighingAmendInput,
+  cylinderWeighingInput,
+  defineAbilityFor,
+} from "@coldtrail/core";
 import {
   DEMO_SIGN_INS,
   amendCylinderWeighing,
@@ -69,8 +76,18 @@ describe("a new cylinder", () => {
 
   it("refuses a duplicate serial and an impossible size, writing nothing", async () => {
     const before = await count(t.db, "cylinders");
-    await expect(createCylinder(t.db, { actor, input: newCylinder({ serial: "reg-c-0142" }) })).rejects.toMatchObject({ code: "conflict", field: "serial" });
-    const tooBig = cylinderInput.safeParse({ ...newCylinder(), serial: "REG-C-9", waterCapacityAmount: 5, waterCapacityUnit: "g" as const, tareAmount: 5000, tareUnit: "kg" as const });
+    await expect(createCylinder(t.db, { actor, input: newCylinder({ serial: "reg-c-0142" }) })).rejects.toMatchObject({
+      code: "conflict",
+      field: "serial",
+    });
+    const tooBig = cylinderInput.safeParse({
+      ...newCylinder(),
+      serial: "REG-C-9",
+      waterCapacityAmount: 5,
+      waterCapacityUnit: "g" as const,
+      tareAmount: 5000,
+      tareUnit: "kg" as const,
+    });
     expect(tooBig.success).toBe(false);
     expect(tooBig.error!.issues.map((i) => i.path.join("."))).toContain("tareAmount");
     const missing = cylinderInput.safeParse({ ...newCylinder(), tareAmount: "" });
@@ -85,7 +102,14 @@ describe("weighings", () => {
     const w = await recordCylinderWeighing(t.db, {
       actor,
       cylinderId: id,
-      input: cylinderWeighingInput.parse({ weighedOn: "2026-11-20", grossAmount: "30", grossUnit: "lb", refrigerant: "r410a", temperatureValue: "77", temperatureUnit: "F" }),
+      input: cylinderWeighingInput.parse({
+        weighedOn: "2026-11-20",
+        grossAmount: "30",
+        grossUnit: "lb",
+        refrigerant: "r410a",
+        temperatureValue: "77",
+        temperatureUnit: "F",
+      }),
       now: NOW,
     });
     // 30 lb = 13,608 g on the scale; minus the 7,938 g tare = 5,670 g net.
@@ -105,10 +129,18 @@ describe("weighings", () => {
     const id = Number((await t.db("cylinders").where({ serial: "REG-C-0200" }).first("id")).id);
     const before = { weighings: await count(t.db, "cylinder_weighings"), activity: await count(t.db, "activity") };
     await expect(
-      recordCylinderWeighing(t.db, { actor, cylinderId: id, input: cylinderWeighingInput.parse({ weighedOn: "2026-11-21", grossAmount: "10", grossUnit: "lb" }) }),
+      recordCylinderWeighing(t.db, {
+        actor,
+        cylinderId: id,
+        input: cylinderWeighingInput.parse({ weighedOn: "2026-11-21", grossAmount: "10", grossUnit: "lb" }),
+      }),
     ).rejects.toMatchObject({ code: "invalid", field: "grossAmount" });
     await expect(
-      recordCylinderWeighing(t.db, { actor, cylinderId: (await t.db("cylinders").where({ serial: "REG-C-0142" }).first("id")).id, input: cylinderWeighingInput.parse({ weighedOn: "2026-11-21", grossAmount: "25", grossUnit: "lb" }) }),
+      recordCylinderWeighing(t.db, {
+        actor,
+        cylinderId: (await t.db("cylinders").where({ serial: "REG-C-0142" }).first("id")).id,
+        input: cylinderWeighingInput.parse({ weighedOn: "2026-11-21", grossAmount: "25", grossUnit: "lb" }),
+      }),
     ).rejects.toMatchObject({ code: "invalid", field: "refrigerant" });
     expect(await count(t.db, "cylinder_weighings")).toBe(before.weighings);
     expect(await count(t.db, "activity")).toBe(before.activity);
@@ -118,17 +150,39 @@ describe("weighings", () => {
     const id = Number((await t.db("cylinders").where({ serial: "REG-C-0200" }).first("id")).id);
     const [weighing] = (await listCylinderWeighings(t.db, { cylinderId: id, query: { page: 1, pageSize: 10, dir: "desc" } })).rows;
     await expect(
-      amendCylinderWeighing(t.db, { actor, cylinderId: id, weighingId: weighing!.id, input: { ...cylinderWeighingAmendInput.parse({ weighedOn: "2026-11-20", grossAmount: "31", grossUnit: "lb", reason: "placeholder" }), reason: " " } }),
+      amendCylinderWeighing(t.db, {
+        actor,
+        cylinderId: id,
+        weighingId: weighing!.id,
+        input: {
+          ...cylinderWeighingAmendInput.parse({ weighedOn: "2026-11-20", grossAmount: "31", grossUnit: "lb", reason: "placeholder" }),
+          reason: " ",
+        },
+      }),
     ).rejects.toMatchObject({ field: "reason" });
     await amendCylinderWeighing(t.db, {
       actor,
       cylinderId: id,
       weighingId: weighing!.id,
-      input: cylinderWeighingAmendInput.parse({ weighedOn: "2026-11-20", grossAmount: "31", grossUnit: "lb", refrigerant: "R-410A", temperatureValue: "25", temperatureUnit: "C", reason: "Scale was not zeroed" }),
+      input: cylinderWeighingAmendInput.parse({
+        weighedOn: "2026-11-20",
+        grossAmount: "31",
+        grossUnit: "lb",
+        refrigerant: "R-410A",
+        temperatureValue: "25",
+        temperatureUnit: "C",
+        reason: "Scale was not zeroed",
+      }),
     });
     const history = await listCylinderAmendments(t.db, { organisationId: actor.organisationId, cylinderId: id });
     // 31 lb = 14,061 g → 6,123 g net.
-    expect(history[0]).toMatchObject({ subjectType: "CylinderWeighing", subjectId: weighing!.id, reason: "Scale was not zeroed", previous: { gross_g: 13608, net_g: 5670 }, next: { gross_g: 14061, net_g: 6123 } });
+    expect(history[0]).toMatchObject({
+      subjectType: "CylinderWeighing",
+      subjectId: weighing!.id,
+      reason: "Scale was not zeroed",
+      previous: { gross_g: 13608, net_g: 5670 },
+      next: { gross_g: 14061, net_g: 6123 },
+    });
     expect((await getCylinder(t.db, { scope, id, now: NOW }))!.netG).toBe(6123);
 
     await voidCylinderWeighing(t.db, { actor, cylinderId: id, weighingId: weighing!.id, reason: "Weighed the wrong cylinder" });
@@ -138,7 +192,18 @@ describe("weighings", () => {
     const after = (await getCylinder(t.db, { scope, id, now: NOW }))!;
     expect(after).toMatchObject({ netG: 0, netSource: "records", lastWeighing: null });
     await expect(
-      amendCylinderWeighing(t.db, { actor, cylinderId: id, weighingId: weighing!.id, input: cylinderWeighingAmendInput.parse({ weighedOn: "2026-11-20", grossAmount: "32", grossUnit: "lb", refrigerant: "R-410A", reason: "Again" }) }),
+      amendCylinderWeighing(t.db, {
+        actor,
+        cylinderId: id,
+        weighingId: weighing!.id,
+        input: cylinderWeighingAmendInput.parse({
+          weighedOn: "2026-11-20",
+          grossAmount: "32",
+          grossUnit: "lb",
+          refrigerant: "R-410A",
+          reason: "Again",
+        }),
+      }),
     ).rejects.toMatchObject({ code: "conflict" });
   });
 
@@ -154,15 +219,29 @@ describe("weighings", () => {
     const w = await recordCylinderWeighing(t.db, {
       actor: { userId: owner!.userId, organisationId: 1 },
       cylinderId: shippedId,
-      input: cylinderWeighingInput.parse({ weighedOn: shipped.lastMovementOn!, grossAmount: shipped.tareG + 250, grossUnit: "g", refrigerant: "R-410A" }),
+      input: cylinderWeighingInput.parse({
+        weighedOn: shipped.lastMovementOn!,
+        grossAmount: shipped.tareG + 250,
+        grossUnit: "g",
+        refrigerant: "R-410A",
+      }),
       now: NOW,
     });
     expect((await getCylinder(t.db, { scope: ownerScope, id: shippedId, now: NOW }))!).toMatchObject({ netSource: "weighing", netG: 250 });
-    await voidCylinderWeighing(t.db, { actor: { userId: owner!.userId, organisationId: 1 }, cylinderId: shippedId, weighingId: w.id, reason: "Test reading" });
+    await voidCylinderWeighing(t.db, {
+      actor: { userId: owner!.userId, organisationId: 1 },
+      cylinderId: shippedId,
+      weighingId: w.id,
+      reason: "Test reading",
+    });
   });
 
   it("a weighing older than the last movement does not hide the recorded contents", async () => {
-    const overfilled = (await getCylinder(t.db, { scope: scopeByAbility(defineAbilityFor((await loadActor(t.db, 1))!), "read", "Cylinder", "cylinders"), id: Number((await t.db("cylinders").where({ serial: "TUC-C-905" }).first("id")).id), now: NOW }))!;
+    const overfilled = (await getCylinder(t.db, {
+      scope: scopeByAbility(defineAbilityFor((await loadActor(t.db, 1))!), "read", "Cylinder", "cylinders"),
+      id: Number((await t.db("cylinders").where({ serial: "TUC-C-905" }).first("id")).id),
+      now: NOW,
+    }))!;
     // Demo gap G05: 21.9 kg R-410A in a 50 lb WC cylinder, over the maximum fill.
     expect(overfilled.netSource).toBe("records");
     expect(overfilled.netG).toBe(21900);
@@ -190,22 +269,40 @@ describe("editing a cylinder", () => {
 
   it("a new tare or requalification date needs a reason and is kept as an amendment", async () => {
     const id = Number((await t.db("cylinders").where({ serial: "REG-C-0142" }).first("id")).id);
-    await expect(updateCylinder(t.db, { actor, id, input: await edit(id, { lastRequalifiedOn: "2026-10-01" }) })).rejects.toMatchObject({ field: "reason" });
-    const res = await updateCylinder(t.db, { actor, id, input: await edit(id, { lastRequalifiedOn: "2026-10-01", reason: "Retested at the test station" }) });
+    await expect(updateCylinder(t.db, { actor, id, input: await edit(id, { lastRequalifiedOn: "2026-10-01" }) })).rejects.toMatchObject({
+      field: "reason",
+    });
+    const res = await updateCylinder(t.db, {
+      actor,
+      id,
+      input: await edit(id, { lastRequalifiedOn: "2026-10-01", reason: "Retested at the test station" }),
+    });
     expect(res.changed).toEqual(["last_requalified_on"]);
     const c = (await getCylinder(t.db, { scope, id, now: NOW }))!;
     expect(c.requalification.dueOn).toBe("2031-10-01");
     const history = await listCylinderAmendments(t.db, { organisationId: actor.organisationId, cylinderId: id });
-    expect(history[0]).toMatchObject({ subjectType: "Cylinder", previous: { last_requalified_on: "2022-03-01" }, next: { last_requalified_on: "2026-10-01" } });
+    expect(history[0]).toMatchObject({
+      subjectType: "Cylinder",
+      previous: { last_requalified_on: "2022-03-01" },
+      next: { last_requalified_on: "2026-10-01" },
+    });
   });
 
   it("retiring a cylinder changes its status with an activity row; it stays in the register", async () => {
     const id = Number((await t.db("cylinders").where({ serial: "REG-C-0142" }).first("id")).id);
     const res = await updateCylinder(t.db, { actor, id, input: await edit(id, { status: "retired" }) });
     expect(res).toEqual({ amendmentId: null, changed: ["status"] });
-    const activity = await t.db("activity").where({ subject_type: "Cylinder", subject_id: id, action: "cylinder.updated" }).orderBy("id", "desc").first();
+    const activity = await t
+      .db("activity")
+      .where({ subject_type: "Cylinder", subject_id: id, action: "cylinder.updated" })
+      .orderBy("id", "desc")
+      .first();
     expect(activity.summary).toContain("In service → Retired");
-    const retired = await listCylinders(t.db, { scope, organisationId: actor.organisationId, query: cylinderListQuery.parse({ status: "retired", q: "REG-C-0142" }) });
+    const retired = await listCylinders(t.db, {
+      scope,
+      organisationId: actor.organisationId,
+      query: cylinderListQuery.parse({ status: "retired", q: "REG-C-0142" }),
+    });
     expect(retired.rows.map((r) => r.id)).toEqual([id]);
   });
 });
@@ -214,15 +311,33 @@ describe("listing cylinders", () => {
   it("the requalification filter splits the register the way each row's state says (branch time zone)", async () => {
     const owner = await loadActor(t.db, Number((await t.db("users").where({ email: DEMO_SIGN_INS.owner }).first("id")).id));
     const ownerScope = scopeByAbility(defineAbilityFor(owner!, NOW), "read", "Cylinder", "cylinders");
-    const all = await listCylinders(t.db, { scope: ownerScope, organisationId: 1, query: cylinderListQuery.parse({ pageSize: 200 }), now: NOW });
+    const all = await listCylinders(t.db, {
+      scope: ownerScope,
+      organisationId: 1,
+      query: cylinderListQuery.parse({ pageSize: 200 }),
+      now: NOW,
+    });
     let sum = 0;
     for (const state of ["overdue", "due_soon", "current", "unknown"] as const) {
-      const part = await listCylinders(t.db, { scope: ownerScope, organisationId: 1, query: cylinderListQuery.parse({ requalification: state, pageSize: 200 }), now: NOW });
-      expect(part.rows.every((r) => r.requalification.state === state), state).toBe(true);
+      const part = await listCylinders(t.db, {
+        scope: ownerScope,
+        organisationId: 1,
+        query: cylinderListQuery.parse({ requalification: state, pageSize: 200 }),
+        now: NOW,
+      });
+      expect(
+        part.rows.every((r) => r.requalification.state === state),
+        state,
+      ).toBe(true);
       sum += part.total;
     }
     expect(sum).toBe(all.total);
-    const overdue = await listCylinders(t.db, { scope: ownerScope, organisationId: 1, query: cylinderListQuery.parse({ requalification: "overdue" }), now: NOW });
+    const overdue = await listCylinders(t.db, {
+      scope: ownerScope,
+      organisationId: 1,
+      query: cylinderListQuery.parse({ requalification: "overdue" }),
+      now: NOW,
+    });
     // Demo gap G06: PIA-C-906 last requalified 2020-02-18, due 2025-02-18.
     expect(overdue.rows.map((r) => r.serial)).toContain("PIA-C-906");
   });
@@ -233,7 +348,10 @@ describe("listing cylinders", () => {
     const ownerScope = scopeByAbility(defineAbilityFor(owner!, NOW), "read", "Cylinder", "cylinders");
     const before = (await getCylinder(t.db, { scope: ownerScope, id, now: NOW }))!.fill!;
     const settings = await t.db("organisations").where({ id: 1 }).first("settings");
-    await t.db("organisations").where({ id: 1 }).update({ settings: JSON.stringify({ ...JSON.parse(settings.settings), strictFill130F: true }) });
+    await t
+      .db("organisations")
+      .where({ id: 1 })
+      .update({ settings: JSON.stringify({ ...JSON.parse(settings.settings), strictFill130F: true }) });
     const strict = (await getCylinder(t.db, { scope: ownerScope, id, now: NOW }))!.fill!;
     await t.db("organisations").where({ id: 1 }).update({ settings: settings.settings });
     expect(strict.basis).toBe("sg_130f");
@@ -245,7 +363,12 @@ describe("listing cylinders", () => {
     const page = await listCylinderMovements(t.db, { cylinderId: id, jobScope, query: { page: 1, pageSize: 50, dir: "asc" } });
     expect(page.total).toBeGreaterThan(0);
     expect(page.rows.some((r) => r.jobId !== null && r.applianceTag !== null)).toBe(true);
-    const nobody = scopeByAbility(defineAbilityFor({ userId: 1, organisationId: 1, name: "x", email: "x@x.example", memberships: [], inspectorGrants: [] }), "read", "Job", "jobs");
+    const nobody = scopeByAbility(
+      defineAbilityFor({ userId: 1, organisationId: 1, name: "x", email: "x@x.example", memberships: [], inspectorGrants: [] }),
+      "read",
+      "Job",
+      "jobs",
+    );
     const hidden = await listCylinderMovements(t.db, { cylinderId: id, jobScope: nobody, query: { page: 1, pageSize: 50, dir: "asc" } });
     expect(hidden.rows.every((r) => r.jobId === null && r.applianceTag === null)).toBe(true);
   });

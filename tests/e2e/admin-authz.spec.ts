@@ -62,7 +62,8 @@ test.beforeAll(async ({ browser }: { browser: Browser }) => {
   branch = Object.fromEntries(b.rows.map((r) => [r.code, r.id]));
   const ob = (await (await api("otherOwner").get("/api/admin/branches?pageSize=200")).json()) as { rows: { id: number; code: string }[] };
   boise = ob.rows.find((r) => r.code === "BOI")!.id;
-  const find = async (q: string, who: Who = "owner") => ((await (await api(who).get(`/api/admin/people?q=${encodeURIComponent(q)}`)).json()) as { rows: { id: number }[] }).rows[0]!.id;
+  const find = async (q: string, who: Who = "owner") =>
+    ((await (await api(who).get(`/api/admin/people?q=${encodeURIComponent(q)}`)).json()) as { rows: { id: number }[] }).rows[0]!.id;
   columbusTech = await find("delacroix-byrd");
   tucsonManager = await find("baptiste-moreno");
   ownerId = await find("halvorsen");
@@ -84,7 +85,15 @@ test.afterAll(async () => {
 });
 
 test("people list: scoped to the organisation and, for a manager, their branch", async () => {
-  await expectStatuses((a) => a.get("/api/admin/people"), { anonymous: 401, owner: 200, officer: 200, manager: 200, technician: 403, inspector: 403, otherOwner: 200 });
+  await expectStatuses((a) => a.get("/api/admin/people"), {
+    anonymous: 401,
+    owner: 200,
+    officer: 200,
+    manager: 200,
+    technician: 403,
+    inspector: 403,
+    otherOwner: 200,
+  });
   const ownerSees = await peopleIds(api("owner"));
   const managerSees = await peopleIds(api("manager"));
   const otherSees = await peopleIds(api("otherOwner"));
@@ -96,10 +105,31 @@ test("people list: scoped to the organisation and, for a manager, their branch",
 });
 
 test("one person: own branch, other branch, other organisation", async () => {
-  await expectStatuses((a) => a.get(`/api/admin/people/${columbusTech}`), { anonymous: 401, owner: 200, officer: 200, manager: 200, technician: 403, inspector: 403, otherOwner: 404, otherManager: 404 });
+  await expectStatuses((a) => a.get(`/api/admin/people/${columbusTech}`), {
+    anonymous: 401,
+    owner: 200,
+    officer: 200,
+    manager: 200,
+    technician: 403,
+    inspector: 403,
+    otherOwner: 404,
+    otherManager: 404,
+  });
   await expectStatuses((a) => a.get(`/api/admin/people/${tucsonManager}`), { owner: 200, manager: 404, otherOwner: 404 });
-  await expectStatuses((a) => a.get(`/api/admin/people/${columbusTech}/certifications`), { owner: 200, officer: 200, manager: 200, technician: 404, otherOwner: 404 });
-  await expectStatuses((a) => a.get(`/api/admin/people/${columbusTech}/history`), { owner: 200, officer: 200, technician: 403, inspector: 403, otherOwner: 404 });
+  await expectStatuses((a) => a.get(`/api/admin/people/${columbusTech}/certifications`), {
+    owner: 200,
+    officer: 200,
+    manager: 200,
+    technician: 404,
+    otherOwner: 404,
+  });
+  await expectStatuses((a) => a.get(`/api/admin/people/${columbusTech}/history`), {
+    owner: 200,
+    officer: 200,
+    technician: 403,
+    inspector: 403,
+    otherOwner: 404,
+  });
   await expectStatuses((a) => a.get("/api/admin/people/not-a-number"), { owner: 404 });
 });
 
@@ -125,7 +155,10 @@ test("changing roles and branches: only the owner of the organisation", async ()
   const elsewhere = await api("owner").patch(`/api/admin/people/${testPerson}`, { data: { roles: ["technician"], branchIds: [boise] } });
   expect(elsewhere.status()).toBe(400);
   expect((await elsewhere.json()).error.fieldErrors.branchIds).toBeTruthy();
-  expect(((await (await api("owner").get(`/api/admin/people/${testPerson}`)).json()) as { roles: string[] }).roles).toEqual(["branch_manager", "technician"]);
+  expect(((await (await api("owner").get(`/api/admin/people/${testPerson}`)).json()) as { roles: string[] }).roles).toEqual([
+    "branch_manager",
+    "technician",
+  ]);
 });
 
 test("nobody raises their own role; the last owner stays an owner and active", async () => {
@@ -134,10 +167,14 @@ test("nobody raises their own role; the last owner stays an owner and active", a
   expect(await status(api("officer").patch(`/api/admin/people/${officerId}`, { data: { roles: ["owner"], branchIds: [] } }))).toBe(403);
 
   // The owner of the second organisation (its only owner) tries to widen, step down and leave.
-  const widen = await api("otherOwner").patch(`/api/admin/people/${otherOwnerId}`, { data: { roles: ["owner", "technician"], branchIds: [boise] } });
+  const widen = await api("otherOwner").patch(`/api/admin/people/${otherOwnerId}`, {
+    data: { roles: ["owner", "technician"], branchIds: [boise] },
+  });
   expect(widen.status()).toBe(403);
   expect((await widen.json()).error.message).toContain("cannot raise your own role");
-  const stepDown = await api("otherOwner").patch(`/api/admin/people/${otherOwnerId}`, { data: { roles: ["compliance_officer"], branchIds: [] } });
+  const stepDown = await api("otherOwner").patch(`/api/admin/people/${otherOwnerId}`, {
+    data: { roles: ["compliance_officer"], branchIds: [] },
+  });
   expect(stepDown.status()).toBe(409);
   expect((await stepDown.json()).error.fieldErrors.roles[0]).toContain("is the last owner");
   expect(await status(api("otherOwner").post(`/api/admin/people/${otherOwnerId}/deactivate`))).toBe(403);
@@ -146,18 +183,52 @@ test("nobody raises their own role; the last owner stays an owner and active", a
 });
 
 test("deactivating and letting back in: only the owner of the organisation", async () => {
-  await expectStatuses((a) => a.post(`/api/admin/people/${columbusTech}/deactivate`), { anonymous: 401, officer: 403, manager: 403, technician: 403, inspector: 403, otherOwner: 404 });
+  await expectStatuses((a) => a.post(`/api/admin/people/${columbusTech}/deactivate`), {
+    anonymous: 401,
+    officer: 403,
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherOwner: 404,
+  });
   // The test person has not accepted their invitation: withdraw it, then let them in again.
-  await expectStatuses((a) => a.delete(`/api/admin/people/${testPerson}/invitation`), { officer: 403, manager: 403, otherOwner: 404, owner: 200 });
+  await expectStatuses((a) => a.delete(`/api/admin/people/${testPerson}/invitation`), {
+    officer: 403,
+    manager: 403,
+    otherOwner: 404,
+    owner: 200,
+  });
   expect(((await (await api("owner").get(`/api/admin/people/${testPerson}`)).json()) as { status: string }).status).toBe("deactivated");
-  await expectStatuses((a) => a.post(`/api/admin/people/${testPerson}/reactivate`), { officer: 403, manager: 403, otherOwner: 404, owner: 200 });
+  await expectStatuses((a) => a.post(`/api/admin/people/${testPerson}/reactivate`), {
+    officer: 403,
+    manager: 403,
+    otherOwner: 404,
+    owner: 200,
+  });
   expect(await status(api("owner").post(`/api/admin/people/${testPerson}/reactivate`))).toBe(409);
-  await expectStatuses((a) => a.post(`/api/admin/people/${testPerson}/invitation`), { officer: 403, manager: 403, otherOwner: 404, owner: 200 });
+  await expectStatuses((a) => a.post(`/api/admin/people/${testPerson}/invitation`), {
+    officer: 403,
+    manager: 403,
+    otherOwner: 404,
+    owner: 200,
+  });
 });
 
 test("inviting: only the owner, only into their own branches, with field errors for bad input", async () => {
-  const body = (n: string) => ({ email: `authz.${n}.${stamp}@kestrelmoor.example`, name: "Someone New", roles: ["technician"], branchIds: [branch.COL] });
-  await expectStatuses((a) => a.post("/api/admin/invitations", { data: body("x") }), { anonymous: 401, officer: 403, manager: 403, technician: 403, inspector: 403, otherManager: 403 });
+  const body = (n: string) => ({
+    email: `authz.${n}.${stamp}@kestrelmoor.example`,
+    name: "Someone New",
+    roles: ["technician"],
+    branchIds: [branch.COL],
+  });
+  await expectStatuses((a) => a.post("/api/admin/invitations", { data: body("x") }), {
+    anonymous: 401,
+    officer: 403,
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherManager: 403,
+  });
   const crossOrg = await api("otherOwner").post("/api/admin/invitations", { data: body("cross") });
   expect(crossOrg.status()).toBe(400);
   expect((await crossOrg.json()).error.fieldErrors.branchIds).toBeTruthy();
@@ -172,16 +243,41 @@ test("inviting: only the owner, only into their own branches, with field errors 
 });
 
 test("branches: read by scope, opened and changed only by the owner of the organisation", async () => {
-  await expectStatuses((a) => a.get("/api/admin/branches"), { anonymous: 401, owner: 200, officer: 200, manager: 200, technician: 200, inspector: 200, otherOwner: 200 });
-  const codes = async (who: Who) => ((await (await api(who).get("/api/admin/branches?pageSize=200")).json()) as { rows: { code: string }[] }).rows.map((r) => r.code).sort();
+  await expectStatuses((a) => a.get("/api/admin/branches"), {
+    anonymous: 401,
+    owner: 200,
+    officer: 200,
+    manager: 200,
+    technician: 200,
+    inspector: 200,
+    otherOwner: 200,
+  });
+  const codes = async (who: Who) =>
+    ((await (await api(who).get("/api/admin/branches?pageSize=200")).json()) as { rows: { code: string }[] }).rows
+      .map((r) => r.code)
+      .sort();
   expect(await codes("manager")).toEqual(["COL"]);
   expect(await codes("technician")).toEqual(["COL"]);
   expect(await codes("inspector")).toEqual(["DEN"]);
   expect(await codes("otherOwner")).toEqual(expect.not.arrayContaining(["COL", "TUC", "DEN", "PIA"]));
-  await expectStatuses((a) => a.get(`/api/admin/branches/${branch.TUC}`), { owner: 200, officer: 200, manager: 404, technician: 404, inspector: 404, otherOwner: 404 });
+  await expectStatuses((a) => a.get(`/api/admin/branches/${branch.TUC}`), {
+    owner: 200,
+    officer: 200,
+    manager: 404,
+    technician: 404,
+    inspector: 404,
+    otherOwner: 404,
+  });
 
   const newBranch = { name: `Nampa ${stamp}`, code: `N${stamp.slice(-5)}`.toUpperCase(), timeZone: "America/Boise", massUnit: "lb_oz" };
-  await expectStatuses((a) => a.post("/api/admin/branches", { data: newBranch }), { anonymous: 401, officer: 403, manager: 403, technician: 403, inspector: 403, otherManager: 403 });
+  await expectStatuses((a) => a.post("/api/admin/branches", { data: newBranch }), {
+    anonymous: 401,
+    officer: 403,
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherManager: 403,
+  });
   const badZone = await api("owner").post("/api/admin/branches", { data: { ...newBranch, timeZone: "Mars/Olympus_Mons" } });
   expect(badZone.status()).toBe(400);
   expect((await badZone.json()).error.fieldErrors.timeZone).toBeTruthy();
@@ -189,27 +285,59 @@ test("branches: read by scope, opened and changed only by the owner of the organ
   expect(created.status()).toBe(201);
   const nampa = ((await created.json()) as { id: number }).id;
 
-  await expectStatuses((a) => a.patch(`/api/admin/branches/${branch.COL}`, { data: { name: "Taken Over" } }), { anonymous: 401, officer: 403, manager: 403, technician: 403, inspector: 403, otherOwner: 404 });
-  await expectStatuses((a) => a.patch(`/api/admin/branches/${nampa}`, { data: { archived: true } }), { owner: 404, otherManager: 403, otherOwner: 200 });
+  await expectStatuses((a) => a.patch(`/api/admin/branches/${branch.COL}`, { data: { name: "Taken Over" } }), {
+    anonymous: 401,
+    officer: 403,
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherOwner: 404,
+  });
+  await expectStatuses((a) => a.patch(`/api/admin/branches/${nampa}`, { data: { archived: true } }), {
+    owner: 404,
+    otherManager: 403,
+    otherOwner: 200,
+  });
   const archived = (await (await api("otherOwner").get(`/api/admin/branches/${nampa}`)).json()) as { archivedAt: string | null };
   expect(archived.archivedAt).not.toBeNull();
   expect(((await (await api("owner").get(`/api/admin/branches/${branch.COL}`)).json()) as { name: string }).name).toBe("Columbus");
 });
 
 test("settings: read by the owner and the officer, changed only by the owner, of their own organisation", async () => {
-  await expectStatuses((a) => a.get("/api/admin/settings"), { anonymous: 401, owner: 200, officer: 200, manager: 403, technician: 403, inspector: 403, otherOwner: 200 });
+  await expectStatuses((a) => a.get("/api/admin/settings"), {
+    anonymous: 401,
+    owner: 200,
+    officer: 200,
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherOwner: 200,
+  });
   const mine = (await (await api("owner").get("/api/admin/settings")).json()) as { name: string };
-  const theirs = (await (await api("otherOwner").get("/api/admin/settings")).json()) as Record<string, unknown> & { name: string; rulePacks: string[]; settings: Record<string, unknown> };
+  const theirs = (await (await api("otherOwner").get("/api/admin/settings")).json()) as Record<string, unknown> & {
+    name: string;
+    rulePacks: string[];
+    settings: Record<string, unknown>;
+  };
   expect(mine.name).toBe("Kestrelmoor Climate Services");
   expect(theirs.name).not.toBe(mine.name);
 
   const same = { name: theirs.name, rulePacks: theirs.rulePacks, ...theirs.settings };
-  await expectStatuses((a) => a.put("/api/admin/settings", { data: same }), { anonymous: 401, officer: 403, manager: 403, technician: 403, inspector: 403, otherManager: 403 });
+  await expectStatuses((a) => a.put("/api/admin/settings", { data: same }), {
+    anonymous: 401,
+    officer: 403,
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherManager: 403,
+  });
   const bad = await api("owner").put("/api/admin/settings", { data: { ...same, name: mine.name, ptTolerancePsi: -3, rulePacks: [] } });
   expect(bad.status()).toBe(400);
   expect(Object.keys((await bad.json()).error.fieldErrors).sort()).toEqual(["ptTolerancePsi", "rulePacks"]);
 
-  const changed = await api("otherOwner").put("/api/admin/settings", { data: { ...same, ptTolerancePsi: 3, rulePacks: ["us_federal", "eu"] } });
+  const changed = await api("otherOwner").put("/api/admin/settings", {
+    data: { ...same, ptTolerancePsi: 3, rulePacks: ["us_federal", "eu"] },
+  });
   expect(changed.status()).toBe(200);
   expect(await changed.json()).toMatchObject({ rulePacks: ["us_federal", "eu"], settings: { ptTolerancePsi: 3 } });
   // Put the second organisation back as it was, and check the first never changed.
@@ -218,17 +346,42 @@ test("settings: read by the owner and the officer, changed only by the owner, of
 });
 
 test("inspector access: listed for the owner and officer, given and withdrawn by them, in their own organisation only", async () => {
-  await expectStatuses((a) => a.get("/api/admin/inspector-grants"), { anonymous: 401, owner: 200, officer: 200, manager: 403, technician: 403, inspector: 403, otherOwner: 200 });
-  const theirs = ((await (await api("otherOwner").get("/api/admin/inspector-grants?pageSize=200")).json()) as { rows: { inspectorEmail: string }[] }).rows;
+  await expectStatuses((a) => a.get("/api/admin/inspector-grants"), {
+    anonymous: 401,
+    owner: 200,
+    officer: 200,
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherOwner: 200,
+  });
+  const theirs = (
+    (await (await api("otherOwner").get("/api/admin/inspector-grants?pageSize=200")).json()) as { rows: { inspectorEmail: string }[] }
+  ).rows;
   expect(theirs.map((g) => g.inspectorEmail)).not.toContain(DEMO.inspector);
 
   const inDays = (n: number) => new Date(Date.now() + n * 24 * 3600 * 1000).toISOString().slice(0, 10);
-  const body = { email: `authz.inspector.${stamp}@cold-review.example`, name: "Matrix Inspector", branchIds: [branch.COL], recordsFrom: "2025-01-01", recordsTo: "2025-03-31", expiresOn: inDays(20) };
-  await expectStatuses((a) => a.post("/api/admin/inspector-grants", { data: body }), { anonymous: 401, manager: 403, technician: 403, inspector: 403, otherManager: 403 });
+  const body = {
+    email: `authz.inspector.${stamp}@cold-review.example`,
+    name: "Matrix Inspector",
+    branchIds: [branch.COL],
+    recordsFrom: "2025-01-01",
+    recordsTo: "2025-03-31",
+    expiresOn: inDays(20),
+  };
+  await expectStatuses((a) => a.post("/api/admin/inspector-grants", { data: body }), {
+    anonymous: 401,
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherManager: 403,
+  });
   const crossOrg = await api("otherOwner").post("/api/admin/inspector-grants", { data: body });
   expect(crossOrg.status()).toBe(400);
   expect((await crossOrg.json()).error.fieldErrors.branchIds).toBeTruthy();
-  const badWindow = await api("officer").post("/api/admin/inspector-grants", { data: { ...body, recordsFrom: "2025-06-01", recordsTo: "2025-01-01" } });
+  const badWindow = await api("officer").post("/api/admin/inspector-grants", {
+    data: { ...body, recordsFrom: "2025-06-01", recordsTo: "2025-01-01" },
+  });
   expect(badWindow.status()).toBe(400);
   expect((await badWindow.json()).error.fieldErrors.recordsTo).toBeTruthy();
   const employee = await api("officer").post("/api/admin/inspector-grants", { data: { ...body, email: DEMO.managerColumbus } });
@@ -238,7 +391,13 @@ test("inspector access: listed for the owner and officer, given and withdrawn by
   const created = await api("officer").post("/api/admin/inspector-grants", { data: body });
   expect(created.status()).toBe(201);
   testGrant = ((await created.json()) as { id: number }).id;
-  await expectStatuses((a) => a.post(`/api/admin/inspector-grants/${testGrant}/invitation`), { manager: 403, technician: 403, inspector: 403, otherOwner: 404, officer: 200 });
+  await expectStatuses((a) => a.post(`/api/admin/inspector-grants/${testGrant}/invitation`), {
+    manager: 403,
+    technician: 403,
+    inspector: 403,
+    otherOwner: 404,
+    officer: 200,
+  });
   await expectStatuses((a) => a.post(`/api/admin/inspector-grants/${testGrant}/revoke`), {
     anonymous: 401,
     manager: 403,

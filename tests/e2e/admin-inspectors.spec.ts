@@ -66,7 +66,9 @@ test("the officer gives a new inspector access to Peoria, records of 2025-01-01 
   await expect(row).toContainText(`${WINDOW.from} – ${WINDOW.to}`);
   await expect(row).toContainText("Invitation sent");
   await snap(page, "admin-grants-open");
-  const listed = (await (await page.request.get("/api/admin/inspector-grants?state=active&pageSize=200")).json()) as { rows: { id: number; inspectorEmail: string }[] };
+  const listed = (await (await page.request.get("/api/admin/inspector-grants?state=active&pageSize=200")).json()) as {
+    rows: { id: number; inspectorEmail: string }[];
+  };
   grantId = listed.rows.find((g) => g.inspectorEmail === inspector.email)!.id;
   await officer.close();
 

@@ -32,7 +32,12 @@ test("the owner invites a branch manager for Tucson; the e-mail arrives with a s
   const page = await owner.newPage();
   await page.goto("/admin");
   await expect(page).toHaveURL(/\/admin\/people$/);
-  await expect(page.getByRole("navigation", { name: "Organisation" }).getByRole("link")).toHaveText(["People", "Branches", "Inspector access", "Settings"]);
+  await expect(page.getByRole("navigation", { name: "Organisation" }).getByRole("link")).toHaveText([
+    "People",
+    "Branches",
+    "Inspector access",
+    "Settings",
+  ]);
   await expect(page.getByTestId("person-row").first()).toBeVisible();
   await snap(page, "admin-people-owner");
 
@@ -165,7 +170,10 @@ test("a password reset by e-mail works once, and the form never tells whether an
   await fresh.close();
   const old = await browser.newContext();
   const csrf = (await (await old.request.get("/api/auth/csrf")).json()) as { csrfToken: string };
-  await old.request.post("/api/auth/callback/credentials", { form: { csrfToken: csrf.csrfToken, email: invitee.email, password: FIRST_PASSWORD, json: "true" }, maxRedirects: 0 });
+  await old.request.post("/api/auth/callback/credentials", {
+    form: { csrfToken: csrf.csrfToken, email: invitee.email, password: FIRST_PASSWORD, json: "true" },
+    maxRedirects: 0,
+  });
   expect((await (await old.request.get("/api/auth/session")).json())?.user).toBeUndefined();
   await old.close();
 
@@ -226,7 +234,10 @@ test("the owner deactivates the invitee: they can no longer sign in, and their h
 
   const again = await browser.newContext();
   const csrf = (await (await again.request.get("/api/auth/csrf")).json()) as { csrfToken: string };
-  await again.request.post("/api/auth/callback/credentials", { form: { csrfToken: csrf.csrfToken, email: invitee.email, password: SECOND_PASSWORD, json: "true" }, maxRedirects: 0 });
+  await again.request.post("/api/auth/callback/credentials", {
+    form: { csrfToken: csrf.csrfToken, email: invitee.email, password: SECOND_PASSWORD, json: "true" },
+    maxRedirects: 0,
+  });
   expect((await (await again.request.get("/api/auth/session")).json())?.user).toBeUndefined();
   await again.close();
 });

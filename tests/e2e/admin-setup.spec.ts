@@ -93,7 +93,10 @@ test("the owner changes the settings, each explained with its default, and puts 
   await page.getByRole("checkbox", { name: /European Union/ }).uncheck();
   await page.getByRole("button", { name: "Save the settings" }).click();
   await expect(page.getByRole("status")).toContainText("Settings saved");
-  const saved = (await (await page.request.get("/api/admin/settings")).json()) as { rulePacks: string[]; settings: Record<string, unknown> };
+  const saved = (await (await page.request.get("/api/admin/settings")).json()) as {
+    rulePacks: string[];
+    settings: Record<string, unknown>;
+  };
   expect(saved.rulePacks).toEqual(["us_federal"]);
   expect(saved.settings).toMatchObject({ ptTolerancePsi: 5, requalificationYears: 5, strictFill130F: false });
   await owner.close();

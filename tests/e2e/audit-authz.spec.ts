@@ -76,17 +76,26 @@ test.describe.serial("who may use the audit and finding routes", () => {
     const before = ((await (await ctx.officer!.get("/api/audits?pageSize=1")).json()) as { total: number }).total;
     const bad = await ctx.officer!.post("/api/audits", { data: { ...body, periodFrom: todayUtc(), periodTo: "2026-01-01" } });
     expect(bad.status()).toBe(400);
-    expect(((await bad.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.periodTo).toEqual(["The period must end on or after its first day"]);
+    expect(((await bad.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.periodTo).toEqual([
+      "The period must end on or after its first day",
+    ]);
     const noPacks = await ctx.officer!.post("/api/audits", { data: { ...body, packs: [] } });
-    expect(((await noPacks.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.packs).toEqual(["Choose at least one rule pack"]);
+    expect(((await noPacks.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.packs).toEqual([
+      "Choose at least one rule pack",
+    ]);
     const after = ((await (await ctx.officer!.get("/api/audits?pageSize=1")).json()) as { total: number }).total;
     expect(after).toBe(before);
 
     // Reading: the Columbus manager sees the audit, summarised for Columbus only.
-    const asManager = (await (await ctx.managerCol!.get(`/api/audits/${audit.id}`)).json()) as { summary: { branches: { branchName: string }[] }; partial: boolean };
+    const asManager = (await (await ctx.managerCol!.get(`/api/audits/${audit.id}`)).json()) as {
+      summary: { branches: { branchName: string }[] };
+      partial: boolean;
+    };
     expect(asManager.summary.branches.map((b) => b.branchName)).toEqual(["Columbus"]);
     expect(asManager.partial).toBe(true);
-    const asInspector = (await (await ctx.inspector!.get(`/api/audits/${audit.id}`)).json()) as { summary: { branches: { branchName: string }[] } };
+    const asInspector = (await (await ctx.inspector!.get(`/api/audits/${audit.id}`)).json()) as {
+      summary: { branches: { branchName: string }[] };
+    };
     expect(asInspector.summary.branches.map((b) => b.branchName)).toEqual(["Denver"]);
     expect((await ctx.tech!.get(`/api/audits/${audit.id}`)).status()).toBe(403);
     expect((await ctx.otherManager!.get(`/api/audits/${audit.id}`)).status()).toBe(404);
@@ -148,31 +157,57 @@ test.describe.serial("who may use the audit and finding routes", () => {
   });
 
   test("finding writes: each role only what it may, on its own branch; nothing changes on a refusal", async () => {
-    const colManagerId = (await (await ctx.officer!.get(`/api/findings/assignees?branchIds=${colFinding.branchId}`)).json()) as { rows: { id: number; name: string }[] };
+    const colManagerId = (await (await ctx.officer!.get(`/api/findings/assignees?branchIds=${colFinding.branchId}`)).json()) as {
+      rows: { id: number; name: string }[];
+    };
     const grant = colManagerId.rows.find((r) => r.name === "Grant Oyelaran")!;
     for (const key of ["managerCol", "managerTuc", "tech", "inspector"]) {
-      expect((await ctx[key]!.post("/api/findings/assign", { data: { findingIds: [colFinding.id], assigneeId: grant.id } })).status(), `${key} assigns`).toBe(403);
+      expect(
+        (await ctx[key]!.post("/api/findings/assign", { data: { findingIds: [colFinding.id], assigneeId: grant.id } })).status(),
+        `${key} assigns`,
+      ).toBe(403);
       expect((await ctx[key]!.get("/api/findings/assignees")).status(), `${key} lists assignees`).toBe(403);
       for (const action of ["accept", "reopen", "waive"]) {
-        expect((await ctx[key]!.post(`/api/findings/${colFinding.id}/${action}`, { data: { reason: "Because I say so, at length", note: "x" } })).status(), `${key} ${action}`).toBe(403);
+        expect(
+          (
+            await ctx[key]!.post(`/api/findings/${colFinding.id}/${action}`, { data: { reason: "Because I say so, at length", note: "x" } })
+          ).status(),
+          `${key} ${action}`,
+        ).toBe(403);
       }
     }
-    expect((await ctx.otherOwner!.post("/api/findings/assign", { data: { findingIds: [colFinding.id], assigneeId: grant.id } })).status()).toBe(404);
-    expect((await ctx.officer!.post("/api/findings/assign", { data: { findingIds: [colFinding.id], assigneeId: 999999 } })).status()).toBe(400);
+    expect(
+      (await ctx.otherOwner!.post("/api/findings/assign", { data: { findingIds: [colFinding.id], assigneeId: grant.id } })).status(),
+    ).toBe(404);
+    expect((await ctx.officer!.post("/api/findings/assign", { data: { findingIds: [colFinding.id], assigneeId: 999999 } })).status()).toBe(
+      400,
+    );
 
     // Proposing a fix: the own branch's manager only.
     expect((await ctx.tech!.post(`/api/findings/${techFinding.id}/propose-fix`, { data: { note: "Fixed it myself" } })).status()).toBe(403);
     expect((await ctx.inspector!.post(`/api/findings/${denFinding.id}/propose-fix`, { data: { note: "Looks fixed" } })).status()).toBe(403);
-    expect((await ctx.managerTuc!.post(`/api/findings/${colFinding.id}/propose-fix`, { data: { note: "Not my branch" } })).status()).toBe(404);
-    expect((await ctx.otherManager!.post(`/api/findings/${colFinding.id}/propose-fix`, { data: { note: "Not my company" } })).status()).toBe(404);
+    expect((await ctx.managerTuc!.post(`/api/findings/${colFinding.id}/propose-fix`, { data: { note: "Not my branch" } })).status()).toBe(
+      404,
+    );
+    expect(
+      (await ctx.otherManager!.post(`/api/findings/${colFinding.id}/propose-fix`, { data: { note: "Not my company" } })).status(),
+    ).toBe(404);
     const short = await ctx.managerCol!.post(`/api/findings/${colFinding.id}/propose-fix`, { data: { note: "ok" } });
     expect(short.status()).toBe(400);
-    expect(((await short.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.note?.[0]).toContain("at least 5 characters");
-    const path = await ctx.managerCol!.post(`/api/findings/${colFinding.id}/evidence`, { multipart: { file: { name: "../../etc/passwd.png", mimeType: "image/png", buffer: Buffer.from("not really") } } });
+    expect(((await short.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.note?.[0]).toContain(
+      "at least 5 characters",
+    );
+    const path = await ctx.managerCol!.post(`/api/findings/${colFinding.id}/evidence`, {
+      multipart: { file: { name: "../../etc/passwd.png", mimeType: "image/png", buffer: Buffer.from("not really") } },
+    });
     expect(path.status()).toBe(400);
-    const fake = await ctx.managerCol!.post(`/api/findings/${colFinding.id}/evidence`, { multipart: { file: { name: "photo.png", mimeType: "image/png", buffer: Buffer.from("MZ this is a program, not a photo") } } });
+    const fake = await ctx.managerCol!.post(`/api/findings/${colFinding.id}/evidence`, {
+      multipart: { file: { name: "photo.png", mimeType: "image/png", buffer: Buffer.from("MZ this is a program, not a photo") } },
+    });
     expect(fake.status()).toBe(400);
-    expect(((await fake.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.file?.[0]).toContain("Only photos");
+    expect(((await fake.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.file?.[0]).toContain(
+      "Only photos",
+    );
     const unchanged = (await (await ctx.officer!.get(`/api/findings/${colFinding.id}`)).json()) as { state: string; evidence: unknown[] };
     expect(unchanged.state).toBe("open");
     expect(unchanged.evidence).toEqual([]);
@@ -187,15 +222,21 @@ test.describe.serial("who may use the audit and finding routes", () => {
 
     // Comments: inspectors only read; a technician comments on findings naming them only.
     expect((await ctx.inspector!.post(`/api/findings/${denFinding.id}/comments`, { data: { body: "Noted" } })).status()).toBe(403);
-    expect((await ctx.tech!.post(`/api/findings/${techFinding.id}/comments`, { data: { body: "I will fix this on Monday" } })).status()).toBe(201);
+    expect(
+      (await ctx.tech!.post(`/api/findings/${techFinding.id}/comments`, { data: { body: "I will fix this on Monday" } })).status(),
+    ).toBe(201);
     expect((await ctx.tech!.post(`/api/findings/${colFinding.id}/comments`, { data: { body: "Hello" } })).status()).toBe(404);
   });
 
   test("saved views belong to one person; dashboards follow the branch permission", async () => {
-    const saved = await ctx.officer!.post("/api/saved-views", { data: { name: "Overdue criticals", query: { state: "active", severity: "critical", due: "overdue", sort: "due", dir: "asc" } } });
+    const saved = await ctx.officer!.post("/api/saved-views", {
+      data: { name: "Overdue criticals", query: { state: "active", severity: "critical", due: "overdue", sort: "due", dir: "asc" } },
+    });
     expect(saved.status()).toBe(201);
     const view = (await saved.json()) as { id: number };
-    expect(((await (await ctx.officer2!.get("/api/saved-views")).json()) as { rows: { id: number }[] }).rows.map((r) => r.id)).not.toContain(view.id);
+    expect(
+      ((await (await ctx.officer2!.get("/api/saved-views")).json()) as { rows: { id: number }[] }).rows.map((r) => r.id),
+    ).not.toContain(view.id);
     expect((await ctx.officer2!.delete(`/api/saved-views/${view.id}`)).status()).toBe(404);
     expect((await ctx.otherManager!.delete(`/api/saved-views/${view.id}`)).status()).toBe(404);
     const badView = await ctx.officer!.post("/api/saved-views", { data: { name: "", query: {} } });
@@ -209,7 +250,10 @@ test.describe.serial("who may use the audit and finding routes", () => {
     expect((await ctx.managerTuc!.get(`/api/dashboard/branches/${colId}`)).status()).toBe(404);
     expect((await ctx.tech!.get(`/api/dashboard/branches/${colId}`)).status()).toBe(404);
     expect((await ctx.inspector!.get(`/api/dashboard/branches/${colId}`)).status()).toBe(404);
-    const insp = (await (await ctx.inspector!.get(`/api/dashboard/branches/${denId}`)).json()) as { leakWatchlist: unknown; flows: { month: string; recoveredG: number }[] };
+    const insp = (await (await ctx.inspector!.get(`/api/dashboard/branches/${denId}`)).json()) as {
+      leakWatchlist: unknown;
+      flows: { month: string; recoveredG: number }[];
+    };
     expect(insp.leakWatchlist).toBeNull();
     // The inspector's window is calendar 2025: no refrigerant of a later month reaches them.
     expect(insp.flows.filter((f) => f.month > "2025-12").every((f) => f.recoveredG === 0)).toBe(true);

@@ -58,7 +58,13 @@ export async function waitForAudit(request: APIRequestContext, id: number): Prom
 export async function allFindings(request: APIRequestContext, filters: Record<string, string | number> = {}): Promise<FindingRow[]> {
   const rows: FindingRow[] = [];
   for (let page = 1; ; page++) {
-    const params = new URLSearchParams({ state: "all", pageSize: "200", page: String(page), sort: "due", ...Object.fromEntries(Object.entries(filters).map(([k, v]) => [k, String(v)])) });
+    const params = new URLSearchParams({
+      state: "all",
+      pageSize: "200",
+      page: String(page),
+      sort: "due",
+      ...Object.fromEntries(Object.entries(filters).map(([k, v]) => [k, String(v)])),
+    });
     const res = await request.get(`/api/findings?${params}`);
     expect(res.ok(), `GET /api/findings?${params} → ${res.status()}`).toBeTruthy();
     const body = (await res.json()) as { rows: FindingRow[]; total: number };
@@ -68,13 +74,22 @@ export async function allFindings(request: APIRequestContext, filters: Record<st
 }
 
 /** Starts an audit of the organisation's branches through the API and waits for it. */
-export async function runAuditApi(request: APIRequestContext, input: { branchIds?: number[]; periodFrom?: string; periodTo?: string } = {}): Promise<AuditRow> {
-  const branchIds = input.branchIds ?? ((await (await request.get("/api/lookup/branches")).json()) as { rows: { id: number }[] }).rows.map((b) => b.id);
-  const res = await request.post("/api/audits", { data: { branchIds, periodFrom: input.periodFrom ?? "2024-12-01", periodTo: input.periodTo ?? todayUtc(), packs: ["us_federal"] } });
+export async function runAuditApi(
+  request: APIRequestContext,
+  input: { branchIds?: number[]; periodFrom?: string; periodTo?: string } = {},
+): Promise<AuditRow> {
+  const branchIds =
+    input.branchIds ?? ((await (await request.get("/api/lookup/branches")).json()) as { rows: { id: number }[] }).rows.map((b) => b.id);
+  const res = await request.post("/api/audits", {
+    data: { branchIds, periodFrom: input.periodFrom ?? "2024-12-01", periodTo: input.periodTo ?? todayUtc(), packs: ["us_federal"] },
+  });
   expect(res.status()).toBe(201);
   const { id } = (await res.json()) as { id: number };
   return waitForAudit(request, id);
 }
 
 /** A 1×1 PNG, a real image by its bytes (for evidence uploads). */
-export const TINY_PNG = Buffer.from("iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8z8BQDwAEhQGAhKmMIQAAAABJRU5ErkJggg==", "base64");
+export const TINY_PNG = Buffer.from(
+  "iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8z8BQDwAEhQGAhKmMIQAAAABJRU5ErkJggg==",
+  "base64",
+);

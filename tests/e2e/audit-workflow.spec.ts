@@ -14,7 +14,13 @@ import { allFindings, TINY_PNG, todayIn, todayUtc, waitForAudit, type FindingRow
  */
 
 const SEVERITY_WORDS = { critical: "Critical", major: "Major", minor: "Minor" } as const;
-const STATE_WORDS = { open: "Open", fix_proposed: "Fix proposed", closed: "Closed", waived: "Waived", no_longer_found: "No longer found" } as const;
+const STATE_WORDS = {
+  open: "Open",
+  fix_proposed: "Fix proposed",
+  closed: "Closed",
+  waived: "Waived",
+  no_longer_found: "No longer found",
+} as const;
 
 const matches = (gap: (typeof PLANTED_GAPS)[number]) => (f: FindingRow) =>
   gap.ruleIds.includes(f.ruleId) && f.branchName === gap.branch && (f.applianceTag === gap.record || f.recordLabel.includes(gap.record));
@@ -54,7 +60,10 @@ test.describe.serial("audits end to end", () => {
 
     findings = await allFindings(officer.request, { auditId });
     for (const gap of PLANTED_GAPS) {
-      expect(findings.filter(matches(gap)).length, `planted gap ${gap.gap}: ${gap.ruleIds.join("/")} on ${gap.record} in ${gap.branch}`).toBeGreaterThanOrEqual(1);
+      expect(
+        findings.filter(matches(gap)).length,
+        `planted gap ${gap.gap}: ${gap.ruleIds.join("/")} on ${gap.record} in ${gap.branch}`,
+      ).toBeGreaterThanOrEqual(1);
     }
     const audit = await waitForAudit(officer.request, auditId);
     expect(audit.summary!.totals.found).toBe(findings.length);
@@ -62,14 +71,23 @@ test.describe.serial("audits end to end", () => {
     // The findings table: filter by rule, group by branch.
     await page.goto("/findings?ruleId=CT-CERT-01&groupBy=branch&state=all");
     await expect(page.getByTestId("finding-group").first()).toBeVisible();
-    await expect(page.getByTestId("finding-row").filter({ hasText: "Caleb Runyon" }).or(page.getByTestId("finding-row").filter({ hasText: "COL-RTU-901" })).first()).toBeVisible();
+    await expect(
+      page
+        .getByTestId("finding-row")
+        .filter({ hasText: "Caleb Runyon" })
+        .or(page.getByTestId("finding-row").filter({ hasText: "COL-RTU-901" }))
+        .first(),
+    ).toBeVisible();
     const rules = await page.getByTestId("finding-row").evaluateAll((rows) => rows.map((r) => r.getAttribute("data-rule")));
     expect(new Set(rules)).toEqual(new Set(["CT-CERT-01"]));
     await snap(page, "findings-grouped-by-branch");
     await officer.close();
   });
 
-  test("the officer assigns a finding; the branch manager proposes a fix with evidence; the officer accepts; the e-mails arrive", async ({ browser, request }) => {
+  test("the officer assigns a finding; the branch manager proposes a fix with evidence; the officer accepts; the e-mails arrive", async ({
+    browser,
+    request,
+  }) => {
     assigned = findings.find(matches(PLANTED_GAPS.find((g) => g.gap === "G11")!))!;
     expect(assigned.state).toBe("open");
 
@@ -85,7 +103,11 @@ test.describe.serial("audits end to end", () => {
     await expect(page.getByRole("status")).toContainText("Assigned 1 finding to Grant Oyelaran");
     await expect(row).toContainText("Grant Oyelaran");
 
-    await expect.poll(async () => (await mailTo(request, DEMO.managerColumbus)).filter((m) => m.subject.includes("CT-EVAC-01")).length, { timeout: 15_000 }).toBeGreaterThan(0);
+    await expect
+      .poll(async () => (await mailTo(request, DEMO.managerColumbus)).filter((m) => m.subject.includes("CT-EVAC-01")).length, {
+        timeout: 15_000,
+      })
+      .toBeGreaterThan(0);
     const assignedMail = (await mailTo(request, DEMO.managerColumbus)).filter((m) => m.subject.includes("CT-EVAC-01")).pop()!;
     expect(assignedMail.subject).toBe(`Finding assigned to you: CT-EVAC-01 ${assigned.title}`);
     expect(assignedMail.text).toContain("Teodora Vasquez-Lind assigned a finding to you");
@@ -99,15 +121,23 @@ test.describe.serial("audits end to end", () => {
     await expect(mpage.getByRole("heading", { name: new RegExp(assigned.title) })).toBeVisible();
     await expect(mpage.getByTestId("finding-detail")).toContainText("15 in Hg vacuum is required");
     await expect(mpage.getByTestId("finding-record-link")).toHaveAttribute("href", `/jobs/${assigned.recordId}`);
-    await mpage.getByLabel("What was done to fix it").fill("Recovered the condenser bundle again with COL-RE-01 down to 20 in Hg and logged the reading.");
-    await mpage.getByLabel("Evidence (optional): a photo or PDF").setInputFiles({ name: "gauge reading.png", mimeType: "image/png", buffer: TINY_PNG });
+    await mpage
+      .getByLabel("What was done to fix it")
+      .fill("Recovered the condenser bundle again with COL-RE-01 down to 20 in Hg and logged the reading.");
+    await mpage
+      .getByLabel("Evidence (optional): a photo or PDF")
+      .setInputFiles({ name: "gauge reading.png", mimeType: "image/png", buffer: TINY_PNG });
     await mpage.getByRole("button", { name: "Propose as fixed" }).click();
     await expect(mpage.getByRole("status")).toContainText("Fix proposed");
     await expect(mpage.getByTestId("finding-status")).toContainText("Fix proposed");
     await expect(mpage.getByTestId("evidence-list")).toContainText("gauge reading.png");
     await snap(mpage, "finding-fix-proposed-manager");
 
-    await expect.poll(async () => (await mailTo(request, DEMO.officer)).filter((m) => m.subject.startsWith("Fix proposed: CT-EVAC-01")).length, { timeout: 15_000 }).toBeGreaterThan(0);
+    await expect
+      .poll(async () => (await mailTo(request, DEMO.officer)).filter((m) => m.subject.startsWith("Fix proposed: CT-EVAC-01")).length, {
+        timeout: 15_000,
+      })
+      .toBeGreaterThan(0);
     const proposedMail = (await mailTo(request, DEMO.officer)).filter((m) => m.subject.startsWith("Fix proposed: CT-EVAC-01")).pop()!;
     expect(proposedMail.text).toContain("Grant Oyelaran proposed a fix");
     expect(proposedMail.text).toContain("down to 20 in Hg");
@@ -126,14 +156,21 @@ test.describe.serial("audits end to end", () => {
     await expect(page.getByTestId("finding-status")).toContainText("Closed");
     await expect(page.getByTestId("finding-history")).toContainText("Fix accepted");
     await snap(page, "finding-closed-officer");
-    const detail = (await (await officer.request.get(`/api/findings/${assigned.id}`)).json()) as { state: string; events: { action: string }[] };
+    const detail = (await (await officer.request.get(`/api/findings/${assigned.id}`)).json()) as {
+      state: string;
+      events: { action: string }[];
+    };
     expect(detail.state).toBe("closed");
     expect(detail.events.map((e) => e.action)).toEqual(expect.arrayContaining(["opened", "assigned", "fix_proposed", "accepted"]));
 
     // The digest: the officer asks for today's, which lists overdue findings.
     const digest = await officer.request.post("/api/findings/digest");
     expect(digest.ok()).toBeTruthy();
-    await expect.poll(async () => (await mailTo(request, DEMO.officer)).filter((m) => m.subject.startsWith("Coldtrail digest")).length, { timeout: 15_000 }).toBeGreaterThan(0);
+    await expect
+      .poll(async () => (await mailTo(request, DEMO.officer)).filter((m) => m.subject.startsWith("Coldtrail digest")).length, {
+        timeout: 15_000,
+      })
+      .toBeGreaterThan(0);
     const digestMail = (await mailTo(request, DEMO.officer)).filter((m) => m.subject.startsWith("Coldtrail digest")).pop()!;
     expect(digestMail.text).toMatch(/OVERDUE since \d{4}-\d{2}-\d{2}/);
     expect(digestMail.html).toContain("Open your findings");
@@ -144,12 +181,20 @@ test.describe.serial("audits end to end", () => {
     await Promise.all([officer.close(), manager.close(), other.close()]);
   });
 
-  test("a job saved after the audit raises its finding at once; fixing the record and running the audit again closes it as no longer found", async ({ browser }) => {
+  test("a job saved after the audit raises its finding at once; fixing the record and running the audit again closes it as no longer found", async ({
+    browser,
+  }) => {
     const tech = await contextAs(browser, DEMO.technicianColumbus);
-    const { rows: appliances } = (await (await tech.request.get("/api/lookup/appliances?limit=50")).json()) as { rows: { id: number; tag: string; category: string; refrigerant: string; branchId: number }[] };
+    const { rows: appliances } = (await (await tech.request.get("/api/lookup/appliances?limit=50")).json()) as {
+      rows: { id: number; tag: string; category: string; refrigerant: string; branchId: number }[];
+    };
     const appliance = appliances.find((a) => a.category === "residential_split")!;
-    const { rows: cylinders } = (await (await tech.request.get(`/api/lookup/cylinders?branchId=${appliance.branchId}`)).json()) as { rows: { id: number }[] };
-    const { rows: equipment } = (await (await tech.request.get(`/api/lookup/equipment?branchId=${appliance.branchId}`)).json()) as { rows: { id: number }[] };
+    const { rows: cylinders } = (await (await tech.request.get(`/api/lookup/cylinders?branchId=${appliance.branchId}`)).json()) as {
+      rows: { id: number }[];
+    };
+    const { rows: equipment } = (await (await tech.request.get(`/api/lookup/equipment?branchId=${appliance.branchId}`)).json()) as {
+      rows: { id: number }[];
+    };
     const created = await tech.request.post("/api/jobs", {
       data: {
         kind: "recovery",
@@ -174,7 +219,9 @@ test.describe.serial("audits end to end", () => {
     await expect
       .poll(
         async () => {
-          raised = (await allFindings(tech.request, { ruleId: "CT-ACCESS-01" })).find((f) => f.recordType === "job" && f.recordId === jobId);
+          raised = (await allFindings(tech.request, { ruleId: "CT-ACCESS-01" })).find(
+            (f) => f.recordType === "job" && f.recordId === jobId,
+          );
           return raised?.state;
         },
         { timeout: 30_000 },
@@ -183,7 +230,9 @@ test.describe.serial("audits end to end", () => {
     expect(raised!.technicianName).toBe("Marcus Delacroix-Byrd");
 
     // The technician corrects the record: the clamp was taken off.
-    const amended = await tech.request.patch(`/api/jobs/${jobId}`, { data: { reason: "The piercing pliers were removed before leaving the site", changes: { temporaryAccessRemoved: true } } });
+    const amended = await tech.request.patch(`/api/jobs/${jobId}`, {
+      data: { reason: "The piercing pliers were removed before leaving the site", changes: { temporaryAccessRemoved: true } },
+    });
     expect(amended.status(), await amended.text()).toBe(200);
 
     const officer = await contextAs(browser, DEMO.officer);
@@ -195,7 +244,10 @@ test.describe.serial("audits end to end", () => {
     const rerunId = Number(new URL(page.url()).pathname.split("/").pop());
     expect(rerunId).toBeGreaterThan(auditId);
 
-    const after = (await (await officer.request.get(`/api/findings/${raised!.id}`)).json()) as { state: string; events: { action: string }[] };
+    const after = (await (await officer.request.get(`/api/findings/${raised!.id}`)).json()) as {
+      state: string;
+      events: { action: string }[];
+    };
     expect(after.state).toBe("no_longer_found");
     expect(after.events.map((e) => e.action)).toContain("no_longer_found");
     // Findings that still hold kept their identity across the re-run.
@@ -212,7 +264,9 @@ test.describe.serial("audits end to end", () => {
     await Promise.all([tech.close(), officer.close()]);
   });
 
-  test("the audit downloads as a spreadsheet that reads back: sheets, headers, one row per finding, values as in the database", async ({ browser }) => {
+  test("the audit downloads as a spreadsheet that reads back: sheets, headers, one row per finding, values as in the database", async ({
+    browser,
+  }) => {
     const officer = await contextAs(browser, DEMO.officer);
     const page = await officer.newPage();
     await page.goto(`/audits/${auditId}`);
@@ -223,7 +277,15 @@ test.describe.serial("audits end to end", () => {
 
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.readFile(file);
-    expect(wb.worksheets.map((w) => w.name)).toEqual(["Summary", "Findings", "Jobs", "Leak rates", "Cylinders", "Certifications", "Disposals"]);
+    expect(wb.worksheets.map((w) => w.name)).toEqual([
+      "Summary",
+      "Findings",
+      "Jobs",
+      "Leak rates",
+      "Cylinders",
+      "Certifications",
+      "Disposals",
+    ]);
 
     const header = (name: string) => (wb.getWorksheet(name)!.getRow(1).values as unknown[]).slice(1);
     expect(header("Findings")).toEqual([
@@ -243,8 +305,19 @@ test.describe.serial("audits end to end", () => {
       "Date of the event",
       "Technician named",
     ]);
-    expect(header("Jobs")).toEqual(expect.arrayContaining(["Job id", "Date", "Recovered (kg)", "Recovered (lb)", "Charged (kg)", "Evacuation reached"]));
-    expect(header("Leak rates")).toEqual(expect.arrayContaining(["Date of addition", "Full charge (kg)", "Days since last addition", "Leak rate (%)", "Threshold (%)", "Over the threshold"]));
+    expect(header("Jobs")).toEqual(
+      expect.arrayContaining(["Job id", "Date", "Recovered (kg)", "Recovered (lb)", "Charged (kg)", "Evacuation reached"]),
+    );
+    expect(header("Leak rates")).toEqual(
+      expect.arrayContaining([
+        "Date of addition",
+        "Full charge (kg)",
+        "Days since last addition",
+        "Leak rate (%)",
+        "Threshold (%)",
+        "Over the threshold",
+      ]),
+    );
     expect(header("Cylinders")).toEqual(expect.arrayContaining(["Serial", "Contents (kg)", "Maximum fill (lb)", "Requalification due"]));
     expect(header("Certifications")).toEqual(expect.arrayContaining(["Technician", "Types", "Verification"]));
     expect(header("Disposals")).toEqual(expect.arrayContaining(["Kind", "Appliance", "Recovered (kg)", "Signed by"]));
@@ -300,7 +373,8 @@ test.describe.serial("audits end to end", () => {
     const officer = await contextAs(browser, DEMO.officer);
     const page = await officer.newPage();
     await page.goto("/");
-    for (const name of ["Columbus", "Tucson", "Denver", "Peoria"]) await expect(page.getByTestId("overview-branch").filter({ hasText: name })).toHaveCount(1);
+    for (const name of ["Columbus", "Tucson", "Denver", "Peoria"])
+      await expect(page.getByTestId("overview-branch").filter({ hasText: name })).toHaveCount(1);
     await expect(page.getByTestId("severity-by-branch-chart")).toBeVisible();
     await expect(page.getByText("How record health is computed.")).toBeVisible();
     await expect(page.getByTestId("health-score").first()).toContainText(/\d+\.\d/);

@@ -43,7 +43,10 @@ async function browserJpeg(page: Page, text: string): Promise<Buffer> {
   return Buffer.from(b64, "base64");
 }
 
-async function uploadByApi(request: APIRequestContext, opts: { number: string; file: { name: string; mimeType: string; buffer: Buffer }; types?: string[] }) {
+async function uploadByApi(
+  request: APIRequestContext,
+  opts: { number: string; file: { name: string; mimeType: string; buffer: Buffer }; types?: string[] },
+) {
   const multipart: Record<string, string | { name: string; mimeType: string; buffer: Buffer }> = {
     certifyingOrganisation: ORG,
     certificateNumber: opts.number,
@@ -60,7 +63,9 @@ async function uploadByApi(request: APIRequestContext, opts: { number: string; f
 }
 
 test.describe("a technician adds a certification card from a phone", () => {
-  test("a real photo is accepted, stored under our own key in object storage with a thumbnail, and shown; wrong files are refused", async ({ browser }) => {
+  test("a real photo is accepted, stored under our own key in object storage with a thumbnail, and shown; wrong files are refused", async ({
+    browser,
+  }) => {
     const tech = await contextAs(browser, DEMO.technicianColumbus, phone);
     const page = await tech.newPage();
     const number = `CT-${stamp()}`;
@@ -92,7 +97,9 @@ test.describe("a technician adds a certification card from a phone", () => {
     await page.getByRole("button", { name: "Send the card for verification" }).click();
     await expect(page.getByText("Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded")).toBeVisible();
     await snap(page, "cards-phone-upload-refused-executable");
-    const mineAfterRefusal = (await (await tech.request.get("/api/certifications?mine=1&pageSize=100")).json()) as { rows: Array<{ certificateNumber: string }> };
+    const mineAfterRefusal = (await (await tech.request.get("/api/certifications?mine=1&pageSize=100")).json()) as {
+      rows: Array<{ certificateNumber: string }>;
+    };
     expect(mineAfterRefusal.rows.some((r) => r.certificateNumber === number)).toBe(false);
 
     // A real JPEG (drawn by the browser) is accepted.
@@ -139,19 +146,34 @@ test.describe("a technician adds a certification card from a phone", () => {
 
     // A path-like file name is refused, even with a real photo inside; so is an oversize file. Nothing stored.
     const keysBefore = await s3Keys("certifications/");
-    const pathLike = await uploadByApi(tech.request, { number: `${number}-P`, file: { name: "../../etc/card.png", mimeType: "image/png", buffer: cardPng() } });
+    const pathLike = await uploadByApi(tech.request, {
+      number: `${number}-P`,
+      file: { name: "../../etc/card.png", mimeType: "image/png", buffer: cardPng() },
+    });
     expect(pathLike.status()).toBe(400);
-    expect(((await pathLike.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.card?.[0]).toContain("file name is not accepted");
+    expect(((await pathLike.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.card?.[0]).toContain(
+      "file name is not accepted",
+    );
     const big = Buffer.concat([cardPng(), Buffer.alloc(11 * 1024 * 1024)]);
-    const oversize = await uploadByApi(tech.request, { number: `${number}-B`, file: { name: "big.png", mimeType: "image/png", buffer: big } });
+    const oversize = await uploadByApi(tech.request, {
+      number: `${number}-B`,
+      file: { name: "big.png", mimeType: "image/png", buffer: big },
+    });
     expect(oversize.status()).toBe(400);
     expect(JSON.stringify(await oversize.json())).toContain("larger than 10 MB");
     expect((await s3Keys("certifications/")).size).toBe(keysBefore.size);
 
     // A real PNG and a real PDF are accepted too (PDFs keep no thumbnail).
-    const png = await uploadByApi(tech.request, { number: `${number}-G`, file: { name: "card.png", mimeType: "image/png", buffer: cardPng() } });
+    const png = await uploadByApi(tech.request, {
+      number: `${number}-G`,
+      file: { name: "card.png", mimeType: "image/png", buffer: cardPng() },
+    });
     expect(png.status()).toBe(201);
-    const pdf = await uploadByApi(tech.request, { number: `${number}-F`, types: ["type_i", "type_ii"], file: { name: "card scan.pdf", mimeType: "application/pdf", buffer: cardPdf() } });
+    const pdf = await uploadByApi(tech.request, {
+      number: `${number}-F`,
+      types: ["type_i", "type_ii"],
+      file: { name: "card scan.pdf", mimeType: "application/pdf", buffer: cardPdf() },
+    });
     expect(pdf.status()).toBe(201);
     const pdfId = ((await pdf.json()) as { id: number }).id;
     expect((await tech.request.get(`/api/files/certifications/${pdfId}`)).headers()["content-type"]).toBe("application/pdf");
@@ -167,7 +189,10 @@ test.describe("a technician adds a certification card from a phone", () => {
 
   test("another person cannot see the card or its file", async ({ browser }) => {
     const tech = await contextAs(browser, DEMO.technicianColumbus);
-    const res = await uploadByApi(tech.request, { number: `CT-${stamp()}-X`, file: { name: "card.png", mimeType: "image/png", buffer: cardPng() } });
+    const res = await uploadByApi(tech.request, {
+      number: `CT-${stamp()}-X`,
+      file: { name: "card.png", mimeType: "image/png", buffer: cardPng() },
+    });
     expect(res.status()).toBe(201);
     const { id } = (await res.json()) as { id: number };
     for (const email of [DEMO.otherOrgManager, DEMO.managerTucson]) {
@@ -179,19 +204,27 @@ test.describe("a technician adds a certification card from a phone", () => {
     const manager = await contextAs(browser, DEMO.managerColumbus);
     expect((await manager.request.get(`/api/certifications/${id}`)).status()).toBe(200);
     await manager.close();
-    expect((await tech.request.post(`/api/certifications/${id}/withdraw`, { data: { reason: "Test upload, withdrawn" } })).status()).toBe(200);
+    expect((await tech.request.post(`/api/certifications/${id}/withdraw`, { data: { reason: "Test upload, withdrawn" } })).status()).toBe(
+      200,
+    );
     await tech.close();
   });
 });
 
 test.describe("the compliance officer's verification queue", () => {
-  test("not accepted with a reason, then verified; the technician is told by e-mail and in the app; a manager cannot decide", async ({ browser }) => {
+  test("not accepted with a reason, then verified; the technician is told by e-mail and in the app; a manager cannot decide", async ({
+    browser,
+  }) => {
     const tech = await contextAs(browser, DEMO.technicianColumbus, phone);
     const techPage = await tech.newPage();
     await techPage.goto("/certifications");
     const first = `CT-${stamp()}-Q1`;
     const jpeg = await browserJpeg(techPage, first);
-    const up1 = await uploadByApi(tech.request, { number: first, types: ["type_i", "type_ii"], file: { name: "card.jpg", mimeType: "image/jpeg", buffer: jpeg } });
+    const up1 = await uploadByApi(tech.request, {
+      number: first,
+      types: ["type_i", "type_ii"],
+      file: { name: "card.jpg", mimeType: "image/jpeg", buffer: jpeg },
+    });
     expect(up1.status()).toBe(201);
     const id1 = ((await up1.json()) as { id: number }).id;
 
@@ -235,7 +268,9 @@ test.describe("the compliance officer's verification queue", () => {
 
     // The e-mail reaches the technician through the local SMTP fake.
     await expect
-      .poll(async () => (await mailTo(page.request, DEMO.technicianColumbus)).filter((m) => m.text.includes(first)).length, { timeout: 15_000 })
+      .poll(async () => (await mailTo(page.request, DEMO.technicianColumbus)).filter((m) => m.text.includes(first)).length, {
+        timeout: 15_000,
+      })
       .toBe(1);
     const rejectedMail = (await mailTo(page.request, DEMO.technicianColumbus)).find((m) => m.text.includes(first))!;
     expect(rejectedMail.subject).toBe("Your Type I + Type II certification card was not accepted");
@@ -244,7 +279,11 @@ test.describe("the compliance officer's verification queue", () => {
 
     // A second card, verified; a second decision on the first is refused.
     const second = `CT-${stamp()}-Q2`;
-    const up2 = await uploadByApi(tech.request, { number: second, types: ["type_i", "type_ii"], file: { name: "card.png", mimeType: "image/png", buffer: cardPng() } });
+    const up2 = await uploadByApi(tech.request, {
+      number: second,
+      types: ["type_i", "type_ii"],
+      file: { name: "card.png", mimeType: "image/png", buffer: cardPng() },
+    });
     const id2 = ((await up2.json()) as { id: number }).id;
     expect((await officer.request.post(`/api/certifications/${id1}/decision`, { data: { decision: "verify" } })).status()).toBe(409);
     await page.goto("/certifications");
@@ -264,9 +303,15 @@ test.describe("the compliance officer's verification queue", () => {
     await snap(page, "cards-officer-verified-with-history");
 
     await expect
-      .poll(async () => (await mailTo(page.request, DEMO.technicianColumbus)).filter((m) => m.subject === "Your Type I + Type II certification card is verified" && m.text.includes(second)).length, {
-        timeout: 15_000,
-      })
+      .poll(
+        async () =>
+          (await mailTo(page.request, DEMO.technicianColumbus)).filter(
+            (m) => m.subject === "Your Type I + Type II certification card is verified" && m.text.includes(second),
+          ).length,
+        {
+          timeout: 15_000,
+        },
+      )
       .toBe(1);
 
     // In the app: the technician's notices show both decisions.

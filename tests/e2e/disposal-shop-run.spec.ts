@@ -5,7 +5,8 @@ const phone = { ...devices["Pixel 7"], viewport: { width: 390, height: 844 }, de
 delete (phone as { defaultBrowserType?: unknown }).defaultBrowserType;
 
 /** Today in Columbus: records carry the branch's calendar date. */
-const columbusToday = () => new Intl.DateTimeFormat("en-CA", { timeZone: "America/New_York", year: "numeric", month: "2-digit", day: "2-digit" }).format(new Date());
+const columbusToday = () =>
+  new Intl.DateTimeFormat("en-CA", { timeZone: "America/New_York", year: "numeric", month: "2-digit", day: "2-digit" }).format(new Date());
 
 interface ApplianceOption {
   id: number;
@@ -27,21 +28,31 @@ async function pick(api: APIRequestContext, q: string, category: string): Promis
 }
 
 test.describe("retired units scrapped at the shop", () => {
-  test("a technician records the recovery from two retired units at once on a phone; each gets its record or signed statement", async ({ browser }) => {
+  test("a technician records the recovery from two retired units at once on a phone; each gets its record or signed statement", async ({
+    browser,
+  }) => {
     const manager = await contextAs(browser, DEMO.managerColumbus);
     const small = await pick(manager.request, "COL-SA-", "small_appliance");
     const split = await pick(manager.request, "COL-RES-", "residential_split");
     // The branch manager retires both units: they wait at the shop to be scrapped.
     for (const a of [small, split]) {
-      const res = await manager.request.post(`/api/appliances/${a.id}/status`, { data: { status: "retired", on: columbusToday(), reason: "Swapped out; waiting at the shop to be scrapped" } });
+      const res = await manager.request.post(`/api/appliances/${a.id}/status`, {
+        data: { status: "retired", on: columbusToday(), reason: "Swapped out; waiting at the shop to be scrapped" },
+      });
       expect(res.status(), await res.text()).toBe(200);
     }
-    const cylinders = ((await (await manager.request.get(`/api/lookup/cylinders?branchId=${split.branchId}`)).json()) as { rows: { id: number; serial: string; contentsG: number; lastRequalifiedOn: string | null }[] }).rows;
+    const cylinders = (
+      (await (await manager.request.get(`/api/lookup/cylinders?branchId=${split.branchId}`)).json()) as {
+        rows: { id: number; serial: string; contentsG: number; lastRequalifiedOn: string | null }[];
+      }
+    ).rows;
     const cylinder = cylinders.find((c) => c.contentsG === 0 && (c.lastRequalifiedOn ?? "") > "2022-01-01");
     expect(cylinder, "an empty, requalified Columbus cylinder").toBeTruthy();
-    const equipment = ((await (await manager.request.get(`/api/lookup/equipment?branchId=${split.branchId}`)).json()) as { rows: { id: number; serial: string; certificationState: string; systemDependent: boolean; smallApplianceOnly: boolean }[] }).rows.find(
-      (e) => e.certificationState === "certified" && !e.systemDependent && !e.smallApplianceOnly,
-    );
+    const equipment = (
+      (await (await manager.request.get(`/api/lookup/equipment?branchId=${split.branchId}`)).json()) as {
+        rows: { id: number; serial: string; certificationState: string; systemDependent: boolean; smallApplianceOnly: boolean }[];
+      }
+    ).rows.find((e) => e.certificationState === "certified" && !e.systemDependent && !e.smallApplianceOnly);
     await manager.close();
 
     const tech = await contextAs(browser, DEMO.technicianColumbus, phone);
@@ -56,8 +67,14 @@ test.describe("retired units scrapped at the shop", () => {
     await page.getByTestId("shop-unit").filter({ hasText: small.tag }).getByRole("radio", { name: "Not running" }).check();
     await page.getByLabel(`Amount recovered from ${split.tag}`).fill((grams(split) / 453.59237).toFixed(2));
     await page.getByLabel(`Evacuation level reached on ${split.tag}`).fill("4");
-    await page.getByRole("group", { name: "Recovery cylinder" }).getByRole("radio", { name: new RegExp(cylinder!.serial) }).check();
-    await page.getByRole("group", { name: "Recovery equipment" }).getByRole("radio", { name: new RegExp(equipment!.serial) }).check();
+    await page
+      .getByRole("group", { name: "Recovery cylinder" })
+      .getByRole("radio", { name: new RegExp(cylinder!.serial) })
+      .check();
+    await page
+      .getByRole("group", { name: "Recovery equipment" })
+      .getByRole("radio", { name: new RegExp(equipment!.serial) })
+      .check();
     await page.getByRole("radio", { name: "Clamp-on piercing pliers (temporary)" }).check();
     await page.getByRole("radio", { name: "Yes, removed" }).check();
     await page.getByRole("checkbox", { name: /I recovered the refrigerant/ }).check();
@@ -69,9 +86,13 @@ test.describe("retired units scrapped at the shop", () => {
     await expect(page.getByTestId("shop-empty")).toBeVisible();
     await snap(page, "disposal-shop-run-phone-saved");
 
-    const statements = (await (await tech.request.get(`/api/disposals?type=statement&q=${small.tag}`)).json()) as { rows: { applianceTag: string; who: string }[] };
+    const statements = (await (await tech.request.get(`/api/disposals?type=statement&q=${small.tag}`)).json()) as {
+      rows: { applianceTag: string; who: string }[];
+    };
     expect(statements.rows.map((r) => [r.applianceTag, r.who])).toEqual([[small.tag, "Marcus Delacroix-Byrd"]]);
-    const records = (await (await tech.request.get(`/api/disposals?type=record&q=${split.tag}`)).json()) as { rows: { applianceTag: string; refrigerant: string }[] };
+    const records = (await (await tech.request.get(`/api/disposals?type=record&q=${split.tag}`)).json()) as {
+      rows: { applianceTag: string; refrigerant: string }[];
+    };
     expect(records.rows.map((r) => [r.applianceTag, r.refrigerant])).toEqual([[split.tag, "R-410A"]]);
     const jobs = (await (await tech.request.get(`/api/jobs?kind=disposal&q=${split.tag}`)).json()) as { rows: { applianceTag: string }[] };
     expect(jobs.rows.map((r) => r.applianceTag)).toContain(split.tag);

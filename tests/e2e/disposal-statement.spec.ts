@@ -10,10 +10,16 @@ const PDF = Buffer.from(
   "latin1",
 );
 /** A Windows executable renamed to .pdf: refused by its bytes, whatever the name says. */
-const RENAMED_EXE = Buffer.concat([Buffer.from("MZ", "latin1"), Buffer.alloc(126, 0), Buffer.from("PE\0\0", "latin1"), Buffer.alloc(200, 7)]);
+const RENAMED_EXE = Buffer.concat([
+  Buffer.from("MZ", "latin1"),
+  Buffer.alloc(126, 0),
+  Buffer.from("PE\0\0", "latin1"),
+  Buffer.alloc(200, 7),
+]);
 
 /** Today in Columbus: records carry the branch's calendar date. */
-const columbusToday = () => new Intl.DateTimeFormat("en-CA", { timeZone: "America/New_York", year: "numeric", month: "2-digit", day: "2-digit" }).format(new Date());
+const columbusToday = () =>
+  new Intl.DateTimeFormat("en-CA", { timeZone: "America/New_York", year: "numeric", month: "2-digit", day: "2-digit" }).format(new Date());
 
 interface ApplianceOption {
   id: number;
@@ -36,11 +42,19 @@ async function disposeSmallAppliance(api: APIRequestContext): Promise<{ jobId: n
   const small = rows.filter((a) => a.category === "small_appliance").sort((a, b) => (a.tag < b.tag ? 1 : -1));
   expect(small.length, "a small appliance in service in Columbus").toBeGreaterThan(0);
   const appliance = small[0]!;
-  const cylinders = ((await (await api.get(`/api/lookup/cylinders?branchId=${appliance.branchId}`)).json()) as { rows: { id: number; refrigerant: string | null; contentsG: number; lastRequalifiedOn: string | null }[] }).rows;
-  const cylinder = cylinders.find((c) => (c.contentsG === 0 || c.refrigerant === appliance.refrigerant) && (c.lastRequalifiedOn ?? "") > "2022-01-01");
-  const equipment = ((await (await api.get(`/api/lookup/equipment?branchId=${appliance.branchId}`)).json()) as { rows: { id: number; certificationState: string; systemDependent: boolean }[] }).rows.find(
-    (e) => e.certificationState === "certified" && !e.systemDependent,
+  const cylinders = (
+    (await (await api.get(`/api/lookup/cylinders?branchId=${appliance.branchId}`)).json()) as {
+      rows: { id: number; refrigerant: string | null; contentsG: number; lastRequalifiedOn: string | null }[];
+    }
+  ).rows;
+  const cylinder = cylinders.find(
+    (c) => (c.contentsG === 0 || c.refrigerant === appliance.refrigerant) && (c.lastRequalifiedOn ?? "") > "2022-01-01",
   );
+  const equipment = (
+    (await (await api.get(`/api/lookup/equipment?branchId=${appliance.branchId}`)).json()) as {
+      rows: { id: number; certificationState: string; systemDependent: boolean }[];
+    }
+  ).rows.find((e) => e.certificationState === "certified" && !e.systemDependent);
   expect(cylinder && equipment, "a cylinder and certified equipment in Columbus").toBeTruthy();
   const res = await api.post("/api/jobs", {
     data: {
@@ -65,7 +79,9 @@ async function disposeSmallAppliance(api: APIRequestContext): Promise<{ jobId: n
 }
 
 test.describe("a small appliance's disposal statement", () => {
-  test("the technician fills the statement on a phone, attaches the signed PDF, and the document is kept; a bad entry writes nothing", async ({ browser }) => {
+  test("the technician fills the statement on a phone, attaches the signed PDF, and the document is kept; a bad entry writes nothing", async ({
+    browser,
+  }) => {
     const tech = await contextAs(browser, DEMO.technicianColumbus, phone);
     const page = await tech.newPage();
     const { jobId, appliance } = await disposeSmallAppliance(tech.request);
@@ -124,7 +140,9 @@ test.describe("a small appliance's disposal statement", () => {
       },
     });
     expect(refused.status()).toBe(400);
-    expect(((await refused.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.document?.[0]).toContain("Only photos");
+    expect(((await refused.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors.document?.[0]).toContain(
+      "Only photos",
+    );
     expect(await statementsTotal(tech.request)).toBe(before + 1);
 
     // The job now shows its proof on file.

@@ -23,7 +23,9 @@ async function importTotal(request: import("@playwright/test").APIRequestContext
 }
 
 test.describe("spreadsheet import", () => {
-  test("a branch manager imports a workbook with good and bad rows: exactly the good rows are imported and the others reported by row, field and why", async ({ browser }) => {
+  test("a branch manager imports a workbook with good and bad rows: exactly the good rows are imported and the others reported by row, field and why", async ({
+    browser,
+  }) => {
     const manager = await contextAs(browser, DEMO.managerColumbus, { viewport: { width: 1366, height: 900 } });
     const page = await manager.newPage();
     const s = stamp();
@@ -33,7 +35,17 @@ test.describe("spreadsheet import", () => {
     const file = await workbook(
       ["Tag", "Description", "Category", "Refrigerant", "Full charge", "Full charge unit", "Site", "Customer", "Installed on"],
       [
-        [`E2E-${s}-RTU1`, "Rooftop unit over the loading dock", "Packaged rooftop", "R-410A", 14.5, "lb", `Quarry Lane Depot ${s}`, "Quarry Lane Storage", new Date(Date.UTC(2021, 3, 12))],
+        [
+          `E2E-${s}-RTU1`,
+          "Rooftop unit over the loading dock",
+          "Packaged rooftop",
+          "R-410A",
+          14.5,
+          "lb",
+          `Quarry Lane Depot ${s}`,
+          "Quarry Lane Storage",
+          new Date(Date.UTC(2021, 3, 12)),
+        ],
         [`E2E-${s}-BAD1`, "Unit with an unknown kind", "Hovercraft", "R-410A", 10, "lb", `Quarry Lane Depot ${s}`, "", ""],
         [`E2E-${s}-SPL2`, "Office split system", "Residential split", "r32", "2.4 kg", "", `Quarry Lane Depot ${s}`, "", "2022-06-01"],
         [taken, "Copy of a registered tag", "Packaged rooftop", "R-410A", 9, "lb", `Quarry Lane Depot ${s}`, "", ""],
@@ -76,7 +88,12 @@ test.describe("spreadsheet import", () => {
     await snap(page, "imports-checked-preview");
 
     // Nothing is written by the check.
-    const look = async (tag: string) => ((await (await manager.request.get(`/api/lookup/appliances?limit=5&q=${encodeURIComponent(tag)}`)).json()) as { rows: ApplianceOption[] }).rows;
+    const look = async (tag: string) =>
+      (
+        (await (await manager.request.get(`/api/lookup/appliances?limit=5&q=${encodeURIComponent(tag)}`)).json()) as {
+          rows: ApplianceOption[];
+        }
+      ).rows;
     expect(await look(`E2E-${s}`)).toHaveLength(0);
 
     await page.getByRole("button", { name: "Import 3 valid rows" }).click();
@@ -94,7 +111,9 @@ test.describe("spreadsheet import", () => {
     // Another branch's manager neither sees the import nor imports into Columbus.
     const tucson = await contextAs(browser, DEMO.managerTucson);
     expect((await tucson.request.get(`/api/imports/${id}`)).status()).toBe(404);
-    const columbusId = ((await (await manager.request.get("/api/lookup/branches")).json()) as { rows: Array<{ id: number; code: string }> }).rows.find((b) => b.code === "COL")!.id;
+    const columbusId = (
+      (await (await manager.request.get("/api/lookup/branches")).json()) as { rows: Array<{ id: number; code: string }> }
+    ).rows.find((b) => b.code === "COL")!.id;
     const form = new FormData();
     form.set("kind", "appliances");
     form.set("branchId", String(columbusId));
@@ -114,12 +133,16 @@ test.describe("spreadsheet import", () => {
     await page.goto("/imports/new");
     await page.getByLabel("Recovery cylinders").check();
     await page.getByLabel("Branch to import into").selectOption({ label: "Columbus (COL)" });
-    await page.getByLabel("Spreadsheet").setInputFiles({ name: "cylinders.xlsx", mimeType: XLSX, buffer: whole.subarray(0, Math.floor(whole.length / 2)) });
+    await page
+      .getByLabel("Spreadsheet")
+      .setInputFiles({ name: "cylinders.xlsx", mimeType: XLSX, buffer: whole.subarray(0, Math.floor(whole.length / 2)) });
     await page.getByRole("button", { name: "Read the file" }).click();
     await expect(page.getByText("The workbook could not be read; it may be damaged or not an Excel file")).toBeVisible();
     await snap(page, "imports-broken-workbook");
     // A program renamed .xlsx, and a picture renamed .csv, are refused by their bytes.
-    await page.getByLabel("Spreadsheet").setInputFiles({ name: "cylinders.xlsx", mimeType: XLSX, buffer: Buffer.from("MZ\x90\x00 not a workbook", "latin1") });
+    await page
+      .getByLabel("Spreadsheet")
+      .setInputFiles({ name: "cylinders.xlsx", mimeType: XLSX, buffer: Buffer.from("MZ\x90\x00 not a workbook", "latin1") });
     await page.getByRole("button", { name: "Read the file" }).click();
     await expect(page.getByText("This file is named .xlsx but is not an Excel workbook")).toBeVisible();
     expect(await importTotal(manager.request)).toBe(before);
@@ -132,16 +155,22 @@ test.describe("spreadsheet import", () => {
     await page.goto("/imports/new");
     await page.getByLabel("Recovery cylinders").check();
     await page.getByLabel("Branch to import into").selectOption({ label: "Columbus (COL)" });
-    await page.getByLabel("Spreadsheet").setInputFiles({ name: "cylinders.csv", mimeType: "text/csv", buffer: Buffer.from(lines.join("\n")) });
+    await page
+      .getByLabel("Spreadsheet")
+      .setInputFiles({ name: "cylinders.csv", mimeType: "text/csv", buffer: Buffer.from(lines.join("\n")) });
     await page.getByRole("button", { name: "Read the file" }).click();
     await page.getByRole("button", { name: "Check every row" }).click();
     await expect(page.getByText("The import stopped. Nothing was imported.")).toBeVisible({ timeout: 30_000 });
-    await expect(page.getByTestId("import-error")).toContainText("The CSV file is broken: a quoted value that starts on line 42 is never closed");
+    await expect(page.getByTestId("import-error")).toContainText(
+      "The CSV file is broken: a quoted value that starts on line 42 is never closed",
+    );
     await snap(page, "imports-broken-csv");
     const id = Number(new URL(page.url()).pathname.split("/").pop());
     expect((await manager.request.post(`/api/imports/${id}/commit`)).status()).toBe(409);
     const branchId = ((await (await manager.request.get("/api/lookup/branches")).json()) as { rows: Array<{ id: number }> }).rows[0]!.id;
-    const cylinders = (await (await manager.request.get(`/api/lookup/cylinders?branchId=${branchId}`)).json()) as { rows: Array<{ serial: string }> };
+    const cylinders = (await (await manager.request.get(`/api/lookup/cylinders?branchId=${branchId}`)).json()) as {
+      rows: Array<{ serial: string }>;
+    };
     expect(cylinders.rows.length).toBeGreaterThan(0);
     expect(cylinders.rows.filter((c) => c.serial.startsWith(`BRK-${s}`))).toHaveLength(0);
     await manager.close();

@@ -83,15 +83,25 @@ test.describe("job routes: who may read and write what", () => {
     otherOrgJob = await firstJob(other.api, "");
 
     const look = async (api: APIRequestContext, branchId?: number) =>
-      ((await (await api.get(`/api/lookup/appliances?limit=50${branchId ? `&branchId=${branchId}` : ""}`)).json()) as { rows: { id: number; category: string }[] }).rows.find(
-        (a) => a.category !== "small_appliance",
-      )!.id;
-    appliances = { columbus: await look(owner.api, branches.Columbus), tucson: await look(owner.api, branches.Tucson), otherOrg: await look(other.api) };
+      (
+        (await (await api.get(`/api/lookup/appliances?limit=50${branchId ? `&branchId=${branchId}` : ""}`)).json()) as {
+          rows: { id: number; category: string }[];
+        }
+      ).rows.find((a) => a.category !== "small_appliance")!.id;
+    appliances = {
+      columbus: await look(owner.api, branches.Columbus),
+      tucson: await look(owner.api, branches.Tucson),
+      otherOrg: await look(other.api),
+    };
     await Promise.all([owner.ctx.close(), tech.ctx.close(), other.ctx.close()]);
   });
 
   const readCases: Array<{ who: keyof typeof DEMO; allowed: string[]; denied: string[] }> = [
-    { who: "technicianColumbus", allowed: ["columbusJob"], denied: ["columbusJobOfAnotherTech", "tucsonJob", "denver2025Job", "otherOrgJob"] },
+    {
+      who: "technicianColumbus",
+      allowed: ["columbusJob"],
+      denied: ["columbusJobOfAnotherTech", "tucsonJob", "denver2025Job", "otherOrgJob"],
+    },
     { who: "managerColumbus", allowed: ["columbusJob", "columbusJobOfAnotherTech"], denied: ["tucsonJob", "denver2025Job", "otherOrgJob"] },
     { who: "officer", allowed: ["columbusJob", "tucsonJob", "denver2025Job", "denver2026Job"], denied: ["otherOrgJob"] },
     { who: "owner", allowed: ["columbusJob", "tucsonJob", "denver2025Job", "denver2026Job"], denied: ["otherOrgJob"] },
@@ -104,7 +114,8 @@ test.describe("job routes: who may read and write what", () => {
       const jobs: Record<string, JobRow> = { columbusJob, columbusJobOfAnotherTech, tucsonJob, denver2025Job, denver2026Job, otherOrgJob };
       const { ctx, api } = await as(browser, DEMO[c.who] as string);
       for (const name of c.allowed) expect((await api.get(`/api/jobs/${jobs[name]!.id}`)).status(), `${c.who} reads ${name}`).toBe(200);
-      for (const name of c.denied) expect((await api.get(`/api/jobs/${jobs[name]!.id}`)).status(), `${c.who} must not read ${name}`).toBe(404);
+      for (const name of c.denied)
+        expect((await api.get(`/api/jobs/${jobs[name]!.id}`)).status(), `${c.who} must not read ${name}`).toBe(404);
 
       // The list leaks nothing: every row is one this person may read.
       const page = await list(api);
@@ -142,7 +153,13 @@ test.describe("job routes: who may read and write what", () => {
       const before = (await list(owner.api, "&pageSize=1")).total;
 
       const post = async (applianceId: number, branchId: number) =>
-        api.post("/api/jobs", { data: await createBody(c.who === "technicianColumbus" || c.who === "managerColumbus" ? (branchId === branches.Columbus ? api : owner.api) : owner.api, branchId, applianceId) });
+        api.post("/api/jobs", {
+          data: await createBody(
+            c.who === "technicianColumbus" || c.who === "managerColumbus" ? (branchId === branches.Columbus ? api : owner.api) : owner.api,
+            branchId,
+            applianceId,
+          ),
+        });
 
       const createdIds: number[] = [];
       const own = await post(appliances.columbus, branches.Columbus);
@@ -157,7 +174,9 @@ test.describe("job routes: who may read and write what", () => {
       expect((await list(owner.api, "&pageSize=1")).total).toBe(before + createdIds.length);
       // These entries only prove who may write: void them so they never count in an audit of the demo data.
       for (const id of createdIds) {
-        expect((await owner.api.post(`/api/jobs/${id}/void`, { data: { reason: "Permission test entry, not real work" } })).status()).toBe(200);
+        expect((await owner.api.post(`/api/jobs/${id}/void`, { data: { reason: "Permission test entry, not real work" } })).status()).toBe(
+          200,
+        );
       }
       expect((await list(owner.api, "&pageSize=1")).total).toBe(before);
       await Promise.all([ctx.close(), owner.ctx.close()]);

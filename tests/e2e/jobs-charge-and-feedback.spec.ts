@@ -29,7 +29,9 @@ interface EquipmentOption {
 }
 
 async function appliance(api: APIRequestContext, tag: string): Promise<ApplianceOption> {
-  const { rows } = (await (await api.get(`/api/lookup/appliances?limit=5&q=${encodeURIComponent(tag)}`)).json()) as { rows: ApplianceOption[] };
+  const { rows } = (await (await api.get(`/api/lookup/appliances?limit=5&q=${encodeURIComponent(tag)}`)).json()) as {
+    rows: ApplianceOption[];
+  };
   const found = rows.find((a) => a.tag === tag);
   expect(found, `appliance ${tag} in the technician's picker`).toBeTruthy();
   return found!;
@@ -50,7 +52,10 @@ test.describe("jobs of every kind on a phone", () => {
     await expect(page.getByRole("heading", { name: "Log a charge (refrigerant added)" })).toBeVisible();
     await expect(page.getByText("Refrigerant displaces oxygen")).toBeVisible();
     await page.getByLabel("Search by tag, description or site").fill(rack.tag);
-    await page.getByRole("button", { name: new RegExp(rack.tag) }).first().click();
+    await page
+      .getByRole("button", { name: new RegExp(rack.tag) })
+      .first()
+      .click();
     await expect(page.getByTestId("chosen-appliance")).toContainText(rack.tag);
     await page.getByLabel("Amount added", { exact: true }).fill("0.25");
     await page.getByLabel("Unit of the amount added").selectOption("lb");
@@ -69,32 +74,54 @@ test.describe("jobs of every kind on a phone", () => {
     await snap(page, "job-charge-phone-leak-rate");
 
     const id = new URL(page.url()).pathname.split("/").pop();
-    const detail = (await (await tech.request.get(`/api/jobs/${id}`)).json()) as { kind: string; chargedG: number; leakRate: { percent: number; threshold: number; covered: boolean } };
+    const detail = (await (await tech.request.get(`/api/jobs/${id}`)).json()) as {
+      kind: string;
+      chargedG: number;
+      leakRate: { percent: number; threshold: number; covered: boolean };
+    };
     expect(detail).toMatchObject({ kind: "charge", chargedG: 113, leakRate: { covered: true, threshold: 20 } }); // 0.25 lb = 113.4 g
     expect(detail.leakRate.percent).toBeGreaterThan(0);
     expect(detail.leakRate.percent).toBeLessThan(20);
     await tech.close();
   });
 
-  test("the instant feedback names an evacuation short of the requirement, the job still saves, and its correction shows in the history", async ({ browser }) => {
+  test("the instant feedback names an evacuation short of the requirement, the job still saves, and its correction shows in the history", async ({
+    browser,
+  }) => {
     const tech = await contextAs(browser, DEMO.technicianColumbus, phone);
     const page = await tech.newPage();
     const chiller = await appliance(tech.request, JOBS_DEMO.mediumPressureChiller);
-    const cylinders = ((await (await tech.request.get(`/api/lookup/cylinders?branchId=${chiller.branchId}`)).json()) as { rows: CylinderOption[] }).rows;
-    const cylinder = cylinders.find((c) => (c.refrigerant === null || c.contentsG === 0) && c.lastRequalifiedOn && c.lastRequalifiedOn > "2022-01-01");
+    const cylinders = (
+      (await (await tech.request.get(`/api/lookup/cylinders?branchId=${chiller.branchId}`)).json()) as { rows: CylinderOption[] }
+    ).rows;
+    const cylinder = cylinders.find(
+      (c) => (c.refrigerant === null || c.contentsG === 0) && c.lastRequalifiedOn && c.lastRequalifiedOn > "2022-01-01",
+    );
     expect(cylinder, "an empty, requalified cylinder in Columbus").toBeTruthy();
-    const equipment = ((await (await tech.request.get(`/api/lookup/equipment?branchId=${chiller.branchId}`)).json()) as { rows: EquipmentOption[] }).rows.find(
-      (e) => e.certificationState === "certified" && !e.smallApplianceOnly && !e.systemDependent && (e.manufacturedOn ?? "9999") >= "1993-11-15",
+    const equipment = (
+      (await (await tech.request.get(`/api/lookup/equipment?branchId=${chiller.branchId}`)).json()) as { rows: EquipmentOption[] }
+    ).rows.find(
+      (e) =>
+        e.certificationState === "certified" && !e.smallApplianceOnly && !e.systemDependent && (e.manufacturedOn ?? "9999") >= "1993-11-15",
     );
     expect(equipment, "certified recovery equipment made after 1993").toBeTruthy();
 
     await page.goto("/jobs/new?kind=recovery");
     await page.getByLabel("Search by tag, description or site").fill(chiller.tag);
-    await page.getByRole("button", { name: new RegExp(chiller.tag) }).first().click();
+    await page
+      .getByRole("button", { name: new RegExp(chiller.tag) })
+      .first()
+      .click();
     await page.getByLabel("Amount recovered", { exact: true }).fill("2");
     await page.getByLabel("Unit of the amount recovered").selectOption("lb");
-    await page.getByRole("group", { name: "Recovery cylinder" }).getByRole("radio", { name: new RegExp(cylinder!.serial) }).check();
-    await page.getByRole("group", { name: "Recovery equipment" }).getByRole("radio", { name: new RegExp(equipment!.serial) }).check();
+    await page
+      .getByRole("group", { name: "Recovery cylinder" })
+      .getByRole("radio", { name: new RegExp(cylinder!.serial) })
+      .check();
+    await page
+      .getByRole("group", { name: "Recovery equipment" })
+      .getByRole("radio", { name: new RegExp(equipment!.serial) })
+      .check();
     await page.getByLabel("Evacuation level reached", { exact: true }).fill("4");
     await page.getByLabel("Unit of the evacuation level").selectOption("in_hg_vacuum");
     await page.getByLabel("Existing service valve").check();
@@ -113,7 +140,9 @@ test.describe("jobs of every kind on a phone", () => {
     await page.getByRole("button", { name: "Save recovery job" }).click();
     await expect(page).toHaveURL(/\/jobs\/\d+\?saved=1/);
     const id = new URL(page.url()).pathname.split("/").pop();
-    const before = (await (await tech.request.get(`/api/lookup/cylinders?branchId=${chiller.branchId}`)).json()) as { rows: CylinderOption[] };
+    const before = (await (await tech.request.get(`/api/lookup/cylinders?branchId=${chiller.branchId}`)).json()) as {
+      rows: CylinderOption[];
+    };
     expect(before.rows.find((c) => c.id === cylinder!.id)!.contentsG).toBe(907); // 2 lb = 907.2 g
 
     // The gauge was re-read: correct the level and the amount, with a reason.
@@ -135,9 +164,21 @@ test.describe("jobs of every kind on a phone", () => {
     await snap(page, "job-detail-phone-amendment-history");
 
     // The cylinder contents followed the correction.
-    const after = (await (await tech.request.get(`/api/lookup/cylinders?branchId=${chiller.branchId}`)).json()) as { rows: CylinderOption[] };
+    const after = (await (await tech.request.get(`/api/lookup/cylinders?branchId=${chiller.branchId}`)).json()) as {
+      rows: CylinderOption[];
+    };
     expect(after.rows.find((c) => c.id === cylinder!.id)!.contentsG).toBe(680); // 1.5 lb = 680.4 g
-    const check = (await (await tech.request.post("/api/jobs/check", { data: { kind: "recovery", applianceId: chiller.id, equipmentId: equipment!.id, evacuationValue: 15, evacuationUnit: "in_hg_vacuum" } })).json()) as { warnings: unknown[] };
+    const check = (await (
+      await tech.request.post("/api/jobs/check", {
+        data: {
+          kind: "recovery",
+          applianceId: chiller.id,
+          equipmentId: equipment!.id,
+          evacuationValue: 15,
+          evacuationUnit: "in_hg_vacuum",
+        },
+      })
+    ).json()) as { warnings: unknown[] };
     expect(check.warnings).toEqual([]);
     expect(((await (await tech.request.get(`/api/jobs/${id}`)).json()) as { evacuationValue: number }).evacuationValue).toBe(15);
     await tech.close();
@@ -150,7 +191,10 @@ test.describe("jobs of every kind on a phone", () => {
 
     await page.goto("/jobs/new?kind=leak_repair");
     await page.getByLabel("Search by tag, description or site").fill(split.tag);
-    await page.getByRole("button", { name: new RegExp(split.tag) }).first().click();
+    await page
+      .getByRole("button", { name: new RegExp(split.tag) })
+      .first()
+      .click();
     await page.getByRole("button", { name: "Save leak repair" }).click();
     await expect(page.getByText("Say where the leak was", { exact: true })).toBeVisible();
     await page.getByLabel("Where was the leak?").fill("Flare nut at the liquid-line service valve");
@@ -162,7 +206,10 @@ test.describe("jobs of every kind on a phone", () => {
 
     await page.goto("/jobs/new?kind=verification_test");
     await page.getByLabel("Search by tag, description or site").fill(split.tag);
-    await page.getByRole("button", { name: new RegExp(split.tag) }).first().click();
+    await page
+      .getByRole("button", { name: new RegExp(split.tag) })
+      .first()
+      .click();
     await page.getByRole("radio", { name: /^Initial test/ }).check();
     await page.getByRole("radio", { name: "✓ Passed" }).check();
     await page.getByLabel("How was it tested?").fill("Electronic leak detector");

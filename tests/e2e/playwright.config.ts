@@ -12,7 +12,10 @@ export default defineConfig({
   retries: 0,
   timeout: 60_000,
   expect: { timeout: 10_000 },
-  reporter: [["list"], ["html", { outputFolder: join(root, port === 3100 ? "playwright-report" : `playwright-report-${port}`), open: "never" }]],
+  reporter: [
+    ["list"],
+    ["html", { outputFolder: join(root, port === 3100 ? "playwright-report" : `playwright-report-${port}`), open: "never" }],
+  ],
   use: {
     baseURL: `http://127.0.0.1:${port}`,
     screenshot: "on",

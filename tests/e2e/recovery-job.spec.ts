@@ -21,7 +21,10 @@ test.describe("a technician logs a recovery job on a phone", () => {
     const { rows } = (await (await tech.request.get("/api/lookup/appliances?limit=50")).json()) as { rows: ApplianceOption[] };
     const appliance = rows.find((a) => a.category === "residential_split") ?? rows.find((a) => a.category !== "small_appliance");
     expect(appliance, "a residential split in the technician's branch").toBeTruthy();
-    expect(rows.every((a) => a.branchName === "Columbus"), "the picker only offers the technician's branch").toBe(true);
+    expect(
+      rows.every((a) => a.branchName === "Columbus"),
+      "the picker only offers the technician's branch",
+    ).toBe(true);
 
     await page.goto("/jobs/new");
     await expect(page.getByRole("heading", { name: "Log a job" })).toBeVisible();
@@ -33,7 +36,10 @@ test.describe("a technician logs a recovery job on a phone", () => {
     await snap(page, "job-form-phone-empty");
 
     await page.getByLabel("Search by tag, description or site").fill(appliance!.tag);
-    await page.getByRole("button", { name: new RegExp(appliance!.tag) }).first().click();
+    await page
+      .getByRole("button", { name: new RegExp(appliance!.tag) })
+      .first()
+      .click();
     await expect(page.getByTestId("chosen-appliance")).toContainText(appliance!.tag);
 
     await page.getByLabel("Amount recovered", { exact: true }).fill("3.25");
@@ -66,7 +72,12 @@ test.describe("a technician logs a recovery job on a phone", () => {
     await snap(page, "jobs-list-phone-after-save");
 
     const detail = (await (await tech.request.get(`/api/jobs/${createdId}`)).json()) as Record<string, unknown>;
-    expect(detail).toMatchObject({ kind: "recovery", applianceTag: appliance!.tag, technicianName: "Marcus Delacroix-Byrd", evacuationValue: 10 });
+    expect(detail).toMatchObject({
+      kind: "recovery",
+      applianceTag: appliance!.tag,
+      technicianName: "Marcus Delacroix-Byrd",
+      evacuationValue: 10,
+    });
 
     // The Columbus branch manager sees it.
     const manager = await contextAs(browser, DEMO.managerColumbus);

@@ -48,7 +48,12 @@ function labelPng(width = 160, height = 80): Buffer {
     raw[y * (width + 1)] = 0;
     for (let x = 0; x < width; x++) raw[y * (width + 1) + 1 + x] = y > 20 && y < 60 && x % 12 < 6 ? 40 : 220;
   }
-  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk("IHDR", ihdr), chunk("IDAT", deflateSync(raw)), chunk("IEND", Buffer.alloc(0))]);
+  return Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk("IHDR", ihdr),
+    chunk("IDAT", deflateSync(raw)),
+    chunk("IEND", Buffer.alloc(0)),
+  ]);
 }
 
 async function noHorizontalOverflow(page: Page) {
@@ -145,7 +150,9 @@ test.describe("registers", () => {
     await expect(page.getByRole("heading", { level: 1 })).toContainText(serial);
     const due = dateIn("America/New_York", { days: 40 });
     await expect(page.getByTestId("requalification-due")).toHaveText(due);
-    await expect(page.getByTestId("requalification").getByTestId("requalification-badge")).toContainText(`Requalification due soon: ${due}`);
+    await expect(page.getByTestId("requalification").getByTestId("requalification-badge")).toContainText(
+      `Requalification due soon: ${due}`,
+    );
     await expect(page.getByTestId("fill-percent")).toHaveText("Empty");
 
     // A scale reading sets the contents; the gauge shows them against the maximum in words and marks.
@@ -260,7 +267,9 @@ test.describe("registers", () => {
     await snap(page, "registers-cylinder-detail-technician-phone");
     // The server agrees: the technician may not change it.
     const id = new URL(page.url()).pathname.split("/").pop();
-    const weigh = await tech.request.post(`/api/cylinders/${id}/weighings`, { data: { weighedOn: dateIn("America/New_York"), grossAmount: 30, grossUnit: "lb", refrigerant: "R-410A" } });
+    const weigh = await tech.request.post(`/api/cylinders/${id}/weighings`, {
+      data: { weighedOn: dateIn("America/New_York"), grossAmount: 30, grossUnit: "lb", refrigerant: "R-410A" },
+    });
     expect(weigh.status()).toBe(403);
     await tech.close();
   });
@@ -284,7 +293,11 @@ test.describe("registers", () => {
 
     // A renamed executable is refused; a real photo is stored and shown.
     const upload = page.getByLabel("Upload the evidence");
-    await upload.setInputFiles({ name: "label.jpg", mimeType: "image/jpeg", buffer: Buffer.from("MZ\x90\x00\x03\x00\x00\x00 not really an image") });
+    await upload.setInputFiles({
+      name: "label.jpg",
+      mimeType: "image/jpeg",
+      buffer: Buffer.from("MZ\x90\x00\x03\x00\x00\x00 not really an image"),
+    });
     await page.getByRole("button", { name: "Upload", exact: true }).click();
     await expect(page.getByText("Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded")).toBeVisible();
     await upload.setInputFiles({ name: "../../label photo.png", mimeType: "image/png", buffer: labelPng() });
@@ -340,7 +353,9 @@ test.describe("registers", () => {
     await page.getByLabel("Search").fill(REGISTER_DEMO.overfilledCylinder);
     await expect(page.getByTestId("cylinder-row").filter({ hasText: REGISTER_DEMO.overfilledCylinder })).toContainText("over");
     await page.getByLabel("Search").fill(REGISTER_DEMO.overdueCylinder);
-    await expect(page.getByTestId("cylinder-row").filter({ hasText: REGISTER_DEMO.overdueCylinder }).getByTestId("requalification-badge")).toContainText("overdue since 2025-02-18");
+    await expect(
+      page.getByTestId("cylinder-row").filter({ hasText: REGISTER_DEMO.overdueCylinder }).getByTestId("requalification-badge"),
+    ).toContainText("overdue since 2025-02-18");
     await snap(page, "registers-cylinders-overdue-officer");
     await officer.close();
   });

@@ -13,10 +13,13 @@ interface CylinderOption {
 }
 
 test.describe("a branch manager keeps purchases and reclaim shipments on a desktop", () => {
-  test("records a purchase, corrects it with a reason, and voids it; a bad entry names its fields and writes nothing", async ({ browser }) => {
+  test("records a purchase, corrects it with a reason, and voids it; a bad entry names its fields and writes nothing", async ({
+    browser,
+  }) => {
     const manager = await contextAs(browser, DEMO.managerColumbus, desktop);
     const page = await manager.newPage();
-    const total = async () => ((await (await manager.request.get("/api/purchases?pageSize=1&voided=include")).json()) as { total: number }).total;
+    const total = async () =>
+      ((await (await manager.request.get("/api/purchases?pageSize=1&voided=include")).json()) as { total: number }).total;
     const before = await total();
 
     await page.goto("/purchases");
@@ -61,7 +64,8 @@ test.describe("a branch manager keeps purchases and reclaim shipments on a deskt
     const page = await manager.newPage();
     const branches = ((await (await manager.request.get("/api/lookup/branches")).json()) as { rows: { id: number; name: string }[] }).rows;
     const columbus = branches.find((b) => b.name === "Columbus")!.id;
-    const cylinders = async () => ((await (await manager.request.get(`/api/lookup/cylinders?branchId=${columbus}`)).json()) as { rows: CylinderOption[] }).rows;
+    const cylinders = async () =>
+      ((await (await manager.request.get(`/api/lookup/cylinders?branchId=${columbus}`)).json()) as { rows: CylinderOption[] }).rows;
     // A cylinder holding refrigerant that is not one of the planted gaps (serials ending in 9xx).
     const full = (await cylinders()).find((c) => c.contentsG > 0 && !/-9\d\d$/.test(c.serial));
     expect(full, "a Columbus cylinder holding refrigerant").toBeTruthy();

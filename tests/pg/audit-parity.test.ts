@@ -49,7 +49,11 @@ const which = (db: Knex): "sqlite" | "pg" => (db === pair.pg.db ? "pg" : "sqlite
 
 async function runAudit(db: Knex, ids: number[], now = NOW): Promise<number> {
   const officer = await userIdOf(db, DEMO_SIGN_INS.compliance_officer);
-  const id = await createAudit(db, { actor: { userId: officer, organisationId: ORG }, input: { branchIds: ids, ...PERIOD, packs: ["us_federal"] }, now });
+  const id = await createAudit(db, {
+    actor: { userId: officer, organisationId: ORG },
+    input: { branchIds: ids, ...PERIOD, packs: ["us_federal"] },
+    now,
+  });
   expect(await claimAudit(db, { id, now })).toBe(true);
   await runAuditBranches(db, { id, now: () => now });
   auditIds[which(db)].push(id);
@@ -61,7 +65,29 @@ const findingsOf = async (db: Knex) =>
   db("findings")
     .where({ organisation_id: ORG })
     .orderBy("identity_key")
-    .select("id", "identity_key", "rule_id", "branch_id", "record_type", "record_id", "appliance_id", "technician_id", "severity", "state", "due_on", "occurred_on", "pack", "title", "detail", "fix", "citation", "assignee_id", "waiver_reason", "audit_id", "first_audit_id");
+    .select(
+      "id",
+      "identity_key",
+      "rule_id",
+      "branch_id",
+      "record_type",
+      "record_id",
+      "appliance_id",
+      "technician_id",
+      "severity",
+      "state",
+      "due_on",
+      "occurred_on",
+      "pack",
+      "title",
+      "detail",
+      "fix",
+      "citation",
+      "assignee_id",
+      "waiver_reason",
+      "audit_id",
+      "first_audit_id",
+    );
 
 beforeAll(async () => {
   if (!PG_URL) return;
@@ -80,8 +106,16 @@ describePg("an audit of every branch", () => {
     expect(found.length).toBeGreaterThan(16);
     // Every planted gap's rule family shows up (the list is checked in detail by tests/db/audits-run.test.ts).
     expect(new Set(found.map((f) => f.branch_id))).toEqual(new Set(branchIds));
-    await same(pair, (db) => db("finding_events").orderBy("id").select("finding_id", "action", "from_state", "to_state", "at", "note"), "events");
-    await same(pair, (db) => db("audit_findings").orderBy(["audit_id", "finding_id"]).select("audit_id", "finding_id", "branch_id", "severity"), "links");
+    await same(
+      pair,
+      (db) => db("finding_events").orderBy("id").select("finding_id", "action", "from_state", "to_state", "at", "note"),
+      "events",
+    );
+    await same(
+      pair,
+      (db) => db("audit_findings").orderBy(["audit_id", "finding_id"]).select("audit_id", "finding_id", "branch_id", "severity"),
+      "links",
+    );
   });
 
   it("records the same run: state, progress, summary by branch and health", async () => {
@@ -95,7 +129,12 @@ describePg("an audit of every branch", () => {
 
   it("reads the same branch records for the rules", async () => {
     for (const branchId of branchIds) {
-      await same(pair, (db) => loadBranchRecords(db, { organisationId: ORG, branchId, period: { from: PERIOD.periodFrom, to: PERIOD.periodTo }, asOf: NOW }), `records of ${branchId}`);
+      await same(
+        pair,
+        (db) =>
+          loadBranchRecords(db, { organisationId: ORG, branchId, period: { from: PERIOD.periodFrom, to: PERIOD.periodTo }, asOf: NOW }),
+        `records of ${branchId}`,
+      );
     }
   });
 
@@ -103,13 +142,19 @@ describePg("an audit of every branch", () => {
     it(`${role}: the findings table agrees on every sort, grouping and filter`, async () => {
       const list = (query: Record<string, unknown>) => async (db: Knex) => {
         const { actor, ability } = await signIn(db, email);
-        return listFindings(db, { organisationId: actor.organisationId, scope: scopeByAbility(ability, "read", "Finding", "findings"), query: findingListQuery.parse(query), today: TODAY });
+        return listFindings(db, {
+          organisationId: actor.organisationId,
+          scope: scopeByAbility(ability, "read", "Finding", "findings"),
+          query: findingListQuery.parse(query),
+          today: TODAY,
+        });
       };
       await same(pair, list({ state: "all", pageSize: 200 }), `${role} all`);
       for (const sort of FINDING_SORT_FIELDS) {
         for (const dir of ["asc", "desc"]) await same(pair, list({ sort, dir, state: "all", pageSize: 30 }), `${role} ${sort} ${dir}`);
       }
-      for (const groupBy of FINDING_GROUP_FIELDS) await same(pair, list({ groupBy, state: "all", pageSize: 200 }), `${role} grouped by ${groupBy}`);
+      for (const groupBy of FINDING_GROUP_FIELDS)
+        await same(pair, list({ groupBy, state: "all", pageSize: 200 }), `${role} grouped by ${groupBy}`);
       for (const due of ["overdue", "week", "month", "later", "none"]) await same(pair, list({ due, state: "all" }), `${role} due ${due}`);
       await same(pair, list({ q: "cylinder", severity: "critical" }), `${role} search`);
       await same(pair, list({ auditId: auditIds.sqlite[0], assignee: "none" }), `${role} of the audit, unassigned`);
@@ -120,7 +165,16 @@ describePg("an audit of every branch", () => {
     const officer = DEMO_SIGN_INS.compliance_officer;
     const ids = (await pair.sqlite.db("findings").orderBy("id").pluck("id")).map(Number);
     for (const id of ids) {
-      await same(pair, async (db) => getFinding(db, { organisationId: ORG, scope: scopeByAbility((await signIn(db, officer)).ability, "read", "Finding", "findings"), id }), `finding ${id}`);
+      await same(
+        pair,
+        async (db) =>
+          getFinding(db, {
+            organisationId: ORG,
+            scope: scopeByAbility((await signIn(db, officer)).ability, "read", "Finding", "findings"),
+            id,
+          }),
+        `finding ${id}`,
+      );
     }
     const auditId = auditIds.sqlite[0]!;
     const exportOf = async (db: Knex) => {
@@ -128,17 +182,39 @@ describePg("an audit of every branch", () => {
       const { settings } = await getOrganisationAuditSettings(db, ORG);
       const range = { organisationId: ORG, branchIds, from: PERIOD.periodFrom, to: PERIOD.periodTo };
       return {
-        counts: await auditFindingCounts(db, { organisationId: ORG, auditId, scope: scopeByAbility(ability, "read", "Finding", "findings") }),
-        findings: await collect(auditFindingExportRows(db, { organisationId: ORG, auditId, scope: scopeByAbility(ability, "read", "Finding", "findings") })),
+        counts: await auditFindingCounts(db, {
+          organisationId: ORG,
+          auditId,
+          scope: scopeByAbility(ability, "read", "Finding", "findings"),
+        }),
+        findings: await collect(
+          auditFindingExportRows(db, { organisationId: ORG, auditId, scope: scopeByAbility(ability, "read", "Finding", "findings") }),
+        ),
         jobs: await collect(jobExportRows(db, { ...range, scope: scopeByAbility(ability, "read", "Job", "jobs") })),
         leakRates: await collect(
           leakRateExportRows(db, {
             ...range,
             settings,
-            jobVisible: (job) => ability.can("read", subject("Job", { organisationId: ORG, branchId: job.branchId, technicianId: job.technicianId, performedOn: job.performedOn })),
+            jobVisible: (job) =>
+              ability.can(
+                "read",
+                subject("Job", {
+                  organisationId: ORG,
+                  branchId: job.branchId,
+                  technicianId: job.technicianId,
+                  performedOn: job.performedOn,
+                }),
+              ),
           }),
         ),
-        cylinders: await collect(cylinderExportRows(db, { organisationId: ORG, branchIds, scope: scopeByAbility(ability, "read", "Cylinder", "cylinders"), settings })),
+        cylinders: await collect(
+          cylinderExportRows(db, {
+            organisationId: ORG,
+            branchIds,
+            scope: scopeByAbility(ability, "read", "Cylinder", "cylinders"),
+            settings,
+          }),
+        ),
         certifications: await collect(certificationExportRows(db, { organisationId: ORG, branchIds })),
         disposals: await collect(disposalExportRows(db, { ...range, scope: scopeByAbility(ability, "read", "Disposal", "d") })),
       };
@@ -151,27 +227,40 @@ describePg("an audit of every branch", () => {
 
   it("the overview, every branch dashboard and the assignable people agree", async () => {
     for (const email of [DEMO_SIGN_INS.owner, DEMO_SIGN_INS.branch_manager, DEMO_SIGN_INS.inspector]) {
-      await same(pair, async (db) => {
-        const { ability } = await signIn(db, email);
-        const readable = branchIds.filter((id) => ability.can("read", subject("Branch", { organisationId: ORG, id, branchId: id })));
-        return getOrganisationOverview(db, { organisationId: ORG, branchIds: readable, findingScope: scopeByAbility(ability, "read", "Finding", "findings"), today: TODAY });
-      }, `overview for ${email}`);
+      await same(
+        pair,
+        async (db) => {
+          const { ability } = await signIn(db, email);
+          const readable = branchIds.filter((id) => ability.can("read", subject("Branch", { organisationId: ORG, id, branchId: id })));
+          return getOrganisationOverview(db, {
+            organisationId: ORG,
+            branchIds: readable,
+            findingScope: scopeByAbility(ability, "read", "Finding", "findings"),
+            today: TODAY,
+          });
+        },
+        `overview for ${email}`,
+      );
     }
     for (const branchId of branchIds) {
-      const dashboard = await same(pair, async (db) => {
-        const { ability } = await signIn(db, DEMO_SIGN_INS.owner);
-        return getBranchDashboard(db, {
-          organisationId: ORG,
-          branchId,
-          today: TODAY,
-          months: 24,
-          findingScope: scopeByAbility(ability, "read", "Finding", "findings"),
-          jobScope: scopeByAbility(ability, "read", "Job", "jobs"),
-          purchaseScope: scopeByAbility(ability, "read", "Purchase", "purchases"),
-          shipmentScope: scopeByAbility(ability, "read", "ReclaimShipment", "reclaim_shipments"),
-          includeLeakWatchlist: true,
-        });
-      }, `dashboard of ${branchId}`);
+      const dashboard = await same(
+        pair,
+        async (db) => {
+          const { ability } = await signIn(db, DEMO_SIGN_INS.owner);
+          return getBranchDashboard(db, {
+            organisationId: ORG,
+            branchId,
+            today: TODAY,
+            months: 24,
+            findingScope: scopeByAbility(ability, "read", "Finding", "findings"),
+            jobScope: scopeByAbility(ability, "read", "Job", "jobs"),
+            purchaseScope: scopeByAbility(ability, "read", "Purchase", "purchases"),
+            shipmentScope: scopeByAbility(ability, "read", "ReclaimShipment", "reclaim_shipments"),
+            includeLeakWatchlist: true,
+          });
+        },
+        `dashboard of ${branchId}`,
+      );
       expect(dashboard.findingsByRule.length, `branch ${branchId} has findings`).toBeGreaterThan(0);
     }
     await same(pair, (db) => listAssignableUsers(db, { organisationId: ORG }), "assignable");
@@ -188,16 +277,54 @@ describePg("the findings workflow and re-runs", () => {
       const officerRef = { userId: officer.actor.userId, organisationId: ORG };
       const managerRef = { userId: manager.actor.userId, organisationId: ORG };
       const managerBranch = manager.actor.memberships.find((m) => m.branchId !== null)!.branchId!;
-      const open = await db("findings").where({ organisation_id: ORG, branch_id: managerBranch, state: "open" }).orderBy("identity_key").limit(2).pluck("id");
-      const other = await db("findings").where({ organisation_id: ORG, state: "open" }).whereNot({ branch_id: managerBranch }).orderBy("identity_key").first("id");
+      const open = await db("findings")
+        .where({ organisation_id: ORG, branch_id: managerBranch, state: "open" })
+        .orderBy("identity_key")
+        .limit(2)
+        .pluck("id");
+      const other = await db("findings")
+        .where({ organisation_id: ORG, state: "open" })
+        .whereNot({ branch_id: managerBranch })
+        .orderBy("identity_key")
+        .first("id");
       const [toFix, toKeep] = open.map(Number);
-      const scope = (who: typeof officer, action: Parameters<typeof scopeByAbility>[1]) => scopeByAbility(who.ability, action, "Finding", "findings");
-      const assigned = await assignFindings(db, { actor: officerRef, scope: scope(officer, "assign"), findingIds: [toFix!, toKeep!], assigneeId: manager.actor.userId, now: later });
-      const proposed = await proposeFindingFix(db, { actor: managerRef, scope: scope(manager, "propose_fix"), id: toFix!, note: "Fixed in the records", now: later });
-      const accepted = await acceptFindingFix(db, { actor: officerRef, scope: scope(officer, "accept"), id: toFix!, note: "Checked", now: later });
-      const waived = await waiveFinding(db, { actor: officerRef, scope: scope(officer, "waive"), id: Number(other.id), reason: "Covered by a written exemption on file", now: later });
+      const scope = (who: typeof officer, action: Parameters<typeof scopeByAbility>[1]) =>
+        scopeByAbility(who.ability, action, "Finding", "findings");
+      const assigned = await assignFindings(db, {
+        actor: officerRef,
+        scope: scope(officer, "assign"),
+        findingIds: [toFix!, toKeep!],
+        assigneeId: manager.actor.userId,
+        now: later,
+      });
+      const proposed = await proposeFindingFix(db, {
+        actor: managerRef,
+        scope: scope(manager, "propose_fix"),
+        id: toFix!,
+        note: "Fixed in the records",
+        now: later,
+      });
+      const accepted = await acceptFindingFix(db, {
+        actor: officerRef,
+        scope: scope(officer, "accept"),
+        id: toFix!,
+        note: "Checked",
+        now: later,
+      });
+      const waived = await waiveFinding(db, {
+        actor: officerRef,
+        scope: scope(officer, "waive"),
+        id: Number(other.id),
+        reason: "Covered by a written exemption on file",
+        now: later,
+      });
       const rerun = await runAudit(db, branchIds, later);
-      const reevaluated = await reevaluateBranch(db, { organisationId: ORG, branchId: managerBranch, now: later, triggeredBy: manager.actor.userId });
+      const reevaluated = await reevaluateBranch(db, {
+        organisationId: ORG,
+        branchId: managerBranch,
+        now: later,
+        triggeredBy: manager.actor.userId,
+      });
       return {
         ids: { toFix, toKeep, other: Number(other.id) },
         assigned: assigned.assigned,

@@ -18,8 +18,13 @@ afterAll(async () => {
 });
 
 async function tablesOf(db: Knex): Promise<string[]> {
-  const rows: Array<{ table_name: string }> = await db("information_schema.tables").where({ table_schema: db.raw("current_schema()"), table_type: "BASE TABLE" }).select("table_name");
-  return rows.map((r) => r.table_name).filter((n) => !n.startsWith("knex_")).sort();
+  const rows: Array<{ table_name: string }> = await db("information_schema.tables")
+    .where({ table_schema: db.raw("current_schema()"), table_type: "BASE TABLE" })
+    .select("table_name");
+  return rows
+    .map((r) => r.table_name)
+    .filter((n) => !n.startsWith("knex_"))
+    .sort();
 }
 
 async function columnsOf(db: Knex, table: string): Promise<Array<{ name: string; type: string }>> {
@@ -38,7 +43,21 @@ describePg("the demo data on PostgreSQL", () => {
     const counts: Record<string, [number, number]> = {};
     for (const table of tables) counts[table] = [await count(pair.sqlite.db, table), await count(pair.pg.db, table)];
     for (const [table, [fromSqlite, fromPg]] of Object.entries(counts)) expect(fromPg, table).toBe(fromSqlite);
-    for (const table of ["organisations", "branches", "users", "appliances", "jobs", "cylinders", "refrigerant_movements", "reclaim_shipments", "purchases", "certifications", "disposal_records", "disposal_statements", "activity"]) {
+    for (const table of [
+      "organisations",
+      "branches",
+      "users",
+      "appliances",
+      "jobs",
+      "cylinders",
+      "refrigerant_movements",
+      "reclaim_shipments",
+      "purchases",
+      "certifications",
+      "disposal_records",
+      "disposal_statements",
+      "activity",
+    ]) {
       expect(counts[table]![0], table).toBeGreaterThan(0);
     }
     expect(counts.jobs![0]).toBeGreaterThan(1500);
@@ -75,11 +94,23 @@ describePg("the demo data on PostgreSQL", () => {
   });
 
   it("gives new rows the same ids as SQLite, and refuses a second load", async () => {
-    const open = (db: Knex) => createOrganisationWithOwner(db, { name: "Sequence Check Ltd", ownerName: "Ida Sequence", ownerEmail: "ida@sequence-check.example", now: new Date("2026-12-01T00:00:00Z") });
+    const open = (db: Knex) =>
+      createOrganisationWithOwner(db, {
+        name: "Sequence Check Ltd",
+        ownerName: "Ida Sequence",
+        ownerEmail: "ida@sequence-check.example",
+        now: new Date("2026-12-01T00:00:00Z"),
+      });
     const ids = async (db: Knex) => {
       const { organisationId, ownerId } = await open(db);
       const newest = async (table: string) => Number((await db(table).max({ m: "id" }).first())?.m);
-      return { organisationId, ownerId, membership: await newest("memberships"), invitation: await newest("invitations"), activity: await newest("activity") };
+      return {
+        organisationId,
+        ownerId,
+        membership: await newest("memberships"),
+        invitation: await newest("invitations"),
+        activity: await newest("activity"),
+      };
     };
     const fromSqlite = await ids(pair.sqlite.db);
     expect(await ids(pair.pg.db)).toStrictEqual(fromSqlite);

@@ -41,7 +41,12 @@ const FILES: Record<"appliances" | "cylinders", string> = {
     "IMP-WALKIN-04,Walk-in cooler,Commercial refrigeration,R-448A,,lb,Linden Row Bakery,",
     "IMP-RTU-01,Same tag again,Packaged rooftop,R-410A,8,lb,Linden Row Bakery,",
   ].join("\n"),
-  cylinders: ["Serial,Water capacity,Tare,Last requalified", "IMP-C-01,50 lb,17.5 lb,2024-03-01", "IMP-C-02,,15 lb,2023-01-01", "COL-C-001,50 lb,17 lb,2024-01-01"].join("\n"),
+  cylinders: [
+    "Serial,Water capacity,Tare,Last requalified",
+    "IMP-C-01,50 lb,17.5 lb,2024-03-01",
+    "IMP-C-02,,15 lb,2023-01-01",
+    "COL-C-001,50 lb,17 lb,2024-01-01",
+  ].join("\n"),
 };
 
 function source(rows: string[][]): RowSource {
@@ -60,7 +65,16 @@ async function runImport(db: Knex, kind: "appliances" | "cylinders"): Promise<nu
   const branchId = actor.memberships.find((m) => m.role === "branch_manager")!.branchId!;
   const [headings, ...rows] = parseCsv(FILES[kind]);
   const mapping = suggestImportMapping(kind as ImportKind, headings!);
-  const id = await createImport(db, { actor: ref, branchId, kind, file: { key: `imports/pg/${kind}.csv`, format: "csv", label: `${kind}.csv`, size: FILES[kind].length }, headings: headings!, sample: rows.slice(0, 5), mapping, now: NOW });
+  const id = await createImport(db, {
+    actor: ref,
+    branchId,
+    kind,
+    file: { key: `imports/pg/${kind}.csv`, format: "csv", label: `${kind}.csv`, size: FILES[kind].length },
+    headings: headings!,
+    sample: rows.slice(0, 5),
+    mapping,
+    now: NOW,
+  });
   await setImportMapping(db, { actor: ref, id, mapping });
   await checkImportRows(db, { importId: id, actor: ref, source: source(rows) });
   await startImportCommit(db, { actor: ref, id });
@@ -75,21 +89,43 @@ function withoutClock<T>(value: T): T {
 
 describePg("spreadsheet imports", () => {
   it("check and write the same rows, problems and register entries on both dialects", async () => {
-    const result = await same(pair, async (db) => {
-      const ids = { appliances: await runImport(db, "appliances"), cylinders: await runImport(db, "cylinders") };
-      const { actor, ability } = await signIn(db, DEMO_SIGN_INS.branch_manager);
-      const scope = scopeByAbility(ability, "read", "Import", "imports");
-      return {
-        ids,
-        details: withoutClock([await getImport(db, { scope, id: ids.appliances }), await getImport(db, { scope, id: ids.cylinders })]),
-        issues: [
-          await listImportIssues(db, { organisationId: actor.organisationId, importId: ids.appliances, kind: "appliances", query: { page: 1, pageSize: 50 } }),
-          await listImportIssues(db, { organisationId: actor.organisationId, importId: ids.cylinders, kind: "cylinders", query: { page: 1, pageSize: 50 } }),
-        ],
-        appliances: withoutClock(await listAppliances(db, { scope: scopeByAbility(ability, "read", "Appliance", "appliances"), query: applianceListQuery.parse({ q: "imp-", pageSize: 50 }) })),
-        cylinders: await db("cylinders").where("serial", "like", "IMP-%").orderBy("serial").select("serial", "branch_id", "water_capacity_g", "tare_g", "last_requalified_on", "contents_g"),
-      };
-    }, "imports");
+    const result = await same(
+      pair,
+      async (db) => {
+        const ids = { appliances: await runImport(db, "appliances"), cylinders: await runImport(db, "cylinders") };
+        const { actor, ability } = await signIn(db, DEMO_SIGN_INS.branch_manager);
+        const scope = scopeByAbility(ability, "read", "Import", "imports");
+        return {
+          ids,
+          details: withoutClock([await getImport(db, { scope, id: ids.appliances }), await getImport(db, { scope, id: ids.cylinders })]),
+          issues: [
+            await listImportIssues(db, {
+              organisationId: actor.organisationId,
+              importId: ids.appliances,
+              kind: "appliances",
+              query: { page: 1, pageSize: 50 },
+            }),
+            await listImportIssues(db, {
+              organisationId: actor.organisationId,
+              importId: ids.cylinders,
+              kind: "cylinders",
+              query: { page: 1, pageSize: 50 },
+            }),
+          ],
+          appliances: withoutClock(
+            await listAppliances(db, {
+              scope: scopeByAbility(ability, "read", "Appliance", "appliances"),
+              query: applianceListQuery.parse({ q: "imp-", pageSize: 50 }),
+            }),
+          ),
+          cylinders: await db("cylinders")
+            .where("serial", "like", "IMP-%")
+            .orderBy("serial")
+            .select("serial", "branch_id", "water_capacity_g", "tare_g", "last_requalified_on", "contents_g"),
+        };
+      },
+      "imports",
+    );
     expect(result.details.map((d) => d?.state)).toEqual(["imported", "imported"]);
     expect(result.issues[0]!.total).toBe(4);
     expect(result.issues[1]!.total).toBeGreaterThan(0);
@@ -99,7 +135,17 @@ describePg("spreadsheet imports", () => {
 
   it("the imports list agrees for every role that reads it", async () => {
     for (const email of Object.values(DEMO_SIGN_INS)) {
-      const page = await same(pair, async (db) => withoutClock(await listImports(db, { scope: scopeByAbility((await signIn(db, email)).ability, "read", "Import", "imports"), query: importListQuery.parse({}) })), email);
+      const page = await same(
+        pair,
+        async (db) =>
+          withoutClock(
+            await listImports(db, {
+              scope: scopeByAbility((await signIn(db, email)).ability, "read", "Import", "imports"),
+              query: importListQuery.parse({}),
+            }),
+          ),
+        email,
+      );
       if (email === DEMO_SIGN_INS.branch_manager || email === DEMO_SIGN_INS.owner) expect(page.total, email).toBe(2);
     }
   });

@@ -7,7 +7,8 @@ import { createPgTestDb, createSeededTestDb, createTestDb, type TestDb } from "@
 export const PG_URL = process.env.COLDTRAIL_PG_URL?.trim() ?? "";
 
 /** A describe block that runs only when COLDTRAIL_PG_URL is set. */
-export const describePg = (name: string, body: () => void) => describe.skipIf(!PG_URL)(`${name} (PostgreSQL; set COLDTRAIL_PG_URL to run)`, body);
+export const describePg = (name: string, body: () => void) =>
+  describe.skipIf(!PG_URL)(`${name} (PostgreSQL; set COLDTRAIL_PG_URL to run)`, body);
 
 /** The clock the demo data is read with (the data runs to 2026-11-30). */
 export const NOW = new Date("2026-12-01T12:00:00Z");

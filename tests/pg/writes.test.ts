@@ -59,12 +59,20 @@ const charge = (kg: number): JobInput => ({
 const maxId = async (db: Knex, table: string) => Number((await db(table).max({ m: "id" }).first())?.m ?? 0);
 const contents = async (db: Knex) => db("cylinders").where({ id: CYLINDER }).first("contents_g", "refrigerant", "updated_at");
 /** A refused write's error as the API maps it. */
-const refusal = (p: Promise<unknown>) => p.then(() => null, (err: { code?: string; field?: string; message?: string }) => ({ code: err.code, field: err.field, message: err.message }));
+const refusal = (p: Promise<unknown>) =>
+  p.then(
+    () => null,
+    (err: { code?: string; field?: string; message?: string }) => ({ code: err.code, field: err.field, message: err.message }),
+  );
 
 describePg("writes", () => {
   it("jobs, corrections and voids leave the same rows on both dialects", async () => {
     const writeAll = async (db: Knex) => {
-      const before = { activity: await maxId(db, "activity"), movements: await maxId(db, "refrigerant_movements"), amendments: await maxId(db, "amendments") };
+      const before = {
+        activity: await maxId(db, "activity"),
+        movements: await maxId(db, "refrigerant_movements"),
+        amendments: await maxId(db, "amendments"),
+      };
       const start = await contents(db);
       const recovered = await createJob(db, { actor: TECH, branchId: BRANCH, input: recovery, now: NOW });
       const charged = await createJob(db, { actor: TECH, branchId: BRANCH, input: charge(1), now: NOW });
@@ -72,15 +80,29 @@ describePg("writes", () => {
       const amendment = await amendJob(db, {
         actor: TECH,
         id: recovered,
-        input: jobAmendmentInput.parse({ reason: "Scale ticket says 2.5 kg", changes: { amount: 2.5, amountUnit: "kg", compressorOperating: true } }),
+        input: jobAmendmentInput.parse({
+          reason: "Scale ticket says 2.5 kg",
+          changes: { amount: 2.5, amountUnit: "kg", compressorOperating: true },
+        }),
         now: NOW,
       });
       // The same boolean again changes nothing, on either dialect.
-      const noChange = await refusal(amendJob(db, { actor: TECH, id: recovered, input: jobAmendmentInput.parse({ reason: "Again", changes: { compressorOperating: true } }), now: NOW }));
+      const noChange = await refusal(
+        amendJob(db, {
+          actor: TECH,
+          id: recovered,
+          input: jobAmendmentInput.parse({ reason: "Again", changes: { compressorOperating: true } }),
+          now: NOW,
+        }),
+      );
       await voidJob(db, { actor: TECH, id: charged, reason: "Entered on the wrong unit", now: NOW });
       const afterVoid = await contents(db);
       // A draw larger than the cylinder holds is refused and writes nothing.
-      const counts = async () => ({ jobs: await maxId(db, "jobs"), activity: await maxId(db, "activity"), movements: await maxId(db, "refrigerant_movements") });
+      const counts = async () => ({
+        jobs: await maxId(db, "jobs"),
+        activity: await maxId(db, "activity"),
+        movements: await maxId(db, "refrigerant_movements"),
+      });
       const beforeRefusal = await counts();
       const tooMuch = await refusal(createJob(db, { actor: TECH, branchId: BRANCH, input: charge(500), now: NOW }));
       const afterRefusal = await counts();
@@ -88,9 +110,30 @@ describePg("writes", () => {
       // The generic amendment and void on another regulated record.
       const purchase = await db("purchases").where({ branch_id: BRANCH }).orderBy("id").first("id", "organisation_id");
       await db.transaction((trx) =>
-        amendRecord(trx, { table: "purchases", subjectType: "Purchase", id: purchase.id, organisationId: 1, actorId: TECH.userId, reason: "Invoice number mistyped", changes: { invoice_reference: "INV-CORRECTED" }, summary: "Corrected the invoice", at: AT }),
+        amendRecord(trx, {
+          table: "purchases",
+          subjectType: "Purchase",
+          id: purchase.id,
+          organisationId: 1,
+          actorId: TECH.userId,
+          reason: "Invoice number mistyped",
+          changes: { invoice_reference: "INV-CORRECTED" },
+          summary: "Corrected the invoice",
+          at: AT,
+        }),
       );
-      await db.transaction((trx) => voidRecord(trx, { table: "purchases", subjectType: "Purchase", id: purchase.id, organisationId: 1, actorId: TECH.userId, reason: "Duplicate entry", summary: "Voided a purchase", at: AT }));
+      await db.transaction((trx) =>
+        voidRecord(trx, {
+          table: "purchases",
+          subjectType: "Purchase",
+          id: purchase.id,
+          organisationId: 1,
+          actorId: TECH.userId,
+          reason: "Duplicate entry",
+          summary: "Voided a purchase",
+          at: AT,
+        }),
+      );
       return {
         ids: { recovered, charged, amendment },
         start,
@@ -98,7 +141,8 @@ describePg("writes", () => {
         afterVoid,
         noChange,
         tooMuch,
-        refusalWroteNothing: JSON.stringify(beforeRefusal) === JSON.stringify(afterRefusal) && afterRefusalContents.contents_g === afterVoid.contents_g,
+        refusalWroteNothing:
+          JSON.stringify(beforeRefusal) === JSON.stringify(afterRefusal) && afterRefusalContents.contents_g === afterVoid.contents_g,
         jobs: withBooleans(await db("jobs").whereIn("id", [recovered, charged]).orderBy("id").select("*"), JOB_BOOLEANS),
         movements: await db("refrigerant_movements").where("id", ">", before.movements).orderBy("id").select("*"),
         amendments: {
@@ -106,7 +150,10 @@ describePg("writes", () => {
           purchase: await listAmendments(db, { organisationId: 1, subjectType: "Purchase", subjectId: purchase.id }),
         },
         purchase: await db("purchases").where({ id: purchase.id }).first("invoice_reference", "voided_at", "void_reason"),
-        activity: await db("activity").where("id", ">", before.activity).orderBy("id").select("actor_id", "branch_id", "action", "subject_type", "subject_id", "at", "summary", "data"),
+        activity: await db("activity")
+          .where("id", ">", before.activity)
+          .orderBy("id")
+          .select("actor_id", "branch_id", "action", "subject_type", "subject_id", "at", "summary", "data"),
       };
     };
     const r = await same(pair, writeAll, "writes");
@@ -117,9 +164,21 @@ describePg("writes", () => {
     expect(r.tooMuch).toMatchObject({ code: "conflict", field: "chargedAmount" });
     expect(r.refusalWroteNothing).toBe(true);
     expect(r.amendments.job).toHaveLength(1);
-    expect(r.amendments.job[0]).toMatchObject({ previous: { recovered_g: 2000, compressor_operating: false }, next: { recovered_g: 2500, compressor_operating: true } });
+    expect(r.amendments.job[0]).toMatchObject({
+      previous: { recovered_g: 2000, compressor_operating: false },
+      next: { recovered_g: 2500, compressor_operating: true },
+    });
     expect(r.purchase).toMatchObject({ invoice_reference: "INV-CORRECTED", void_reason: "Duplicate entry" });
-    expect(r.activity.map((a) => a.action)).toEqual(expect.arrayContaining(["job.recovery.created", "job.charge.created", "job.amended", "job.voided", "purchase.amended", "purchase.voided"]));
+    expect(r.activity.map((a) => a.action)).toEqual(
+      expect.arrayContaining([
+        "job.recovery.created",
+        "job.charge.created",
+        "job.amended",
+        "job.voided",
+        "purchase.amended",
+        "purchase.voided",
+      ]),
+    );
   });
 
   it("refuses UPDATE and DELETE of the history the writes appended (PostgreSQL triggers)", async () => {
@@ -127,7 +186,9 @@ describePg("writes", () => {
     const amendment = await db("amendments").orderBy("id", "desc").first("id", "reason");
     const activity = await db("activity").orderBy("id", "desc").first("id", "summary");
     expect(amendment).toBeTruthy();
-    await expect(db("amendments").where({ id: amendment.id }).update({ reason: "Nothing to see" })).rejects.toThrow(/amendments is append-only/);
+    await expect(db("amendments").where({ id: amendment.id }).update({ reason: "Nothing to see" })).rejects.toThrow(
+      /amendments is append-only/,
+    );
     await expect(db("amendments").where({ id: amendment.id }).del()).rejects.toThrow(/amendments is append-only/);
     await expect(db("activity").where({ id: activity.id }).update({ summary: "Rewritten" })).rejects.toThrow(/activity is append-only/);
     await expect(db("activity").where("id", "<=", activity.id).del()).rejects.toThrow(/activity is append-only/);
@@ -151,12 +212,16 @@ describePg("writes", () => {
     try {
       // Another writer changes the cylinder and keeps its transaction open.
       const [{ pid }] = (await other.raw("select pg_backend_pid() as pid")).rows;
-      await other("cylinders").where({ id: CYLINDER }).update({ contents_g: start + 3000 });
+      await other("cylinders")
+        .where({ id: CYLINDER })
+        .update({ contents_g: start + 3000 });
       const job = createJob(db, { actor: TECH, branchId: BRANCH, input: charge(1), now: NOW });
       // Wait until the job's transaction is blocked behind the other writer, then let that one commit.
       let waiting = 0;
       for (let i = 0; i < 400 && waiting === 0; i++) {
-        waiting = Number((await db.raw("select count(*) as n from pg_stat_activity where ? = any(pg_blocking_pids(pid))", [pid])).rows[0].n);
+        waiting = Number(
+          (await db.raw("select count(*) as n from pg_stat_activity where ? = any(pg_blocking_pids(pid))", [pid])).rows[0].n,
+        );
         if (waiting === 0) await new Promise((r) => setTimeout(r, 25));
       }
       expect(waiting, "the job's transaction waits for the other writer").toBe(1);

@@ -3,7 +3,8 @@ import { getRule, runAudit, RULES, type Finding } from "@coldtrail/core";
 import { appliance, job, lb, sampleBranch } from "../../packages/core/test/fixtures/sample-branch";
 
 const options = { packs: ["us_federal", "eu"] as const, period: { from: "2026-01-01", to: "2026-03-31" }, asOf: "2026-03-15T15:00:00Z" };
-const audit = (records = sampleBranch(), extra: Partial<Parameters<typeof runAudit>[1]> = {}) => runAudit(records, { ...options, packs: [...options.packs], ...extra });
+const audit = (records = sampleBranch(), extra: Partial<Parameters<typeof runAudit>[1]> = {}) =>
+  runAudit(records, { ...options, packs: [...options.packs], ...extra });
 const byKey = (findings: Finding[]) => new Map(findings.map((f) => [f.identityKey, f]));
 
 describe("audit engine over an invented branch", () => {
@@ -21,7 +22,9 @@ describe("audit engine over an invented branch", () => {
     expect(keys.has("CT-ACCESS-01:job:104")).toBe(true); // common practice
     expect(keys.has("CT-EQUIP-01:job:104")).toBe(true); // Source: 40 CFR 82.158
     expect(keys.has("CT-EQUIP-02:job:105")).toBe(true); // from memory: system-dependent ≤ 15 lb (REFERENCE.md §1.5)
-    expect(keys.get("CT-CYL-01:job:103:cylinder-10")?.detail).toBe("Recovered 8.6 lb R-410A into cylinder C-0142, which now holds 3.2 lb over its maximum of 40.4 lb"); // Source: AHRI Guideline K (C3: 40.44 lb for R-410A in WC 47.6 lb)
+    expect(keys.get("CT-CYL-01:job:103:cylinder-10")?.detail).toBe(
+      "Recovered 8.6 lb R-410A into cylinder C-0142, which now holds 3.2 lb over its maximum of 40.4 lb",
+    ); // Source: AHRI Guideline K (C3: 40.44 lb for R-410A in WC 47.6 lb)
     expect(keys.get("CT-CYL-02:cylinder:11")?.dueOn).toBe("2024-05-01"); // Source: 49 CFR 180.209 (5-year default setting)
     expect(keys.get("CT-CYL-03:job:105:cylinder-12")?.detail).toContain("which already held 11.0 lb R-410A"); // common practice: one refrigerant per cylinder
     expect(keys.get("CT-CYL-04:cylinder:13:weighing-1")?.detail).toContain("13.3 psi above"); // Source: REFERENCE.md §6.3 example
@@ -55,7 +58,12 @@ describe("audit engine over an invented branch", () => {
   });
 
   it("sorts findings by rule id then record", () => {
-    const sorted = [...findings].sort((a, b) => (a.ruleId + a.recordType).localeCompare(b.ruleId + b.recordType) || a.recordId - b.recordId || a.identityKey.localeCompare(b.identityKey));
+    const sorted = [...findings].sort(
+      (a, b) =>
+        (a.ruleId + a.recordType).localeCompare(b.ruleId + b.recordType) ||
+        a.recordId - b.recordId ||
+        a.identityKey.localeCompare(b.identityKey),
+    );
     expect(findings.map((f) => f.identityKey)).toEqual(sorted.map((f) => f.identityKey));
   });
 
@@ -79,10 +87,25 @@ describe("audit engine over an invented branch", () => {
 
   it("does not fire on a clean record", () => {
     const clean = sampleBranch();
-    clean.jobs = [job({ id: 1, kind: "recovery", performedOn: "2026-02-01", evacuation: { value: 0, unit: "psig" }, movements: [{ direction: "recovered", amountG: lb(3), cylinderId: 10 }] })];
+    clean.jobs = [
+      job({
+        id: 1,
+        kind: "recovery",
+        performedOn: "2026-02-01",
+        evacuation: { value: 0, unit: "psig" },
+        movements: [{ direction: "recovered", amountG: lb(3), cylinderId: 10 }],
+      }),
+    ];
     clean.appliances = [appliance({ id: 1 })];
     clean.cylinders = clean.cylinders.filter((c) => c.id === 10).map((c) => ({ ...c, openingContents: null }));
-    clean.reclaimShipments = [{ id: 1, shippedOn: "2026-02-10", reclaimer: "Valley Reclaim Co.", lines: [{ cylinderId: 10, refrigerant: "R-410A", amountG: lb(3) }] }];
+    clean.reclaimShipments = [
+      {
+        id: 1,
+        shippedOn: "2026-02-10",
+        reclaimer: "Valley Reclaim Co.",
+        lines: [{ cylinderId: 10, refrigerant: "R-410A", amountG: lb(3) }],
+      },
+    ];
     clean.purchases = [];
     clean.technicians = clean.technicians.slice(0, 1);
     expect(runAudit(clean, { ...options, packs: ["us_federal"] })).toEqual([]);
@@ -92,8 +115,22 @@ describe("audit engine over an invented branch", () => {
     const r = sampleBranch();
     r.appliances = [appliance({ id: 30, label: "IPR loop", category: "industrial_process", refrigerant: "R-22", fullChargeG: lb(1000) })];
     r.jobs = [
-      job({ id: 1, kind: "charge", performedOn: "2025-06-01", applianceId: 30, refrigerant: "R-22", movements: [{ direction: "charged", amountG: lb(10), cylinderId: null }] }),
-      job({ id: 2, kind: "charge", performedOn: "2025-06-11", applianceId: 30, refrigerant: "R-22", movements: [{ direction: "charged", amountG: lb(10), cylinderId: null }] }),
+      job({
+        id: 1,
+        kind: "charge",
+        performedOn: "2025-06-01",
+        applianceId: 30,
+        refrigerant: "R-22",
+        movements: [{ direction: "charged", amountG: lb(10), cylinderId: null }],
+      }),
+      job({
+        id: 2,
+        kind: "charge",
+        performedOn: "2025-06-11",
+        applianceId: 30,
+        refrigerant: "R-22",
+        movements: [{ direction: "charged", amountG: lb(10), cylinderId: null }],
+      }),
       job({ id: 3, kind: "leak_repair", performedOn: "2025-06-20", applianceId: 30, refrigerant: "R-22" }),
     ];
     r.leakInspections = [{ id: 1, applianceId: 30, on: "2025-09-05" }];

@@ -18,7 +18,13 @@ describe("certification coverage (40 CFR 82.161; REFERENCE.md §1.1)", () => {
   });
 
   it("Type II covers medium-pressure appliances since 2004", () => {
-    expect(checkCertificationCoverage([{ type: "type_ii", state: "verified" }], { refrigerant: "R-134a", factorySealed: false, fullChargeG: toGrams(60, "lb") }).allowed).toBe(true); // Source: REFERENCE.md §1.1 (Type II includes medium since 2004)
+    expect(
+      checkCertificationCoverage([{ type: "type_ii", state: "verified" }], {
+        refrigerant: "R-134a",
+        factorySealed: false,
+        fullChargeG: toGrams(60, "lb"),
+      }).allowed,
+    ).toBe(true); // Source: REFERENCE.md §1.1 (Type II includes medium since 2004)
   });
 
   it("Type I covers small appliances, Type II does not", () => {
@@ -28,7 +34,13 @@ describe("certification coverage (40 CFR 82.161; REFERENCE.md §1.1)", () => {
   });
 
   it("only verified cards count; a pending card is reported, a rejected one ignored", () => {
-    const r = checkCertificationCoverage([{ type: "type_ii", state: "pending" }, { type: "universal", state: "rejected" }], rooftop);
+    const r = checkCertificationCoverage(
+      [
+        { type: "type_ii", state: "pending" },
+        { type: "universal", state: "rejected" },
+      ],
+      rooftop,
+    );
     expect(r.allowed).toBe(false); // product rule: unverified cards do not authorise
     expect(r.pendingCovering).toEqual(["type_ii"]);
     expect(r.reason).toContain("Type II is awaiting verification");

@@ -78,15 +78,25 @@ describe("small appliance (40 CFR 82.152; REFERENCE.md §1.2)", () => {
     expect(isSmallAppliance({ factorySealed: false, fullChargeG: toGrams(4, "lb") })).toBe(false); // Source: REFERENCE.md §1.2 edge case (field-charged 4-lb unit)
   });
   it("maps to the certification types that cover it", () => {
-    expect(requiredCertificationTypes({ refrigerant: "R-134a", factorySealed: true, fullChargeG: toGrams(0.5, "lb") })).toEqual(["type_i", "universal"]); // Source: REFERENCE.md §1.1 [S6]
-    expect(requiredCertificationTypes({ refrigerant: "R-123", factorySealed: false, fullChargeG: toGrams(900, "lb") })).toEqual(["type_iii", "universal"]); // Source: REFERENCE.md §1.1 [S6]
-    expect(requiredCertificationTypes({ refrigerant: "R-134a", factorySealed: false, fullChargeG: toGrams(90, "lb") })).toEqual(["type_ii", "universal"]); // Source: REFERENCE.md §1.1 (Type II includes medium since 2004)
+    expect(requiredCertificationTypes({ refrigerant: "R-134a", factorySealed: true, fullChargeG: toGrams(0.5, "lb") })).toEqual([
+      "type_i",
+      "universal",
+    ]); // Source: REFERENCE.md §1.1 [S6]
+    expect(requiredCertificationTypes({ refrigerant: "R-123", factorySealed: false, fullChargeG: toGrams(900, "lb") })).toEqual([
+      "type_iii",
+      "universal",
+    ]); // Source: REFERENCE.md §1.1 [S6]
+    expect(requiredCertificationTypes({ refrigerant: "R-134a", factorySealed: false, fullChargeG: toGrams(90, "lb") })).toEqual([
+      "type_ii",
+      "universal",
+    ]); // Source: REFERENCE.md §1.1 (Type II includes medium since 2004)
   });
 });
 
 describe("AIM coverage: HFC-containing with GWP > 53 (REFERENCE.md §6.1)", () => {
   const on = "2026-03-01";
-  const regime = (d: string) => leakRepairRegime({ refrigerant: d, fullChargeG: toGrams(100, "lb"), category: "commercial_refrigeration", on }).regime;
+  const regime = (d: string) =>
+    leakRepairRegime({ refrigerant: d, fullChargeG: toGrams(100, "lb"), category: "commercial_refrigeration", on }).regime;
   it.each(["R-410A", "R-32", "R-134a", "R-404A", "R-407C", "R-454B", "R-452A", "R-448A", "R-449A"])("%s is covered by 84.106", (d) => {
     expect(regime(d)).toBe("us_aim_hfc"); // Source: REFERENCE.md §6.1 AIM coverage test (derived, H); §1.5 [S9]
   });

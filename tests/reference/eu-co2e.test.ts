@@ -46,8 +46,20 @@ describe("CO2e and EU leak checks (REFERENCE.md §7.1)", () => {
     expect(euLeakCheckInterval({ refrigerant: "R-410A", chargeKg: 3 }).required).toBe(true);
   });
   it("EU8: the 842/2006 example blend gives 1,652.5; with AR4 values R-407C gives 1,773.85", () => {
-    expect(mixtureGwp([{ massPercent: 23, gwp: 550 }, { massPercent: 25, gwp: 3400 }, { massPercent: 52, gwp: 1300 }])).toBeCloseTo(1652.5, 6); // Source: legislation.gov.uk 842/2006 Annex I Part 2 [S26]
-    expect(mixtureGwp([{ massPercent: 23, gwp: 675 }, { massPercent: 25, gwp: 3500 }, { massPercent: 52, gwp: 1430 }])).toBeCloseTo(1773.85, 6); // Source: REFERENCE.md §7.1 EU8, COMPUTED
+    expect(
+      mixtureGwp([
+        { massPercent: 23, gwp: 550 },
+        { massPercent: 25, gwp: 3400 },
+        { massPercent: 52, gwp: 1300 },
+      ]),
+    ).toBeCloseTo(1652.5, 6); // Source: legislation.gov.uk 842/2006 Annex I Part 2 [S26]
+    expect(
+      mixtureGwp([
+        { massPercent: 23, gwp: 675 },
+        { massPercent: 25, gwp: 3500 },
+        { massPercent: 52, gwp: 1430 },
+      ]),
+    ).toBeCloseTo(1773.85, 6); // Source: REFERENCE.md §7.1 EU8, COMPUTED
   });
   it("EU9: 50 lb R-410A is 22.68 kg, 47.36 t: 12-month band", () => {
     const kg = gramsToKg(toGrams(50, "lb"));

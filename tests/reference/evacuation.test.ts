@@ -16,7 +16,14 @@ describe("40 CFR 82.156 Table 1 (REFERENCE.md §2.1)", () => {
     ["medium", 199, "in_hg_vacuum", 4, "in_hg_vacuum"],
     ["medium", 200, "in_hg_vacuum", 4, "in_hg_vacuum"],
   ];
-  const post: Record<string, number> = { "very_high:100": 0, "very_high:300": 0, "high:199": 0, "high:200": 10, "medium:199": 10, "medium:200": 15 };
+  const post: Record<string, number> = {
+    "very_high:100": 0,
+    "very_high:300": 0,
+    "high:199": 0,
+    "high:200": 10,
+    "medium:199": 10,
+    "medium:200": 15,
+  };
   it.each(rows)("%s, %s lb", (cls, lb, _u, preValue) => {
     const pre = req(cls, lb, PRE);
     const after = req(cls, lb, POST);
@@ -77,7 +84,13 @@ describe("whether a reading satisfies the level, in any unit", () => {
 
 describe("small appliances (40 CFR 82.156(b); REFERENCE.md §2.5)", () => {
   const small = (madeOn: string, compressorOperating: boolean | null) =>
-    requiredEvacuation({ pressureClass: "high", fullChargeG: 500, equipmentManufacturedOn: madeOn, smallAppliance: true, compressorOperating });
+    requiredEvacuation({
+      pressureClass: "high",
+      fullChargeG: 500,
+      equipmentManufacturedOn: madeOn,
+      smallAppliance: true,
+      compressorOperating,
+    });
   it("post-1993 equipment: 90 % with the compressor operating, 80 % without, or 4 in Hg", () => {
     const op = small(POST, true);
     const off = small(POST, false);

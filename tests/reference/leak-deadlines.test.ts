@@ -16,8 +16,13 @@ describe("leak-repair deadlines (REFERENCE.md §3.3)", () => {
     expect(d.retrofitPlanDueOn).toBe("2026-04-09"); // Source: phaseoutfacts.org [S28] (plan within 30 days)
   });
   it("120 days for IPR that needs an industrial-process shutdown", () => {
-    expect(leakDeadlines({ exceededOn: "2026-03-10", timeZone: "UTC", useClass: "industrial_process", needsIndustrialShutdown: true }).repairDueOn).toBe("2026-07-08"); // Source: REFERENCE.md §3.3 (120 days, M-H)
-    expect(leakDeadlines({ exceededOn: "2026-03-10", timeZone: "UTC", useClass: "comfort_cooling", needsIndustrialShutdown: true }).repairDueOn).toBe("2026-04-09"); // shutdown extension is for IPR only
+    expect(
+      leakDeadlines({ exceededOn: "2026-03-10", timeZone: "UTC", useClass: "industrial_process", needsIndustrialShutdown: true })
+        .repairDueOn,
+    ).toBe("2026-07-08"); // Source: REFERENCE.md §3.3 (120 days, M-H)
+    expect(
+      leakDeadlines({ exceededOn: "2026-03-10", timeZone: "UTC", useClass: "comfort_cooling", needsIndustrialShutdown: true }).repairDueOn,
+    ).toBe("2026-04-09"); // shutdown extension is for IPR only
   });
   it("follow-up verification within 10 days; retrofit completed within 1 year", () => {
     expect(followUpVerificationDueOn("2026-04-01", "UTC")).toBe("2026-04-11"); // Source: REFERENCE.md §3.3 (10 days, M)
@@ -25,8 +30,12 @@ describe("leak-repair deadlines (REFERENCE.md §3.3)", () => {
   });
   it("computes dates in the branch's time zone", () => {
     const instant = "2026-03-01T03:30:00Z";
-    expect(leakDeadlines({ exceededOn: instant, timeZone: "America/Los_Angeles", useClass: "comfort_cooling" }).exceededOn).toBe("2026-02-28"); // 19:30 on 28 Feb in Los Angeles
-    expect(leakDeadlines({ exceededOn: instant, timeZone: "America/Los_Angeles", useClass: "comfort_cooling" }).repairDueOn).toBe("2026-03-30");
+    expect(leakDeadlines({ exceededOn: instant, timeZone: "America/Los_Angeles", useClass: "comfort_cooling" }).exceededOn).toBe(
+      "2026-02-28",
+    ); // 19:30 on 28 Feb in Los Angeles
+    expect(leakDeadlines({ exceededOn: instant, timeZone: "America/Los_Angeles", useClass: "comfort_cooling" }).repairDueOn).toBe(
+      "2026-03-30",
+    );
     expect(leakDeadlines({ exceededOn: instant, timeZone: "Europe/Berlin", useClass: "comfort_cooling" }).repairDueOn).toBe("2026-03-31");
   });
 });
@@ -38,8 +47,19 @@ describe("periodic leak inspections (REFERENCE.md §3.4)", () => {
     expect(nextInspectionDueOn("2026-01-31", "quarterly")).toBe("2026-04-30");
   });
   it("smaller commercial systems and comfort cooling once a year; automatic leak detection replaces them", () => {
-    expect(periodicInspectionPlan({ useClass: "commercial_refrigeration", fullChargeG: toGrams(200, "lb"), regime: "us_aim_hfc" }).interval).toBe("annual"); // from memory (REFERENCE.md §3.4, M)
-    expect(periodicInspectionPlan({ useClass: "comfort_cooling", fullChargeG: toGrams(600, "lb"), regime: "us_aim_hfc" }).interval).toBe("annual"); // from memory (REFERENCE.md §3.4, M)
-    expect(periodicInspectionPlan({ useClass: "industrial_process", fullChargeG: toGrams(1000, "lb"), regime: "us_aim_hfc", hasAutomaticLeakDetection: true }).interval).toBeNull(); // from memory (REFERENCE.md §3.4)
+    expect(
+      periodicInspectionPlan({ useClass: "commercial_refrigeration", fullChargeG: toGrams(200, "lb"), regime: "us_aim_hfc" }).interval,
+    ).toBe("annual"); // from memory (REFERENCE.md §3.4, M)
+    expect(periodicInspectionPlan({ useClass: "comfort_cooling", fullChargeG: toGrams(600, "lb"), regime: "us_aim_hfc" }).interval).toBe(
+      "annual",
+    ); // from memory (REFERENCE.md §3.4, M)
+    expect(
+      periodicInspectionPlan({
+        useClass: "industrial_process",
+        fullChargeG: toGrams(1000, "lb"),
+        regime: "us_aim_hfc",
+        hasAutomaticLeakDetection: true,
+      }).interval,
+    ).toBeNull(); // from memory (REFERENCE.md §3.4)
   });
 });

@@ -33,8 +33,12 @@ describe("worked leak-rate examples (REFERENCE.md §3.6)", () => {
   });
   it("E6: AIM comfort cooling at exactly 15 lb is covered; 0.5 lb after 365 days → 3.333 %", () => {
     expect(annualizingLeakRate(0.5, 15, 365)).toBeCloseTo(3.333, 3); // Source: REFERENCE.md §3.6 E6, COMPUTED
-    expect(leakRepairRegime({ refrigerant: "R-410A", fullChargeG: toGrams(15, "lb"), category: "chiller", on: "2026-06-01" }).regime).toBe("us_aim_hfc"); // Source: 84.106 "≥ 15 lb" [S9]
-    expect(leakRepairRegime({ refrigerant: "R-410A", fullChargeG: toGrams(14.9, "lb"), category: "chiller", on: "2026-06-01" }).regime).toBeNull(); // Source: 84.106 [S9]
+    expect(leakRepairRegime({ refrigerant: "R-410A", fullChargeG: toGrams(15, "lb"), category: "chiller", on: "2026-06-01" }).regime).toBe(
+      "us_aim_hfc",
+    ); // Source: 84.106 "≥ 15 lb" [S9]
+    expect(
+      leakRepairRegime({ refrigerant: "R-410A", fullChargeG: toGrams(14.9, "lb"), category: "chiller", on: "2026-06-01" }).regime,
+    ).toBeNull(); // Source: 84.106 [S9]
   });
 
   const e7 = [
@@ -59,7 +63,10 @@ describe("worked leak-rate examples (REFERENCE.md §3.6)", () => {
     expect(rates.slice(1).map((r) => exceedsLeakThreshold(r, 20))).toEqual([false, false, true]); // exceeds at the 4th addition
   });
   it("E8: a 600-lb appliance is a chronic leaker from 750 lb added in a calendar year", () => {
-    const add = (lb: number) => [{ on: "2026-03-01", amountG: toGrams(lb / 2, "lb") }, { on: "2026-09-01", amountG: toGrams(lb / 2, "lb") }];
+    const add = (lb: number) => [
+      { on: "2026-03-01", amountG: toGrams(lb / 2, "lb") },
+      { on: "2026-09-01", amountG: toGrams(lb / 2, "lb") },
+    ];
     expect(chronicLeakTest(toGrams(600, "lb"), add(750), 2026).chronic).toBe(true); // Source: EPA fact sheet [S4] (125 %); REFERENCE.md §3.6 E8
     expect(chronicLeakTest(toGrams(600, "lb"), add(748), 2026).chronic).toBe(false); // Source: REFERENCE.md §3.6 E8
     expect(chronicLeakTest(toGrams(600, "lb"), add(750), 2026).reportDueOn).toBe("2027-03-01"); // Source: REFERENCE.md §3.3 (1 March of the next year; M-H)

@@ -5,13 +5,19 @@ import { massBalance } from "@coldtrail/core";
 describe("mass balance", () => {
   const tol = { percent: 2, minimumG: 454 };
   it("balances when every gram is accounted for", () => {
-    const r = massBalance({ purchasedG: 50_000, recoveredG: 20_000, chargedG: 40_000, shippedG: 18_000, openingStockG: 10_000, closingStockG: 22_000 }, tol);
+    const r = massBalance(
+      { purchasedG: 50_000, recoveredG: 20_000, chargedG: 40_000, shippedG: 18_000, openingStockG: 10_000, closingStockG: 22_000 },
+      tol,
+    );
     expect(r.stockChangeG).toBe(12_000);
     expect(r.unaccountedG).toBe(0);
     expect(r.withinTolerance).toBe(true);
   });
   it("flags a shortfall beyond the tolerance", () => {
-    const r = massBalance({ purchasedG: 50_000, recoveredG: 20_000, chargedG: 40_000, shippedG: 10_000, openingStockG: 10_000, closingStockG: 22_000 }, tol);
+    const r = massBalance(
+      { purchasedG: 50_000, recoveredG: 20_000, chargedG: 40_000, shippedG: 10_000, openingStockG: 10_000, closingStockG: 22_000 },
+      tol,
+    );
     expect(r.unaccountedG).toBe(8_000);
     expect(r.toleranceG).toBe(1_400); // 2 % of 70,000 g taken in
     expect(r.withinTolerance).toBe(false);

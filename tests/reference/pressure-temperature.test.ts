@@ -1,20 +1,25 @@
 import { describe, expect, it } from "vitest";
-import {
-  celsiusToFahrenheit,
-  checkCylinderPressure,
-  psiaToKpa,
-  psigToPsia,
-  PT_TABLES_C,
-  saturationPressurePsig,
-} from "@coldtrail/core";
+import { celsiusToFahrenheit, checkCylinderPressure, psiaToKpa, psigToPsia, PT_TABLES_C, saturationPressurePsig } from "@coldtrail/core";
 
 // Source: REFERENCE.md §6.3 (COMPUTED from the equations of state; matches calcspec.com "NIST REFPROP" [S18]); tolerance ±0.5 psi
 const rows: [number, number, number, number, number][] = [
   // °F, R-22, R-134a, R-410A bubble, R-410A dew
-  [-20, 10.2, -1.8, 26.3, 26.2], [0, 24.0, 6.5, 48.4, 48.2], [20, 43.1, 18.4, 78.7, 78.4], [32, 57.5, 27.8, 101.4, 101.1],
-  [40, 68.6, 35.0, 118.8, 118.4], [50, 84.1, 45.4, 143.1, 142.6], [60, 101.6, 57.4, 170.7, 170.1], [70, 121.4, 71.1, 201.7, 201.1],
-  [77, 136.7, 81.8, 225.7, 224.9], [80, 143.6, 86.7, 236.5, 235.7], [90, 168.4, 104.3, 275.3, 274.5], [100, 195.9, 124.2, 318.5, 317.6],
-  [104, 207.7, 132.7, 337.1, 336.1], [110, 226.4, 146.4, 366.5, 365.4], [120, 260.0, 171.2, 419.5, 418.3], [130, 296.9, 198.7, 478.0, 476.8],
+  [-20, 10.2, -1.8, 26.3, 26.2],
+  [0, 24.0, 6.5, 48.4, 48.2],
+  [20, 43.1, 18.4, 78.7, 78.4],
+  [32, 57.5, 27.8, 101.4, 101.1],
+  [40, 68.6, 35.0, 118.8, 118.4],
+  [50, 84.1, 45.4, 143.1, 142.6],
+  [60, 101.6, 57.4, 170.7, 170.1],
+  [70, 121.4, 71.1, 201.7, 201.1],
+  [77, 136.7, 81.8, 225.7, 224.9],
+  [80, 143.6, 86.7, 236.5, 235.7],
+  [90, 168.4, 104.3, 275.3, 274.5],
+  [100, 195.9, 124.2, 318.5, 317.6],
+  [104, 207.7, 132.7, 337.1, 336.1],
+  [110, 226.4, 146.4, 366.5, 365.4],
+  [120, 260.0, 171.2, 419.5, 418.3],
+  [130, 296.9, 198.7, 478.0, 476.8],
 ];
 
 describe("P-T rows within ±0.5 psi (REFERENCE.md §6.3)", () => {
@@ -57,7 +62,9 @@ describe("non-condensables check (REFERENCE.md §6.3)", () => {
     expect(r.differencePsi).toBeCloseTo(1.4, 1);
   });
   it("the tolerance is a setting", () => {
-    expect(checkCylinderPressure({ refrigerant: "R-22", temperatureF: 80, pressurePsig: 145, tolerancePsi: 1 }).status).toBe("non_condensables_suspected"); // product choice (REFERENCE.md §6.3: no regulation sets it)
+    expect(checkCylinderPressure({ refrigerant: "R-22", temperatureF: 80, pressurePsig: 145, tolerancePsi: 1 }).status).toBe(
+      "non_condensables_suspected",
+    ); // product choice (REFERENCE.md §6.3: no regulation sets it)
   });
   it("says when it cannot judge", () => {
     expect(checkCylinderPressure({ refrigerant: "R-32", temperatureF: 70, pressurePsig: 200, tolerancePsi: 5 }).status).toBe("no_data");

@@ -9,8 +9,27 @@ const must = (d: string) => {
 
 describe("catalogue covers REFERENCE.md §6", () => {
   const listed = [
-    "R-22", "R-410A", "R-32", "R-134a", "R-404A", "R-407C", "R-454B", "R-452A", "R-448A", "R-449A", "R-123",
-    "R-1233zd(E)", "R-290", "R-744", "R-717", "R-12", "R-502", "R-514A", "R-1234yf", "R-1234ze(E)", "R-507A",
+    "R-22",
+    "R-410A",
+    "R-32",
+    "R-134a",
+    "R-404A",
+    "R-407C",
+    "R-454B",
+    "R-452A",
+    "R-448A",
+    "R-449A",
+    "R-123",
+    "R-1233zd(E)",
+    "R-290",
+    "R-744",
+    "R-717",
+    "R-12",
+    "R-502",
+    "R-514A",
+    "R-1234yf",
+    "R-1234ze(E)",
+    "R-507A",
   ];
   it.each(listed)("has %s", (d) => {
     expect(getRefrigerant(d)?.designation).toBe(d); // Source: REFERENCE.md §6.1 / §6.2 tables
@@ -37,23 +56,112 @@ describe("designations are normalised", () => {
 describe("identity, safety group and composition (REFERENCE.md §6.1)", () => {
   const rows: [string, string[], string, string | null, [string, number][] | null][] = [
     ["R-22", ["HCFC"], "A1", "class_ii", null], // Source: REFERENCE.md §6.1 [S16]; A1 ✓ [S31]
-    ["R-410A", ["HFC"], "A1", null, [["R-32", 50], ["R-125", 50]]], // Source: REFERENCE.md §6.1 [S17]
+    [
+      "R-410A",
+      ["HFC"],
+      "A1",
+      null,
+      [
+        ["R-32", 50],
+        ["R-125", 50],
+      ],
+    ], // Source: REFERENCE.md §6.1 [S17]
     ["R-32", ["HFC"], "A2L", null, null], // Source: REFERENCE.md §6.1 ✓ [S31]
     ["R-134a", ["HFC"], "A1", null, null], // Source: REFERENCE.md §6.1
-    ["R-404A", ["HFC"], "A1", null, [["R-125", 44], ["R-143a", 52], ["R-134a", 4]]], // Source: REFERENCE.md §6.1 [S17]
-    ["R-407C", ["HFC"], "A1", null, [["R-32", 23], ["R-125", 25], ["R-134a", 52]]], // Source: REFERENCE.md §6.1 [S17]
-    ["R-454B", ["HFC", "HFO"], "A2L", null, [["R-32", 68.9], ["R-1234yf", 31.1]]], // Source: REFERENCE.md §6.1 [S17]
-    ["R-452A", ["HFC", "HFO"], "A1", null, [["R-32", 11], ["R-125", 59], ["R-1234yf", 30]]], // Source: REFERENCE.md §6.1 [S17]
-    ["R-448A", ["HFC", "HFO"], "A1", null, [["R-32", 26], ["R-125", 26], ["R-1234yf", 20], ["R-134a", 21], ["R-1234ze(E)", 7]]], // Source: REFERENCE.md §6.1 [S17]
-    ["R-449A", ["HFC", "HFO"], "A1", null, [["R-32", 24.3], ["R-125", 24.7], ["R-1234yf", 25.3], ["R-134a", 25.7]]], // Source: REFERENCE.md §6.1 [S17]
+    [
+      "R-404A",
+      ["HFC"],
+      "A1",
+      null,
+      [
+        ["R-125", 44],
+        ["R-143a", 52],
+        ["R-134a", 4],
+      ],
+    ], // Source: REFERENCE.md §6.1 [S17]
+    [
+      "R-407C",
+      ["HFC"],
+      "A1",
+      null,
+      [
+        ["R-32", 23],
+        ["R-125", 25],
+        ["R-134a", 52],
+      ],
+    ], // Source: REFERENCE.md §6.1 [S17]
+    [
+      "R-454B",
+      ["HFC", "HFO"],
+      "A2L",
+      null,
+      [
+        ["R-32", 68.9],
+        ["R-1234yf", 31.1],
+      ],
+    ], // Source: REFERENCE.md §6.1 [S17]
+    [
+      "R-452A",
+      ["HFC", "HFO"],
+      "A1",
+      null,
+      [
+        ["R-32", 11],
+        ["R-125", 59],
+        ["R-1234yf", 30],
+      ],
+    ], // Source: REFERENCE.md §6.1 [S17]
+    [
+      "R-448A",
+      ["HFC", "HFO"],
+      "A1",
+      null,
+      [
+        ["R-32", 26],
+        ["R-125", 26],
+        ["R-1234yf", 20],
+        ["R-134a", 21],
+        ["R-1234ze(E)", 7],
+      ],
+    ], // Source: REFERENCE.md §6.1 [S17]
+    [
+      "R-449A",
+      ["HFC", "HFO"],
+      "A1",
+      null,
+      [
+        ["R-32", 24.3],
+        ["R-125", 24.7],
+        ["R-1234yf", 25.3],
+        ["R-134a", 25.7],
+      ],
+    ], // Source: REFERENCE.md §6.1 [S17]
     ["R-123", ["HCFC"], "B1", "class_ii", null], // Source: REFERENCE.md §6.1 ✓
     ["R-1233zd(E)", ["HCFO"], "A1", null, null], // Source: REFERENCE.md §6.1 ✓ [S32]
     ["R-290", ["HC"], "A3", null, null], // Source: REFERENCE.md §6.1 ✓
     ["R-744", ["natural"], "A1", null, null], // Source: REFERENCE.md §6.1
     ["R-717", ["natural"], "B2L", null, null], // Source: REFERENCE.md §6.1 ✓
     ["R-12", ["CFC"], "A1", "class_i", null], // Source: REFERENCE.md §6.1 ✓
-    ["R-502", ["CFC", "HCFC"], "A1", "class_i", [["R-22", 48.8], ["R-115", 51.2]]], // Source: REFERENCE.md §6.1 (composition from memory)
-    ["R-514A", ["HFO"], "B1", null, [["R-1336mzz(Z)", 74.7], ["R-1130(E)", 25.3]]], // from memory (REFERENCE.md §6.1: composition, B1)
+    [
+      "R-502",
+      ["CFC", "HCFC"],
+      "A1",
+      "class_i",
+      [
+        ["R-22", 48.8],
+        ["R-115", 51.2],
+      ],
+    ], // Source: REFERENCE.md §6.1 (composition from memory)
+    [
+      "R-514A",
+      ["HFO"],
+      "B1",
+      null,
+      [
+        ["R-1336mzz(Z)", 74.7],
+        ["R-1130(E)", 25.3],
+      ],
+    ], // from memory (REFERENCE.md §6.1: composition, B1)
     ["R-1234yf", ["HFO"], "A2L", null, null], // Source: REFERENCE.md §6.1 ✓ [S31]
     ["R-1234ze(E)", ["HFO"], "A2L", null, null], // Source: REFERENCE.md §6.1 ✓ [S31]
   ];
@@ -118,8 +226,14 @@ describe("GWP values (REFERENCE.md §6.1)", () => {
   });
 
   it("R-454B AR5 lies between 466.45 and 466.76 depending on the HFO value (< 1)", () => {
-    const low = mixtureGwp([{ massPercent: 68.9, gwp: 677 }, { massPercent: 31.1, gwp: 0 }]);
-    const high = mixtureGwp([{ massPercent: 68.9, gwp: 677 }, { massPercent: 31.1, gwp: 1 }]);
+    const low = mixtureGwp([
+      { massPercent: 68.9, gwp: 677 },
+      { massPercent: 31.1, gwp: 0 },
+    ]);
+    const high = mixtureGwp([
+      { massPercent: 68.9, gwp: 677 },
+      { massPercent: 31.1, gwp: 1 },
+    ]);
     expect(low).toBeCloseTo(466.45, 2); // Source: REFERENCE.md §6.1 (466.45–466.76)
     expect(high).toBeCloseTo(466.76, 2); // Source: REFERENCE.md §6.1
   });

@@ -62,7 +62,10 @@ const draft = (over: Partial<JobDraft> = {}): JobDraft => ({
   additionExclusion: null,
   ...over,
 });
-const ruleIds = (d: JobDraft, c: JobDraftContext) => checkJobDraft(d, c).warnings.map((w) => w.ruleId).sort();
+const ruleIds = (d: JobDraft, c: JobDraftContext) =>
+  checkJobDraft(d, c)
+    .warnings.map((w) => w.ruleId)
+    .sort();
 
 describe("instant feedback on a job draft", () => {
   it("a conforming recovery raises nothing and says what level is required", () => {
@@ -76,7 +79,12 @@ describe("instant feedback on a job draft", () => {
     const r = checkJobDraft(draft({ evacuation: { value: 4, unit: "in_hg_vacuum" } }), ctx());
     // Source: 40 CFR 82.156 Table 1 (medium-pressure ≥ 200 lb, post-1993 equipment: 15 in Hg)
     expect(r.warnings).toEqual([
-      expect.objectContaining({ ruleId: "CT-EVAC-01", severity: "critical", field: "evacuationValue", message: "This appliance needs 15 in Hg vacuum with this equipment; 4 in Hg entered." }),
+      expect.objectContaining({
+        ruleId: "CT-EVAC-01",
+        severity: "critical",
+        field: "evacuationValue",
+        message: "This appliance needs 15 in Hg vacuum with this equipment; 4 in Hg entered.",
+      }),
     ]);
   });
 
@@ -84,26 +92,42 @@ describe("instant feedback on a job draft", () => {
     // Source: 40 CFR 82.156 Table 1 — high-pressure, < 200 lb: 0 in Hg
     const c = ctx({ appliance: appliance({ refrigerant: "R-410A", category: "packaged_rooftop", fullChargeG: toGrams(20, "lb") }) });
     expect(ruleIds(draft({ refrigerant: "R-410A", evacuation: { value: 0, unit: "psig" } }), c)).toEqual([]);
-    expect(checkJobDraft(draft({ refrigerant: "R-410A", evacuation: { value: 5, unit: "psig" } }), c).warnings[0]?.ruleId).toBe("CT-EVAC-01");
+    expect(checkJobDraft(draft({ refrigerant: "R-410A", evacuation: { value: 5, unit: "psig" } }), c).warnings[0]?.ruleId).toBe(
+      "CT-EVAC-01",
+    );
   });
 
   it("a Type I certification does not cover a rooftop unit; a pending card does not count", () => {
     const rooftop = appliance({ refrigerant: "R-410A", category: "packaged_rooftop", fullChargeG: toGrams(20, "lb") });
-    const typeI = ctx({ appliance: rooftop, technician: { id: 5, name: "T", certifications: [{ id: 1, type: "type_i", state: "verified" }, { id: 2, type: "type_ii", state: "pending" }] } });
+    const typeI = ctx({
+      appliance: rooftop,
+      technician: {
+        id: 5,
+        name: "T",
+        certifications: [
+          { id: 1, type: "type_i", state: "verified" },
+          { id: 2, type: "type_ii", state: "pending" },
+        ],
+      },
+    });
     const w = checkJobDraft(draft({ refrigerant: "R-410A", evacuation: { value: 0, unit: "psig" } }), typeI).warnings;
     // Source: 40 CFR 82.161 — Type II (or Universal) covers high-pressure appliances; only verified cards count (product rule)
     expect(w).toEqual([
       expect.objectContaining({
         ruleId: "CT-CERT-01",
         field: "applianceId",
-        message: "Your Type I certification does not cover this high-pressure appliance: Type II or Universal is needed. Your Type II card is still awaiting verification.",
+        message:
+          "Your Type I certification does not cover this high-pressure appliance: Type II or Universal is needed. Your Type II card is still awaiting verification.",
       }),
     ]);
   });
 
   it("a cylinder that would pass its maximum fill says by how much", () => {
     // Source: REFERENCE.md §5.3 C2/C3 — WC 47.6 lb, R-410A SG 1.062: maximum net 40.44 lb
-    const c = ctx({ appliance: appliance({ refrigerant: "R-410A", category: "packaged_rooftop", fullChargeG: toGrams(50, "lb") }), cylinder: cylinder({ contents: { refrigerant: "R-410A", netG: toGrams(35, "lb") } }) });
+    const c = ctx({
+      appliance: appliance({ refrigerant: "R-410A", category: "packaged_rooftop", fullChargeG: toGrams(50, "lb") }),
+      cylinder: cylinder({ contents: { refrigerant: "R-410A", netG: toGrams(35, "lb") } }),
+    });
     const r = checkJobDraft(draft({ refrigerant: "R-410A", recoveredG: toGrams(8.64, "lb"), evacuation: { value: 0, unit: "psig" } }), c);
     const over = r.warnings.find((w) => w.ruleId === "CT-CYL-01");
     expect(over?.message).toMatch(/^Cylinder C-30 would be over its maximum fill by 3\.2\d lb/);
@@ -129,13 +153,41 @@ describe("instant feedback on a job draft", () => {
   it("a charge reports the leak rate; over the threshold it warns with the repair date", () => {
     // Source: REFERENCE.md §3.6 E1 — 100 lb commercial refrigeration, 10 lb added 180 days after the last: 20.2778 % > 20 %
     const rack = appliance({ category: "commercial_refrigeration", refrigerant: "R-22", fullChargeG: toGrams(100, "lb") });
-    const earlier: Job = { ...draftAsJob(draft({ kind: "charge", chargedG: toGrams(10, "lb"), recoveredG: null, evacuation: null, refrigerant: "R-22" }), ctx({ appliance: rack })), id: 77, performedOn: "2026-01-10" };
-    const r = checkJobDraft(draft({ kind: "charge", performedOn: "2026-07-09", chargedG: toGrams(10, "lb"), recoveredG: null, evacuation: null, refrigerant: "R-22" }), ctx({ appliance: rack, applianceJobs: [earlier] }));
+    const earlier: Job = {
+      ...draftAsJob(
+        draft({ kind: "charge", chargedG: toGrams(10, "lb"), recoveredG: null, evacuation: null, refrigerant: "R-22" }),
+        ctx({ appliance: rack }),
+      ),
+      id: 77,
+      performedOn: "2026-01-10",
+    };
+    const r = checkJobDraft(
+      draft({
+        kind: "charge",
+        performedOn: "2026-07-09",
+        chargedG: toGrams(10, "lb"),
+        recoveredG: null,
+        evacuation: null,
+        refrigerant: "R-22",
+      }),
+      ctx({ appliance: rack, applianceJobs: [earlier] }),
+    );
     expect(r.leakRate?.percent).toBeCloseTo(20.278, 1);
     expect(r.leakRate).toMatchObject({ threshold: 20, exceeds: true, repairDueOn: "2026-08-08" });
     expect(r.warnings.map((w) => w.ruleId)).toEqual(["CT-LEAK-01"]);
     // A retrofit charge is not counted (82.152): no warning.
-    const excluded = checkJobDraft(draft({ kind: "charge", performedOn: "2026-07-09", chargedG: toGrams(10, "lb"), recoveredG: null, evacuation: null, refrigerant: "R-22", additionExclusion: "retrofit" }), ctx({ appliance: rack, applianceJobs: [earlier] }));
+    const excluded = checkJobDraft(
+      draft({
+        kind: "charge",
+        performedOn: "2026-07-09",
+        chargedG: toGrams(10, "lb"),
+        recoveredG: null,
+        evacuation: null,
+        refrigerant: "R-22",
+        additionExclusion: "retrofit",
+      }),
+      ctx({ appliance: rack, applianceJobs: [earlier] }),
+    );
     expect(excluded.warnings).toEqual([]);
     expect(excluded.leakRate).toMatchObject({ percent: null, excluded: "retrofit" });
   });
@@ -144,10 +196,22 @@ describe("instant feedback on a job draft", () => {
     // Common practice: one set of rules for the form and the audit.
     const cases: Array<[JobDraft, JobDraftContext]> = [
       [draft({ evacuation: { value: 4, unit: "in_hg_vacuum" } }), ctx()],
-      [draft({ accessMethod: "piercing_pliers", temporaryAccessRemoved: false }), ctx({ cylinder: cylinder({ lastRequalifiedOn: "2020-02-18", contents: { refrigerant: "R-22", netG: 2000 } }) })],
+      [
+        draft({ accessMethod: "piercing_pliers", temporaryAccessRemoved: false }),
+        ctx({ cylinder: cylinder({ lastRequalifiedOn: "2020-02-18", contents: { refrigerant: "R-22", netG: 2000 } }) }),
+      ],
       [draft(), ctx({ equipment: { id: 20, serial: "RE-20", kind: "system_dependent", manufacturedOn: null, certification: "unknown" } })],
-      [draft({ refrigerant: "R-410A", evacuation: { value: 0, unit: "psig" } }), ctx({ appliance: appliance({ refrigerant: "R-410A", category: "packaged_rooftop", fullChargeG: toGrams(20, "lb") }), technician: { id: 5, name: "T", certifications: [{ id: 1, type: "type_i", state: "verified" }] } })],
-      [draft({ recoveredG: 160, evacuation: { value: 0, unit: "in_hg_vacuum" }, compressorOperating: false }), ctx({ appliance: appliance({ category: "small_appliance", fullChargeG: 280, factorySealed: true }) })],
+      [
+        draft({ refrigerant: "R-410A", evacuation: { value: 0, unit: "psig" } }),
+        ctx({
+          appliance: appliance({ refrigerant: "R-410A", category: "packaged_rooftop", fullChargeG: toGrams(20, "lb") }),
+          technician: { id: 5, name: "T", certifications: [{ id: 1, type: "type_i", state: "verified" }] },
+        }),
+      ],
+      [
+        draft({ recoveredG: 160, evacuation: { value: 0, unit: "in_hg_vacuum" }, compressorOperating: false }),
+        ctx({ appliance: appliance({ category: "small_appliance", fullChargeG: 280, factorySealed: true }) }),
+      ],
     ];
     for (const [d, c] of cases) {
       const job = { ...draftAsJob(d, c), id: 999 };

@@ -15,7 +15,13 @@ const finding = (ruleId: string, recordId: number, extra: Partial<Finding> = {})
   citation: "40 CFR 82",
   ...extra,
 });
-const stored = (id: number, ruleId: string, recordId: number, state: StoredFinding["state"], occurredOn: string | null = "2026-05-01"): StoredFinding => ({
+const stored = (
+  id: number,
+  ruleId: string,
+  recordId: number,
+  state: StoredFinding["state"],
+  occurredOn: string | null = "2026-05-01",
+): StoredFinding => ({
   id,
   identityKey: `${ruleId}:job:${recordId}`,
   ruleId,
@@ -43,7 +49,12 @@ describe("reconciling a run with the stored findings", () => {
   });
 
   it("opens a finding that was no longer found and is found again, with a fresh due date", () => {
-    const r = reconcileFindings({ stored: [stored(7, "CT-EVAC-01", 10, "no_longer_found")], found: [finding("CT-EVAC-01", 10)], scope, today: "2026-12-01" });
+    const r = reconcileFindings({
+      stored: [stored(7, "CT-EVAC-01", 10, "no_longer_found")],
+      found: [finding("CT-EVAC-01", 10)],
+      scope,
+      today: "2026-12-01",
+    });
     expect(r.update).toEqual([expect.objectContaining({ id: 7, state: "open", foundAgain: true, dueOn: "2026-12-31" })]);
   });
 
@@ -64,7 +75,11 @@ describe("reconciling a run with the stored findings", () => {
 
   it("does not close findings the run could not have seen: events outside the period, or another rule pack", () => {
     const r = reconcileFindings({
-      stored: [stored(1, "CT-EVAC-01", 10, "open", "2025-06-01"), stored(2, "CT-EU-01", 11, "open", null), stored(3, "CT-CYL-02", 12, "open", null)],
+      stored: [
+        stored(1, "CT-EVAC-01", 10, "open", "2025-06-01"),
+        stored(2, "CT-EU-01", 11, "open", null),
+        stored(3, "CT-CYL-02", 12, "open", null),
+      ],
       found: [],
       scope,
       today: "2026-12-01",
@@ -78,7 +93,14 @@ describe("reconciling a run with the stored findings", () => {
       fc.property(fc.uniqueArray(fc.integer({ min: 1, max: 500 }), { maxLength: 30 }), (ids) => {
         const found = ids.map((id) => finding("CT-EVAC-01", id));
         const first = reconcileFindings({ stored: [], found, scope, today: "2026-12-01" });
-        const storedAfter: StoredFinding[] = first.create.map((c, i) => ({ id: i + 1, identityKey: c.finding.identityKey, ruleId: c.finding.ruleId, state: "open", occurredOn: null, dueOn: c.dueOn }));
+        const storedAfter: StoredFinding[] = first.create.map((c, i) => ({
+          id: i + 1,
+          identityKey: c.finding.identityKey,
+          ruleId: c.finding.ruleId,
+          state: "open",
+          occurredOn: null,
+          dueOn: c.dueOn,
+        }));
         const second = reconcileFindings({ stored: storedAfter, found, scope, today: "2026-12-02" });
         expect(second.create).toEqual([]);
         expect(second.resolve).toEqual([]);

@@ -28,12 +28,24 @@ function shuffled(records: BranchRecords, seed: number): BranchRecords {
     ...records,
     appliances: shuffle(records.appliances, rand),
     recoveryEquipment: shuffle(records.recoveryEquipment, rand),
-    cylinders: shuffle(records.cylinders.map((c) => ({ ...c, weighings: shuffle(c.weighings, rand) })), rand),
-    jobs: shuffle(records.jobs.map((j) => ({ ...j, movements: shuffle(j.movements, rand) })), rand),
-    technicians: shuffle(records.technicians.map((t) => ({ ...t, certifications: shuffle(t.certifications, rand) })), rand),
+    cylinders: shuffle(
+      records.cylinders.map((c) => ({ ...c, weighings: shuffle(c.weighings, rand) })),
+      rand,
+    ),
+    jobs: shuffle(
+      records.jobs.map((j) => ({ ...j, movements: shuffle(j.movements, rand) })),
+      rand,
+    ),
+    technicians: shuffle(
+      records.technicians.map((t) => ({ ...t, certifications: shuffle(t.certifications, rand) })),
+      rand,
+    ),
     disposalRecords: shuffle(records.disposalRecords, rand),
     disposalStatements: shuffle(records.disposalStatements, rand),
-    reclaimShipments: shuffle(records.reclaimShipments.map((s) => ({ ...s, lines: shuffle(s.lines, rand) })), rand),
+    reclaimShipments: shuffle(
+      records.reclaimShipments.map((s) => ({ ...s, lines: shuffle(s.lines, rand) })),
+      rand,
+    ),
     purchases: shuffle(records.purchases, rand),
     stockCounts: shuffle(records.stockCounts, rand),
     leakInspections: shuffle(records.leakInspections, rand),
@@ -46,7 +58,12 @@ const options = { packs: ["us_federal", "eu"] as const, period: { from: "2025-01
 describe("the audit engine is order-independent in its input", () => {
   it("gives the same findings, in the same order, for shuffled records", () => {
     const extraCharges = fc.array(
-      fc.record({ day: fc.integer({ min: 0, max: 170 }), appliance: fc.constantFrom(1, 3, 9), amount: fc.integer({ min: 1, max: 40 }), cylinder: fc.constantFrom(null, 10, 12) }),
+      fc.record({
+        day: fc.integer({ min: 0, max: 170 }),
+        appliance: fc.constantFrom(1, 3, 9),
+        amount: fc.integer({ min: 1, max: 40 }),
+        cylinder: fc.constantFrom(null, 10, 12),
+      }),
       { maxLength: 15 },
     );
     fc.assert(
@@ -54,7 +71,16 @@ describe("the audit engine is order-independent in its input", () => {
         const records = sampleBranch();
         extra.forEach((e, i) => {
           const on = new Date(Date.UTC(2026, 0, 1 + e.day)).toISOString().slice(0, 10);
-          records.jobs.push(job({ id: 1000 + i, kind: "charge", performedOn: on, applianceId: e.appliance, refrigerant: e.appliance === 1 ? "R-410A" : "R-404A", movements: [{ direction: "charged", amountG: lb(e.amount), cylinderId: e.cylinder }] }));
+          records.jobs.push(
+            job({
+              id: 1000 + i,
+              kind: "charge",
+              performedOn: on,
+              applianceId: e.appliance,
+              refrigerant: e.appliance === 1 ? "R-410A" : "R-404A",
+              movements: [{ direction: "charged", amountG: lb(e.amount), cylinderId: e.cylinder }],
+            }),
+          );
         });
         const base = runAudit(records, { ...options, packs: [...options.packs] });
         expect(runAudit(shuffled(records, seed), { ...options, packs: [...options.packs] })).toEqual(base);

@@ -2,26 +2,32 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { addDays, leakRateHistory, type LeakRateMethod } from "../src/rules-core";
 
-const additionsArb = fc.array(
-  fc.record({ day: fc.integer({ min: 0, max: 800 }), amountG: fc.integer({ min: 1, max: 50_000 }) }),
-  { minLength: 1, maxLength: 12 },
-);
+const additionsArb = fc.array(fc.record({ day: fc.integer({ min: 0, max: 800 }), amountG: fc.integer({ min: 1, max: 50_000 }) }), {
+  minLength: 1,
+  maxLength: 12,
+});
 
 describe("leak rate never falls when more is added on the same day", () => {
   for (const method of ["annualizing", "rolling_average"] as LeakRateMethod[]) {
     it(method, () => {
       fc.assert(
-        fc.property(additionsArb, fc.nat(), fc.integer({ min: 1, max: 20_000 }), fc.integer({ min: 1_000, max: 500_000 }), (adds, pick, extra, charge) => {
-          const additions = adds.map((a) => ({ on: addDays("2026-01-01", a.day), amountG: a.amountG }));
-          const target = additions[pick % additions.length]!;
-          const before = leakRateHistory({ fullChargeG: charge, method, additions });
-          const after = leakRateHistory({ fullChargeG: charge, method, additions: [...additions, { on: target.on, amountG: extra }] });
-          const b = before.find((e) => e.on === target.on)!.percent!;
-          const a = after.find((e) => e.on === target.on)!.percent!;
-          expect(a).toBeGreaterThan(b);
-          // and no other day's rate falls
-          for (const e of after) expect(e.percent!).toBeGreaterThanOrEqual(before.find((x) => x.on === e.on)!.percent! - 1e-9);
-        }),
+        fc.property(
+          additionsArb,
+          fc.nat(),
+          fc.integer({ min: 1, max: 20_000 }),
+          fc.integer({ min: 1_000, max: 500_000 }),
+          (adds, pick, extra, charge) => {
+            const additions = adds.map((a) => ({ on: addDays("2026-01-01", a.day), amountG: a.amountG }));
+            const target = additions[pick % additions.length]!;
+            const before = leakRateHistory({ fullChargeG: charge, method, additions });
+            const after = leakRateHistory({ fullChargeG: charge, method, additions: [...additions, { on: target.on, amountG: extra }] });
+            const b = before.find((e) => e.on === target.on)!.percent!;
+            const a = after.find((e) => e.on === target.on)!.percent!;
+            expect(a).toBeGreaterThan(b);
+            // and no other day's rate falls
+            for (const e of after) expect(e.percent!).toBeGreaterThanOrEqual(before.find((x) => x.on === e.on)!.percent! - 1e-9);
+          },
+        ),
       );
     });
   }

@@ -14,7 +14,10 @@ function files(dir: string): string[] {
 
 describe("the rules core has no I/O", () => {
   it("imports no node built-ins, database or web code", () => {
-    const own = [...OWN_DIRS.flatMap((d) => files(join(SRC, d))), ...["errors.ts", "mass-balance.ts", "record-completeness.ts", "settings.ts", "rules-core.ts"].map((f) => join(SRC, f))];
+    const own = [
+      ...OWN_DIRS.flatMap((d) => files(join(SRC, d))),
+      ...["errors.ts", "mass-balance.ts", "record-completeness.ts", "settings.ts", "rules-core.ts"].map((f) => join(SRC, f)),
+    ];
     expect(own.length).toBeGreaterThan(20);
     for (const file of own) {
       const imports = [...readFileSync(file, "utf8").matchAll(/from\s+"([^"]+)"/g)].map((m) => m[1]!);

@@ -149,16 +149,7 @@ export async function up(knex: Knex): Promise<void> {
 }
 
 export async function down(knex: Knex): Promise<void> {
-  for (const table of [
-    "notifications",
-    "saved_views",
-    "evidence",
-    "comments",
-    "finding_events",
-    "audit_findings",
-    "findings",
-    "audits",
-  ]) {
+  for (const table of ["notifications", "saved_views", "evidence", "comments", "finding_events", "audit_findings", "findings", "audits"]) {
     await knex.schema.dropTableIfExists(table);
   }
 }

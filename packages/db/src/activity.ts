@@ -43,8 +43,20 @@ export function rowId(row: unknown): number {
 
 /** Record kinds whose changes can open or close audit findings. */
 const AUDITED_SUBJECTS = [
-  "Appliance", "Cylinder", "CylinderWeighing", "DisposalRecord", "DisposalStatement", "Import", "Job",
-  "Purchase", "ReclaimShipment", "RecoveryEquipment", "Certification", "appliance", "job", "purchase",
+  "Appliance",
+  "Cylinder",
+  "CylinderWeighing",
+  "DisposalRecord",
+  "DisposalStatement",
+  "Import",
+  "Job",
+  "Purchase",
+  "ReclaimShipment",
+  "RecoveryEquipment",
+  "Certification",
+  "appliance",
+  "job",
+  "purchase",
 ];
 
 /** The newest activity id (0 when empty); taken before a write to find what the write touched. */

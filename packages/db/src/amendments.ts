@@ -99,7 +99,16 @@ export async function amendRecord(trx: Knex.Transaction, opts: AmendOptions): Pr
 /** Marks a regulated record as entered in error. The row and its history stay. */
 export async function voidRecord(
   trx: Knex.Transaction,
-  opts: { table: string; subjectType: string; id: number; organisationId: number; actorId: number; reason: string; summary: string; at?: string },
+  opts: {
+    table: string;
+    subjectType: string;
+    id: number;
+    organisationId: number;
+    actorId: number;
+    reason: string;
+    summary: string;
+    at?: string;
+  },
 ): Promise<void> {
   const reason = opts.reason.trim();
   if (reason.length < 3) throw new InvalidInputError("Say why the record is being voided", "reason");
@@ -126,7 +135,10 @@ export async function voidRecord(
 }
 
 /** A record's corrections, oldest first, for its history panel. */
-export async function listAmendments(db: Knex, opts: { organisationId: number; subjectType: string; subjectId: number }): Promise<AmendmentRecord[]> {
+export async function listAmendments(
+  db: Knex,
+  opts: { organisationId: number; subjectType: string; subjectId: number },
+): Promise<AmendmentRecord[]> {
   const rows = await db("amendments as a")
     .join("users as u", "u.id", "a.actor_id")
     .where({ "a.organisation_id": opts.organisationId, "a.subject_type": opts.subjectType, "a.subject_id": opts.subjectId })

@@ -12,10 +12,7 @@ export interface BranchSummary {
 }
 
 /** The organisation's branches by name; archived ones only when asked for. */
-export async function listBranches(
-  db: Knex,
-  opts: { organisationId: number; includeArchived?: boolean },
-): Promise<BranchSummary[]> {
+export async function listBranches(db: Knex, opts: { organisationId: number; includeArchived?: boolean }): Promise<BranchSummary[]> {
   const q = db("branches").where({ organisation_id: opts.organisationId });
   if (!opts.includeArchived) q.whereNull("archived_at");
   const rows = await q.orderBy([{ column: "name" }, { column: "id" }]).select("*");

@@ -11,7 +11,16 @@ export {
 } from "./errors";
 export { appendActivity, latestActivityId, branchesTouchedSince, type ActivityEntry } from "./activity";
 export type { ScopeFn, ActorRef } from "./types";
-export { findUserForSignIn, loadActor, credentialStampOf, currentCredentialStamp, type SignInUser, type Actor, type ActorMembership, type ActorInspectorGrant } from "./users";
+export {
+  findUserForSignIn,
+  loadActor,
+  credentialStampOf,
+  currentCredentialStamp,
+  type SignInUser,
+  type Actor,
+  type ActorMembership,
+  type ActorInspectorGrant,
+} from "./users";
 export { listBranches, type BranchSummary } from "./branches";
 export {
   listJobs,
@@ -71,8 +80,26 @@ export {
   type ShopQueueRow,
   type ShopBatchResult,
 } from "./records/disposals";
-export { listShipments, getShipment, getShipmentRef, createShipment, amendShipment, voidShipment, type ShipmentListRow, type ShipmentDetail } from "./records/shipments";
-export { listPurchases, getPurchase, getPurchaseRef, createPurchase, amendPurchase, voidPurchase, type PurchaseRow, type PurchaseDetail } from "./records/purchases";
+export {
+  listShipments,
+  getShipment,
+  getShipmentRef,
+  createShipment,
+  amendShipment,
+  voidShipment,
+  type ShipmentListRow,
+  type ShipmentDetail,
+} from "./records/shipments";
+export {
+  listPurchases,
+  getPurchase,
+  getPurchaseRef,
+  createPurchase,
+  amendPurchase,
+  voidPurchase,
+  type PurchaseRow,
+  type PurchaseDetail,
+} from "./records/purchases";
 // Certification cards, in-app notifications and spreadsheet imports (cards and imports):
 export * from "./certifications";
 export * from "./imports";

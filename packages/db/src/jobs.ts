@@ -143,10 +143,7 @@ function applyScope(qb: Knex.QueryBuilder, scope: ScopeFn): void {
  * The scope callback sees the jobs table as `jobs` (e.g. `jobs.branch_id`, `jobs.technician_id`).
  * Voided jobs are left out unless `includeVoided` or the query's `voided` filter asks for them.
  */
-export async function listJobs(
-  db: Knex,
-  opts: { scope: ScopeFn; query: JobListQuery; includeVoided?: boolean },
-): Promise<JobListResult> {
+export async function listJobs(db: Knex, opts: { scope: ScopeFn; query: JobListQuery; includeVoided?: boolean }): Promise<JobListResult> {
   const { query } = opts;
   const page = query.page ?? 1;
   const pageSize = query.pageSize ?? 25;
@@ -241,35 +238,34 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     .leftJoin("users as voider", "voider.id", "jobs.voided_by")
     .where("jobs.id", opts.id);
   applyScope(q, opts.scope);
-  const r = await q
-    .first([
-      ...LIST_COLUMNS,
-      "jobs.organisation_id",
-      "site.name as site_name",
-      "site.address as site_address",
-      "customer.name as customer_name",
-      "appliance.refrigerant as appliance_refrigerant",
-      "appliance.full_charge_g as appliance_full_charge_g",
-      "jobs.temporary_access_removed",
-      "jobs.compressor_operating",
-      "jobs.verification_stage",
-      "jobs.verification_passed",
-      "jobs.verification_method",
-      "jobs.related_job_id",
-      "jobs.leak_location",
-      "jobs.repair_description",
-      "jobs.addition_exclusion",
-      "jobs.shutdown_needed",
-      "jobs.notes",
-      "jobs.source",
-      "jobs.void_reason",
-      "jobs.created_by",
-      "creator.name as created_by_name",
-      "jobs.updated_at",
-      "voider.name as voided_by_name",
-      "branch.time_zone as branch_time_zone",
-      "appliance.status as appliance_status",
-    ]);
+  const r = await q.first([
+    ...LIST_COLUMNS,
+    "jobs.organisation_id",
+    "site.name as site_name",
+    "site.address as site_address",
+    "customer.name as customer_name",
+    "appliance.refrigerant as appliance_refrigerant",
+    "appliance.full_charge_g as appliance_full_charge_g",
+    "jobs.temporary_access_removed",
+    "jobs.compressor_operating",
+    "jobs.verification_stage",
+    "jobs.verification_passed",
+    "jobs.verification_method",
+    "jobs.related_job_id",
+    "jobs.leak_location",
+    "jobs.repair_description",
+    "jobs.addition_exclusion",
+    "jobs.shutdown_needed",
+    "jobs.notes",
+    "jobs.source",
+    "jobs.void_reason",
+    "jobs.created_by",
+    "creator.name as created_by_name",
+    "jobs.updated_at",
+    "voider.name as voided_by_name",
+    "branch.time_zone as branch_time_zone",
+    "appliance.status as appliance_status",
+  ]);
   if (!r) return undefined;
   const movements = await db("refrigerant_movements as mv")
     .leftJoin("cylinders as c", "c.id", "mv.cylinder_id")
@@ -280,10 +276,16 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
   const organisationId = Number(r.organisation_id);
   const kind = r.kind as JobKind;
   const [leakRate, amendments, record, statement] = await Promise.all([
-    kind === "charge" ? leakRateOfJob(db, { organisationId, jobId: opts.id, applianceId: Number(r.appliance_id), branchId: Number(r.branch_id) }) : Promise.resolve(null),
+    kind === "charge"
+      ? leakRateOfJob(db, { organisationId, jobId: opts.id, applianceId: Number(r.appliance_id), branchId: Number(r.branch_id) })
+      : Promise.resolve(null),
     listAmendments(db, { organisationId, subjectType: "Job", subjectId: opts.id }),
-    kind === "disposal" ? db("disposal_records").where({ job_id: opts.id }).whereNull("voided_at").orderBy("id", "desc").first("id") : Promise.resolve(undefined),
-    kind === "disposal" ? db("disposal_statements").where({ job_id: opts.id }).whereNull("voided_at").orderBy("id", "desc").first("id") : Promise.resolve(undefined),
+    kind === "disposal"
+      ? db("disposal_records").where({ job_id: opts.id }).whereNull("voided_at").orderBy("id", "desc").first("id")
+      : Promise.resolve(undefined),
+    kind === "disposal"
+      ? db("disposal_statements").where({ job_id: opts.id }).whereNull("voided_at").orderBy("id", "desc").first("id")
+      : Promise.resolve(undefined),
   ]);
   return {
     ...toListRow(r),

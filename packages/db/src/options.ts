@@ -162,4 +162,3 @@ export async function listEquipmentOptions(
     systemDependent: toBool(r.system_dependent),
   }));
 }
-

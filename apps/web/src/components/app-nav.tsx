@@ -32,7 +32,9 @@ export function AppNav({ items }: { items: NavItem[] }) {
   useEffect(() => setOpen(false), [pathname]);
 
   const current = items.find((i) => isActive(pathname, i.href, items));
-  const groups = NAV_GROUPS.map((g) => ({ group: g, items: items.filter((i) => (i.group ?? "Work") === g) })).filter((g) => g.items.length > 0);
+  const groups = NAV_GROUPS.map((g) => ({ group: g, items: items.filter((i) => (i.group ?? "Work") === g) })).filter(
+    (g) => g.items.length > 0,
+  );
 
   return (
     <div className="border-b border-ink-200 bg-white lg:sticky lg:top-14 lg:h-[calc(100dvh-3.5rem)] lg:w-56 lg:shrink-0 lg:overflow-y-auto lg:border-b-0 lg:border-r">
@@ -64,7 +66,9 @@ export function AppNav({ items }: { items: NavItem[] }) {
                       href={item.href}
                       aria-current={active ? "page" : undefined}
                       className={`flex min-h-10 items-center rounded-md border-l-4 px-2 py-2 text-sm font-medium ${
-                        active ? "border-fjord-600 bg-fjord-50 text-fjord-800" : "border-transparent text-ink-700 hover:bg-ink-100 hover:text-ink-950"
+                        active
+                          ? "border-fjord-600 bg-fjord-50 text-fjord-800"
+                          : "border-transparent text-ink-700 hover:bg-ink-100 hover:text-ink-950"
                       }`}
                     >
                       {item.label}

@@ -79,7 +79,13 @@ export function JobsTable({ compact = false, initialPageSize = 25 }: { compact?:
       {!compact && (
         <FilterBar className="sm:grid-cols-2 lg:grid-cols-6">
           <SearchFilter label="Search appliance" value={filters.q} onChange={(v) => set("q", v)} placeholder="Tag or description" />
-          <SelectFilter label="Job kind" value={filters.kind} onChange={(v) => set("kind", v)} anyLabel="All kinds" options={optionsOf(JOB_KINDS, JOB_KIND_LABELS)} />
+          <SelectFilter
+            label="Job kind"
+            value={filters.kind}
+            onChange={(v) => set("kind", v)}
+            anyLabel="All kinds"
+            options={optionsOf(JOB_KINDS, JOB_KIND_LABELS)}
+          />
           <BranchFilter branches={branches.data?.rows ?? []} value={filters.branchId} onChange={(v) => set("branchId", v)} />
           <DateFilter label="From" value={filters.from} onChange={(v) => set("from", v)} />
           <DateFilter label="To" value={filters.to} onChange={(v) => set("to", v)} />

@@ -40,7 +40,8 @@ export function NotificationsBell() {
     staleTime: 10_000,
   });
   const markRead = useMutation({
-    mutationFn: (body: { ids: number[] } | { all: true }) => fetchJson<{ changed: number }>("/api/notifications/read", { method: "POST", body: JSON.stringify(body) }),
+    mutationFn: (body: { ids: number[] } | { all: true }) =>
+      fetchJson<{ changed: number }>("/api/notifications/read", { method: "POST", body: JSON.stringify(body) }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ["notifications"] }),
   });
 
@@ -77,14 +78,28 @@ export function NotificationsBell() {
         className="relative flex min-h-10 items-center gap-1.5 rounded-md px-3 py-2 text-sm font-medium text-ink-200 hover:bg-ink-800 hover:text-white"
         data-testid="notifications-button"
       >
-        <svg width="20" height="20" viewBox="0 0 24 24" fill="none" stroke="currentColor" strokeWidth="2" strokeLinecap="round" strokeLinejoin="round" aria-hidden="true">
+        <svg
+          width="20"
+          height="20"
+          viewBox="0 0 24 24"
+          fill="none"
+          stroke="currentColor"
+          strokeWidth="2"
+          strokeLinecap="round"
+          strokeLinejoin="round"
+          aria-hidden="true"
+        >
           <path d="M6 10a6 6 0 0 1 12 0c0 5 2 6 2 6H4s2-1 2-6" />
           <path d="M10 20a2 2 0 0 0 4 0" />
         </svg>
         <span className="sr-only sm:not-sr-only">Notices</span>
         <span className="sr-only">{unread > 0 ? `, ${unread} unread` : ", none unread"}</span>
         {unread > 0 && (
-          <span aria-hidden="true" className="tabular rounded-full bg-white px-1.5 text-xs font-bold text-ink-900" data-testid="notifications-count">
+          <span
+            aria-hidden="true"
+            className="tabular rounded-full bg-white px-1.5 text-xs font-bold text-ink-900"
+            data-testid="notifications-count"
+          >
             {unread > 99 ? "99+" : unread}
           </span>
         )}
@@ -100,7 +115,11 @@ export function NotificationsBell() {
           <div className="flex items-center justify-between gap-2">
             <h2 className="font-semibold">Notifications</h2>
             {unread > 0 && (
-              <button type="button" onClick={() => markRead.mutate({ all: true })} className="rounded-md px-2 py-1 text-sm font-medium text-fjord-700 underline">
+              <button
+                type="button"
+                onClick={() => markRead.mutate({ all: true })}
+                className="rounded-md px-2 py-1 text-sm font-medium text-fjord-700 underline"
+              >
                 Mark all as read
               </button>
             )}
@@ -144,7 +163,11 @@ export function NotificationsBell() {
             })}
           </ul>
           {inbox.data && inbox.data.total > rows.length && (
-            <button type="button" onClick={() => setPageSize((s) => Math.min(50, s + 10))} className="mt-2 w-full rounded-md border border-ink-200 px-3 py-2 text-sm font-medium">
+            <button
+              type="button"
+              onClick={() => setPageSize((s) => Math.min(50, s + 10))}
+              className="mt-2 w-full rounded-md border border-ink-200 px-3 py-2 text-sm font-medium"
+            >
               Show more
             </button>
           )}

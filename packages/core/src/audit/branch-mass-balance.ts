@@ -45,7 +45,8 @@ export function branchMassBalance(records: BranchRecords, period: AuditPeriod, s
   }
   const opening = new Map<string, { on: string; id: number; netG: number }>();
   const closing = new Map<string, { on: string; id: number; netG: number }>();
-  const later = (a: { on: string; id: number } | undefined, b: { on: string; id: number }) => !a || b.on > a.on || (b.on === a.on && b.id > a.id);
+  const later = (a: { on: string; id: number } | undefined, b: { on: string; id: number }) =>
+    !a || b.on > a.on || (b.on === a.on && b.id > a.id);
   for (const c of records.stockCounts) {
     const key = normaliseDesignation(c.refrigerant);
     if (c.on <= period.from && later(opening.get(key), c)) opening.set(key, c);

@@ -55,11 +55,21 @@ export function buildCylinderLedgers(records: BranchRecords, settings: AuditSett
       const key = `${m.cylinderId}:${m.direction}`;
       const s = sums.get(key);
       if (s) s.amountG += m.amountG;
-      else sums.set(key, { cylinderId: m.cylinderId, direction: m.direction, amountG: m.amountG, refrigerant: movementRefrigerant(job, m) });
+      else
+        sums.set(key, { cylinderId: m.cylinderId, direction: m.direction, amountG: m.amountG, refrigerant: movementRefrigerant(job, m) });
     }
     for (const s of sums.values()) {
-      if (s.direction === "recovered") push(s.cylinderId, { kind: "in", on: job.performedOn, jobId: job.id, amountG: s.amountG, refrigerant: s.refrigerant });
-      else push(s.cylinderId, { kind: "out", on: job.performedOn, jobId: job.id, shipmentId: null, amountG: s.amountG, refrigerant: s.refrigerant });
+      if (s.direction === "recovered")
+        push(s.cylinderId, { kind: "in", on: job.performedOn, jobId: job.id, amountG: s.amountG, refrigerant: s.refrigerant });
+      else
+        push(s.cylinderId, {
+          kind: "out",
+          on: job.performedOn,
+          jobId: job.id,
+          shipmentId: null,
+          amountG: s.amountG,
+          refrigerant: s.refrigerant,
+        });
     }
   }
   for (const shipment of records.reclaimShipments) {
@@ -71,12 +81,26 @@ export function buildCylinderLedgers(records: BranchRecords, settings: AuditSett
       else sums.set(line.cylinderId, { amountG: line.amountG, refrigerant: normaliseDesignation(line.refrigerant) });
     }
     for (const [cylinderId, s] of sums) {
-      push(cylinderId, { kind: "out", on: shipment.shippedOn, jobId: null, shipmentId: shipment.id, amountG: s.amountG, refrigerant: s.refrigerant });
+      push(cylinderId, {
+        kind: "out",
+        on: shipment.shippedOn,
+        jobId: null,
+        shipmentId: shipment.id,
+        amountG: s.amountG,
+        refrigerant: s.refrigerant,
+      });
     }
   }
   for (const c of records.cylinders) {
     for (const w of c.weighings) {
-      push(c.id, { kind: "weighing", on: w.on, weighingId: w.id, grossG: w.grossG, temperatureF: w.temperatureF, pressurePsig: w.pressurePsig });
+      push(c.id, {
+        kind: "weighing",
+        on: w.on,
+        weighingId: w.id,
+        grossG: w.grossG,
+        temperatureF: w.temperatureF,
+        pressurePsig: w.pressurePsig,
+      });
     }
   }
   const ledgers = new Map<number, LedgerStep[]>();
@@ -112,9 +136,21 @@ export function buildCylinderLedgers(records: BranchRecords, settings: AuditSett
         mixed = false;
       }
       if (entry.kind === "weighing" && entry.temperatureF !== null && entry.pressurePsig !== null && refrigerant && !mixed) {
-        pressureCheck = checkCylinderPressure({ refrigerant, temperatureF: entry.temperatureF, pressurePsig: entry.pressurePsig, tolerancePsi: settings.ptTolerancePsi });
+        pressureCheck = checkCylinderPressure({
+          refrigerant,
+          temperatureF: entry.temperatureF,
+          pressurePsig: entry.pressurePsig,
+          tolerancePsi: settings.ptTolerancePsi,
+        });
       }
-      steps.push({ entry, netAfterG: net, refrigerant, maxFill: safeMaxFill(cylinder, refrigerant, settings.strictFill130F), mixedInto, pressureCheck });
+      steps.push({
+        entry,
+        netAfterG: net,
+        refrigerant,
+        maxFill: safeMaxFill(cylinder, refrigerant, settings.strictFill130F),
+        mixedInto,
+        pressureCheck,
+      });
     }
     ledgers.set(cylinder.id, steps);
   }

@@ -3,14 +3,7 @@ import type { AuditSettings } from "../settings";
 import type { RecordIndex } from "./record-index";
 import type { BranchRecords } from "./records";
 
-export type FindingRecordType =
-  | "job"
-  | "appliance"
-  | "cylinder"
-  | "equipment"
-  | "technician"
-  | "certification"
-  | "branch";
+export type FindingRecordType = "job" | "appliance" | "cylinder" | "equipment" | "technician" | "certification" | "branch";
 
 export interface Finding {
   ruleId: string;

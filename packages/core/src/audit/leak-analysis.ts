@@ -50,7 +50,12 @@ const onOf = (j: Job) => j.performedOn;
  * Jobs arrive sorted by date then id. An episode opens at the first addition over the threshold and
  * is closed by the first leak-repair job on or after that date; later exceedances open a new one.
  */
-export function analyseLeaks(appliance: Appliance, jobs: readonly Job[], settings: AuditSettings, timeZone: string): ApplianceLeakAnalysis | null {
+export function analyseLeaks(
+  appliance: Appliance,
+  jobs: readonly Job[],
+  settings: AuditSettings,
+  timeZone: string,
+): ApplianceLeakAnalysis | null {
   const useClass = CATEGORY_LEAK_RULES[appliance.category].useClass;
   if (!useClass || !appliance.fullChargeG || appliance.fullChargeG <= 0) return null;
   const additions: RefrigerantAddition[] = [];
@@ -59,7 +64,8 @@ export function analyseLeaks(appliance: Appliance, jobs: readonly Job[], setting
   const followUps: Job[] = [];
   for (const job of jobs) {
     for (const m of job.movements) {
-      if (m.direction === "charged") additions.push({ on: job.performedOn, amountG: m.amountG, excluded: job.additionExclusion, sourceId: job.id });
+      if (m.direction === "charged")
+        additions.push({ on: job.performedOn, amountG: m.amountG, excluded: job.additionExclusion, sourceId: job.id });
     }
     if (job.kind === "leak_repair") repairs.push(job);
     if (job.kind === "verification_test" && job.verification?.passed) {
@@ -72,7 +78,12 @@ export function analyseLeaks(appliance: Appliance, jobs: readonly Job[], setting
   const aim = new Map(leakRateHistory({ ...base, countFrom: LEAK_REGIME_THRESHOLDS.aimFrom }).map((e) => [e.on, e]));
   const events: CoveredEvent[] = [];
   for (const e of all) {
-    const r = leakRepairRegime({ refrigerant: appliance.refrigerant, fullChargeG: appliance.fullChargeG, category: appliance.category, on: e.on });
+    const r = leakRepairRegime({
+      refrigerant: appliance.refrigerant,
+      fullChargeG: appliance.fullChargeG,
+      category: appliance.category,
+      on: e.on,
+    });
     if (!r.regime) continue;
     const event = r.regime === "us_aim_hfc" ? (aim.get(e.on) ?? e) : e;
     if (event.percent === null) continue;
@@ -86,13 +97,21 @@ export function analyseLeaks(appliance: Appliance, jobs: readonly Job[], setting
     if (!c.exceeds) continue;
     if (open && (openUntil === null || c.event.on <= openUntil)) continue;
     const startOn = c.event.on;
-    const deadlines = leakDeadlines({ exceededOn: startOn, timeZone, useClass, needsIndustrialShutdown: appliance.needsIndustrialShutdownForRepair ?? false });
+    const deadlines = leakDeadlines({
+      exceededOn: startOn,
+      timeZone,
+      useClass,
+      needsIndustrialShutdown: appliance.needsIndustrialShutdownForRepair ?? false,
+    });
     const repair = repairs[firstOnOrAfter(repairs, startOn, onOf)] ?? null;
     const after = repair ? repair.performedOn : null;
     const initialTest = after ? (initialTests[firstOnOrAfter(initialTests, after, onOf)] ?? null) : null;
     const followUpTest = initialTest ? (followUps[firstOnOrAfter(followUps, initialTest.performedOn, onOf)] ?? null) : null;
     const retiredOn =
-      appliance.status !== "in_service" && appliance.statusChangedOn && appliance.statusChangedOn >= startOn && appliance.statusChangedOn <= deadlines.repairDueOn
+      appliance.status !== "in_service" &&
+      appliance.statusChangedOn &&
+      appliance.statusChangedOn >= startOn &&
+      appliance.statusChangedOn <= deadlines.repairDueOn
         ? appliance.statusChangedOn
         : null;
     episodes.push({
@@ -112,4 +131,3 @@ export function analyseLeaks(appliance: Appliance, jobs: readonly Job[], setting
   }
   return { useClass, events, episodes, additions };
 }
-

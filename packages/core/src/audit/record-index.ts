@@ -35,11 +35,13 @@ export interface RecordIndex {
   mass(grams: number): string;
 }
 
-export const byDateThenId = <T extends { id: number }>(date: (x: T) => string) => (a: T, b: T) => {
-  const da = date(a);
-  const db = date(b);
-  return da < db ? -1 : da > db ? 1 : a.id - b.id;
-};
+export const byDateThenId =
+  <T extends { id: number }>(date: (x: T) => string) =>
+  (a: T, b: T) => {
+    const da = date(a);
+    const db = date(b);
+    return da < db ? -1 : da > db ? 1 : a.id - b.id;
+  };
 
 function group<T, K>(items: readonly T[], key: (x: T) => K): Map<K, T[]> {
   const m = new Map<K, T[]>();
@@ -79,8 +81,14 @@ export function buildRecordIndex(records: BranchRecords, settings: AuditSettings
     technicians: new Map(records.technicians.map((t) => [t.id, t])),
     jobs,
     jobsByAppliance,
-    disposalRecordsByAppliance: group([...records.disposalRecords].sort((a, b) => a.id - b.id), (d) => d.applianceId),
-    statementsByAppliance: group([...records.disposalStatements].sort((a, b) => a.id - b.id), (d) => d.applianceId),
+    disposalRecordsByAppliance: group(
+      [...records.disposalRecords].sort((a, b) => a.id - b.id),
+      (d) => d.applianceId,
+    ),
+    statementsByAppliance: group(
+      [...records.disposalStatements].sort((a, b) => a.id - b.id),
+      (d) => d.applianceId,
+    ),
     inspectionsByAppliance: group(sortedInspections, (x) => x.applianceId),
     chronicReports: new Set(records.chronicLeakReports.map((r) => `${r.applianceId}:${r.calendarYear}`)),
     cylinderLedgers: buildCylinderLedgers(records, settings),

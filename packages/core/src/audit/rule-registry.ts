@@ -1,6 +1,11 @@
 import type { AuditRule } from "./finding";
 import { certificationUnverified, technicianNotCertified } from "./rules/certification-rules";
-import { cylinderMixedRefrigerants, cylinderNonCondensables, cylinderOverfilled, cylinderPastRequalification } from "./rules/cylinder-rules";
+import {
+  cylinderMixedRefrigerants,
+  cylinderNonCondensables,
+  cylinderOverfilled,
+  cylinderPastRequalification,
+} from "./rules/cylinder-rules";
 import { disposalRecordMissing, disposalWithoutRecovery, smallApplianceStatementMissing } from "./rules/disposal-rules";
 import { euLeakCheckOverdue, euLeakDetectionMissing } from "./rules/eu-rules";
 import {
@@ -11,7 +16,13 @@ import {
   systemDependentOnLargeAppliance,
   temporaryAccessLeftInPlace,
 } from "./rules/evacuation-rules";
-import { chronicLeakerNotReported, leakAwaitingRepair, leakRepairOverdue, periodicInspectionOverdue, verificationTestMissing } from "./rules/leak-rules";
+import {
+  chronicLeakerNotReported,
+  leakAwaitingRepair,
+  leakRepairOverdue,
+  periodicInspectionOverdue,
+  verificationTestMissing,
+} from "./rules/leak-rules";
 import { massBalanceUnaccounted, missingRegisterReference, serviceRecordIncomplete } from "./rules/register-rules";
 
 /**

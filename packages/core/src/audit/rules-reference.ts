@@ -10,7 +10,10 @@ export function renderRulesReference(rules: readonly AuditRule[]): string {
   const lines = [
     "| Rule | Title | Severity | Pack | In force from | Citation |",
     "|---|---|---|---|---|---|",
-    ...rules.map((r) => `| <a id="${r.id.toLowerCase()}"></a>**${r.id}** | ${cell(r.title)} | ${r.severity} | ${r.pack} | ${r.effectiveFrom} | ${cell(r.citation)} |`),
+    ...rules.map(
+      (r) =>
+        `| <a id="${r.id.toLowerCase()}"></a>**${r.id}** | ${cell(r.title)} | ${r.severity} | ${r.pack} | ${r.effectiveFrom} | ${cell(r.citation)} |`,
+    ),
   ];
   return lines.join("\n");
 }

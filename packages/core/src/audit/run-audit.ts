@@ -21,10 +21,21 @@ export interface RunAuditOptions {
 }
 
 const compare = (a: Finding, b: Finding) =>
-  a.ruleId < b.ruleId ? -1 : a.ruleId > b.ruleId ? 1 :
-  a.recordType < b.recordType ? -1 : a.recordType > b.recordType ? 1 :
-  a.recordId !== b.recordId ? a.recordId - b.recordId :
-  a.identityKey < b.identityKey ? -1 : a.identityKey > b.identityKey ? 1 : 0;
+  a.ruleId < b.ruleId
+    ? -1
+    : a.ruleId > b.ruleId
+      ? 1
+      : a.recordType < b.recordType
+        ? -1
+        : a.recordType > b.recordType
+          ? 1
+          : a.recordId !== b.recordId
+            ? a.recordId - b.recordId
+            : a.identityKey < b.identityKey
+              ? -1
+              : a.identityKey > b.identityKey
+                ? 1
+                : 0;
 
 function effectiveOn(rule: AuditRule, date: string): boolean {
   return date >= rule.effectiveFrom && (rule.effectiveUntil === null || date < rule.effectiveUntil);
@@ -40,7 +51,8 @@ function effectiveOn(rule: AuditRule, date: string): boolean {
 export function runAudit(records: BranchRecords, options: RunAuditOptions): Finding[] {
   const timeZone = options.timeZone ?? records.branch.timeZone;
   const { from, to } = options.period;
-  if (!isIsoDate(from) || !isIsoDate(to) || from > to) throw new CoreInputError("The audit period must be two calendar dates, from ≤ to", "period");
+  if (!isIsoDate(from) || !isIsoDate(to) || from > to)
+    throw new CoreInputError("The audit period must be two calendar dates, from ≤ to", "period");
   const settings = resolveSettings(options.settings);
   const context: AuditContext = {
     asOf: toLocalDate(options.asOf, timeZone),

@@ -1,9 +1,5 @@
 import { normaliseDesignation } from "../refrigerants/normalise-designation";
-import {
-  CERTIFICATION_TYPE_LABELS,
-  type CertificationState,
-  type CertificationType,
-} from "../vocabulary";
+import { CERTIFICATION_TYPE_LABELS, type CertificationState, type CertificationType } from "../vocabulary";
 import {
   certificationClass,
   CERTIFICATION_COVERAGE,
@@ -51,9 +47,7 @@ export function checkCertificationCoverage(
   const what = `${CLASS_WORDS[applianceClass]} (${normaliseDesignation(appliance.refrigerant)})`;
   const verified = certs.filter((c) => c.state === "verified").map((c) => c.type);
   const coveredBy = requiredTypes.find((t) => verified.includes(t)) ?? null;
-  const pendingCovering = requiredTypes.filter(
-    (t) => !verified.includes(t) && certs.some((c) => c.type === t && c.state === "pending"),
-  );
+  const pendingCovering = requiredTypes.filter((t) => !verified.includes(t) && certs.some((c) => c.type === t && c.state === "pending"));
   if (coveredBy) {
     return {
       allowed: true,

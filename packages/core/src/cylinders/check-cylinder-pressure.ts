@@ -43,10 +43,25 @@ export function checkCylinderPressure(input: {
   const diff = input.pressurePsig - saturation;
   const at = `${saturation.toFixed(1)} psig at ${input.temperatureF} °F`;
   if (diff > input.tolerancePsi) {
-    return { status: "non_condensables_suspected", saturationPsig: saturation, differencePsi: diff, reason: `Reads ${input.pressurePsig} psig, ${diff.toFixed(1)} psi above ${designation} saturation (${at})` };
+    return {
+      status: "non_condensables_suspected",
+      saturationPsig: saturation,
+      differencePsi: diff,
+      reason: `Reads ${input.pressurePsig} psig, ${diff.toFixed(1)} psi above ${designation} saturation (${at})`,
+    };
   }
   if (diff < -input.tolerancePsi) {
-    return { status: "below_saturation", saturationPsig: saturation, differencePsi: diff, reason: `Reads ${diff.toFixed(1)} psi below saturation (${at}): the cylinder may not have settled, or holds little liquid` };
+    return {
+      status: "below_saturation",
+      saturationPsig: saturation,
+      differencePsi: diff,
+      reason: `Reads ${diff.toFixed(1)} psi below saturation (${at}): the cylinder may not have settled, or holds little liquid`,
+    };
   }
-  return { status: "consistent", saturationPsig: saturation, differencePsi: diff, reason: `Within ${input.tolerancePsi} psi of saturation (${at})` };
+  return {
+    status: "consistent",
+    saturationPsig: saturation,
+    differencePsi: diff,
+    reason: `Within ${input.tolerancePsi} psi of saturation (${at})`,
+  };
 }

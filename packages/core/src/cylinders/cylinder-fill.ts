@@ -71,7 +71,8 @@ export const DEFAULT_REQUALIFICATION_YEARS = 5;
 
 /** Date the next requalification (hydrostatic retest) is due: last test + `years`. */
 export function requalificationDueOn(lastRequalifiedOn: IsoDate, years: number = DEFAULT_REQUALIFICATION_YEARS): IsoDate {
-  if (!(years > 0) || !Number.isInteger(years)) throw new CoreInputError("The requalification period must be a whole number of years", "years");
+  if (!(years > 0) || !Number.isInteger(years))
+    throw new CoreInputError("The requalification period must be a whole number of years", "years");
   return addYears(lastRequalifiedOn, years);
 }
 

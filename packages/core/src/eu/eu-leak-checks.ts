@@ -18,7 +18,15 @@ export function chargeKgForCo2e(tonnes: number, gwp: number): number {
  * Lower bounds inclusive; intervals in months, halved-then-doubled with a leak-detection system.
  */
 export const EU_LEAK_CHECK_BANDS: Readonly<
-  Record<EuAnnex, { measure: "t_co2e" | "kg"; bands: readonly { from: number; months: number; monthsWithLds: number }[]; ldsRequiredFrom: number; hermeticExemptBelow: number }>
+  Record<
+    EuAnnex,
+    {
+      measure: "t_co2e" | "kg";
+      bands: readonly { from: number; months: number; monthsWithLds: number }[];
+      ldsRequiredFrom: number;
+      hermeticExemptBelow: number;
+    }
+  >
 > = {
   annex_i: {
     measure: "t_co2e",
@@ -68,7 +76,13 @@ export function euLeakCheckInterval(input: EuLeakCheckInput): EuLeakCheckResult 
   const r = getRefrigerant(input.refrigerant);
   if (!r) throw new UnknownRefrigerantError(input.refrigerant);
   if (!r.euAnnex) {
-    return { required: false, intervalMonths: null, co2eTonnes: null, leakDetectionSystemRequired: false, reason: `${r.designation} is not a fluorinated gas listed in Annex I or II` };
+    return {
+      required: false,
+      intervalMonths: null,
+      co2eTonnes: null,
+      leakDetectionSystemRequired: false,
+      reason: `${r.designation} is not a fluorinated gas listed in Annex I or II`,
+    };
   }
   const spec = EU_LEAK_CHECK_BANDS[r.euAnnex];
   let amount: number;
@@ -85,10 +99,22 @@ export function euLeakCheckInterval(input: EuLeakCheckInput): EuLeakCheckResult 
   const ldsRequired = amount >= spec.ldsRequiredFrom;
   const band = [...spec.bands].reverse().find((b) => amount >= b.from);
   if (!band) {
-    return { required: false, intervalMonths: null, co2eTonnes: co2e, leakDetectionSystemRequired: false, reason: `${shown} is below ${spec.bands[0]!.from} ${unit}` };
+    return {
+      required: false,
+      intervalMonths: null,
+      co2eTonnes: co2e,
+      leakDetectionSystemRequired: false,
+      reason: `${shown} is below ${spec.bands[0]!.from} ${unit}`,
+    };
   }
   if (input.hermeticallySealed && amount < spec.hermeticExemptBelow) {
-    return { required: false, intervalMonths: null, co2eTonnes: co2e, leakDetectionSystemRequired: false, reason: `Hermetically sealed and labelled, ${shown} is below ${spec.hermeticExemptBelow} ${unit}` };
+    return {
+      required: false,
+      intervalMonths: null,
+      co2eTonnes: co2e,
+      leakDetectionSystemRequired: false,
+      reason: `Hermetically sealed and labelled, ${shown} is below ${spec.hermeticExemptBelow} ${unit}`,
+    };
   }
   const months = input.hasLeakDetectionSystem ? band.monthsWithLds : band.months;
   return {

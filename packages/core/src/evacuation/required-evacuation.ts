@@ -156,8 +156,7 @@ export function evacuationSatisfied(requirement: EvacuationRequirement, evidence
     };
   }
   const { recoveredG, fullChargeG } = evidence;
-  const percent =
-    recoveredG !== null && recoveredG !== undefined && fullChargeG ? (recoveredG / fullChargeG) * 100 : null;
+  const percent = recoveredG !== null && recoveredG !== undefined && fullChargeG ? (recoveredG / fullChargeG) * 100 : null;
   const shareOk = percent !== null && percent >= requirement.percentOfCharge - 1e-9;
   const satisfied = shareOk || vacuumOk;
   const got = percent === null ? "an unknown share" : `${percent.toFixed(1)} %`;

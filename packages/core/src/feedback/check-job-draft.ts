@@ -66,13 +66,7 @@ export interface JobDraftContext {
 
 /** Which input a warning is about, so the form can show it beside that field. */
 export type DraftField =
-  | "applianceId"
-  | "evacuationValue"
-  | "recoveredAmount"
-  | "chargedAmount"
-  | "cylinderId"
-  | "equipmentId"
-  | "temporaryAccessRemoved";
+  "applianceId" | "evacuationValue" | "recoveredAmount" | "chargedAmount" | "cylinderId" | "equipmentId" | "temporaryAccessRemoved";
 
 export interface DraftWarning {
   /** The audit rule that would raise a finding once the job is saved. */
@@ -118,7 +112,12 @@ const CIRCUIT_OPENING: readonly JobKind[] = ["recovery", "charge", "leak_repair"
 const RECOVERING: readonly JobKind[] = ["recovery", "disposal"];
 const SYSTEM_DEPENDENT_MAX_G = toGrams(15, "lb");
 
-const PRESSURE_WORDS: Record<PressureClass, string> = { low: "low-pressure", medium: "medium-pressure", high: "high-pressure", very_high: "very-high-pressure" };
+const PRESSURE_WORDS: Record<PressureClass, string> = {
+  low: "low-pressure",
+  medium: "medium-pressure",
+  high: "high-pressure",
+  very_high: "very-high-pressure",
+};
 
 const EXCLUSION_WORDS: Record<AdditionExclusion, string> = {
   retrofit: "added right after a retrofit",
@@ -170,7 +169,11 @@ export function draftAsJob(draft: JobDraft, ctx: Pick<JobDraftContext, "applianc
     movements.push({ direction: "recovered", amountG: draft.recoveredG, cylinderId: ctx.cylinder?.id ?? null });
   }
   if (draft.kind === "charge" && draft.chargedG !== null) {
-    movements.push({ direction: "charged", amountG: draft.chargedG, cylinderId: draft.chargeFromCylinder ? (ctx.cylinder?.id ?? null) : null });
+    movements.push({
+      direction: "charged",
+      amountG: draft.chargedG,
+      cylinderId: draft.chargeFromCylinder ? (ctx.cylinder?.id ?? null) : null,
+    });
   }
   return {
     id: DRAFT_JOB_ID,
@@ -206,7 +209,12 @@ export function leakRateAtJob(
   const method = settings.leakRateMethod;
   const base = { method, excluded: null, threshold: null, covered: false, exceeds: false, repairDueOn: null } as const;
   if (job.additionExclusion) {
-    return { ...base, percent: null, excluded: job.additionExclusion, reason: `Not counted in the leak rate: ${EXCLUSION_WORDS[job.additionExclusion]}` };
+    return {
+      ...base,
+      percent: null,
+      excluded: job.additionExclusion,
+      reason: `Not counted in the leak rate: ${EXCLUSION_WORDS[job.additionExclusion]}`,
+    };
   }
   const useClass = CATEGORY_LEAK_RULES[appliance.category].useClass;
   if (!appliance.fullChargeG || appliance.fullChargeG <= 0) {
@@ -218,7 +226,12 @@ export function leakRateAtJob(
   if (covered && covered.event.percent !== null) {
     const percent = covered.event.percent;
     const deadlines = covered.exceeds
-      ? leakDeadlines({ exceededOn: covered.event.on, timeZone: opts.timeZone, useClass: useClass!, needsIndustrialShutdown: appliance.needsIndustrialShutdownForRepair ?? false })
+      ? leakDeadlines({
+          exceededOn: covered.event.on,
+          timeZone: opts.timeZone,
+          useClass: useClass!,
+          needsIndustrialShutdown: appliance.needsIndustrialShutdownForRepair ?? false,
+        })
       : null;
     return {
       ...base,
@@ -234,12 +247,22 @@ export function leakRateAtJob(
   }
   // Not covered by a leak-repair rule: the figure is still worth knowing.
   const additions = sorted.flatMap((j) =>
-    j.movements.filter((m) => m.direction === "charged").map((m) => ({ on: j.performedOn, amountG: m.amountG, excluded: j.additionExclusion, sourceId: j.id })),
+    j.movements
+      .filter((m) => m.direction === "charged")
+      .map((m) => ({ on: j.performedOn, amountG: m.amountG, excluded: j.additionExclusion, sourceId: j.id })),
   );
-  const regime = leakRepairRegime({ refrigerant: appliance.refrigerant, fullChargeG: appliance.fullChargeG, category: appliance.category, on: job.performedOn });
-  const event = leakRateHistory({ fullChargeG: appliance.fullChargeG, additions, method, countFrom: regime.regime === "us_aim_hfc" ? LEAK_REGIME_THRESHOLDS.aimFrom : null }).find((e) =>
-    e.sourceIds.includes(jobId),
-  );
+  const regime = leakRepairRegime({
+    refrigerant: appliance.refrigerant,
+    fullChargeG: appliance.fullChargeG,
+    category: appliance.category,
+    on: job.performedOn,
+  });
+  const event = leakRateHistory({
+    fullChargeG: appliance.fullChargeG,
+    additions,
+    method,
+    countFrom: regime.regime === "us_aim_hfc" ? LEAK_REGIME_THRESHOLDS.aimFrom : null,
+  }).find((e) => e.sourceIds.includes(jobId));
   const percent = event?.percent ?? null;
   return {
     ...base,
@@ -268,11 +291,16 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
     const coverage = checkCertificationCoverage(ctx.technician.certifications, a);
     if (!coverage.allowed) {
       const verified = [...new Set(ctx.technician.certifications.filter((c) => c.state === "verified").map((c) => c.type))].sort();
-      const what = coverage.applianceClass === "small_appliance" ? "small appliance" : `${PRESSURE_WORDS[coverage.applianceClass as PressureClass]} appliance`;
+      const what =
+        coverage.applianceClass === "small_appliance"
+          ? "small appliance"
+          : `${PRESSURE_WORDS[coverage.applianceClass as PressureClass]} appliance`;
       const held = verified.length
         ? `Your ${typeList(verified)} certification does not cover this ${what}`
         : `You hold no verified certification, and this ${what} needs one`;
-      const pending = coverage.pendingCovering.length ? ` Your ${typeList(coverage.pendingCovering)} card is still awaiting verification.` : "";
+      const pending = coverage.pendingCovering.length
+        ? ` Your ${typeList(coverage.pendingCovering)} card is still awaiting verification.`
+        : "";
       warnings.push(warn("CT-CERT-01", `${held}: ${typeList(coverage.requiredTypes)} is needed.${pending}`, "applianceId"));
     }
   }
@@ -282,7 +310,13 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
     const equipmentMade = ctx.equipment?.manufacturedOn ?? null;
     const withEquipment = ctx.equipment ? " with this equipment" : "";
     if (smallAppliance) {
-      const req = requiredEvacuation({ pressureClass: "high", fullChargeG: a.fullChargeG, equipmentManufacturedOn: equipmentMade, smallAppliance: true, compressorOperating: draft.compressorOperating });
+      const req = requiredEvacuation({
+        pressureClass: "high",
+        fullChargeG: a.fullChargeG,
+        equipmentManufacturedOn: equipmentMade,
+        smallAppliance: true,
+        compressorOperating: draft.compressorOperating,
+      });
       evacuationRequired = `${req.kind === "small_appliance" ? `${req.percentOfCharge} % of the charge recovered, or 4 in Hg vacuum` : req.description}`;
       if (draft.recoveredG !== null || draft.evacuation) {
         const verdict = evacuationSatisfied(req, { reading: draft.evacuation, recoveredG: draft.recoveredG, fullChargeG: a.fullChargeG });
@@ -291,17 +325,32 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
           const got = draft.recoveredG === null ? "" : `${mass(draft.recoveredG)} of the ${mass(a.fullChargeG ?? 0)} charge${share}`;
           const vac = draft.evacuation ? `${got ? " and " : ""}${reading(draft.evacuation)} reached` : "";
           warnings.push(
-            warn("CT-EVAC-03", `This small appliance needs ${req.percentOfCharge} % of its charge recovered or 4 in Hg vacuum${withEquipment}; ${got}${got ? " recovered" : ""}${vac} so far.`, draft.recoveredG !== null ? "recoveredAmount" : "evacuationValue"),
+            warn(
+              "CT-EVAC-03",
+              `This small appliance needs ${req.percentOfCharge} % of its charge recovered or 4 in Hg vacuum${withEquipment}; ${got}${got ? " recovered" : ""}${vac} so far.`,
+              draft.recoveredG !== null ? "recoveredAmount" : "evacuationValue",
+            ),
           );
         }
       }
     } else if (pressureClass) {
-      const req = requiredEvacuation({ pressureClass, fullChargeG: a.fullChargeG, equipmentManufacturedOn: equipmentMade, smallAppliance: false });
+      const req = requiredEvacuation({
+        pressureClass,
+        fullChargeG: a.fullChargeG,
+        equipmentManufacturedOn: equipmentMade,
+        smallAppliance: false,
+      });
       evacuationRequired = req.description;
       if (draft.evacuation) {
         const verdict = evacuationSatisfied(req, { reading: draft.evacuation });
         if (!verdict.satisfied) {
-          warnings.push(warn("CT-EVAC-01", `This appliance needs ${req.description}${withEquipment}; ${reading(draft.evacuation)} entered.`, "evacuationValue"));
+          warnings.push(
+            warn(
+              "CT-EVAC-01",
+              `This appliance needs ${req.description}${withEquipment}; ${reading(draft.evacuation)} entered.`,
+              "evacuationValue",
+            ),
+          );
         }
       }
     }
@@ -309,7 +358,13 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
 
   // CT-ACCESS-01: a temporary piercing device left on the line.
   if (draft.accessMethod && TEMPORARY_ACCESS_METHODS.includes(draft.accessMethod) && draft.temporaryAccessRemoved === false) {
-    warnings.push(warn("CT-ACCESS-01", "The temporary piercing device is left on the line: remove it and fit a proper access fitting if access is still needed.", "temporaryAccessRemoved"));
+    warnings.push(
+      warn(
+        "CT-ACCESS-01",
+        "The temporary piercing device is left on the line: remove it and fit a proper access fitting if access is still needed.",
+        "temporaryAccessRemoved",
+      ),
+    );
   }
 
   // Recovery equipment: certified (82.158), and system-dependent only up to 15 lb.
@@ -317,11 +372,21 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
     const e = ctx.equipment;
     if (e.certification !== "certified") {
       warnings.push(
-        warn("CT-EQUIP-01", `Recovery equipment ${e.serial} ${e.certification === "unknown" ? "has no recorded certification" : "is not certified"}; use certified equipment or record its certification.`, "equipmentId"),
+        warn(
+          "CT-EQUIP-01",
+          `Recovery equipment ${e.serial} ${e.certification === "unknown" ? "has no recorded certification" : "is not certified"}; use certified equipment or record its certification.`,
+          "equipmentId",
+        ),
       );
     }
     if (e.kind === "system_dependent" && a.fullChargeG !== null && a.fullChargeG > SYSTEM_DEPENDENT_MAX_G) {
-      warnings.push(warn("CT-EQUIP-02", `${e.serial} is system-dependent equipment, allowed only on appliances of 15 lb or less; this one holds ${mass(a.fullChargeG)}.`, "equipmentId"));
+      warnings.push(
+        warn(
+          "CT-EQUIP-02",
+          `${e.serial} is system-dependent equipment, allowed only on appliances of 15 lb or less; this one holds ${mass(a.fullChargeG)}.`,
+          "equipmentId",
+        ),
+      );
     }
   }
 
@@ -335,14 +400,27 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
     if (fills) {
       const years = c.requalificationYears ?? settings.requalificationYears;
       if (!c.lastRequalifiedOn) {
-        warnings.push(warn("CT-CYL-02", `Cylinder ${c.serial} has no requalification date on record; check the stamp before filling it.`, "cylinderId"));
+        warnings.push(
+          warn("CT-CYL-02", `Cylinder ${c.serial} has no requalification date on record; check the stamp before filling it.`, "cylinderId"),
+        );
       } else {
         const due = requalificationDueOn(c.lastRequalifiedOn, years);
-        if (draft.performedOn >= due) warnings.push(warn("CT-CYL-02", `Cylinder ${c.serial} was due for requalification on ${due}; do not fill it until it is retested.`, "cylinderId"));
+        if (draft.performedOn >= due)
+          warnings.push(
+            warn(
+              "CT-CYL-02",
+              `Cylinder ${c.serial} was due for requalification on ${due}; do not fill it until it is retested.`,
+              "cylinderId",
+            ),
+          );
       }
       if (!cylinderAcceptsRefrigerant(c.contents, incoming)) {
         warnings.push(
-          warn("CT-CYL-03", `Cylinder ${c.serial} already holds ${mass(c.contents.netG)} ${holds}; recovering ${normaliseDesignation(incoming)} into it would mix refrigerants.`, "cylinderId"),
+          warn(
+            "CT-CYL-03",
+            `Cylinder ${c.serial} already holds ${mass(c.contents.netG)} ${holds}; recovering ${normaliseDesignation(incoming)} into it would mix refrigerants.`,
+            "cylinderId",
+          ),
         );
       }
       const addG = draft.recoveredG ?? 0;
@@ -352,12 +430,20 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
       cylinderAfter = { netG: netAfter, maxNetG: max?.maxNetG ?? null, refrigerant: refrigerantAfter };
       if (max && addG > 0 && netAfter > max.maxNetG) {
         warnings.push(
-          warn("CT-CYL-01", `Cylinder ${c.serial} would be over its maximum fill by ${mass(netAfter - max.maxNetG)} (maximum ${mass(max.maxNetG)}, ${mass(c.contents.netG)} in it now).`, "recoveredAmount"),
+          warn(
+            "CT-CYL-01",
+            `Cylinder ${c.serial} would be over its maximum fill by ${mass(netAfter - max.maxNetG)} (maximum ${mass(max.maxNetG)}, ${mass(c.contents.netG)} in it now).`,
+            "recoveredAmount",
+          ),
         );
       }
     } else {
       const after = c.contents.netG - (draft.chargedG ?? 0);
-      cylinderAfter = { netG: after, maxNetG: safeMaxFill(c, holds ?? incoming, settings.strictFill130F)?.maxNetG ?? null, refrigerant: holds };
+      cylinderAfter = {
+        netG: after,
+        maxNetG: safeMaxFill(c, holds ?? incoming, settings.strictFill130F)?.maxNetG ?? null,
+        refrigerant: holds,
+      };
     }
   }
 

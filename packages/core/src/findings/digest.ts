@@ -35,7 +35,11 @@ const days = (from: IsoDate, to: IsoDate) => Math.round((Date.parse(`${to}T00:00
  * organisation's for compliance officers and owners. Overdue first, then by due date and id.
  * People with nothing due get nothing.
  */
-export function buildDigests(findings: readonly DigestFinding[], recipients: readonly DigestRecipient[], today: IsoDate): Map<number, DigestLine[]> {
+export function buildDigests(
+  findings: readonly DigestFinding[],
+  recipients: readonly DigestRecipient[],
+  today: IsoDate,
+): Map<number, DigestLine[]> {
   const horizon = addDays(today, DIGEST_WINDOW_DAYS);
   const due = findings
     .filter((f) => (f.state === "open" || f.state === "fix_proposed") && f.dueOn !== null && f.dueOn <= horizon)

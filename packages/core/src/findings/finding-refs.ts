@@ -46,7 +46,10 @@ export function findingRefResolver(records: BranchRecords): (finding: FindingRef
         return { technicianId: certHolder.get(finding.recordId) ?? null, applianceId: null };
       case "appliance": {
         const own = jobsByAppliance.get(finding.recordId) ?? [];
-        const qualifierDate = finding.identityKey.split(":").slice(3).find((part) => isIsoDate(part));
+        const qualifierDate = finding.identityKey
+          .split(":")
+          .slice(3)
+          .find((part) => isIsoDate(part));
         const date = finding.on ?? qualifierDate;
         let candidates = date ? own.filter((j) => j.performedOn === date) : [];
         if (candidates.length === 0 && finding.ruleId.startsWith("CT-DISP-")) candidates = own.filter((j) => j.kind === "disposal");

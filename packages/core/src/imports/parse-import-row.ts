@@ -70,7 +70,11 @@ class RowReader {
     return v;
   }
 
-  choice<K extends string>(key: string, choices: Record<K, readonly string[]>, opts: { required?: string; fallback?: K; what: string }): K | undefined {
+  choice<K extends string>(
+    key: string,
+    choices: Record<K, readonly string[]>,
+    opts: { required?: string; fallback?: K; what: string },
+  ): K | undefined {
     const v = this.raw(key);
     if (v === "") return opts.required ? this.fail(key, opts.required) : opts.fallback;
     const s = squash(v);
@@ -134,7 +138,8 @@ class RowReader {
     const v = this.raw(key);
     if (v === "") return opts.required ? this.fail(key, opts.required) : undefined;
     const designation = normaliseDesignation(v);
-    if (!getRefrigerant(designation)) return this.fail(key, `“${v}” is not in the refrigerant catalogue; use its ASHRAE designation, e.g. R-410A`);
+    if (!getRefrigerant(designation))
+      return this.fail(key, `“${v}” is not in the refrigerant catalogue; use its ASHRAE designation, e.g. R-410A`);
     return designation;
   }
 
@@ -254,7 +259,10 @@ export function parseApplianceImportRow(cells: ImportCells, ctx: ImportParseCont
   const refrigerant = r.refrigerant("refrigerant", { required: "The refrigerant is missing" });
   const unit = r.unit("fullChargeUnit");
   const fullChargeG = r.mass("fullCharge", unit, { required: "The full charge is missing", positive: true });
-  const fullChargeMethod = r.choice<FullChargeMethod>("fullChargeMethod", FULL_CHARGE_METHOD_NAMES, { fallback: "nameplate", what: "way of determining the full charge" });
+  const fullChargeMethod = r.choice<FullChargeMethod>("fullChargeMethod", FULL_CHARGE_METHOD_NAMES, {
+    fallback: "nameplate",
+    what: "way of determining the full charge",
+  });
   const site = r.text("site", 200, { required: "The site is missing" });
   const siteAddress = r.text("siteAddress", 500);
   const customer = r.text("customer", 200);
@@ -266,7 +274,8 @@ export function parseApplianceImportRow(cells: ImportCells, ctx: ImportParseCont
   const retiredOn = r.date("retiredOn");
   const hasLeakDetection = r.yesNo("hasLeakDetection");
 
-  if (manufacturedOn && installedOn && installedOn < manufacturedOn) r.fail("installedOn", "Installed before it was made? Check both dates");
+  if (manufacturedOn && installedOn && installedOn < manufacturedOn)
+    r.fail("installedOn", "Installed before it was made? Check both dates");
   if ((status === "retired" || status === "disposed") && !retiredOn && !r.has("retiredOn")) {
     r.fail("retiredOn", `Enter the date it was ${status === "retired" ? "retired" : "disposed of"}`);
   }
@@ -336,7 +345,11 @@ export function parseCylinderImportRow(cells: ImportCells, ctx: ImportParseConte
   const specificationText = r.text("specification", 64);
   const purpose = r.choice<ImportCylinderPurpose>("purpose", PURPOSE_NAMES, { fallback: "recovery", what: "cylinder purpose" });
   const unit = r.unit("massUnit");
-  const waterCapacityG = r.mass("waterCapacity", unit, { required: "The water capacity is missing", positive: true, max: toGrams(2000, "lb") });
+  const waterCapacityG = r.mass("waterCapacity", unit, {
+    required: "The water capacity is missing",
+    positive: true,
+    max: toGrams(2000, "lb"),
+  });
   const tareG = r.mass("tare", unit, { required: "The tare weight is missing", positive: true, max: toGrams(2000, "lb") });
   const manufacturedOn = r.date("manufacturedOn");
   const lastRequalifiedOn = r.date("lastRequalifiedOn");
@@ -344,8 +357,10 @@ export function parseCylinderImportRow(cells: ImportCells, ctx: ImportParseConte
   const contentsG = r.mass("contents", unit, { max: toGrams(4000, "lb") });
   const status = r.choice<ImportCylinderStatus>("status", CYLINDER_STATUS_NAMES, { fallback: "in_service", what: "cylinder status" });
 
-  if (manufacturedOn && lastRequalifiedOn && lastRequalifiedOn < manufacturedOn) r.fail("lastRequalifiedOn", "Requalified before it was made? Check both dates");
-  if (contentsG !== undefined && contentsG > 0 && !refrigerant && !r.has("refrigerant")) r.fail("refrigerant", "Say which refrigerant the cylinder holds");
+  if (manufacturedOn && lastRequalifiedOn && lastRequalifiedOn < manufacturedOn)
+    r.fail("lastRequalifiedOn", "Requalified before it was made? Check both dates");
+  if (contentsG !== undefined && contentsG > 0 && !refrigerant && !r.has("refrigerant"))
+    r.fail("refrigerant", "Say which refrigerant the cylinder holds");
   if (refrigerant && (contentsG === undefined || contentsG === 0) && !r.has("contents")) {
     r.fail("contents", "Enter the net contents, or leave the refrigerant empty for an empty cylinder");
   }
@@ -436,7 +451,10 @@ export function parseJobImportRow(cells: ImportCells, ctx: ImportParseContext): 
   const cylinderSerial = r.text("cylinderSerial", 64);
   const equipmentSerial = r.text("equipmentSerial", 64);
   const evacuationValue = r.number("evacuationValue", "the evacuation level");
-  const evacuationUnit = r.choice<EvacuationUnit>("evacuationUnit", EVACUATION_UNIT_NAMES, { fallback: "in_hg_vacuum", what: "evacuation unit" });
+  const evacuationUnit = r.choice<EvacuationUnit>("evacuationUnit", EVACUATION_UNIT_NAMES, {
+    fallback: "in_hg_vacuum",
+    what: "evacuation unit",
+  });
   const accessMethod = r.choice("accessMethod", ACCESS_METHOD_NAMES, { what: "access method" });
   const temporaryAccessRemoved = r.yesNo("temporaryAccessRemoved");
   const verificationStage = r.choice("verificationStage", VERIFICATION_STAGE_NAMES, { what: "verification test stage" });
@@ -447,9 +465,14 @@ export function parseJobImportRow(cells: ImportCells, ctx: ImportParseContext): 
 
   const recovers = kind === "recovery" || kind === "disposal";
   if (kind) {
-    if (!recovers) r.unused(["recovered", "equipmentSerial", "evacuationValue"], "Only recoveries and disposals use this; put the recovery on its own row");
+    if (!recovers)
+      r.unused(
+        ["recovered", "equipmentSerial", "evacuationValue"],
+        "Only recoveries and disposals use this; put the recovery on its own row",
+      );
     if (kind !== "charge") r.unused(["charged"], "Only charges add refrigerant; put the charge on its own row");
-    if (kind === "leak_repair" || kind === "verification_test") r.unused(["cylinderSerial"], "A leak repair or verification test moves no refrigerant");
+    if (kind === "leak_repair" || kind === "verification_test")
+      r.unused(["cylinderSerial"], "A leak repair or verification test moves no refrigerant");
     if (kind !== "verification_test") r.unused(["verificationStage", "verificationPassed"], "Only verification tests use this");
     if (kind === "recovery") {
       if (recoveredG === undefined && !r.has("recovered")) r.fail("recovered", "Enter the amount recovered");
@@ -461,20 +484,24 @@ export function parseJobImportRow(cells: ImportCells, ctx: ImportParseContext): 
     if (kind === "charge" && chargedG === undefined && !r.has("charged")) r.fail("charged", "Enter the amount added");
     if (kind === "charge" && chargedG === 0) r.fail("charged", "The amount added must be more than zero");
     if (kind === "verification_test") {
-      if (!verificationStage && !r.has("verificationStage")) r.fail("verificationStage", "Say whether this was the initial or the follow-up test");
-      if (verificationPassed === undefined && !r.has("verificationPassed")) r.fail("verificationPassed", "Say whether the test passed (yes or no)");
+      if (!verificationStage && !r.has("verificationStage"))
+        r.fail("verificationStage", "Say whether this was the initial or the follow-up test");
+      if (verificationPassed === undefined && !r.has("verificationPassed"))
+        r.fail("verificationPassed", "Say whether the test passed (yes or no)");
     }
   }
   if (evacuationValue !== undefined && evacuationUnit) {
     if (evacuationUnit !== "psig" && evacuationValue < 0) r.fail("evacuationValue", "This unit cannot be negative");
-    if (evacuationUnit === "in_hg_vacuum" && evacuationValue > 29.92) r.fail("evacuationValue", "A vacuum cannot be deeper than 29.92 in Hg");
+    if (evacuationUnit === "in_hg_vacuum" && evacuationValue > 29.92)
+      r.fail("evacuationValue", "A vacuum cannot be deeper than 29.92 in Hg");
   }
   if (r.has("evacuationUnit") && !r.has("evacuationValue")) r.fail("evacuationUnit", "There is a unit but no evacuation level");
   const temporary = accessMethod ? TEMPORARY_ACCESS_METHODS.includes(accessMethod) : false;
   if (temporary && temporaryAccessRemoved === undefined && !r.has("temporaryAccessRemoved")) {
     r.fail("temporaryAccessRemoved", "Say whether the temporary piercing device was removed (yes or no)");
   }
-  if (!temporary && r.has("temporaryAccessRemoved")) r.unused(["temporaryAccessRemoved"], "Only piercing pliers and line taps are temporary devices");
+  if (!temporary && r.has("temporaryAccessRemoved"))
+    r.unused(["temporaryAccessRemoved"], "Only piercing pliers and line taps are temporary devices");
 
   if (r.issues.length > 0) return { record: null, issues: r.issues };
   return {
@@ -502,4 +529,8 @@ export function parseJobImportRow(cells: ImportCells, ctx: ImportParseContext): 
   };
 }
 
-export type ImportRecordOf<K> = K extends "appliances" ? ApplianceImportRecord : K extends "cylinders" ? CylinderImportRecord : JobImportRecord;
+export type ImportRecordOf<K> = K extends "appliances"
+  ? ApplianceImportRecord
+  : K extends "cylinders"
+    ? CylinderImportRecord
+    : JobImportRecord;

@@ -43,7 +43,11 @@ export function suggestImportMapping(kind: ImportKind, headings: readonly string
 }
 
 /** Problems with a mapping the person chose: unknown fields, columns out of range, a column used twice, required fields left out. */
-export function checkImportMapping(kind: ImportKind, mapping: ImportMapping, columnCount: number): Array<{ field: string; message: string }> {
+export function checkImportMapping(
+  kind: ImportKind,
+  mapping: ImportMapping,
+  columnCount: number,
+): Array<{ field: string; message: string }> {
   const fields = IMPORT_FIELDS[kind];
   const known = new Set(fields.map((x) => x.key));
   const problems: Array<{ field: string; message: string }> = [];

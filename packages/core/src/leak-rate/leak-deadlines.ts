@@ -111,7 +111,11 @@ export function periodicInspectionPlan(input: {
   }
   const refrigeration = input.useClass === "commercial_refrigeration" || input.useClass === "industrial_process";
   if (refrigeration && input.fullChargeG >= LARGE_PLANT_G) {
-    return { interval: "quarterly", until: "four consecutive quarters below the threshold", reason: "Commercial or industrial refrigeration of 500 lb or more" };
+    return {
+      interval: "quarterly",
+      until: "four consecutive quarters below the threshold",
+      reason: "Commercial or industrial refrigeration of 500 lb or more",
+    };
   }
   return { interval: "annual", until: "one year below the threshold", reason: "Once a calendar year after an exceedance" };
 }

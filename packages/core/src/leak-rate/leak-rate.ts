@@ -112,7 +112,14 @@ export function leakRateHistory(input: LeakRateHistoryInput): LeakRateEvent[] {
           ? annualizingLeakRate(e.addedG, input.fullChargeG, days)
           : rollingAverageLeakRate(windowSum, input.fullChargeG);
     }
-    events.push({ on, addedG: e.addedG, excludedG: e.excludedG, percent, daysSinceLastAddition: days, sourceIds: e.sourceIds.sort((a, b) => a - b) });
+    events.push({
+      on,
+      addedG: e.addedG,
+      excludedG: e.excludedG,
+      percent,
+      daysSinceLastAddition: days,
+      sourceIds: e.sourceIds.sort((a, b) => a - b),
+    });
     previous = on;
   }
   return events;

@@ -30,7 +30,11 @@ export const CATEGORY_LEAK_RULES: Readonly<Record<ApplianceCategory, CategoryLea
     aimExcluded: false,
     note: "84.102 names packaged rooftop units as comfort cooling. Review: a light-commercial rooftop unit may belong to the excluded subsector.",
   },
-  commercial_refrigeration: { useClass: "commercial_refrigeration", aimExcluded: false, note: "Retail food and cold-storage warehouse appliances." },
+  commercial_refrigeration: {
+    useClass: "commercial_refrigeration",
+    aimExcluded: false,
+    note: "Retail food and cold-storage warehouse appliances.",
+  },
   industrial_process: { useClass: "industrial_process", aimExcluded: false, note: "Industrial process refrigeration." },
   chiller: { useClass: "comfort_cooling", aimExcluded: false, note: "84.102 names chillers as comfort cooling." },
   other: { useClass: "other", aimExcluded: false, note: "Other appliances share the comfort-cooling rate." },
@@ -82,7 +86,12 @@ export function leakRepairRegime(input: LeakRegimeInput): LeakRegimeResult {
   if (r.odsClass) {
     const covered = input.on >= t.odsCurrentTextFrom ? charge >= t.odsMinChargeG : charge > t.odsMinChargeG;
     return covered
-      ? { regime: "us_608_ods", useClass, reason: `${r.designation} is an ozone-depleting refrigerant and the charge is 50 lb or more`, citation: "40 CFR 82.157(a)" }
+      ? {
+          regime: "us_608_ods",
+          useClass,
+          reason: `${r.designation} is an ozone-depleting refrigerant and the charge is 50 lb or more`,
+          citation: "40 CFR 82.157(a)",
+        }
       : none(`${r.designation} appliance holds less than 50 lb`);
   }
   const gwp = r.gwp.usExchange;
@@ -91,10 +100,20 @@ export function leakRepairRegime(input: LeakRegimeInput): LeakRegimeResult {
     if (!hfcCovered) return none(`${r.designation} is neither ozone-depleting nor an HFC with GWP above 53`);
     if (rules.aimExcluded) return none("Residential and light-commercial air conditioning is outside the AIM leak-repair rule");
     if (charge < t.aimMinChargeG) return none("The charge is below 15 lb");
-    return { regime: "us_aim_hfc", useClass, reason: `${r.designation} contains an HFC with GWP above 53 and the charge is 15 lb or more`, citation: "40 CFR 84.106" };
+    return {
+      regime: "us_aim_hfc",
+      useClass,
+      reason: `${r.designation} contains an HFC with GWP above 53 and the charge is 15 lb or more`,
+      citation: "40 CFR 84.106",
+    };
   }
   if (input.on >= t.substituteFrom && input.on < t.substituteUntil && r.containsHfc && charge >= t.odsMinChargeG) {
-    return { regime: "us_608_substitute", useClass, reason: `${r.designation} substitute appliance of 50 lb or more (2019–2020 rule)`, citation: "40 CFR 82.157(a) (2016 text)" };
+    return {
+      regime: "us_608_substitute",
+      useClass,
+      reason: `${r.designation} substitute appliance of 50 lb or more (2019–2020 rule)`,
+      citation: "40 CFR 82.157(a) (2016 text)",
+    };
   }
   return none(`No leak-repair rule covers a ${r.designation} appliance on ${input.on}`);
 }
@@ -102,7 +121,11 @@ export function leakRepairRegime(input: LeakRegimeInput): LeakRegimeResult {
 /**
  * Trigger rates (%). Since 2019-01-01: 82.157(c)(2) [S3], same in 84.106 [S9]. Before: old 82.156(i) [S5].
  */
-export const LEAK_RATE_THRESHOLDS: readonly { from: IsoDate | null; until: IsoDate | null; rates: Readonly<Record<LeakUseClass, number>> }[] = [
+export const LEAK_RATE_THRESHOLDS: readonly {
+  from: IsoDate | null;
+  until: IsoDate | null;
+  rates: Readonly<Record<LeakUseClass, number>>;
+}[] = [
   { from: null, until: "2019-01-01", rates: { commercial_refrigeration: 35, industrial_process: 35, comfort_cooling: 15, other: 15 } },
   { from: "2019-01-01", until: null, rates: { commercial_refrigeration: 20, industrial_process: 30, comfort_cooling: 10, other: 10 } },
 ];

@@ -191,9 +191,7 @@ function refineAccess(value: { roles: readonly Role[]; branchIds: readonly numbe
 export const personAccessInput = z.object(accessShape).superRefine(refineAccess);
 export type PersonAccessInput = z.infer<typeof personAccessInput>;
 
-export const invitationInput = z
-  .object({ email, name: personName, ...accessShape })
-  .superRefine(refineAccess);
+export const invitationInput = z.object({ email, name: personName, ...accessShape }).superRefine(refineAccess);
 export type InvitationInput = z.infer<typeof invitationInput>;
 
 export const PEOPLE_SORT_FIELDS = ["name", "email", "createdAt"] as const;
@@ -213,7 +211,10 @@ export type ActivityListQuery = z.infer<typeof activityListQuery>;
 
 // --------------------------------------------------------------------------- invitations and passwords
 
-const token = z.string({ error: "The link is incomplete" }).trim().regex(/^[A-Za-z0-9_-]{20,200}$/, "The link is incomplete");
+const token = z
+  .string({ error: "The link is incomplete" })
+  .trim()
+  .regex(/^[A-Za-z0-9_-]{20,200}$/, "The link is incomplete");
 
 function refineConfirm(value: { password: string; confirmPassword: string }, ctx: z.RefinementCtx): void {
   if (value.password !== value.confirmPassword) {
@@ -229,9 +230,7 @@ export type AcceptInvitationInput = z.infer<typeof acceptInvitationInput>;
 export const forgotPasswordInput = z.object({ email });
 export type ForgotPasswordInput = z.infer<typeof forgotPasswordInput>;
 
-export const resetPasswordInput = z
-  .object({ token, password: newPassword, confirmPassword: z.string() })
-  .superRefine(refineConfirm);
+export const resetPasswordInput = z.object({ token, password: newPassword, confirmPassword: z.string() }).superRefine(refineConfirm);
 export type ResetPasswordInput = z.infer<typeof resetPasswordInput>;
 
 // ---------------------------------------------------------------------------------- inspector access

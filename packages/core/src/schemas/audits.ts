@@ -1,8 +1,13 @@
 import { z } from "zod";
 import { FINDING_STATES, RULE_PACKS, SEVERITIES } from "../vocabulary";
 
-const isoDate = (what: string) => z.string({ error: `Enter ${what}` }).regex(/^\d{4}-\d{2}-\d{2}$/, `Use a date like 2026-03-14 for ${what}`);
-const positiveId = (what: string) => z.coerce.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`);
+const isoDate = (what: string) =>
+  z.string({ error: `Enter ${what}` }).regex(/^\d{4}-\d{2}-\d{2}$/, `Use a date like 2026-03-14 for ${what}`);
+const positiveId = (what: string) =>
+  z.coerce
+    .number({ error: `Choose ${what}` })
+    .int(`Choose ${what}`)
+    .positive(`Choose ${what}`);
 const MAX_PERIOD_DAYS = 10 * 366;
 
 /** A new audit: which branches, which period (dates inclusive, in each branch's zone), which rule packs. */
@@ -19,12 +24,14 @@ export const auditInput = z
       .min(1, "Choose at least one rule pack"),
   })
   .superRefine((v, ctx) => {
-    if (v.periodFrom > v.periodTo) ctx.addIssue({ code: "custom", path: ["periodTo"], message: "The period must end on or after its first day" });
+    if (v.periodFrom > v.periodTo)
+      ctx.addIssue({ code: "custom", path: ["periodTo"], message: "The period must end on or after its first day" });
     const latest = new Date(Date.now() + 24 * 3600 * 1000).toISOString().slice(0, 10);
     if (v.periodTo > latest) ctx.addIssue({ code: "custom", path: ["periodTo"], message: "The period cannot end in the future" });
     const span = (Date.parse(v.periodTo) - Date.parse(v.periodFrom)) / 86_400_000;
     if (span > MAX_PERIOD_DAYS) ctx.addIssue({ code: "custom", path: ["periodFrom"], message: "An audit covers at most ten years" });
-    if (new Set(v.branchIds).size !== v.branchIds.length) ctx.addIssue({ code: "custom", path: ["branchIds"], message: "A branch is listed twice" });
+    if (new Set(v.branchIds).size !== v.branchIds.length)
+      ctx.addIssue({ code: "custom", path: ["branchIds"], message: "A branch is listed twice" });
   });
 export type AuditInput = z.infer<typeof auditInput>;
 

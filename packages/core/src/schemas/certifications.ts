@@ -1,5 +1,11 @@
 import { z } from "zod";
-import { CERTIFICATION_STATES, CERTIFICATION_TYPES, CERTIFICATION_TYPE_LABELS, type CertificationState, type CertificationType } from "../vocabulary";
+import {
+  CERTIFICATION_STATES,
+  CERTIFICATION_TYPES,
+  CERTIFICATION_TYPE_LABELS,
+  type CertificationState,
+  type CertificationType,
+} from "../vocabulary";
 
 /**
  * Inputs of technicians' certification cards: the upload (a multipart form: the card file plus
@@ -32,7 +38,9 @@ const latestDate = () => new Date(Date.now() + 24 * 3600 * 1000).toISOString().s
 const certificationTypesField = z.preprocess(
   (v) => (v === undefined || v === null || v === "" ? [] : Array.isArray(v) ? v : [v]),
   z
-    .array(z.enum(CERTIFICATION_TYPES, { error: "Choose Type I, Type II, Type III or Universal" }), { error: "Choose the certification type(s)" })
+    .array(z.enum(CERTIFICATION_TYPES, { error: "Choose Type I, Type II, Type III or Universal" }), {
+      error: "Choose the certification type(s)",
+    })
     .min(1, "Choose at least one certification type")
     .transform((types): CertificationType[] => (types.includes("universal") ? ["universal"] : [...new Set(types)].sort())),
 );
@@ -68,15 +76,20 @@ export const certificationCardInput = z.object({
 });
 export type CertificationCardInput = z.output<typeof certificationCardInput>;
 
-const reasonText = (missing: string) =>
-  z.string({ error: missing }).trim().min(5, missing).max(1000, "Limited to 1,000 characters");
+const reasonText = (missing: string) => z.string({ error: missing }).trim().min(5, missing).max(1000, "Limited to 1,000 characters");
 
 /** The compliance officer's decision on a card awaiting verification. */
 export const certificationDecisionInput = z.discriminatedUnion(
   "decision",
   [
-    z.object({ decision: z.literal("verify"), note: z.preprocess(blankToUndefined, z.string().trim().max(1000, "Limited to 1,000 characters").optional()) }),
-    z.object({ decision: z.literal("reject"), reason: reasonText("Tell the technician why the card is not accepted (at least a few words)") }),
+    z.object({
+      decision: z.literal("verify"),
+      note: z.preprocess(blankToUndefined, z.string().trim().max(1000, "Limited to 1,000 characters").optional()),
+    }),
+    z.object({
+      decision: z.literal("reject"),
+      reason: reasonText("Tell the technician why the card is not accepted (at least a few words)"),
+    }),
   ],
   { error: "Choose to verify or not accept the card" },
 );
@@ -85,22 +98,35 @@ export type CertificationDecisionInput = z.output<typeof certificationDecisionIn
 /** A correction of a card's details: only what changes, and why (kept as an amendment). */
 export const certificationCorrectionInput = z
   .object({
-    reason: z.string({ error: "Say why the record is being corrected" }).trim().min(3, "Say why the record is being corrected").max(1000, "Limited to 1,000 characters"),
+    reason: z
+      .string({ error: "Say why the record is being corrected" })
+      .trim()
+      .min(3, "Say why the record is being corrected")
+      .max(1000, "Limited to 1,000 characters"),
     types: certificationTypesField.optional(),
     certifyingOrganisation: certifyingOrganisationField.optional(),
     certificateNumber: certificateNumberField.optional(),
-    issuedOn: z.preprocess((v) => (v === "" ? null : v), isoDate.refine(isRealDate, "That is not a real calendar date").nullable().optional()),
+    issuedOn: z.preprocess(
+      (v) => (v === "" ? null : v),
+      isoDate.refine(isRealDate, "That is not a real calendar date").nullable().optional(),
+    ),
   })
   .superRefine((value, ctx) => {
     const { reason: _reason, ...changes } = value;
-    if (Object.values(changes).every((v) => v === undefined)) ctx.addIssue({ code: "custom", path: ["reason"], message: "Change at least one detail" });
-    if (value.issuedOn && value.issuedOn > latestDate()) ctx.addIssue({ code: "custom", path: ["issuedOn"], message: "The issue date cannot be in the future" });
+    if (Object.values(changes).every((v) => v === undefined))
+      ctx.addIssue({ code: "custom", path: ["reason"], message: "Change at least one detail" });
+    if (value.issuedOn && value.issuedOn > latestDate())
+      ctx.addIssue({ code: "custom", path: ["issuedOn"], message: "The issue date cannot be in the future" });
   });
 export type CertificationCorrectionInput = z.output<typeof certificationCorrectionInput>;
 
 /** Why a card is withdrawn (voided as entered in error). */
 export const certificationWithdrawInput = z.object({
-  reason: z.string({ error: "Say why the card is being withdrawn" }).trim().min(3, "Say why the card is being withdrawn").max(1000, "Limited to 1,000 characters"),
+  reason: z
+    .string({ error: "Say why the card is being withdrawn" })
+    .trim()
+    .min(3, "Say why the card is being withdrawn")
+    .max(1000, "Limited to 1,000 characters"),
 });
 export type CertificationWithdrawInput = z.output<typeof certificationWithdrawInput>;
 
@@ -157,7 +183,10 @@ export function describeCertificationDecision(d: {
   reason: string | null;
 }): { subject: string; heading: string; paragraphs: string[] } {
   const order: CertificationType[] = ["type_i", "type_ii", "type_iii", "universal"];
-  const types = [...d.types].sort((a, b) => order.indexOf(a) - order.indexOf(b)).map((t) => CERTIFICATION_TYPE_LABELS[t]).join(" + ");
+  const types = [...d.types]
+    .sort((a, b) => order.indexOf(a) - order.indexOf(b))
+    .map((t) => CERTIFICATION_TYPE_LABELS[t])
+    .join(" + ");
   const card = `${types} certification card (${d.certifyingOrganisation}, no. ${d.certificateNumber})`;
   if (d.state === "verified") {
     return {
@@ -169,6 +198,10 @@ export function describeCertificationDecision(d: {
   return {
     subject: `Your ${types} certification card was not accepted`,
     heading: "Your certification card was not accepted",
-    paragraphs: [`Your ${card} could not be verified.`, `Reason: ${d.reason ?? "no reason given"}`, "Please upload a new photo or PDF of the card in Coldtrail."],
+    paragraphs: [
+      `Your ${card} could not be verified.`,
+      `Reason: ${d.reason ?? "no reason given"}`,
+      "Please upload a new photo or PDF of the card in Coldtrail.",
+    ],
   };
 }

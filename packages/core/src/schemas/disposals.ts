@@ -60,7 +60,8 @@ export const disposalStatementInput = z
   .superRefine((v, ctx) => {
     refuseFutureDate(ctx, v.recoveredOn, "recoveredOn", "The date of recovery cannot be in the future");
     refuseFutureDate(ctx, v.signedOn, "signedOn", "The date signed cannot be in the future");
-    if (v.signedOn < v.recoveredOn) ctx.addIssue({ code: "custom", path: ["signedOn"], message: "The statement is signed on or after the date of recovery" });
+    if (v.signedOn < v.recoveredOn)
+      ctx.addIssue({ code: "custom", path: ["signedOn"], message: "The statement is signed on or after the date of recovery" });
   });
 export type DisposalStatementInput = z.infer<typeof disposalStatementInput>;
 
@@ -96,7 +97,8 @@ export const shopDisposalBatchInput = z
     refineTemporaryAccess(ctx, v.accessMethod, v.temporaryAccessRemoved);
     const seen = new Set<number>();
     v.items.forEach((item, i) => {
-      if (seen.has(item.applianceId)) ctx.addIssue({ code: "custom", path: ["items", i, "applianceId"], message: "This appliance is picked twice" });
+      if (seen.has(item.applianceId))
+        ctx.addIssue({ code: "custom", path: ["items", i, "applianceId"], message: "This appliance is picked twice" });
       seen.add(item.applianceId);
     });
   });
@@ -142,7 +144,10 @@ export const disposalRecordAmendmentInput = z.object({
     })
     .strict()
     .refine((c) => Object.values(c).some((v) => v !== undefined), "Change at least one field")
-    .refine((c) => c.recoveredAmount === undefined || c.recoveredUnit !== undefined, { path: ["recoveredUnit"], message: "Choose the unit of the quantity" }),
+    .refine((c) => c.recoveredAmount === undefined || c.recoveredUnit !== undefined, {
+      path: ["recoveredUnit"],
+      message: "Choose the unit of the quantity",
+    }),
 });
 export type DisposalRecordAmendmentInput = z.infer<typeof disposalRecordAmendmentInput>;
 

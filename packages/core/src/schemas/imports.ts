@@ -30,7 +30,10 @@ const blankToUndefined = (v: unknown) => (v === "" || v === null || (typeof v ==
 /** The fields sent with the file (POST /api/imports, multipart; the file is the `file` part). */
 export const importUploadInput = z.object({
   kind: z.enum(IMPORT_KINDS, { error: "Choose what the file holds: appliances, cylinders or past jobs" }),
-  branchId: z.preprocess(blankToUndefined, z.coerce.number({ error: "Choose the branch to import into" }).int().positive("Choose the branch to import into")),
+  branchId: z.preprocess(
+    blankToUndefined,
+    z.coerce.number({ error: "Choose the branch to import into" }).int().positive("Choose the branch to import into"),
+  ),
 });
 export type ImportUploadInput = z.output<typeof importUploadInput>;
 

@@ -135,14 +135,12 @@ export const jobInput = z.discriminatedUnion(
 export type JobInput = z.infer<typeof jobInput>;
 
 /** Lenient number for a draft: what cannot be read yet is simply not entered. */
-const draftNumber = z.preprocess(
-  (v) => (v === "" || v === null || v === undefined ? undefined : Number(v)),
-  z.number().finite().optional(),
-).catch(undefined);
-const draftId = z.preprocess(
-  (v) => (v === "" || v === null || v === undefined ? undefined : Number(v)),
-  z.number().int().positive().optional(),
-).catch(undefined);
+const draftNumber = z
+  .preprocess((v) => (v === "" || v === null || v === undefined ? undefined : Number(v)), z.number().finite().optional())
+  .catch(undefined);
+const draftId = z
+  .preprocess((v) => (v === "" || v === null || v === undefined ? undefined : Number(v)), z.number().int().positive().optional())
+  .catch(undefined);
 const draftEnum = <T extends readonly [string, ...string[]]>(values: T) => z.enum(values).nullable().optional().catch(undefined);
 
 /**
@@ -174,7 +172,11 @@ export type JobDraftInput = z.infer<typeof jobDraftInput>;
 
 /** Why a regulated record is voided (entered in error). Shared by every record type. */
 export const voidRecordInput = z.object({
-  reason: z.string({ error: "Say why the record is being voided" }).trim().min(3, "Say why the record is being voided").max(1000, "Limited to 1,000 characters"),
+  reason: z
+    .string({ error: "Say why the record is being voided" })
+    .trim()
+    .min(3, "Say why the record is being voided")
+    .max(1000, "Limited to 1,000 characters"),
 });
 export type VoidRecordInput = z.infer<typeof voidRecordInput>;
 
@@ -199,7 +201,9 @@ export const jobAmendmentInput = z
         amountUnit: z.enum(MASS_INPUT_UNITS).optional(),
         cylinderId: optionalIdField("the cylinder"),
         equipmentId: optionalIdField("the recovery equipment"),
-        evacuationValue: enteredValue(z.coerce.number({ error: "Enter the evacuation level reached" }).min(-100_000).max(1_000_000).optional()),
+        evacuationValue: enteredValue(
+          z.coerce.number({ error: "Enter the evacuation level reached" }).min(-100_000).max(1_000_000).optional(),
+        ),
         evacuationUnit: z.enum(EVACUATION_UNITS).optional(),
         accessMethod: enteredValue(z.enum(ACCESS_METHODS).nullable().optional()),
         temporaryAccessRemoved: z.boolean().nullable().optional(),

@@ -17,12 +17,23 @@ const entered = enteredValue;
 
 /** A required reference to another record, chosen in a picker. */
 export const idField = (what: string) =>
-  entered(z.coerce.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`));
+  entered(
+    z.coerce
+      .number({ error: `Choose ${what}` })
+      .int(`Choose ${what}`)
+      .positive(`Choose ${what}`),
+  );
 const id = idField;
 
 /** An optional reference: empty means none. */
 export const optionalIdField = (what: string) =>
-  entered(z.coerce.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`).optional());
+  entered(
+    z.coerce
+      .number({ error: `Choose ${what}` })
+      .int(`Choose ${what}`)
+      .positive(`Choose ${what}`)
+      .optional(),
+  );
 
 /** A mass typed into a form. */
 export const massAmountField = (missing: string, opts: { positive?: boolean } = {}) =>
@@ -37,12 +48,20 @@ export const massAmountField = (missing: string, opts: { positive?: boolean } = 
 export const optionalTextField = (max: number, label = "This field") =>
   z.preprocess(
     (v) => (typeof v === "string" && v.trim() === "" ? undefined : v === null ? undefined : v),
-    z.string().trim().max(max, `${label} is limited to ${max.toLocaleString("en-US")} characters`).optional(),
+    z
+      .string()
+      .trim()
+      .max(max, `${label} is limited to ${max.toLocaleString("en-US")} characters`)
+      .optional(),
   );
 
 /** Required free text. */
 export const requiredTextField = (max: number, missing: string) =>
-  z.string({ error: missing }).trim().min(1, missing).max(max, `Limited to ${max.toLocaleString("en-US")} characters`);
+  z
+    .string({ error: missing })
+    .trim()
+    .min(1, missing)
+    .max(max, `Limited to ${max.toLocaleString("en-US")} characters`);
 
 /** The latest calendar date a record may carry: one day of slack, the user's date may be ahead of UTC. */
 export function latestAllowedRecordDate(now: Date = new Date()): string {
@@ -50,19 +69,34 @@ export function latestAllowedRecordDate(now: Date = new Date()): string {
 }
 
 /** Adds an issue when `date` is in the future. */
-export function refuseFutureDate(ctx: z.RefinementCtx, date: string | undefined, path: string, message = "The date of the work cannot be in the future"): void {
+export function refuseFutureDate(
+  ctx: z.RefinementCtx,
+  date: string | undefined,
+  path: string,
+  message = "The date of the work cannot be in the future",
+): void {
   if (date && date > latestAllowedRecordDate()) ctx.addIssue({ code: "custom", path: [path], message });
 }
 
 /** Checks an evacuation reading for values no gauge can show. */
-export function refineEvacuationReading(ctx: z.RefinementCtx, value: number | undefined, unit: string | undefined, path = "evacuationValue"): void {
+export function refineEvacuationReading(
+  ctx: z.RefinementCtx,
+  value: number | undefined,
+  unit: string | undefined,
+  path = "evacuationValue",
+): void {
   if (value === undefined || unit === undefined) return;
   if (unit !== "psig" && value < 0) ctx.addIssue({ code: "custom", path: [path], message: "This unit cannot be negative" });
-  if (unit === "in_hg_vacuum" && value > 29.92) ctx.addIssue({ code: "custom", path: [path], message: "A vacuum cannot be deeper than 29.92 in Hg" });
+  if (unit === "in_hg_vacuum" && value > 29.92)
+    ctx.addIssue({ code: "custom", path: [path], message: "A vacuum cannot be deeper than 29.92 in Hg" });
 }
 
 /** Temporary piercing devices must be said to be removed or left. */
-export function refineTemporaryAccess(ctx: z.RefinementCtx, accessMethod: string | null | undefined, removed: boolean | null | undefined): void {
+export function refineTemporaryAccess(
+  ctx: z.RefinementCtx,
+  accessMethod: string | null | undefined,
+  removed: boolean | null | undefined,
+): void {
   const temporary = accessMethod ? (TEMPORARY_ACCESS_METHODS as readonly string[]).includes(accessMethod) : false;
   if (temporary && (removed === undefined || removed === null)) {
     ctx.addIssue({ code: "custom", path: ["temporaryAccessRemoved"], message: "Say whether the temporary piercing device was removed" });
@@ -97,7 +131,13 @@ export const recoveryShape = {
 };
 
 export function refineRecovery(
-  value: { performedOn: string; accessMethod: string; temporaryAccessRemoved?: boolean | null; evacuationValue: number; evacuationUnit: string },
+  value: {
+    performedOn: string;
+    accessMethod: string;
+    temporaryAccessRemoved?: boolean | null;
+    evacuationValue: number;
+    evacuationUnit: string;
+  },
   ctx: z.RefinementCtx,
 ): void {
   refuseFutureDate(ctx, value.performedOn, "performedOn");

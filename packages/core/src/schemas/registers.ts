@@ -48,7 +48,10 @@ export const REGISTER_LABELS = {
     unknown: "Certification unknown",
   } satisfies Record<EquipmentCertificationState, string>,
   equipmentStatus: { in_service: "In service", retired: "Retired" } satisfies Record<EquipmentStatus, string>,
-  cylinderStatus: { in_service: "In service", at_reclaimer: "At the reclaimer", retired: "Retired" } satisfies Record<CylinderStatus, string>,
+  cylinderStatus: { in_service: "In service", at_reclaimer: "At the reclaimer", retired: "Retired" } satisfies Record<
+    CylinderStatus,
+    string
+  >,
   cylinderPurpose: { recovery: "Recovery", charging: "Charging" } satisfies Record<CylinderPurpose, string>,
 } as const;
 
@@ -61,10 +64,26 @@ const blankToUndefined = (v: unknown) => (v === "" || v === null || (typeof v ==
 const entered = <T extends z.ZodType>(schema: T) => z.preprocess(blankToUndefined, schema);
 const optionalDate = entered(isoDate.optional());
 const optionalText = (max: number, what: string) =>
-  entered(z.string().trim().max(max, `${what} is limited to ${max.toLocaleString("en-US")} characters`).optional());
+  entered(
+    z
+      .string()
+      .trim()
+      .max(max, `${what} is limited to ${max.toLocaleString("en-US")} characters`)
+      .optional(),
+  );
 const requiredText = (max: number, missing: string, what: string) =>
-  z.string({ error: missing }).trim().min(1, missing).max(max, `${what} is limited to ${max.toLocaleString("en-US")} characters`);
-const id = (what: string) => entered(z.coerce.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`));
+  z
+    .string({ error: missing })
+    .trim()
+    .min(1, missing)
+    .max(max, `${what} is limited to ${max.toLocaleString("en-US")} characters`);
+const id = (what: string) =>
+  entered(
+    z.coerce
+      .number({ error: `Choose ${what}` })
+      .int(`Choose ${what}`)
+      .positive(`Choose ${what}`),
+  );
 const optionalId = (what: string) => entered(z.coerce.number().int(`Choose ${what}`).positive(`Choose ${what}`).optional());
 /** A positive amount typed into a form; its upper bound is checked in grams (see `withinGrams`). */
 const amount = (missing: string, what: string) =>
@@ -76,9 +95,17 @@ const amount = (missing: string, what: string) =>
       .refine((n) => n <= 1e9, `${what} is larger than any real one; check the unit`),
   );
 /** Refuses an amount above `maxG` once converted, naming the field. */
-function withinGrams(ctx: z.RefinementCtx, path: string, value: number | undefined, unit: (typeof MASS_INPUT_UNITS)[number] | undefined, maxG: number, what: string): void {
+function withinGrams(
+  ctx: z.RefinementCtx,
+  path: string,
+  value: number | undefined,
+  unit: (typeof MASS_INPUT_UNITS)[number] | undefined,
+  maxG: number,
+  what: string,
+): void {
   if (value === undefined || unit === undefined || !Number.isFinite(value)) return;
-  if (toGrams(value, unit) > maxG) ctx.addIssue({ code: "custom", path: [path], message: `${what} is larger than any real one; check the unit` });
+  if (toGrams(value, unit) > maxG)
+    ctx.addIssue({ code: "custom", path: [path], message: `${what} is larger than any real one; check the unit` });
 }
 /** Upper bounds, generous: the largest industrial systems hold tens of tonnes; ton containers about 1 t of water. */
 const MAX_FULL_CHARGE_G = 100_000_000;
@@ -171,10 +198,18 @@ function checkApplianceFields(value: ApplianceFieldsOut, ctx: z.RefinementCtx): 
   // 40 CFR 82.152: a small appliance is fully manufactured, charged and hermetically sealed in a factory with 5 lb or less.
   if (value.category === "small_appliance") {
     if (Number.isFinite(value.fullChargeAmount) && toGrams(value.fullChargeAmount, value.fullChargeUnit) > SMALL_APPLIANCE_MAX_CHARGE_G) {
-      ctx.addIssue({ code: "custom", path: ["fullChargeAmount"], message: "A small appliance holds 5 lb (2.268 kg) or less; choose another kind of appliance" });
+      ctx.addIssue({
+        code: "custom",
+        path: ["fullChargeAmount"],
+        message: "A small appliance holds 5 lb (2.268 kg) or less; choose another kind of appliance",
+      });
     }
     if (!value.factorySealed) {
-      ctx.addIssue({ code: "custom", path: ["factorySealed"], message: "A small appliance is charged and sealed in the factory; tick this or choose another kind" });
+      ctx.addIssue({
+        code: "custom",
+        path: ["factorySealed"],
+        message: "A small appliance is charged and sealed in the factory; tick this or choose another kind",
+      });
     }
   }
   notFuture(ctx, value.manufacturedOn, "manufacturedOn", "The manufacture date cannot be in the future");
@@ -216,7 +251,11 @@ export const applianceStatusInput = z
   .object({
     status: z.enum(APPLIANCE_STATUSES, { error: "Choose the new status" }),
     on: isoDate,
-    reason: z.string({ error: "Say why the status changes" }).trim().min(3, "Say why the status changes").max(1000, "The reason is limited to 1,000 characters"),
+    reason: z
+      .string({ error: "Say why the status changes" })
+      .trim()
+      .min(3, "Say why the status changes")
+      .max(1000, "The reason is limited to 1,000 characters"),
   })
   .superRefine((value, ctx) => notFuture(ctx, value.on, "on", "The date cannot be in the future"));
 export type ApplianceStatusInput = z.output<typeof applianceStatusInput>;
@@ -281,7 +320,9 @@ export const equipmentInput = z.object({ branchId: id("the branch"), ...equipmen
 export type EquipmentInput = z.output<typeof equipmentInput>;
 
 /** An edit (PATCH /api/equipment/:id); a new manufacture date or certification status needs a reason. */
-export const equipmentUpdateInput = z.object({ ...equipmentFields, reason: optionalText(1000, "The reason") }).superRefine(checkEquipmentFields);
+export const equipmentUpdateInput = z
+  .object({ ...equipmentFields, reason: optionalText(1000, "The reason") })
+  .superRefine(checkEquipmentFields);
 export type EquipmentUpdateInput = z.output<typeof equipmentUpdateInput>;
 
 export const EQUIPMENT_SORT_FIELDS = ["serial", "branch", "makeModel", "manufacturedOn", "certificationState", "status"] as const;
@@ -346,7 +387,9 @@ export const cylinderInput = z.object({ branchId: id("the branch"), ...cylinderF
 export type CylinderInput = z.output<typeof cylinderInput>;
 
 /** An edit (PATCH /api/cylinders/:id); new tare, water capacity or requalification date needs a reason. */
-export const cylinderUpdateInput = z.object({ ...cylinderFields, reason: optionalText(1000, "The reason") }).superRefine(checkCylinderFields);
+export const cylinderUpdateInput = z
+  .object({ ...cylinderFields, reason: optionalText(1000, "The reason") })
+  .superRefine(checkCylinderFields);
 export type CylinderUpdateInput = z.output<typeof cylinderUpdateInput>;
 
 export const CYLINDER_SORT_FIELDS = ["serial", "branch", "refrigerant", "contents", "lastRequalifiedOn", "status"] as const;
@@ -384,13 +427,20 @@ const weighingFields = {
       .optional(),
   ),
   temperatureValue: entered(
-    z.coerce.number({ error: "Enter the temperature as a number" }).min(-60, "Temperature out of range").max(160, "Temperature out of range").optional(),
+    z.coerce
+      .number({ error: "Enter the temperature as a number" })
+      .min(-60, "Temperature out of range")
+      .max(160, "Temperature out of range")
+      .optional(),
   ),
   temperatureUnit: z.enum(TEMPERATURE_INPUT_UNITS).default("F"),
   notes: optionalText(2000, "Notes"),
 };
 
-function checkWeighingFields(value: { weighedOn: string; grossAmount: number; grossUnit: (typeof MASS_INPUT_UNITS)[number] }, ctx: z.RefinementCtx): void {
+function checkWeighingFields(
+  value: { weighedOn: string; grossAmount: number; grossUnit: (typeof MASS_INPUT_UNITS)[number] },
+  ctx: z.RefinementCtx,
+): void {
   withinGrams(ctx, "grossAmount", value.grossAmount, value.grossUnit, MAX_GROSS_G, "The scale reading");
   notFuture(ctx, value.weighedOn, "weighedOn", "The date of the weighing cannot be in the future");
 }
@@ -403,13 +453,21 @@ export type CylinderWeighingInput = z.output<typeof cylinderWeighingInput>;
 export const cylinderWeighingAmendInput = z
   .object({
     ...weighingFields,
-    reason: z.string({ error: "Say why the weighing is corrected" }).trim().min(3, "Say why the weighing is corrected").max(1000, "The reason is limited to 1,000 characters"),
+    reason: z
+      .string({ error: "Say why the weighing is corrected" })
+      .trim()
+      .min(3, "Say why the weighing is corrected")
+      .max(1000, "The reason is limited to 1,000 characters"),
   })
   .superRefine(checkWeighingFields);
 export type CylinderWeighingAmendInput = z.output<typeof cylinderWeighingAmendInput>;
 
 /** Voiding a record entered in error. */
 export const registerVoidInput = z.object({
-  reason: z.string({ error: "Say why the record is voided" }).trim().min(3, "Say why the record is voided").max(1000, "The reason is limited to 1,000 characters"),
+  reason: z
+    .string({ error: "Say why the record is voided" })
+    .trim()
+    .min(3, "Say why the record is voided")
+    .max(1000, "The reason is limited to 1,000 characters"),
 });
 export type RegisterVoidInput = z.output<typeof registerVoidInput>;

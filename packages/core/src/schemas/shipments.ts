@@ -31,7 +31,8 @@ export const reclaimShipmentInput = z
   })
   .superRefine((v, ctx) => {
     refuseFutureDate(ctx, v.shippedOn, "shippedOn", "The shipping date cannot be in the future");
-    if (new Set(v.cylinderIds).size !== v.cylinderIds.length) ctx.addIssue({ code: "custom", path: ["cylinderIds"], message: "A cylinder is listed twice" });
+    if (new Set(v.cylinderIds).size !== v.cylinderIds.length)
+      ctx.addIssue({ code: "custom", path: ["cylinderIds"], message: "A cylinder is listed twice" });
   });
 export type ReclaimShipmentInput = z.infer<typeof reclaimShipmentInput>;
 
@@ -44,7 +45,14 @@ export const purchaseInput = z
     refrigerant: requiredTextField(32, "Enter the refrigerant bought"),
     amount: massAmountField("Enter the quantity bought", { positive: true }),
     unit: z.enum(MASS_INPUT_UNITS, { error: "Choose the unit of the quantity" }),
-    containerCount: enteredValue(z.coerce.number({ error: "Enter a whole number of containers" }).int("Enter a whole number of containers").min(1, "At least one container").max(10_000).optional()),
+    containerCount: enteredValue(
+      z.coerce
+        .number({ error: "Enter a whole number of containers" })
+        .int("Enter a whole number of containers")
+        .min(1, "At least one container")
+        .max(10_000)
+        .optional(),
+    ),
     invoiceReference: optionalTextField(100, "The invoice reference"),
   })
   .superRefine((v, ctx) => refuseFutureDate(ctx, v.purchasedOn, "purchasedOn", "The purchase date cannot be in the future"));

@@ -81,7 +81,12 @@ export async function getAdminBranch(db: Knex, opts: { scope: ScopeFn; id: numbe
   return row ? toRow(row) : undefined;
 }
 
-async function refuseDuplicates(trx: Knex.Transaction, organisationId: number, fields: { name?: string; code?: string }, exceptId?: number) {
+async function refuseDuplicates(
+  trx: Knex.Transaction,
+  organisationId: number,
+  fields: { name?: string; code?: string },
+  exceptId?: number,
+) {
   if (fields.code !== undefined) {
     const q = trx("branches").where({ organisation_id: organisationId }).whereRaw("upper(code) = ?", [fields.code.toUpperCase()]);
     if (exceptId) q.whereNot("id", exceptId);
@@ -142,7 +147,8 @@ export async function updateBranch(db: Knex, opts: { actor: ActorRef; id: number
   await db.transaction(async (trx) => {
     const current = await trx("branches").where({ id: opts.id, organisation_id: actor.organisationId }).first();
     if (!current) throw new RecordNotFoundError("No such branch");
-    if (input.name !== undefined && input.name !== current.name) await refuseDuplicates(trx, actor.organisationId, { name: input.name }, opts.id);
+    if (input.name !== undefined && input.name !== current.name)
+      await refuseDuplicates(trx, actor.organisationId, { name: input.name }, opts.id);
 
     const next: Record<string, unknown> = {};
     if (input.name !== undefined && input.name !== current.name) next.name = input.name;

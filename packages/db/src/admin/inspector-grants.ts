@@ -48,7 +48,10 @@ export function grantExpiry(expiresOn: string): string {
 }
 
 /** Which organisation an inspector access belongs to (for the record-level permission check). */
-export async function getInspectorGrantRef(db: Knex, id: number): Promise<{ id: number; organisationId: number; userId: number } | undefined> {
+export async function getInspectorGrantRef(
+  db: Knex,
+  id: number,
+): Promise<{ id: number; organisationId: number; userId: number } | undefined> {
   const row = await db("inspector_grants").where({ id }).first("id", "organisation_id", "user_id");
   return row ? { id: Number(row.id), organisationId: Number(row.organisation_id), userId: Number(row.user_id) } : undefined;
 }
@@ -77,7 +80,10 @@ export async function listInspectorGrants(
       .join("users as by", "by.id", "g.granted_by")
       .leftJoin("users as rv", "rv.id", "g.revoked_by"),
   )
-    .orderBy([{ column: "g.created_at", order: "desc" }, { column: "g.id", order: "desc" }])
+    .orderBy([
+      { column: "g.created_at", order: "desc" },
+      { column: "g.id", order: "desc" },
+    ])
     .limit(query.pageSize)
     .offset((query.page - 1) * query.pageSize)
     .select(
@@ -92,7 +98,10 @@ export async function listInspectorGrants(
   const branches = rows.length
     ? await db("inspector_grant_branches as gb")
         .join("branches as b", "b.id", "gb.branch_id")
-        .whereIn("gb.grant_id", rows.map((r) => r.id))
+        .whereIn(
+          "gb.grant_id",
+          rows.map((r) => r.id),
+        )
         .orderBy("b.name")
         .select("gb.grant_id", "b.id", "b.name")
     : [];
@@ -144,13 +153,17 @@ export interface CreatedGrant {
  * no longer than the access; an inspector who already has an account is notified. The company's own
  * people cannot be made inspectors, and an address of another organisation cannot be used.
  */
-export async function createInspectorGrant(db: Knex, opts: { actor: ActorRef; input: InspectorGrantInput; now?: Date }): Promise<CreatedGrant> {
+export async function createInspectorGrant(
+  db: Knex,
+  opts: { actor: ActorRef; input: InspectorGrantInput; now?: Date },
+): Promise<CreatedGrant> {
   const { actor, input } = opts;
   const now = opts.now ?? new Date();
   const at = now.toISOString();
   const expiresAt = grantExpiry(input.expiresOn);
   if (new Date(expiresAt).getTime() <= now.getTime()) throw new InvalidInputError("Access must end today or later", "expiresOn");
-  if (input.recordsFrom > input.recordsTo) throw new InvalidInputError("The last date of records must be on or after the first", "recordsTo");
+  if (input.recordsFrom > input.recordsTo)
+    throw new InvalidInputError("The last date of records must be on or after the first", "recordsTo");
 
   return db.transaction(async (trx) => {
     const branchIds = [...new Set(input.branchIds)];
@@ -167,17 +180,38 @@ export async function createInspectorGrant(db: Knex, opts: { actor: ActorRef; in
       if (roles.some((r) => r !== "inspector")) {
         throw new RecordConflictError(`${user.name} works in your organisation; inspector access is for outside reviewers`, "email");
       }
-      if (!toBool(user.active)) throw new RecordConflictError(`${user.name}'s account is deactivated; ask the owner to let them sign in again`, "email");
+      if (!toBool(user.active))
+        throw new RecordConflictError(`${user.name}'s account is deactivated; ask the owner to let them sign in again`, "email");
       if (roles.length === 0) {
-        await trx("memberships").insert({ organisation_id: actor.organisationId, user_id: user.id, branch_id: null, role: "inspector", created_at: at });
+        await trx("memberships").insert({
+          organisation_id: actor.organisationId,
+          user_id: user.id,
+          branch_id: null,
+          role: "inspector",
+          created_at: at,
+        });
       }
       if (!user.password_hash) kind = "invited";
     } else {
       const [row] = await trx("users")
-        .insert({ organisation_id: actor.organisationId, email: input.email, name: input.name, password_hash: null, active: true, created_at: at, deactivated_at: null })
+        .insert({
+          organisation_id: actor.organisationId,
+          email: input.email,
+          name: input.name,
+          password_hash: null,
+          active: true,
+          created_at: at,
+          deactivated_at: null,
+        })
         .returning("id");
       const id = rowId(row);
-      await trx("memberships").insert({ organisation_id: actor.organisationId, user_id: id, branch_id: null, role: "inspector", created_at: at });
+      await trx("memberships").insert({
+        organisation_id: actor.organisationId,
+        user_id: id,
+        branch_id: null,
+        role: "inspector",
+        created_at: at,
+      });
       user = { id, organisation_id: actor.organisationId, name: input.name, email: input.email, active: true, password_hash: null };
       kind = "invited";
     }
@@ -198,7 +232,9 @@ export async function createInspectorGrant(db: Knex, opts: { actor: ActorRef; in
       })
       .returning("id");
     const grantId = rowId(grantRow);
-    await trx("inspector_grant_branches").insert(branchIds.map((branchId) => ({ grant_id: grantId, branch_id: branchId, organisation_id: actor.organisationId })));
+    await trx("inspector_grant_branches").insert(
+      branchIds.map((branchId) => ({ grant_id: grantId, branch_id: branchId, organisation_id: actor.organisationId })),
+    );
 
     let issued: { token: string; expiresAt: string } | undefined;
     if (kind === "invited") {
@@ -274,7 +310,10 @@ export async function revokeInspectorGrant(db: Knex, opts: { actor: ActorRef; id
     if (state === "revoked") throw new RecordConflictError("This access was already withdrawn");
     if (state === "expired") throw new RecordConflictError("This access has already ended");
 
-    const updated = await trx("inspector_grants").where({ id: opts.id }).whereNull("revoked_at").update({ revoked_at: at, revoked_by: actor.userId });
+    const updated = await trx("inspector_grants")
+      .where({ id: opts.id })
+      .whereNull("revoked_at")
+      .update({ revoked_at: at, revoked_by: actor.userId });
     if (updated !== 1) throw new RecordConflictError("This access was already withdrawn");
     const otherOpen = await trx("inspector_grants")
       .where({ user_id: grant.user_id, organisation_id: actor.organisationId })
@@ -282,7 +321,11 @@ export async function revokeInspectorGrant(db: Knex, opts: { actor: ActorRef; id
       .where("expires_at", ">", at)
       .first("id");
     if (!otherOpen) {
-      await trx("invitations").where({ organisation_id: actor.organisationId, email: grant.inspector_email }).whereNull("used_at").whereNull("revoked_at").update({ revoked_at: at });
+      await trx("invitations")
+        .where({ organisation_id: actor.organisationId, email: grant.inspector_email })
+        .whereNull("used_at")
+        .whereNull("revoked_at")
+        .update({ revoked_at: at });
     }
     await appendActivity(trx, {
       organisationId: actor.organisationId,

@@ -4,7 +4,15 @@ import { appendActivity, rowId } from "../activity";
 import { RecordConflictError, RecordNotFoundError } from "../errors";
 import { hashPassword } from "../passwords";
 import { toBool, type ActorRef } from "../types";
-import { actorRank, branchNamesOf, checkBranches, describeAccess, membershipsFor, refuseAboveOwnRank, type PersonMembership } from "./people";
+import {
+  actorRank,
+  branchNamesOf,
+  checkBranches,
+  describeAccess,
+  membershipsFor,
+  refuseAboveOwnRank,
+  type PersonMembership,
+} from "./people";
 import { addMinutes, hashLinkToken, linkState, newLinkToken, type LinkState } from "./tokens";
 
 /** What the invitation e-mail needs; the token exists only here and in the e-mail. */
@@ -102,14 +110,30 @@ export async function createInvitation(db: Knex, opts: { actor: ActorRef; input:
     await refuseTakenEmail(trx, actor.organisationId, input.email);
     refuseAboveOwnRank(await actorRank(trx, actor), input.roles);
     const memberships = membershipsFor(input);
-    await checkBranches(trx, actor.organisationId, [...new Set(memberships.filter((m) => m.branchId !== null).map((m) => m.branchId as number))]);
+    await checkBranches(trx, actor.organisationId, [
+      ...new Set(memberships.filter((m) => m.branchId !== null).map((m) => m.branchId as number)),
+    ]);
 
     const [userRow] = await trx("users")
-      .insert({ organisation_id: actor.organisationId, email: input.email, name: input.name, password_hash: null, active: true, created_at: at, deactivated_at: null })
+      .insert({
+        organisation_id: actor.organisationId,
+        email: input.email,
+        name: input.name,
+        password_hash: null,
+        active: true,
+        created_at: at,
+        deactivated_at: null,
+      })
       .returning("id");
     const userId = rowId(userRow);
     await trx("memberships").insert(
-      memberships.map((m) => ({ organisation_id: actor.organisationId, user_id: userId, branch_id: m.branchId, role: m.role, created_at: at })),
+      memberships.map((m) => ({
+        organisation_id: actor.organisationId,
+        user_id: userId,
+        branch_id: m.branchId,
+        role: m.role,
+        created_at: at,
+      })),
     );
     const issued = await issueInvitation(trx, {
       organisationId: actor.organisationId,
@@ -144,7 +168,9 @@ export async function createInvitation(db: Knex, opts: { actor: ActorRef; input:
 }
 
 async function invitedTarget(trx: Knex.Transaction, organisationId: number, userId: number) {
-  const user = await trx("users").where({ id: userId, organisation_id: organisationId }).first("id", "email", "name", "active", "password_hash");
+  const user = await trx("users")
+    .where({ id: userId, organisation_id: organisationId })
+    .first("id", "email", "name", "active", "password_hash");
   if (!user) throw new RecordNotFoundError("No such person");
   if (user.password_hash) throw new RecordConflictError(`${user.name} has already set a password and can sign in`);
   return user;
@@ -158,9 +184,10 @@ export async function resendInvitation(db: Knex, opts: { actor: ActorRef; userId
   return db.transaction(async (trx) => {
     const user = await invitedTarget(trx, actor.organisationId, opts.userId);
     if (!toBool(user.active)) throw new RecordConflictError(`${user.name} is deactivated; let them sign in again first`);
-    const memberships = (await trx("memberships").where({ user_id: user.id }).select("role", "branch_id")).map(
-      (m): PersonMembership => ({ role: m.role as Role, branchId: m.branch_id === null ? null : Number(m.branch_id) }),
-    );
+    const memberships = (await trx("memberships").where({ user_id: user.id }).select("role", "branch_id")).map((m): PersonMembership => ({
+      role: m.role as Role,
+      branchId: m.branch_id === null ? null : Number(m.branch_id),
+    }));
     // An inspector's link lasts no longer than their latest open grant.
     let grant: { id: number; expires_at: string } | undefined;
     if (memberships.some((m) => m.role === "inspector")) {
@@ -281,15 +308,22 @@ export function refuseLink(state: Exclude<LinkState, "valid">): never {
  * Accepts an invitation: sets the person's name and password, marks the link used (once), and
  * withdraws any other open link for the address. Returns who can now sign in.
  */
-export async function acceptInvitation(db: Knex, opts: { input: AcceptInvitationInput; now?: Date }): Promise<{ userId: number; email: string }> {
+export async function acceptInvitation(
+  db: Knex,
+  opts: { input: AcceptInvitationInput; now?: Date },
+): Promise<{ userId: number; email: string }> {
   const now = opts.now ?? new Date();
   const at = now.toISOString();
   const passwordHash = await hashPassword(opts.input.password); // slow on purpose: outside the transaction
   return db.transaction(async (trx) => {
-    const invitation = await trx("invitations").where({ token_hash: hashLinkToken(opts.input.token) }).first();
+    const invitation = await trx("invitations")
+      .where({ token_hash: hashLinkToken(opts.input.token) })
+      .first();
     const state = linkState(invitation, now);
     if (state !== "valid") refuseLink(state);
-    const user = await trx("users").where({ email: invitation.email, organisation_id: invitation.organisation_id }).first("id", "name", "email", "active");
+    const user = await trx("users")
+      .where({ email: invitation.email, organisation_id: invitation.organisation_id })
+      .first("id", "name", "email", "active");
     if (!user || !toBool(user.active)) refuseLink("withdrawn");
 
     const marked = await trx("invitations")

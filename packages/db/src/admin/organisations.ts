@@ -28,10 +28,20 @@ export async function createOrganisationWithOwner(
     if (await trx("users").where({ email: owner.email }).first("id")) {
       throw new RecordConflictError("That e-mail address already belongs to a Coldtrail account", "email");
     }
-    const [orgRow] = await trx("organisations").insert({ name, rule_packs: JSON.stringify(["us_federal"]), settings: "{}", created_at: at }).returning("id");
+    const [orgRow] = await trx("organisations")
+      .insert({ name, rule_packs: JSON.stringify(["us_federal"]), settings: "{}", created_at: at })
+      .returning("id");
     const organisationId = rowId(orgRow);
     const [userRow] = await trx("users")
-      .insert({ organisation_id: organisationId, email: owner.email, name: owner.name, password_hash: null, active: true, created_at: at, deactivated_at: null })
+      .insert({
+        organisation_id: organisationId,
+        email: owner.email,
+        name: owner.name,
+        password_hash: null,
+        active: true,
+        created_at: at,
+        deactivated_at: null,
+      })
       .returning("id");
     const ownerId = rowId(userRow);
     await trx("memberships").insert({ organisation_id: organisationId, user_id: ownerId, branch_id: null, role: "owner", created_at: at });

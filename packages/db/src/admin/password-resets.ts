@@ -26,7 +26,9 @@ export async function requestPasswordReset(db: Knex, opts: { email: string; now?
   const now = opts.now ?? new Date();
   const at = now.toISOString();
   return db.transaction(async (trx) => {
-    const user = await trx("users").where({ email: opts.email.trim().toLowerCase() }).first("id", "organisation_id", "email", "name", "active", "password_hash");
+    const user = await trx("users")
+      .where({ email: opts.email.trim().toLowerCase() })
+      .first("id", "organisation_id", "email", "name", "active", "password_hash");
     if (!user || !toBool(user.active) || !user.password_hash) return null;
     const recent = await trx("password_reset_tokens")
       .where({ user_id: user.id })
@@ -78,7 +80,9 @@ export async function resetPassword(db: Knex, opts: { input: ResetPasswordInput;
   const at = now.toISOString();
   const passwordHash = await hashPassword(opts.input.password);
   return db.transaction(async (trx) => {
-    const row = await trx("password_reset_tokens").where({ token_hash: hashLinkToken(opts.input.token) }).first();
+    const row = await trx("password_reset_tokens")
+      .where({ token_hash: hashLinkToken(opts.input.token) })
+      .first();
     const state = linkState(row, now);
     if (state !== "valid") refuseLink(state);
     const user = await trx("users").where({ id: row.user_id }).first("id", "organisation_id", "email", "name", "active");

@@ -99,15 +99,7 @@ export function personStatus(row: { active: unknown; password_hash?: string | nu
   return hasPassword ? "active" : "invited";
 }
 
-const PERSON_COLUMNS = [
-  "u.id",
-  "u.organisation_id",
-  "u.name",
-  "u.email",
-  "u.active",
-  "u.created_at",
-  "u.deactivated_at",
-];
+const PERSON_COLUMNS = ["u.id", "u.organisation_id", "u.name", "u.email", "u.active", "u.created_at", "u.deactivated_at"];
 
 /** Roles and branches of the given users, in role rank order. */
 async function membershipsOf(db: Knex, userIds: number[]) {
@@ -181,7 +173,10 @@ export async function listPeople(db: Knex, opts: { scope: ScopeFn; query: People
     .orderBy("u.id", query.dir)
     .limit(query.pageSize)
     .offset((query.page - 1) * query.pageSize);
-  const m = await membershipsOf(db, rows.map((r) => Number(r.id)));
+  const m = await membershipsOf(
+    db,
+    rows.map((r) => Number(r.id)),
+  );
   return {
     rows: rows.map((r) => toPerson(r, m.get(Number(r.id)))),
     total,
@@ -259,9 +254,17 @@ const key = (m: PersonMembership) => `${m.role}|${m.branchId ?? "org"}`;
  * Branches named in an access change must be the organisation's; ones not held before must be open
  * (an archived branch keeps its people, but nobody new joins it).
  */
-export async function checkBranches(trx: Knex.Transaction, organisationId: number, branchIds: number[], alreadyHeld: Set<number> = new Set()) {
+export async function checkBranches(
+  trx: Knex.Transaction,
+  organisationId: number,
+  branchIds: number[],
+  alreadyHeld: Set<number> = new Set(),
+) {
   if (branchIds.length === 0) return;
-  const rows = await trx("branches").where({ organisation_id: organisationId }).whereIn("id", branchIds).select("id", "name", "archived_at");
+  const rows = await trx("branches")
+    .where({ organisation_id: organisationId })
+    .whereIn("id", branchIds)
+    .select("id", "name", "archived_at");
   if (rows.length !== new Set(branchIds).size) throw new InvalidInputError("Choose branches of your organisation", "branchIds");
   const archived = rows.find((b) => b.archived_at && !alreadyHeld.has(Number(b.id)));
   if (archived) throw new RecordConflictError(`${archived.name} is archived; nobody new can join it`, "branchIds");
@@ -331,7 +334,12 @@ export async function updatePersonAccess(
     }
     refuseAboveOwnRank(await actorRank(trx, actor), input.roles);
     const held = new Set(current.filter((m) => m.branchId !== null).map((m) => m.branchId as number));
-    await checkBranches(trx, actor.organisationId, input.branchIds.filter((b) => next.some((m) => m.branchId === b)), held);
+    await checkBranches(
+      trx,
+      actor.organisationId,
+      input.branchIds.filter((b) => next.some((m) => m.branchId === b)),
+      held,
+    );
 
     const losesOwner = current.some((m) => m.role === "owner") && !next.some((m) => m.role === "owner");
     if (losesOwner && toBool(user.active) && user.password_hash && (await otherOwners(trx, actor.organisationId, opts.id)) === 0) {
@@ -346,7 +354,13 @@ export async function updatePersonAccess(
     }
     if (added.length) {
       await trx("memberships").insert(
-        added.map((m) => ({ organisation_id: actor.organisationId, user_id: opts.id, branch_id: m.branchId, role: m.role, created_at: at })),
+        added.map((m) => ({
+          organisation_id: actor.organisationId,
+          user_id: opts.id,
+          branch_id: m.branchId,
+          role: m.role,
+          created_at: at,
+        })),
       );
     }
     const names = await branchNamesOf(trx, actor.organisationId);
@@ -378,16 +392,29 @@ export async function setPersonActive(db: Knex, opts: { actor: ActorRef; id: num
     }
     if (!opts.active) {
       if (opts.id === actor.userId) throw new ActionForbiddenError("You cannot deactivate yourself; ask another owner");
-      if (memberships.some((m) => m.role === "owner") && user.password_hash && (await otherOwners(trx, actor.organisationId, opts.id)) === 0) {
+      if (
+        memberships.some((m) => m.role === "owner") &&
+        user.password_hash &&
+        (await otherOwners(trx, actor.organisationId, opts.id)) === 0
+      ) {
         throw new RecordConflictError(`${user.name} is the last owner; make someone else an owner first`);
       }
     } else {
-      refuseAboveOwnRank(await actorRank(trx, actor), memberships.map((m) => m.role));
+      refuseAboveOwnRank(
+        await actorRank(trx, actor),
+        memberships.map((m) => m.role),
+      );
     }
-    await trx("users").where({ id: opts.id }).update({ active: opts.active, deactivated_at: opts.active ? null : at });
+    await trx("users")
+      .where({ id: opts.id })
+      .update({ active: opts.active, deactivated_at: opts.active ? null : at });
     if (!opts.active) {
       // Links already sent stop working with the account.
-      await trx("invitations").where({ organisation_id: actor.organisationId, email: user.email }).whereNull("used_at").whereNull("revoked_at").update({ revoked_at: at });
+      await trx("invitations")
+        .where({ organisation_id: actor.organisationId, email: user.email })
+        .whereNull("used_at")
+        .whereNull("revoked_at")
+        .update({ revoked_at: at });
       await trx("password_reset_tokens").where({ user_id: opts.id }).whereNull("used_at").update({ used_at: at });
     }
     await appendActivity(trx, {
@@ -430,7 +457,10 @@ export async function listPersonCertifications(db: Knex, opts: { scope: ScopeFn;
     .whereNull("c.voided_at");
   wherePersonInScope(db, qb, "c.user_id", opts.scope);
   const rows = await qb
-    .orderBy([{ column: "c.uploaded_at", order: "desc" }, { column: "c.id", order: "desc" }])
+    .orderBy([
+      { column: "c.uploaded_at", order: "desc" },
+      { column: "c.id", order: "desc" },
+    ])
     .select(
       "c.id",
       "c.certifying_organisation",
@@ -444,7 +474,13 @@ export async function listPersonCertifications(db: Knex, opts: { scope: ScopeFn;
     )
     .limit(200);
   const types = rows.length
-    ? await db("certification_types").whereIn("certification_id", rows.map((r) => r.id)).orderBy(["certification_id", "type"]).select("certification_id", "type") // same order in both dialects
+    ? await db("certification_types")
+        .whereIn(
+          "certification_id",
+          rows.map((r) => r.id),
+        )
+        .orderBy(["certification_id", "type"])
+        .select("certification_id", "type") // same order in both dialects
     : [];
   return rows.map((r) => ({
     id: Number(r.id),
@@ -487,7 +523,10 @@ export async function listRecordActivity(
   const countRow = await filtered(db("activity as activity")).count({ n: "*" }).first();
   // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await filtered(db("activity as activity").leftJoin("users as who", "who.id", "activity.actor_id"))
-    .orderBy([{ column: "activity.at", order: "desc" }, { column: "activity.id", order: "desc" }])
+    .orderBy([
+      { column: "activity.at", order: "desc" },
+      { column: "activity.id", order: "desc" },
+    ])
     .limit(opts.query.pageSize)
     .offset((opts.query.page - 1) * opts.query.pageSize)
     .select("activity.id", "activity.at", "activity.action", "activity.summary", "who.name as actor_name");

@@ -1,5 +1,13 @@
 import type { Knex } from "knex";
-import { DEFAULT_SETTINGS, RULE_PACKS, RULE_PACK_LABELS, resolveSettings, type AuditSettings, type OrganisationSettingsInput, type RulePack } from "@coldtrail/core";
+import {
+  DEFAULT_SETTINGS,
+  RULE_PACKS,
+  RULE_PACK_LABELS,
+  resolveSettings,
+  type AuditSettings,
+  type OrganisationSettingsInput,
+  type RulePack,
+} from "@coldtrail/core";
 import { appendActivity } from "../activity";
 import { RecordNotFoundError } from "../errors";
 import type { ActorRef } from "../types";
@@ -50,7 +58,13 @@ export async function getOrganisationSettings(db: Knex | Knex.Transaction, organ
   const row = await db("organisations").where({ id: organisationId }).first("id", "name", "rule_packs", "settings");
   if (!row) throw new RecordNotFoundError("No such organisation");
   const chosen = parseStoredSettings(row.settings);
-  return { organisationId: Number(row.id), name: row.name, rulePacks: parseRulePacks(row.rule_packs), settings: resolveSettings(chosen), chosen };
+  return {
+    organisationId: Number(row.id),
+    name: row.name,
+    rulePacks: parseRulePacks(row.rule_packs),
+    settings: resolveSettings(chosen),
+    chosen,
+  };
 }
 
 const WORDS: Record<keyof AuditSettings, string> = {
@@ -68,7 +82,10 @@ const show = (v: unknown) => (typeof v === "boolean" ? (v ? "on" : "off") : Stri
  * Saves the organisation's name, rule packs and settings. Every setting is stored as chosen, so a later
  * change of a default in the rules core does not silently change what a company decided.
  */
-export async function updateOrganisationSettings(db: Knex, opts: { actor: ActorRef; input: OrganisationSettingsInput; now?: Date }): Promise<void> {
+export async function updateOrganisationSettings(
+  db: Knex,
+  opts: { actor: ActorRef; input: OrganisationSettingsInput; now?: Date },
+): Promise<void> {
   const { actor, input } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   await db.transaction(async (trx) => {
@@ -86,7 +103,9 @@ export async function updateOrganisationSettings(db: Knex, opts: { actor: ActorR
     const changes: string[] = [];
     if (before.name !== input.name) changes.push(`name from ${before.name} to ${input.name}`);
     if (before.rulePacks.join() !== rulePacks.join()) {
-      changes.push(`rules from ${before.rulePacks.map((p) => RULE_PACK_LABELS[p]).join(" + ")} to ${rulePacks.map((p) => RULE_PACK_LABELS[p]).join(" + ")}`);
+      changes.push(
+        `rules from ${before.rulePacks.map((p) => RULE_PACK_LABELS[p]).join(" + ")} to ${rulePacks.map((p) => RULE_PACK_LABELS[p]).join(" + ")}`,
+      );
     }
     for (const key of KEYS) {
       if (before.settings[key] !== next[key]) changes.push(`${WORDS[key]} from ${show(before.settings[key])} to ${show(next[key])}`);
@@ -103,8 +122,13 @@ export async function updateOrganisationSettings(db: Knex, opts: { actor: ActorR
       action: "settings.updated",
       subjectType: "Settings",
       subjectId: actor.organisationId,
-      summary: changes.length ? `Changed the settings: ${changes.join("; ")}` : "Saved the settings as they were (defaults now kept as chosen)",
-      data: { before: { name: before.name, rulePacks: before.rulePacks, settings: before.chosen }, after: { name: input.name, rulePacks, settings: next } },
+      summary: changes.length
+        ? `Changed the settings: ${changes.join("; ")}`
+        : "Saved the settings as they were (defaults now kept as chosen)",
+      data: {
+        before: { name: before.name, rulePacks: before.rulePacks, settings: before.chosen },
+        after: { name: input.name, rulePacks, settings: next },
+      },
       at,
     });
   });

@@ -13,7 +13,10 @@ export function hashLinkToken(token: string): string {
 /** Why a link cannot be used, in words the person reads on the page. */
 export type LinkState = "valid" | "used" | "expired" | "withdrawn" | "unknown";
 
-export function linkState(row: { used_at?: string | null; revoked_at?: string | null; expires_at: string } | undefined, now: Date): LinkState {
+export function linkState(
+  row: { used_at?: string | null; revoked_at?: string | null; expires_at: string } | undefined,
+  now: Date,
+): LinkState {
   if (!row) return "unknown";
   if (row.used_at) return "used";
   if (row.revoked_at) return "withdrawn";

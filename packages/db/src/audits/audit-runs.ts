@@ -85,8 +85,12 @@ export async function createAudit(db: Knex, opts: { actor: ActorRef; input: Audi
   const { actor, input } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
-    const branches = await trx("branches").where({ organisation_id: actor.organisationId }).whereIn("id", input.branchIds).select("id", "name");
-    if (branches.length !== new Set(input.branchIds).size) throw new InvalidInputError("One of the chosen branches is not in your organisation", "branchIds");
+    const branches = await trx("branches")
+      .where({ organisation_id: actor.organisationId })
+      .whereIn("id", input.branchIds)
+      .select("id", "name");
+    if (branches.length !== new Set(input.branchIds).size)
+      throw new InvalidInputError("One of the chosen branches is not in your organisation", "branchIds");
     const byId = new Map(branches.map((b) => [Number(b.id), b.name as string]));
     const branchIds = [...input.branchIds].sort((x, y) => (byId.get(x)! < byId.get(y)! ? -1 : byId.get(x)! > byId.get(y)! ? 1 : x - y));
     const [row] = await trx("audits")
@@ -137,18 +141,27 @@ export async function listAudits(
 ): Promise<{ rows: AuditListRow[]; total: number; page: number; pageSize: number }> {
   const base = () => {
     const q = db("audits as a").where("a.organisation_id", opts.organisationId);
-    if (opts.scope) q.where(function scoped(this: Knex.QueryBuilder) { opts.scope!(this); });
+    if (opts.scope)
+      q.where(function scoped(this: Knex.QueryBuilder) {
+        opts.scope!(this);
+      });
     return q;
   };
   const countRow = await base().count({ n: "*" }).first();
   const rows = await base()
     .join("users as u", "u.id", "a.started_by")
-    .orderBy([{ column: "a.created_at", order: "desc" }, { column: "a.id", order: "desc" }])
+    .orderBy([
+      { column: "a.created_at", order: "desc" },
+      { column: "a.id", order: "desc" },
+    ])
     .limit(opts.pageSize)
     .offset((opts.page - 1) * opts.pageSize)
     .select(RUN_COLUMNS);
   const branchNames = new Map(
-    (await db("branches").where({ organisation_id: opts.organisationId }).select("id", "name")).map((b) => [Number(b.id), b.name as string]),
+    (await db("branches").where({ organisation_id: opts.organisationId }).select("id", "name")).map((b) => [
+      Number(b.id),
+      b.name as string,
+    ]),
   );
   return {
     rows: rows.map((r) => {
@@ -173,12 +186,18 @@ export async function claimAudit(db: Knex, opts: { id: number; now?: Date }): Pr
 
 /** Tells other runners this run is alive (the runner calls it while a run goes on). */
 export async function touchAuditHeartbeat(db: Knex, opts: { id: number; now?: Date }): Promise<void> {
-  await db("audits").where({ id: opts.id, state: "running" }).update({ heartbeat_at: (opts.now ?? new Date()).toISOString() });
+  await db("audits")
+    .where({ id: opts.id, state: "running" })
+    .update({ heartbeat_at: (opts.now ?? new Date()).toISOString() });
 }
 
 /** The oldest queued audits, for the background runner. */
 export async function listQueuedAuditIds(db: Knex, limit = 10): Promise<number[]> {
-  const rows = await db("audits").where({ state: "queued" }).orderBy([{ column: "created_at" }, { column: "id" }]).limit(limit).select("id");
+  const rows = await db("audits")
+    .where({ state: "queued" })
+    .orderBy([{ column: "created_at" }, { column: "id" }])
+    .limit(limit)
+    .select("id");
   return rows.map((r) => Number(r.id));
 }
 
@@ -187,7 +206,10 @@ export async function listQueuedAuditIds(db: Knex, limit = 10): Promise<number[]
  * than `staleBefore` — go back to the queue and resume with the branches not done yet; after
  * `maxAttempts` interruptions a run fails with a reason instead.
  */
-export async function requeueInterruptedAudits(db: Knex, opts: { staleBefore: Date; maxAttempts?: number; now?: Date }): Promise<{ requeued: number[]; failed: number[] }> {
+export async function requeueInterruptedAudits(
+  db: Knex,
+  opts: { staleBefore: Date; maxAttempts?: number; now?: Date },
+): Promise<{ requeued: number[]; failed: number[] }> {
   const maxAttempts = opts.maxAttempts ?? 3;
   const at = (opts.now ?? new Date()).toISOString();
   const stale = await db("audits")
@@ -198,11 +220,17 @@ export async function requeueInterruptedAudits(db: Knex, opts: { staleBefore: Da
   for (const s of stale) {
     const id = Number(s.id);
     if (Number(s.attempts) >= maxAttempts) {
-      await failAudit(db, { id, message: `The run was interrupted ${s.attempts} times (the server stopped while it ran); start it again`, now: opts.now });
+      await failAudit(db, {
+        id,
+        message: `The run was interrupted ${s.attempts} times (the server stopped while it ran); start it again`,
+        now: opts.now,
+      });
       out.failed.push(id);
     } else {
       await db.transaction(async (trx) => {
-        await trx("audits").where({ id, state: "running" }).update({ state: "queued", progress_note: "Interrupted; resuming where it stopped" });
+        await trx("audits")
+          .where({ id, state: "running" })
+          .update({ state: "queued", progress_note: "Interrupted; resuming where it stopped" });
         await appendActivity(trx, {
           organisationId: Number(s.organisation_id),
           actorId: null,
@@ -224,7 +252,9 @@ export async function failAudit(db: Knex, opts: { id: number; message: string; n
   await db.transaction(async (trx) => {
     const row = await trx("audits").where({ id: opts.id }).first("organisation_id", "state");
     if (!row || row.state === "done" || row.state === "failed") return;
-    await trx("audits").where({ id: opts.id }).update({ state: "failed", error: opts.message.slice(0, 2000), finished_at: at, progress_note: "Stopped" });
+    await trx("audits")
+      .where({ id: opts.id })
+      .update({ state: "failed", error: opts.message.slice(0, 2000), finished_at: at, progress_note: "Stopped" });
     await appendActivity(trx, {
       organisationId: Number(row.organisation_id),
       actorId: null,
@@ -238,7 +268,13 @@ export async function failAudit(db: Knex, opts: { id: number; message: string; n
 }
 
 function combine(branches: BranchAuditSummary[]): AuditSummary {
-  const totals = { found: 0, created: 0, noLongerFound: 0, foundAgain: 0, bySeverity: { critical: 0, major: 0, minor: 0 } as Record<Severity, number> };
+  const totals = {
+    found: 0,
+    created: 0,
+    noLongerFound: 0,
+    foundAgain: 0,
+    bySeverity: { critical: 0, major: 0, minor: 0 } as Record<Severity, number>,
+  };
   const byRule: Record<string, number> = {};
   for (const b of branches) {
     totals.found += b.found;
@@ -268,7 +304,9 @@ export async function runAuditBranches(
   const { settings } = await getOrganisationAuditSettings(db, audit.organisationId);
   const branchSummaries = [...(audit.summary?.branches ?? [])];
   const done = new Set(audit.branchesDone);
-  const names = new Map((await db("branches").whereIn("id", audit.branchIds).select("id", "name")).map((b) => [Number(b.id), b.name as string]));
+  const names = new Map(
+    (await db("branches").whereIn("id", audit.branchIds).select("id", "name")).map((b) => [Number(b.id), b.name as string]),
+  );
 
   for (const branchId of audit.branchIds) {
     if (done.has(branchId)) continue;
@@ -302,7 +340,16 @@ export async function runAuditBranches(
   const at = clock().toISOString();
   const summary = combine(branchSummaries);
   await db.transaction(async (trx) => {
-    await trx("audits").where({ id: audit.id }).update({ state: "done", progress: 100, progress_note: "Finished", finished_at: at, summary: JSON.stringify(summary), heartbeat_at: at });
+    await trx("audits")
+      .where({ id: audit.id })
+      .update({
+        state: "done",
+        progress: 100,
+        progress_note: "Finished",
+        finished_at: at,
+        summary: JSON.stringify(summary),
+        heartbeat_at: at,
+      });
     await appendActivity(trx, {
       organisationId: audit.organisationId,
       actorId: null,
@@ -324,12 +371,18 @@ export function healthOfBranchSummary(b: BranchAuditSummary) {
 }
 
 /** The latest finished audit that covered a branch, for continuous re-evaluation and trends. */
-export async function latestDoneAuditForBranch(db: Knex, opts: { organisationId: number; branchId: number }): Promise<AuditRun | undefined> {
+export async function latestDoneAuditForBranch(
+  db: Knex,
+  opts: { organisationId: number; branchId: number },
+): Promise<AuditRun | undefined> {
   // The scope is JSON text; audits are few, so the newest finished ones are read and filtered here.
   const rows = await db("audits as a")
     .join("users as u", "u.id", "a.started_by")
     .where({ "a.organisation_id": opts.organisationId, "a.state": "done" })
-    .orderBy([{ column: "a.finished_at", order: "desc" }, { column: "a.id", order: "desc" }])
+    .orderBy([
+      { column: "a.finished_at", order: "desc" },
+      { column: "a.id", order: "desc" },
+    ])
     .limit(200)
     .select(RUN_COLUMNS);
   for (const r of rows) {

@@ -80,13 +80,27 @@ export async function getOrganisationOverview(
   db: Knex,
   opts: { organisationId: number; branchIds: number[]; findingScope: ScopeFn; today: string },
 ): Promise<{ branches: OverviewBranch[]; totals: Record<Severity, number> & { overdue: number; fixProposed: number } }> {
-  const branches = await db("branches").where({ organisation_id: opts.organisationId }).whereIn("id", opts.branchIds.length ? opts.branchIds : [-1]).orderBy("name").select("id", "name", "code", "mass_unit");
-  const counts = await scoped(db("findings as findings").where("findings.organisation_id", opts.organisationId).whereIn("findings.state", ["open", "fix_proposed"]), opts.findingScope)
+  const branches = await db("branches")
+    .where({ organisation_id: opts.organisationId })
+    .whereIn("id", opts.branchIds.length ? opts.branchIds : [-1])
+    .orderBy("name")
+    .select("id", "name", "code", "mass_unit");
+  const counts = await scoped(
+    db("findings as findings").where("findings.organisation_id", opts.organisationId).whereIn("findings.state", ["open", "fix_proposed"]),
+    opts.findingScope,
+  )
     .groupBy("findings.branch_id", "findings.severity", "findings.state")
     .select("findings.branch_id", "findings.severity", "findings.state")
     .count({ n: "*" })
     .sum({ overdue: db.raw("CASE WHEN findings.due_on < ? THEN 1 ELSE 0 END", [opts.today]) });
-  const audits = await db("audits").where({ organisation_id: opts.organisationId, state: "done" }).orderBy([{ column: "finished_at", order: "desc" }, { column: "id", order: "desc" }]).limit(100).select("id", "finished_at", "summary");
+  const audits = await db("audits")
+    .where({ organisation_id: opts.organisationId, state: "done" })
+    .orderBy([
+      { column: "finished_at", order: "desc" },
+      { column: "id", order: "desc" },
+    ])
+    .limit(100)
+    .select("id", "finished_at", "summary");
 
   const totals = { ...zero(), overdue: 0, fixProposed: 0 };
   const out: OverviewBranch[] = branches.map((b) => {
@@ -110,7 +124,12 @@ export async function getOrganisationOverview(
       if (!mine) continue;
       recordsAudited ??= mine.recordsAudited;
       const h = recordHealth({ open: mine.activeAfter, recordsAudited: mine.recordsAudited });
-      history.unshift({ auditId: Number(a.id), finishedAt: a.finished_at, health: h.score, open: mine.activeAfter.critical + mine.activeAfter.major + mine.activeAfter.minor });
+      history.unshift({
+        auditId: Number(a.id),
+        finishedAt: a.finished_at,
+        health: h.score,
+        open: mine.activeAfter.critical + mine.activeAfter.major + mine.activeAfter.minor,
+      });
       if (history.length >= 6) break;
     }
     const health = recordsAudited === null ? null : recordHealth({ open: active, recordsAudited });
@@ -127,7 +146,8 @@ export async function getOrganisationOverview(
       recordsAudited,
       health,
       history,
-      trend: lastAudit && health ? healthTrend({ score: lastAudit.health, open: lastAudit.open }, { score: health.score, open: openNow }) : null,
+      trend:
+        lastAudit && health ? healthTrend({ score: lastAudit.health, open: lastAudit.open }, { score: health.score, open: openNow }) : null,
       lastAudit,
     };
   });
@@ -230,20 +250,43 @@ export async function getBranchDashboard(
     includeLeakWatchlist: boolean;
   },
 ): Promise<BranchDashboard> {
-  const b = await db("branches").where({ id: opts.branchId, organisation_id: opts.organisationId }).first("id", "name", "code", "mass_unit", "time_zone");
+  const b = await db("branches")
+    .where({ id: opts.branchId, organisation_id: opts.organisationId })
+    .first("id", "name", "code", "mass_unit", "time_zone");
   if (!b) throw new RecordNotFoundError("No such branch");
-  const branch = { id: Number(b.id), name: b.name as string, code: b.code as string, massUnit: b.mass_unit as MassDisplayUnit, timeZone: b.time_zone as string };
+  const branch = {
+    id: Number(b.id),
+    name: b.name as string,
+    code: b.code as string,
+    massUnit: b.mass_unit as MassDisplayUnit,
+    timeZone: b.time_zone as string,
+  };
   const { today } = opts;
   const firstMonth = addMonths(`${monthOf(today)}-01`, -(opts.months - 1));
   const months: string[] = [];
   for (let i = 0; i < opts.months; i++) months.push(monthOf(addMonths(firstMonth, i)));
 
-  const findingsBase = () => scoped(db("findings as findings").where({ "findings.organisation_id": opts.organisationId, "findings.branch_id": branch.id }), opts.findingScope);
+  const findingsBase = () =>
+    scoped(
+      db("findings as findings").where({ "findings.organisation_id": opts.organisationId, "findings.branch_id": branch.id }),
+      opts.findingScope,
+    );
 
-  const byRuleRows = await findingsBase().whereIn("findings.state", ["open", "fix_proposed"]).groupBy("findings.rule_id", "findings.severity").select("findings.rule_id", "findings.severity").count({ n: "*" });
+  const byRuleRows = await findingsBase()
+    .whereIn("findings.state", ["open", "fix_proposed"])
+    .groupBy("findings.rule_id", "findings.severity")
+    .select("findings.rule_id", "findings.severity")
+    .count({ n: "*" });
   const byRule = new Map<string, RuleCount>();
   for (const r of byRuleRows) {
-    const entry = byRule.get(r.rule_id) ?? { ruleId: r.rule_id, title: getRule(r.rule_id)?.title ?? r.rule_id, critical: 0, major: 0, minor: 0, total: 0 };
+    const entry = byRule.get(r.rule_id) ?? {
+      ruleId: r.rule_id,
+      title: getRule(r.rule_id)?.title ?? r.rule_id,
+      critical: 0,
+      major: 0,
+      minor: 0,
+      total: 0,
+    };
     entry[r.severity as Severity] += Number(r.n);
     entry.total += Number(r.n);
     byRule.set(r.rule_id, entry);
@@ -306,7 +349,7 @@ export async function getBranchDashboard(
     if (r.direction === "recovered_into_cylinder") f.recoveredG += Number(r.g);
     else f.chargedG += Number(r.g);
   }
-  for (const r of await db("purchases as purchases")
+  for (const r of (await db("purchases as purchases")
     .where({ "purchases.branch_id": branch.id })
     .whereNull("purchases.voided_at")
     .whereBetween("purchases.purchased_on", [firstDay, to])
@@ -315,11 +358,11 @@ export async function getBranchDashboard(
     })
     .groupByRaw("substr(purchases.purchased_on, 1, 7)")
     .select(db.raw("substr(purchases.purchased_on, 1, 7) as month"))
-    .sum({ g: "purchases.mass_g" }) as Row[]) {
+    .sum({ g: "purchases.mass_g" })) as Row[]) {
     const f = flows.get(r.month);
     if (f) f.purchasedG += Number(r.g);
   }
-  for (const r of await db("reclaim_shipment_lines as l")
+  for (const r of (await db("reclaim_shipment_lines as l")
     .join("reclaim_shipments as reclaim_shipments", "reclaim_shipments.id", "l.shipment_id")
     .where({ "reclaim_shipments.branch_id": branch.id })
     .whereNull("reclaim_shipments.voided_at")
@@ -329,7 +372,7 @@ export async function getBranchDashboard(
     })
     .groupByRaw("substr(reclaim_shipments.shipped_on, 1, 7)")
     .select(db.raw("substr(reclaim_shipments.shipped_on, 1, 7) as month"))
-    .sum({ g: "l.mass_g" }) as Row[]) {
+    .sum({ g: "l.mass_g" })) as Row[]) {
     const f = flows.get(r.month);
     if (f) f.shippedG += Number(r.g);
   }
@@ -339,9 +382,16 @@ export async function getBranchDashboard(
   // Leak watchlist: the latest leak rate of every appliance under leak-repair rules, nearest to or over its threshold.
   let leakWatchlist: LeakWatchRow[] | null = null;
   if (opts.includeLeakWatchlist) {
-    const loaded = await loadBranchRecords(db, { organisationId: opts.organisationId, branchId: branch.id, period: { from: addDays(today, -365), to: today }, asOf: `${today}T12:00:00Z` });
+    const loaded = await loadBranchRecords(db, {
+      organisationId: opts.organisationId,
+      branchId: branch.id,
+      period: { from: addDays(today, -365), to: today },
+      asOf: `${today}T12:00:00Z`,
+    });
     const jobsByAppliance = new Map<number, typeof loaded.records.jobs>();
-    for (const j of [...loaded.records.jobs].sort((x, y) => (x.performedOn < y.performedOn ? -1 : x.performedOn > y.performedOn ? 1 : x.id - y.id))) {
+    for (const j of [...loaded.records.jobs].sort((x, y) =>
+      x.performedOn < y.performedOn ? -1 : x.performedOn > y.performedOn ? 1 : x.id - y.id,
+    )) {
       if (j.applianceId === null) continue;
       const list = jobsByAppliance.get(j.applianceId) ?? [];
       list.push(j);
@@ -375,7 +425,11 @@ export async function getBranchDashboard(
     rows.sort((x, y) => y.ratio - x.ratio || x.tag.localeCompare(y.tag));
     leakWatchlist = rows.slice(0, 10);
     const descriptions = new Map(
-      (await db("appliances").whereIn("id", leakWatchlist.map((r) => r.applianceId).concat(-1)).select("id", "description")).map((r) => [Number(r.id), r.description as string]),
+      (
+        await db("appliances")
+          .whereIn("id", leakWatchlist.map((r) => r.applianceId).concat(-1))
+          .select("id", "description")
+      ).map((r) => [Number(r.id), r.description as string]),
     );
     for (const r of leakWatchlist) r.description = descriptions.get(r.applianceId) ?? "";
   }
@@ -395,19 +449,27 @@ export async function getBranchDashboard(
   const technicians: CoverageRow[] = techRows.map((t) => {
     const mine = certRows.filter((c) => Number(c.user_id) === Number(t.id));
     const verified = [...new Set(mine.filter((c) => c.state === "verified").map((c) => c.type as CertificationType))].sort();
-    const covers = Object.fromEntries(classes.map((cls) => [cls, CERTIFICATION_COVERAGE[cls].some((type) => verified.includes(type))])) as Record<ApplianceCertificationClass, boolean>;
+    const covers = Object.fromEntries(
+      classes.map((cls) => [cls, CERTIFICATION_COVERAGE[cls].some((type) => verified.includes(type))]),
+    ) as Record<ApplianceCertificationClass, boolean>;
     return {
       technicianId: Number(t.id),
       name: t.name,
       verified,
-      pending: [...new Set(mine.filter((c) => c.state === "pending").map((c) => c.type as CertificationType))].filter((type) => !verified.includes(type)).sort(),
+      pending: [...new Set(mine.filter((c) => c.state === "pending").map((c) => c.type as CertificationType))]
+        .filter((type) => !verified.includes(type))
+        .sort(),
       covers,
     };
   });
   const appliancesByClass = Object.fromEntries(classes.map((c) => [c, 0])) as Record<ApplianceCertificationClass, number>;
-  for (const a of await db("appliances").where({ branch_id: branch.id, status: "in_service" }).select("refrigerant", "full_charge_g", "factory_sealed", "category")) {
+  for (const a of await db("appliances")
+    .where({ branch_id: branch.id, status: "in_service" })
+    .select("refrigerant", "full_charge_g", "factory_sealed", "category")) {
     try {
-      appliancesByClass[certificationClass({ refrigerant: a.refrigerant, fullChargeG: Number(a.full_charge_g), factorySealed: toBool(a.factory_sealed) })] += 1;
+      appliancesByClass[
+        certificationClass({ refrigerant: a.refrigerant, fullChargeG: Number(a.full_charge_g), factorySealed: toBool(a.factory_sealed) })
+      ] += 1;
     } catch {
       // A refrigerant without catalogued pressure data has no class to count.
     }
@@ -415,7 +477,10 @@ export async function getBranchDashboard(
 
   // Cylinders due for requalification within 60 days (or past it) or filled to 90 % of their maximum or more.
   const cylinders: CylinderWatchRow[] = [];
-  for (const c of await db("cylinders").where({ branch_id: branch.id, status: "in_service", unregistered: false }).orderBy("serial").select("*")) {
+  for (const c of await db("cylinders")
+    .where({ branch_id: branch.id, status: "in_service", unregistered: false })
+    .orderBy("serial")
+    .select("*")) {
     const reasons: CylinderWatchRow["reasons"] = [];
     const due = c.last_requalified_on ? requalificationDueOn(c.last_requalified_on, settings.requalificationYears) : null;
     if (!due) reasons.push("no_requalification_date");
@@ -425,9 +490,19 @@ export async function getBranchDashboard(
     let percent: number | null = null;
     if (c.refrigerant && Number(c.contents_g) > 0) {
       try {
-        maxNetG = maxCylinderFill({ waterCapacityG: Number(c.water_capacity_g), tareG: Number(c.tare_g), refrigerant: c.refrigerant, strict130F: settings.strictFill130F }).maxNetG;
+        maxNetG = maxCylinderFill({
+          waterCapacityG: Number(c.water_capacity_g),
+          tareG: Number(c.tare_g),
+          refrigerant: c.refrigerant,
+          strict130F: settings.strictFill130F,
+        }).maxNetG;
       } catch {
-        maxNetG = maxCylinderFill({ waterCapacityG: Number(c.water_capacity_g), tareG: Number(c.tare_g), refrigerant: c.refrigerant, specificGravity: 1 }).maxNetG;
+        maxNetG = maxCylinderFill({
+          waterCapacityG: Number(c.water_capacity_g),
+          tareG: Number(c.tare_g),
+          refrigerant: c.refrigerant,
+          specificGravity: 1,
+        }).maxNetG;
       }
       percent = Math.round(fillPercent(Number(c.contents_g), maxNetG) * 10) / 10;
       if (percent > 100) reasons.push("over_full");
@@ -447,5 +522,15 @@ export async function getBranchDashboard(
     });
   }
 
-  return { branch, today, months, findingsByRule, findingsOverTime, flows: [...flows.values()], leakWatchlist, coverage: { technicians, appliancesByClass }, cylinders };
+  return {
+    branch,
+    today,
+    months,
+    findingsByRule,
+    findingsOverTime,
+    flows: [...flows.values()],
+    leakWatchlist,
+    coverage: { technicians, appliancesByClass },
+    cylinders,
+  };
 }

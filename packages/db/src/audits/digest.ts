@@ -31,12 +31,24 @@ export async function collectDigests(db: Knex, opts: { organisationId: number; t
     .select("u.id", "u.name", "u.email", "m.role", "m.branch_id");
   const assignees = new Set(findings.map((f) => toNumOrNull(f.assignee_id)).filter((x): x is number => x !== null));
   const extra = assignees.size
-    ? await db("users").whereIn("id", [...assignees]).where({ organisation_id: opts.organisationId, active: true }).select("id", "name", "email")
+    ? await db("users")
+        .whereIn("id", [...assignees])
+        .where({ organisation_id: opts.organisationId, active: true })
+        .select("id", "name", "email")
     : [];
-  const recipients = new Map<number, { userId: number; name: string; email: string; wholeOrganisation: boolean; managedBranchIds: number[] }>();
+  const recipients = new Map<
+    number,
+    { userId: number; name: string; email: string; wholeOrganisation: boolean; managedBranchIds: number[] }
+  >();
   for (const p of [...people, ...extra.map((u) => ({ ...u, role: "assignee", branch_id: null }))]) {
     const id = Number(p.id);
-    const r = recipients.get(id) ?? { userId: id, name: p.name, email: p.email, wholeOrganisation: false, managedBranchIds: [] as number[] };
+    const r = recipients.get(id) ?? {
+      userId: id,
+      name: p.name,
+      email: p.email,
+      wholeOrganisation: false,
+      managedBranchIds: [] as number[],
+    };
     if (p.role === "owner" || p.role === "compliance_officer") r.wholeOrganisation = true;
     if (p.role === "branch_manager" && p.branch_id !== null) r.managedBranchIds.push(Number(p.branch_id));
     recipients.set(id, r);

@@ -48,7 +48,10 @@ export interface FindingExportRow {
 }
 
 /** The findings an audit saw (one row each, in finding id order) that the scope allows. */
-export async function* auditFindingExportRows(db: Knex, opts: { organisationId: number; auditId: number; scope: ScopeFn }): AsyncGenerator<FindingExportRow> {
+export async function* auditFindingExportRows(
+  db: Knex,
+  opts: { organisationId: number; auditId: number; scope: ScopeFn },
+): AsyncGenerator<FindingExportRow> {
   let after = 0;
   for (;;) {
     const rows = await scoped(
@@ -164,7 +167,10 @@ export interface JobExportRow {
  * Jobs of the branches in the period (not voided), within the scope (table `jobs`): branch by branch,
  * by date then id. Each batch continues from the last (date, id) along the (branch, date, id) index.
  */
-export async function* jobExportRows(db: Knex, opts: { organisationId: number; branchIds: number[]; from: string; to: string; scope: ScopeFn }): AsyncGenerator<JobExportRow> {
+export async function* jobExportRows(
+  db: Knex,
+  opts: { organisationId: number; branchIds: number[]; from: string; to: string; scope: ScopeFn },
+): AsyncGenerator<JobExportRow> {
   for (const branchId of opts.branchIds) {
     let after: { on: string; id: number } | null = null;
     for (;;) {
@@ -180,7 +186,9 @@ export async function* jobExportRows(db: Knex, opts: { organisationId: number; b
         .where("jobs.performed_on", "<=", opts.to);
       if (after) {
         const last = after;
-        q.where("jobs.performed_on", ">=", last.on).where((w) => w.where("jobs.performed_on", ">", last.on).orWhere("jobs.id", ">", last.id));
+        q.where("jobs.performed_on", ">=", last.on).where((w) =>
+          w.where("jobs.performed_on", ">", last.on).orWhere("jobs.id", ">", last.id),
+        );
       } else {
         q.where("jobs.performed_on", ">=", opts.from);
       }
@@ -275,9 +283,16 @@ export async function* leakRateExportRows(
   },
 ): AsyncGenerator<LeakRateExportRow> {
   for (const branchId of opts.branchIds) {
-    const loaded = await loadBranchRecords(db, { organisationId: opts.organisationId, branchId, period: { from: opts.from, to: opts.to }, asOf: `${addDays(opts.to, 1)}T00:00:00Z` });
+    const loaded = await loadBranchRecords(db, {
+      organisationId: opts.organisationId,
+      branchId,
+      period: { from: opts.from, to: opts.to },
+      asOf: `${addDays(opts.to, 1)}T00:00:00Z`,
+    });
     const byAppliance = new Map<number, typeof loaded.records.jobs>();
-    const sorted = [...loaded.records.jobs].sort((a, b) => (a.performedOn < b.performedOn ? -1 : a.performedOn > b.performedOn ? 1 : a.id - b.id));
+    const sorted = [...loaded.records.jobs].sort((a, b) =>
+      a.performedOn < b.performedOn ? -1 : a.performedOn > b.performedOn ? 1 : a.id - b.id,
+    );
     const jobsById = new Map(sorted.map((j) => [j.id, j]));
     for (const j of sorted) {
       if (j.applianceId === null) continue;
@@ -336,7 +351,10 @@ export interface CylinderExportRow {
 }
 
 /** Registered cylinders of the branches, within the scope (table `cylinders`). */
-export async function* cylinderExportRows(db: Knex, opts: { organisationId: number; branchIds: number[]; scope: ScopeFn; settings: AuditSettings }): AsyncGenerator<CylinderExportRow> {
+export async function* cylinderExportRows(
+  db: Knex,
+  opts: { organisationId: number; branchIds: number[]; scope: ScopeFn; settings: AuditSettings },
+): AsyncGenerator<CylinderExportRow> {
   let after = 0;
   for (;;) {
     const rows = await scoped(
@@ -356,7 +374,12 @@ export async function* cylinderExportRows(db: Knex, opts: { organisationId: numb
       let maxNetG: number | null = null;
       if (c.refrigerant) {
         try {
-          maxNetG = maxCylinderFill({ waterCapacityG: Number(c.water_capacity_g), tareG: Number(c.tare_g), refrigerant: c.refrigerant, strict130F: opts.settings.strictFill130F }).maxNetG;
+          maxNetG = maxCylinderFill({
+            waterCapacityG: Number(c.water_capacity_g),
+            tareG: Number(c.tare_g),
+            refrigerant: c.refrigerant,
+            strict130F: opts.settings.strictFill130F,
+          }).maxNetG;
         } catch {
           maxNetG = null;
         }
@@ -373,7 +396,9 @@ export async function* cylinderExportRows(db: Knex, opts: { organisationId: numb
         maxNetG,
         fillPercent: maxNetG ? Math.round(fillPercent(Number(c.contents_g), maxNetG) * 10) / 10 : null,
         lastRequalifiedOn: c.last_requalified_on ?? null,
-        requalificationDueOn: c.last_requalified_on ? requalificationDueOn(c.last_requalified_on, opts.settings.requalificationYears) : null,
+        requalificationDueOn: c.last_requalified_on
+          ? requalificationDueOn(c.last_requalified_on, opts.settings.requalificationYears)
+          : null,
         status: c.status,
       };
     }
@@ -396,7 +421,10 @@ export interface CertificationExportRow {
 }
 
 /** Certifications (not voided) of the technicians of the branches given. */
-export async function* certificationExportRows(db: Knex, opts: { organisationId: number; branchIds: number[] }): AsyncGenerator<CertificationExportRow> {
+export async function* certificationExportRows(
+  db: Knex,
+  opts: { organisationId: number; branchIds: number[] },
+): AsyncGenerator<CertificationExportRow> {
   const members = await db("memberships as m")
     .join("branches as b", "b.id", "m.branch_id")
     .where({ "m.organisation_id": opts.organisationId, "m.role": "technician" })
@@ -413,8 +441,20 @@ export async function* certificationExportRows(db: Knex, opts: { organisationId:
       .where("c.organisation_id", opts.organisationId)
       .whereNull("c.voided_at")
       .orderBy([{ column: "u.name" }, { column: "c.id" }])
-      .select("c.id", "c.user_id", "u.name", "c.certifying_organisation", "c.certificate_number", "c.state", "c.issued_on", "c.verified_at", "c.uploaded_at");
-    const types = await db("certification_types").whereIn("certification_id", rows.map((r) => Number(r.id)).concat(-1)).select("certification_id", "type");
+      .select(
+        "c.id",
+        "c.user_id",
+        "u.name",
+        "c.certifying_organisation",
+        "c.certificate_number",
+        "c.state",
+        "c.issued_on",
+        "c.verified_at",
+        "c.uploaded_at",
+      );
+    const types = await db("certification_types")
+      .whereIn("certification_id", rows.map((r) => Number(r.id)).concat(-1))
+      .select("certification_id", "type");
     for (const r of rows) {
       yield {
         id: Number(r.id),
@@ -422,7 +462,10 @@ export async function* certificationExportRows(db: Knex, opts: { organisationId:
         branchNames: (branchesOf.get(Number(r.user_id)) ?? []).sort().join(", "),
         certifyingOrganisation: r.certifying_organisation,
         certificateNumber: r.certificate_number,
-        types: types.filter((t) => Number(t.certification_id) === Number(r.id)).map((t) => t.type as string).sort(),
+        types: types
+          .filter((t) => Number(t.certification_id) === Number(r.id))
+          .map((t) => t.type as string)
+          .sort(),
         state: r.state,
         issuedOn: r.issued_on ?? null,
         verifiedAt: r.verified_at ?? null,
@@ -451,7 +494,10 @@ export interface DisposalExportRow {
 }
 
 /** Disposal records and signed statements of the branches in the period, within the scope (table `d`). */
-export async function* disposalExportRows(db: Knex, opts: { organisationId: number; branchIds: number[]; from: string; to: string; scope: ScopeFn }): AsyncGenerator<DisposalExportRow> {
+export async function* disposalExportRows(
+  db: Knex,
+  opts: { organisationId: number; branchIds: number[]; from: string; to: string; scope: ScopeFn },
+): AsyncGenerator<DisposalExportRow> {
   const base = (table: string, dateColumn: string) =>
     scoped(
       db(`${table} as d`)
@@ -463,7 +509,13 @@ export async function* disposalExportRows(db: Knex, opts: { organisationId: numb
         .whereBetween(`d.${dateColumn}`, [opts.from, opts.to]),
       opts.scope,
     ).orderBy("d.id");
-  for (const r of await base("disposal_records", "disposed_on").select("d.*", "branch.name as branch_name", "appliance.tag", "appliance.category", "appliance.full_charge_g")) {
+  for (const r of await base("disposal_records", "disposed_on").select(
+    "d.*",
+    "branch.name as branch_name",
+    "appliance.tag",
+    "appliance.category",
+    "appliance.full_charge_g",
+  )) {
     yield {
       kind: "record",
       id: Number(r.id),
@@ -481,7 +533,13 @@ export async function* disposalExportRows(db: Knex, opts: { organisationId: numb
       jobId: toNumOrNull(r.job_id),
     };
   }
-  for (const r of await base("disposal_statements", "recovered_on").select("d.*", "branch.name as branch_name", "appliance.tag", "appliance.category", "appliance.full_charge_g")) {
+  for (const r of await base("disposal_statements", "recovered_on").select(
+    "d.*",
+    "branch.name as branch_name",
+    "appliance.tag",
+    "appliance.category",
+    "appliance.full_charge_g",
+  )) {
     yield {
       kind: "statement",
       id: Number(r.id),

@@ -63,7 +63,8 @@ export interface FindingListResult {
 }
 
 const SEVERITY_ORDER = "CASE findings.severity WHEN 'critical' THEN 0 WHEN 'major' THEN 1 ELSE 2 END";
-const STATE_ORDER = "CASE findings.state WHEN 'open' THEN 0 WHEN 'fix_proposed' THEN 1 WHEN 'waived' THEN 2 WHEN 'closed' THEN 3 ELSE 4 END";
+const STATE_ORDER =
+  "CASE findings.state WHEN 'open' THEN 0 WHEN 'fix_proposed' THEN 1 WHEN 'waived' THEN 2 WHEN 'closed' THEN 3 ELSE 4 END";
 
 /** The due-date bucket of a finding as SQL (overdue only for findings still to be acted on). */
 function dueBucketSql(today: string): { sql: string; bindings: string[] } {
@@ -197,10 +198,14 @@ function applyFilters(qb: Knex.QueryBuilder, query: FindingViewQuery, today: str
   }
   if (query.auditId) {
     qb.whereExists(function inAudit(this: Knex.QueryBuilder) {
-      this.select(1).from("audit_findings as af").whereRaw("af.finding_id = findings.id").andWhere("af.audit_id", query.auditId as number);
+      this.select(1)
+        .from("audit_findings as af")
+        .whereRaw("af.finding_id = findings.id")
+        .andWhere("af.audit_id", query.auditId as number);
     });
   }
-  if (query.q) whereContains(qb, query.q, ["findings.title", "findings.detail", "findings.rule_id", ...(withAppliance ? ["appliance.tag"] : [])]);
+  if (query.q)
+    whereContains(qb, query.q, ["findings.title", "findings.detail", "findings.rule_id", ...(withAppliance ? ["appliance.tag"] : [])]);
 }
 
 /** SQL expression (with bindings) of a grouping key, and its order. */
@@ -215,7 +220,12 @@ function groupKey(field: FindingGroupField, today: string): { key: string; bindi
     case "state":
       return { key: "findings.state", bindings: [], order: STATE_ORDER, orderBindings: [] };
     case "assignee":
-      return { key: "COALESCE(assignee.name, '')", bindings: [], order: "CASE WHEN assignee.name IS NULL THEN 1 ELSE 0 END, assignee.name", orderBindings: [] };
+      return {
+        key: "COALESCE(assignee.name, '')",
+        bindings: [],
+        order: "CASE WHEN assignee.name IS NULL THEN 1 ELSE 0 END, assignee.name",
+        orderBindings: [],
+      };
     case "due": {
       const b = dueBucketSql(today);
       const order = `CASE (${b.sql}) WHEN 'overdue' THEN 0 WHEN 'week' THEN 1 WHEN 'month' THEN 2 WHEN 'later' THEN 3 ELSE 4 END`;
@@ -280,15 +290,27 @@ export async function listFindings(
       .groupByRaw("1");
     const titles = new Map<string, string>();
     if (groupBy === "rule") {
-      for (const r of await db("findings").where({ organisation_id: opts.organisationId }).distinct("rule_id", "title")) titles.set(r.rule_id, r.title);
+      for (const r of await db("findings").where({ organisation_id: opts.organisationId }).distinct("rule_id", "title"))
+        titles.set(r.rule_id, r.title);
     }
-    groups = (groupRows as Row[]).map((r) => ({ key: String(r.group_key ?? ""), label: groupLabel(groupBy, String(r.group_key ?? ""), titles), count: Number(r.n) }));
+    groups = (groupRows as Row[]).map((r) => ({
+      key: String(r.group_key ?? ""),
+      label: groupLabel(groupBy, String(r.group_key ?? ""), titles),
+      count: Number(r.n),
+    }));
     const orderOf = (k: string) =>
-      groupBy === "severity" ? ["critical", "major", "minor"].indexOf(k)
-      : groupBy === "state" ? ["open", "fix_proposed", "waived", "closed", "no_longer_found"].indexOf(k)
-      : groupBy === "due" ? DUE_ORDER.indexOf(k)
-      : 0;
-    groups.sort((a, b) => orderOf(a.key) - orderOf(b.key) || (groupBy === "assignee" && (a.key === "") !== (b.key === "") ? (a.key === "" ? 1 : -1) : a.key.localeCompare(b.key)));
+      groupBy === "severity"
+        ? ["critical", "major", "minor"].indexOf(k)
+        : groupBy === "state"
+          ? ["open", "fix_proposed", "waived", "closed", "no_longer_found"].indexOf(k)
+          : groupBy === "due"
+            ? DUE_ORDER.indexOf(k)
+            : 0;
+    groups.sort(
+      (a, b) =>
+        orderOf(a.key) - orderOf(b.key) ||
+        (groupBy === "assignee" && (a.key === "") !== (b.key === "") ? (a.key === "" ? 1 : -1) : a.key.localeCompare(b.key)),
+    );
   }
 
   const dir = query.dir === "desc" ? "desc" : "asc";
@@ -383,7 +405,10 @@ const parse = (text: unknown): Record<string, unknown> | null => {
 };
 
 /** One finding the scope allows, with its history, comments, evidence and audits; undefined otherwise. */
-export async function getFinding(db: Knex, opts: { organisationId: number; scope: ScopeFn; id: number }): Promise<FindingDetail | undefined> {
+export async function getFinding(
+  db: Knex,
+  opts: { organisationId: number; scope: ScopeFn; id: number },
+): Promise<FindingDetail | undefined> {
   const q = findingsWithJoins(db).where({ "findings.id": opts.id, "findings.organisation_id": opts.organisationId });
   applyScope(q, opts.scope);
   const r = await q.first([
@@ -416,7 +441,16 @@ export async function getFinding(db: Knex, opts: { organisationId: number; scope
     .join("users as u", "u.id", "ev.uploaded_by")
     .where({ "ev.subject_type": "finding", "ev.subject_id": opts.id, "ev.organisation_id": opts.organisationId })
     .orderBy([{ column: "ev.uploaded_at" }, { column: "ev.id" }])
-    .select("ev.id", "ev.file_name", "ev.mime", "ev.size_bytes", "ev.note", "ev.uploaded_by", "u.name as uploaded_by_name", "ev.uploaded_at");
+    .select(
+      "ev.id",
+      "ev.file_name",
+      "ev.mime",
+      "ev.size_bytes",
+      "ev.note",
+      "ev.uploaded_by",
+      "u.name as uploaded_by_name",
+      "ev.uploaded_at",
+    );
   const audits = await db("audit_findings as af")
     .join("audits as a", "a.id", "af.audit_id")
     .where("af.finding_id", opts.id)
@@ -449,7 +483,13 @@ export async function getFinding(db: Knex, opts: { organisationId: number; scope
       actorName: e.actor_name ?? null,
       data: parse(e.data),
     })),
-    comments: comments.map((c) => ({ id: Number(c.id), authorId: Number(c.author_id), authorName: c.author_name, body: c.body, createdAt: c.created_at })),
+    comments: comments.map((c) => ({
+      id: Number(c.id),
+      authorId: Number(c.author_id),
+      authorName: c.author_name,
+      body: c.body,
+      createdAt: c.created_at,
+    })),
     evidence: evidence.map((e) => ({
       id: Number(e.id),
       fileName: e.file_name,
@@ -503,7 +543,12 @@ export interface NotificationDraft {
 }
 
 /** Inserts in-app notifications (the outbox the mailer sends from) and returns their ids. */
-export async function insertFindingNotifications(trx: Knex | Knex.Transaction, organisationId: number, drafts: NotificationDraft[], at: string): Promise<number[]> {
+export async function insertFindingNotifications(
+  trx: Knex | Knex.Transaction,
+  organisationId: number,
+  drafts: NotificationDraft[],
+  at: string,
+): Promise<number[]> {
   const ids: number[] = [];
   const seen = new Set<string>();
   for (const d of drafts) {
@@ -549,7 +594,10 @@ interface FindingForWrite {
 }
 
 /** Loads a finding the scope allows for a write, inside the transaction; 404 otherwise. */
-async function findingForWrite(trx: Knex.Transaction, opts: { organisationId: number; scope: ScopeFn; id: number }): Promise<FindingForWrite> {
+async function findingForWrite(
+  trx: Knex.Transaction,
+  opts: { organisationId: number; scope: ScopeFn; id: number },
+): Promise<FindingForWrite> {
   const q = trx("findings as findings")
     .join("branches as branch", "branch.id", "findings.branch_id")
     .where({ "findings.id": opts.id, "findings.organisation_id": opts.organisationId });
@@ -568,7 +616,13 @@ async function findingForWrite(trx: Knex.Transaction, opts: { organisationId: nu
     "findings.due_on",
   );
   if (!r) throw new RecordNotFoundError("No such finding");
-  return { ...r, id: Number(r.id), organisation_id: Number(r.organisation_id), branch_id: Number(r.branch_id), assignee_id: toNumOrNull(r.assignee_id) };
+  return {
+    ...r,
+    id: Number(r.id),
+    organisation_id: Number(r.organisation_id),
+    branch_id: Number(r.branch_id),
+    assignee_id: toNumOrNull(r.assignee_id),
+  };
 }
 
 function refuseTransition(action: FindingAction, f: FindingForWrite): void {
@@ -579,7 +633,15 @@ function refuseTransition(action: FindingAction, f: FindingForWrite): void {
 async function event(
   trx: Knex.Transaction,
   f: FindingForWrite,
-  e: { actorId: number; at: string; action: string; from: FindingState | null; to: FindingState | null; note?: string | null; data?: unknown },
+  e: {
+    actorId: number;
+    at: string;
+    action: string;
+    from: FindingState | null;
+    to: FindingState | null;
+    note?: string | null;
+    data?: unknown;
+  },
 ): Promise<void> {
   await trx("finding_events").insert({
     organisation_id: f.organisation_id,
@@ -598,7 +660,10 @@ const link = (id: number) => `/findings/${id}`;
 const describe = (f: FindingForWrite) => `${f.rule_id} ${f.title} (${f.branch_name}, finding #${f.id})`;
 
 /** Users allowed to be given findings of a branch: its branch managers and the organisation's owners. */
-export async function listAssignableUsers(db: Knex, opts: { organisationId: number; branchIds?: number[] }): Promise<{ id: number; name: string; email: string; role: string; branchIds: number[] }[]> {
+export async function listAssignableUsers(
+  db: Knex,
+  opts: { organisationId: number; branchIds?: number[] },
+): Promise<{ id: number; name: string; email: string; role: string; branchIds: number[] }[]> {
   const rows = await db("memberships as m")
     .join("users as u", "u.id", "m.user_id")
     .where({ "m.organisation_id": opts.organisationId, "u.active": true })
@@ -613,9 +678,7 @@ export async function listAssignableUsers(db: Knex, opts: { organisationId: numb
     if (r.branch_id !== null) entry.branchIds.push(Number(r.branch_id));
     byUser.set(id, entry);
   }
-  return [...byUser.values()].filter(
-    (u) => !opts.branchIds || u.role === "owner" || opts.branchIds.every((b) => u.branchIds.includes(b)),
-  );
+  return [...byUser.values()].filter((u) => !opts.branchIds || u.role === "owner" || opts.branchIds.every((b) => u.branchIds.includes(b)));
 }
 
 /**
@@ -635,14 +698,22 @@ export async function assignFindings(
     for (const f of findings) refuseTransition("assign", f);
     let assigneeName: string | null = null;
     if (opts.assigneeId !== null) {
-      const assignee = await trx("users").where({ id: opts.assigneeId, organisation_id: opts.actor.organisationId }).first("id", "name", "active");
+      const assignee = await trx("users")
+        .where({ id: opts.assigneeId, organisation_id: opts.actor.organisationId })
+        .first("id", "name", "active");
       if (!assignee || !assignee.active) throw new InvalidInputError("Choose a person of your organisation who is active", "assigneeId");
       assigneeName = assignee.name;
-      const memberships = await trx("memberships").where({ user_id: opts.assigneeId, organisation_id: opts.actor.organisationId }).select("role", "branch_id");
+      const memberships = await trx("memberships")
+        .where({ user_id: opts.assigneeId, organisation_id: opts.actor.organisationId })
+        .select("role", "branch_id");
       const owner = memberships.some((m) => m.role === "owner");
       const managed = new Set(memberships.filter((m) => m.role === "branch_manager").map((m) => Number(m.branch_id)));
       const outside = findings.find((f) => !owner && !managed.has(f.branch_id));
-      if (outside) throw new InvalidInputError(`${assignee.name} does not manage ${outside.branch_name}, so cannot fix finding #${outside.id}`, "assigneeId");
+      if (outside)
+        throw new InvalidInputError(
+          `${assignee.name} does not manage ${outside.branch_name}, so cannot fix finding #${outside.id}`,
+          "assigneeId",
+        );
     }
     for (const f of findings) {
       if (f.assignee_id === opts.assigneeId) continue;
@@ -683,8 +754,15 @@ export async function assignFindings(
           {
             userId: opts.assigneeId,
             kind: "finding_assigned",
-            title: changed.length === 1 ? `Finding assigned to you: ${changed[0]!.rule_id} ${changed[0]!.title}` : `${changed.length} findings assigned to you`,
-            body: [`${actor?.name ?? "The compliance officer"} assigned ${changed.length === 1 ? "a finding" : `${changed.length} findings`} to you.`, lines.join("\n"), changed.length === 1 ? changed[0]!.detail : "Open each finding to see what is wrong and how to fix it."].join("\n\n"),
+            title:
+              changed.length === 1
+                ? `Finding assigned to you: ${changed[0]!.rule_id} ${changed[0]!.title}`
+                : `${changed.length} findings assigned to you`,
+            body: [
+              `${actor?.name ?? "The compliance officer"} assigned ${changed.length === 1 ? "a finding" : `${changed.length} findings`} to you.`,
+              lines.join("\n"),
+              changed.length === 1 ? changed[0]!.detail : "Open each finding to see what is wrong and how to fix it.",
+            ].join("\n\n"),
             link: changed.length === 1 ? link(changed[0]!.id) : `/findings?assignee=${opts.assigneeId}`,
             subjectId: changed.length === 1 ? changed[0]!.id : null,
           },
@@ -701,7 +779,10 @@ async function reviewersOf(trx: Knex.Transaction, f: FindingForWrite): Promise<n
   const assigned = await trx("finding_events")
     .where({ finding_id: f.id, action: "assigned" })
     .whereNotNull("actor_id")
-    .orderBy([{ column: "at", order: "desc" }, { column: "id", order: "desc" }])
+    .orderBy([
+      { column: "at", order: "desc" },
+      { column: "id", order: "desc" },
+    ])
     .first("actor_id");
   if (assigned) return [Number(assigned.actor_id)];
   const officers = await trx("memberships as m")
@@ -714,7 +795,11 @@ async function reviewersOf(trx: Knex.Transaction, f: FindingForWrite): Promise<n
 
 /** The people who proposed fixes on a finding (for reopen notices). */
 async function proposersOf(trx: Knex.Transaction, findingId: number): Promise<number[]> {
-  const rows = await trx("finding_events").where({ finding_id: findingId, action: "fix_proposed" }).whereNotNull("actor_id").distinct("actor_id").orderBy("actor_id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
+  const rows = await trx("finding_events")
+    .where({ finding_id: findingId, action: "fix_proposed" })
+    .whereNotNull("actor_id")
+    .distinct("actor_id")
+    .orderBy("actor_id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
   return rows.map((r) => Number(r.actor_id));
 }
 
@@ -757,7 +842,15 @@ export async function proposeFindingFix(
     let evidenceId: number | null = null;
     if (opts.evidence) evidenceId = await insertEvidence(trx, f, opts.actor.userId, opts.evidence, at);
     await trx("findings").where({ id: f.id }).update({ state: "fix_proposed", state_changed_at: at, updated_at: at });
-    await event(trx, f, { actorId: opts.actor.userId, at, action: "fix_proposed", from: f.state, to: "fix_proposed", note: opts.note, data: { evidenceId } });
+    await event(trx, f, {
+      actorId: opts.actor.userId,
+      at,
+      action: "fix_proposed",
+      from: f.state,
+      to: "fix_proposed",
+      note: opts.note,
+      data: { evidenceId },
+    });
     await appendActivity(trx, {
       organisationId: f.organisation_id,
       actorId: opts.actor.userId,
@@ -779,7 +872,11 @@ export async function proposeFindingFix(
           userId,
           kind: "finding_fix_proposed" as const,
           title: `Fix proposed: ${f.rule_id} ${f.title} (${f.branch_name})`,
-          body: [`${actor?.name ?? "The branch"} proposed a fix for ${describe(f)} and asks you to accept it.`, `What was done: ${opts.note}`, evidenceId ? "Evidence is attached to the finding." : "No evidence was attached."].join("\n\n"),
+          body: [
+            `${actor?.name ?? "The branch"} proposed a fix for ${describe(f)} and asks you to accept it.`,
+            `What was done: ${opts.note}`,
+            evidenceId ? "Evidence is attached to the finding." : "No evidence was attached.",
+          ].join("\n\n"),
           link: link(f.id),
           subjectId: f.id,
         })),
@@ -790,7 +887,10 @@ export async function proposeFindingFix(
 }
 
 /** The officer accepts a proposed fix: the finding is closed. */
-export async function acceptFindingFix(db: Knex, opts: { actor: ActorRef; scope: ScopeFn; id: number; note?: string | null; now?: Date }): Promise<TransitionResult> {
+export async function acceptFindingFix(
+  db: Knex,
+  opts: { actor: ActorRef; scope: ScopeFn; id: number; note?: string | null; now?: Date },
+): Promise<TransitionResult> {
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const f = await findingForWrite(trx, { organisationId: opts.actor.organisationId, scope: opts.scope, id: opts.id });
@@ -817,7 +917,10 @@ export async function acceptFindingFix(db: Knex, opts: { actor: ActorRef; scope:
         userId,
         kind: "finding_accepted" as const,
         title: `Fix accepted: ${f.rule_id} ${f.title} (${f.branch_name})`,
-        body: [`${actor?.name ?? "The compliance officer"} accepted the fix of ${describe(f)}. The finding is closed.`, ...(opts.note ? [opts.note] : [])].join("\n\n"),
+        body: [
+          `${actor?.name ?? "The compliance officer"} accepted the fix of ${describe(f)}. The finding is closed.`,
+          ...(opts.note ? [opts.note] : []),
+        ].join("\n\n"),
         link: link(f.id),
         subjectId: f.id,
       })),
@@ -828,12 +931,17 @@ export async function acceptFindingFix(db: Knex, opts: { actor: ActorRef; scope:
 }
 
 /** The officer sends a finding back to open, with a reason. */
-export async function reopenFinding(db: Knex, opts: { actor: ActorRef; scope: ScopeFn; id: number; reason: string; now?: Date }): Promise<TransitionResult> {
+export async function reopenFinding(
+  db: Knex,
+  opts: { actor: ActorRef; scope: ScopeFn; id: number; reason: string; now?: Date },
+): Promise<TransitionResult> {
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const f = await findingForWrite(trx, { organisationId: opts.actor.organisationId, scope: opts.scope, id: opts.id });
     refuseTransition("reopen", f);
-    await trx("findings").where({ id: f.id }).update({ state: "open", state_changed_at: at, closed_at: null, waiver_reason: null, updated_at: at });
+    await trx("findings")
+      .where({ id: f.id })
+      .update({ state: "open", state_changed_at: at, closed_at: null, waiver_reason: null, updated_at: at });
     await event(trx, f, { actorId: opts.actor.userId, at, action: "reopened", from: f.state, to: "open", note: opts.reason });
     await appendActivity(trx, {
       organisationId: f.organisation_id,
@@ -855,7 +963,13 @@ export async function reopenFinding(db: Knex, opts: { actor: ActorRef; scope: Sc
         userId,
         kind: "finding_reopened" as const,
         title: `Finding reopened: ${f.rule_id} ${f.title} (${f.branch_name})`,
-        body: [`${actor?.name ?? "The compliance officer"} reopened ${describe(f)}.`, `Why: ${opts.reason}`, f.due_on ? `It is due by ${f.due_on}.` : ""].filter(Boolean).join("\n\n"),
+        body: [
+          `${actor?.name ?? "The compliance officer"} reopened ${describe(f)}.`,
+          `Why: ${opts.reason}`,
+          f.due_on ? `It is due by ${f.due_on}.` : "",
+        ]
+          .filter(Boolean)
+          .join("\n\n"),
         link: link(f.id),
         subjectId: f.id,
       })),
@@ -866,14 +980,19 @@ export async function reopenFinding(db: Knex, opts: { actor: ActorRef; scope: Sc
 }
 
 /** The officer decides no fix is needed, with a required reason. */
-export async function waiveFinding(db: Knex, opts: { actor: ActorRef; scope: ScopeFn; id: number; reason: string; now?: Date }): Promise<TransitionResult> {
+export async function waiveFinding(
+  db: Knex,
+  opts: { actor: ActorRef; scope: ScopeFn; id: number; reason: string; now?: Date },
+): Promise<TransitionResult> {
   const at = (opts.now ?? new Date()).toISOString();
   const reason = opts.reason.trim();
   if (reason.length < 10) throw new InvalidInputError("Write why no fix is needed (at least 10 characters)", "reason");
   return db.transaction(async (trx) => {
     const f = await findingForWrite(trx, { organisationId: opts.actor.organisationId, scope: opts.scope, id: opts.id });
     refuseTransition("waive", f);
-    await trx("findings").where({ id: f.id }).update({ state: "waived", waiver_reason: reason, state_changed_at: at, closed_at: at, updated_at: at });
+    await trx("findings")
+      .where({ id: f.id })
+      .update({ state: "waived", waiver_reason: reason, state_changed_at: at, closed_at: at, updated_at: at });
     await event(trx, f, { actorId: opts.actor.userId, at, action: "waived", from: f.state, to: "waived", note: reason });
     await appendActivity(trx, {
       organisationId: f.organisation_id,
@@ -886,7 +1005,10 @@ export async function waiveFinding(db: Knex, opts: { actor: ActorRef; scope: Sco
       summary: `Waived finding #${f.id} (${f.rule_id}): ${reason}`.slice(0, 500),
     });
     const actor = await trx("users").where({ id: opts.actor.userId }).first("name");
-    const managers = await trx("memberships").where({ organisation_id: f.organisation_id, branch_id: f.branch_id, role: "branch_manager" }).distinct("user_id").orderBy("user_id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
+    const managers = await trx("memberships")
+      .where({ organisation_id: f.organisation_id, branch_id: f.branch_id, role: "branch_manager" })
+      .distinct("user_id")
+      .orderBy("user_id"); // ordered: DISTINCT rows come back in the planner's order, which differs between SQLite and PostgreSQL
     const people = new Set([...(f.assignee_id ? [f.assignee_id] : []), ...managers.map((m) => Number(m.user_id))]);
     people.delete(opts.actor.userId);
     const notificationIds = await insertFindingNotifications(
@@ -907,12 +1029,23 @@ export async function waiveFinding(db: Knex, opts: { actor: ActorRef; scope: Sco
 }
 
 /** A comment on a finding (anyone the scope allows to comment). */
-export async function addFindingComment(db: Knex, opts: { actor: ActorRef; scope: ScopeFn; id: number; body: string; now?: Date }): Promise<number> {
+export async function addFindingComment(
+  db: Knex,
+  opts: { actor: ActorRef; scope: ScopeFn; id: number; body: string; now?: Date },
+): Promise<number> {
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const f = await findingForWrite(trx, { organisationId: opts.actor.organisationId, scope: opts.scope, id: opts.id });
     const [row] = await trx("comments")
-      .insert({ organisation_id: f.organisation_id, branch_id: f.branch_id, subject_type: "finding", subject_id: f.id, author_id: opts.actor.userId, body: opts.body, created_at: at })
+      .insert({
+        organisation_id: f.organisation_id,
+        branch_id: f.branch_id,
+        subject_type: "finding",
+        subject_id: f.id,
+        author_id: opts.actor.userId,
+        body: opts.body,
+        created_at: at,
+      })
       .returning("id");
     const id = rowId(row);
     await appendActivity(trx, {
@@ -931,12 +1064,23 @@ export async function addFindingComment(db: Knex, opts: { actor: ActorRef; scope
 }
 
 /** Evidence attached to a finding (a file already stored by the caller). */
-export async function addFindingEvidence(db: Knex, opts: { actor: ActorRef; scope: ScopeFn; id: number; file: EvidenceFile; now?: Date }): Promise<number> {
+export async function addFindingEvidence(
+  db: Knex,
+  opts: { actor: ActorRef; scope: ScopeFn; id: number; file: EvidenceFile; now?: Date },
+): Promise<number> {
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const f = await findingForWrite(trx, { organisationId: opts.actor.organisationId, scope: opts.scope, id: opts.id });
     const id = await insertEvidence(trx, f, opts.actor.userId, opts.file, at);
-    await event(trx, f, { actorId: opts.actor.userId, at, action: "evidence_added", from: f.state, to: f.state, note: opts.file.note ?? `Attached ${opts.file.fileName}`, data: { evidenceId: id } });
+    await event(trx, f, {
+      actorId: opts.actor.userId,
+      at,
+      action: "evidence_added",
+      from: f.state,
+      to: f.state,
+      note: opts.file.note ?? `Attached ${opts.file.fileName}`,
+      data: { evidenceId: id },
+    });
     await appendActivity(trx, {
       organisationId: f.organisation_id,
       actorId: opts.actor.userId,
@@ -959,7 +1103,12 @@ export async function getFindingEvidence(
 ): Promise<{ fileKey: string; fileName: string; mime: string } | undefined> {
   const q = db("evidence as ev")
     .join("findings as findings", "findings.id", "ev.subject_id")
-    .where({ "ev.id": opts.evidenceId, "ev.subject_type": "finding", "ev.subject_id": opts.findingId, "ev.organisation_id": opts.organisationId });
+    .where({
+      "ev.id": opts.evidenceId,
+      "ev.subject_type": "finding",
+      "ev.subject_id": opts.findingId,
+      "ev.organisation_id": opts.organisationId,
+    });
   applyScope(q, opts.scope);
   const r = await q.first("ev.file_key", "ev.file_name", "ev.mime");
   return r ? { fileKey: r.file_key, fileName: r.file_name, mime: r.mime } : undefined;
@@ -981,10 +1130,24 @@ export async function listUnsentFindingMail(db: Knex, opts: { ids?: number[]; si
   const q = db("notifications as n").join("users as u", "u.id", "n.user_id").whereNull("n.emailed_at").where("u.active", true);
   if (opts.ids) q.whereIn("n.id", opts.ids.length ? opts.ids : [-1]);
   if (opts.since) q.where("n.created_at", ">=", opts.since);
-  const rows = await q.orderBy("n.id").limit(opts.limit ?? 500).select("n.id", "n.user_id", "u.email", "u.name", "n.kind", "n.title", "n.body", "n.link");
-  return rows.map((r) => ({ id: Number(r.id), userId: Number(r.user_id), email: r.email, name: r.name, kind: r.kind, title: r.title, body: r.body ?? "", link: r.link ?? null }));
+  const rows = await q
+    .orderBy("n.id")
+    .limit(opts.limit ?? 500)
+    .select("n.id", "n.user_id", "u.email", "u.name", "n.kind", "n.title", "n.body", "n.link");
+  return rows.map((r) => ({
+    id: Number(r.id),
+    userId: Number(r.user_id),
+    email: r.email,
+    name: r.name,
+    kind: r.kind,
+    title: r.title,
+    body: r.body ?? "",
+    link: r.link ?? null,
+  }));
 }
 
 export async function markFindingMailSent(db: Knex, opts: { id: number; at?: Date }): Promise<void> {
-  await db("notifications").where({ id: opts.id }).update({ emailed_at: (opts.at ?? new Date()).toISOString() });
+  await db("notifications")
+    .where({ id: opts.id })
+    .update({ emailed_at: (opts.at ?? new Date()).toISOString() });
 }

@@ -141,13 +141,15 @@ export async function loadBranchRecords(
 
   // Net of every recorded movement per cylinder: what the register holds beyond it is the opening balance.
   const movedByCylinder = new Map<number, number>();
-  for (const r of await inChunks(cylinderIds, (chunk) =>
-    db("refrigerant_movements")
-      .whereIn("cylinder_id", chunk)
-      .whereNull("voided_at")
-      .groupBy("cylinder_id", "direction")
-      .select("cylinder_id", "direction")
-      .sum({ g: "mass_g" }) as Promise<Row[]>,
+  for (const r of await inChunks(
+    cylinderIds,
+    (chunk) =>
+      db("refrigerant_movements")
+        .whereIn("cylinder_id", chunk)
+        .whereNull("voided_at")
+        .groupBy("cylinder_id", "direction")
+        .select("cylinder_id", "direction")
+        .sum({ g: "mass_g" }) as Promise<Row[]>,
   )) {
     const sign = r.direction === "recovered_into_cylinder" ? 1 : r.direction === "cylinder_adjustment" ? 0 : -1;
     movedByCylinder.set(Number(r.cylinder_id), (movedByCylinder.get(Number(r.cylinder_id)) ?? 0) + sign * Number(r.g));
@@ -165,14 +167,16 @@ export async function loadBranchRecords(
   // weighed before it left. The engine replays a day's weighings after its shipments, so the reading
   // is handed over as what the scale shows once the shipped refrigerant is gone (gross − shipped).
   const shippedOnDay = new Map<string, number>();
-  for (const r of await inChunks(cylinderIds, (chunk) =>
-    db("reclaim_shipment_lines as l")
-      .join("reclaim_shipments as s", "s.id", "l.shipment_id")
-      .whereIn("l.cylinder_id", chunk)
-      .whereNull("s.voided_at")
-      .groupBy("l.cylinder_id", "s.shipped_on")
-      .select("l.cylinder_id", "s.shipped_on")
-      .sum({ g: "l.mass_g" }) as Promise<Row[]>,
+  for (const r of await inChunks(
+    cylinderIds,
+    (chunk) =>
+      db("reclaim_shipment_lines as l")
+        .join("reclaim_shipments as s", "s.id", "l.shipment_id")
+        .whereIn("l.cylinder_id", chunk)
+        .whereNull("s.voided_at")
+        .groupBy("l.cylinder_id", "s.shipped_on")
+        .select("l.cylinder_id", "s.shipped_on")
+        .sum({ g: "l.mass_g" }) as Promise<Row[]>,
   )) {
     shippedOnDay.set(`${r.cylinder_id}|${r.shipped_on}`, Number(r.g));
   }
@@ -262,7 +266,9 @@ export async function loadBranchRecords(
   const memberIds = (
     await db("memberships").where({ branch_id: branch.id, role: "technician", organisation_id: branch.organisationId }).select("user_id")
   ).map((r) => Number(r.user_id));
-  const technicianIds = [...new Set([...memberIds, ...jobs.map((j) => j.technicianId).filter((id): id is number => id !== null)])].sort((x, y) => x - y);
+  const technicianIds = [...new Set([...memberIds, ...jobs.map((j) => j.technicianId).filter((id): id is number => id !== null)])].sort(
+    (x, y) => x - y,
+  );
   const userRows = await inChunks(technicianIds, (chunk) =>
     db("users").whereIn("id", chunk).where({ organisation_id: branch.organisationId }).select("id", "name"),
   );
@@ -284,7 +290,9 @@ export async function loadBranchRecords(
     }))
     .sort((x, y) => x.id - y.id);
 
-  const disposalRecords = (await db("disposal_records").where({ branch_id: branch.id }).whereNull("voided_at").orderBy("id").select("*")).map((d) => ({
+  const disposalRecords = (
+    await db("disposal_records").where({ branch_id: branch.id }).whereNull("voided_at").orderBy("id").select("*")
+  ).map((d) => ({
     id: Number(d.id),
     applianceId: Number(d.appliance_id),
     // The record is the organisation's own; without a name typed on it, it carries the organisation's.
@@ -295,7 +303,9 @@ export async function loadBranchRecords(
     recoveredG: toNumOrNull(d.recovered_g),
   }));
 
-  const disposalStatements = (await db("disposal_statements").where({ branch_id: branch.id }).whereNull("voided_at").orderBy("id").select("*")).map((d) => ({
+  const disposalStatements = (
+    await db("disposal_statements").where({ branch_id: branch.id }).whereNull("voided_at").orderBy("id").select("*")
+  ).map((d) => ({
     id: Number(d.id),
     applianceId: Number(d.appliance_id),
     signedBy: d.signed_by_name ?? null,
@@ -306,7 +316,12 @@ export async function loadBranchRecords(
     contractReference: (d.contract_reference as string | null | undefined) ?? null,
   }));
 
-  const shipmentRows = await db("reclaim_shipments").where({ branch_id: branch.id }).whereNull("voided_at").where("shipped_on", "<=", asOf).orderBy("id").select("id", "shipped_on", "reclaimer_name");
+  const shipmentRows = await db("reclaim_shipments")
+    .where({ branch_id: branch.id })
+    .whereNull("voided_at")
+    .where("shipped_on", "<=", asOf)
+    .orderBy("id")
+    .select("id", "shipped_on", "reclaimer_name");
   const lineRows = await db("reclaim_shipment_lines as l")
     .join("reclaim_shipments as s", "s.id", "l.shipment_id")
     .where("s.branch_id", branch.id)
@@ -327,7 +342,12 @@ export async function loadBranchRecords(
   }));
 
   const purchases = (
-    await db("purchases").where({ branch_id: branch.id }).whereNull("voided_at").where("purchased_on", "<=", asOf).orderBy("id").select("id", "purchased_on", "refrigerant", "mass_g")
+    await db("purchases")
+      .where({ branch_id: branch.id })
+      .whereNull("voided_at")
+      .where("purchased_on", "<=", asOf)
+      .orderBy("id")
+      .select("id", "purchased_on", "refrigerant", "mass_g")
   ).map((p) => ({ id: Number(p.id), on: p.purchased_on, refrigerant: p.refrigerant, amountG: Number(p.mass_g) }));
 
   const stockCounts = await deriveStockCounts(db, { branchId: branch.id, period, asOf });
@@ -354,7 +374,11 @@ export async function loadBranchRecords(
     .map((e) => ({
       id: Number(e.id),
       serial: e.serial as string,
-      kind: (toBool(e.system_dependent) ? "system_dependent" : toBool(e.small_appliance_only) ? "small_appliance" : "self_contained") as RecoveryEquipmentKind,
+      kind: (toBool(e.system_dependent)
+        ? "system_dependent"
+        : toBool(e.small_appliance_only)
+          ? "small_appliance"
+          : "self_contained") as RecoveryEquipmentKind,
       manufacturedOn: e.manufactured_on ?? null,
       certification: e.certification_state as EquipmentCertificationState,
     }));
@@ -402,7 +426,7 @@ export async function loadBranchRecords(
 
 /** Book holdings per refrigerant from the branch's movements dated on or before `through`. */
 async function bookHoldings(db: Knex, branchId: number, through: string): Promise<Map<string, number>> {
-  const rows = await db("refrigerant_movements as m")
+  const rows = (await db("refrigerant_movements as m")
     .leftJoin("jobs as j", "j.id", "m.job_id")
     .leftJoin("reclaim_shipments as s", "s.id", "m.reclaim_shipment_id")
     .leftJoin("purchases as p", "p.id", "m.purchase_id")
@@ -415,7 +439,7 @@ async function bookHoldings(db: Knex, branchId: number, through: string): Promis
     .whereIn("m.direction", Object.keys(HOLDING_SIGN))
     .groupBy("m.refrigerant", "m.direction")
     .select("m.refrigerant", "m.direction")
-    .sum({ g: "m.mass_g" }) as Row[];
+    .sum({ g: "m.mass_g" })) as Row[];
   const out = new Map<string, number>();
   for (const r of rows) addTo(out, r.refrigerant, (HOLDING_SIGN[r.direction] ?? 0) * Number(r.g));
   return out;
@@ -434,7 +458,7 @@ async function deriveStockCounts(db: Knex, opts: { branchId: number; period: Aud
     const all = await bookHoldings(db, branchId, asOf);
     const bookByCylinder = new Map<number, Map<string, number>>();
     const cylinderBook = new Map<string, number>();
-    for (const r of await db("refrigerant_movements as m")
+    for (const r of (await db("refrigerant_movements as m")
       .leftJoin("jobs as j", "j.id", "m.job_id")
       .leftJoin("reclaim_shipments as s", "s.id", "m.reclaim_shipment_id")
       .where("m.branch_id", branchId)
@@ -446,7 +470,7 @@ async function deriveStockCounts(db: Knex, opts: { branchId: number; period: Aud
       .whereIn("m.direction", ["recovered_into_cylinder", "charged_from_cylinder", "shipped_for_reclaim"])
       .groupBy("m.cylinder_id", "m.refrigerant", "m.direction")
       .select("m.cylinder_id", "m.refrigerant", "m.direction")
-      .sum({ g: "m.mass_g" }) as Row[]) {
+      .sum({ g: "m.mass_g" })) as Row[]) {
       const grams = (HOLDING_SIGN[r.direction] ?? 0) * Number(r.g);
       addTo(cylinderBook, r.refrigerant, grams);
       const id = Number(r.cylinder_id);

@@ -35,7 +35,21 @@ export interface BranchAuditSummary {
 const zeroSeverities = (): Record<Severity, number> => ({ critical: 0, major: 0, minor: 0 });
 const CHUNK = 200;
 /** What the rules write on a finding; compared to tell a changed finding from one found again as it was. */
-const CONTENT_COLUMNS = ["rule_id", "record_type", "record_id", "appliance_id", "technician_id", "severity", "pack", "title", "detail", "fix", "citation", "occurred_on", "data"] as const;
+const CONTENT_COLUMNS = [
+  "rule_id",
+  "record_type",
+  "record_id",
+  "appliance_id",
+  "technician_id",
+  "severity",
+  "pack",
+  "title",
+  "detail",
+  "fix",
+  "citation",
+  "occurred_on",
+  "data",
+] as const;
 
 /**
  * Runs the rules over one branch and reconciles the branch's stored findings with what they found,
@@ -59,7 +73,12 @@ export async function auditBranchFindings(
     triggeredBy?: number | null;
   },
 ): Promise<BranchAuditSummary> {
-  const loaded = await loadBranchRecords(db, { organisationId: opts.organisationId, branchId: opts.branchId, period: opts.period, asOf: opts.now });
+  const loaded = await loadBranchRecords(db, {
+    organisationId: opts.organisationId,
+    branchId: opts.branchId,
+    period: opts.period,
+    asOf: opts.now,
+  });
   const found = runAudit(loaded.records, { packs: [...opts.packs], period: opts.period, asOf: opts.now, settings: opts.settings });
   const refsOf = findingRefResolver(loaded.records);
   const applianceIds = new Set(loaded.records.appliances.map((a) => a.id));
@@ -153,7 +172,8 @@ export async function auditBranchFindings(
       };
       if (opts.auditId) update.audit_id = opts.auditId;
       const before = storedById.get(u.id);
-      const same = !u.foundAgain && before && [...CONTENT_COLUMNS, "due_on"].every((c) => String(before[c] ?? "") === String(update[c] ?? ""));
+      const same =
+        !u.foundAgain && before && [...CONTENT_COLUMNS, "due_on"].every((c) => String(before[c] ?? "") === String(update[c] ?? ""));
       if (same) {
         unchanged.push(u.id);
         linked.push({ findingId: u.id, severity: u.finding.severity });
@@ -169,7 +189,9 @@ export async function auditBranchFindings(
           action: "found_again",
           from_state: "no_longer_found",
           to_state: "open",
-          note: opts.auditId ? `Found again by audit #${opts.auditId}` : "Found again when the branch's records were re-checked after a change",
+          note: opts.auditId
+            ? `Found again by audit #${opts.auditId}`
+            : "Found again when the branch's records were re-checked after a change",
           data: JSON.stringify({ auditId: opts.auditId }),
         });
       }
@@ -193,35 +215,38 @@ export async function auditBranchFindings(
         action: "no_longer_found",
         from_state: r.from,
         to_state: "no_longer_found",
-        note: opts.auditId ? `Audit #${opts.auditId} no longer finds this gap in the records` : "The records no longer show this gap after a change",
+        note: opts.auditId
+          ? `Audit #${opts.auditId} no longer finds this gap in the records`
+          : "The records no longer show this gap after a change",
         data: JSON.stringify({ auditId: opts.auditId }),
       });
     }
 
     if (opts.auditId) {
       for (let i = 0; i < linked.length; i += CHUNK) {
-        await trx("audit_findings").insert(
-          linked.slice(i, i + CHUNK).map((l) => ({
-            audit_id: opts.auditId,
-            finding_id: l.findingId,
-            organisation_id: opts.organisationId,
-            branch_id: opts.branchId,
-            severity: l.severity,
-          })),
-        )
-        // A run resumed after a restart may check a branch again: its links are already there.
-        .onConflict(["audit_id", "finding_id"])
-        .ignore();
+        await trx("audit_findings")
+          .insert(
+            linked.slice(i, i + CHUNK).map((l) => ({
+              audit_id: opts.auditId,
+              finding_id: l.findingId,
+              organisation_id: opts.organisationId,
+              branch_id: opts.branchId,
+              severity: l.severity,
+            })),
+          )
+          // A run resumed after a restart may check a branch again: its links are already there.
+          .onConflict(["audit_id", "finding_id"])
+          .ignore();
       }
     }
 
     const activeAfter = zeroSeverities();
-    for (const r of await trx("findings")
+    for (const r of (await trx("findings")
       .where({ organisation_id: opts.organisationId, branch_id: opts.branchId })
       .whereIn("state", ["open", "fix_proposed"])
       .groupBy("severity")
       .select("severity")
-      .count({ n: "*" }) as Row[]) {
+      .count({ n: "*" })) as Row[]) {
       activeAfter[r.severity as Severity] = Number(r.n);
     }
 

@@ -21,29 +21,51 @@ function toView(r: any): SavedView {
     raw = {};
   }
   const parsed = findingViewQuery.safeParse(raw);
-  return { id: Number(r.id), list: r.list, name: r.name, query: parsed.success ? parsed.data : findingViewQuery.parse({}), updatedAt: r.updated_at };
+  return {
+    id: Number(r.id),
+    list: r.list,
+    name: r.name,
+    query: parsed.success ? parsed.data : findingViewQuery.parse({}),
+    updatedAt: r.updated_at,
+  };
 }
 
 /** A person's own saved views of a list, by name. Nobody sees another person's views. */
 export async function listSavedViews(db: Knex, opts: { actor: ActorRef; list: string }): Promise<SavedView[]> {
-  const rows = await db("saved_views").where({ user_id: opts.actor.userId, organisation_id: opts.actor.organisationId, list: opts.list }).orderBy([{ column: "name" }, { column: "id" }]).select("*");
+  const rows = await db("saved_views")
+    .where({ user_id: opts.actor.userId, organisation_id: opts.actor.organisationId, list: opts.list })
+    .orderBy([{ column: "name" }, { column: "id" }])
+    .select("*");
   return rows.map(toView);
 }
 
 /** Saves a view under a name; saving again under the same name replaces it. */
-export async function saveView(db: Knex, opts: { actor: ActorRef; list: string; name: string; query: FindingViewQuery; now?: Date }): Promise<SavedView> {
+export async function saveView(
+  db: Knex,
+  opts: { actor: ActorRef; list: string; name: string; query: FindingViewQuery; now?: Date },
+): Promise<SavedView> {
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const existing = await trx("saved_views").where({ user_id: opts.actor.userId, list: opts.list, name: opts.name }).first("id");
     let id: number;
     if (existing) {
       id = Number(existing.id);
-      await trx("saved_views").where({ id }).update({ query: JSON.stringify(opts.query), updated_at: at });
+      await trx("saved_views")
+        .where({ id })
+        .update({ query: JSON.stringify(opts.query), updated_at: at });
     } else {
       const count = await trx("saved_views").where({ user_id: opts.actor.userId, list: opts.list }).count({ n: "*" }).first();
       if (Number(count?.n ?? 0) >= 50) throw new RecordConflictError("You already keep 50 views of this list; delete one first", "name");
       const [row] = await trx("saved_views")
-        .insert({ organisation_id: opts.actor.organisationId, user_id: opts.actor.userId, list: opts.list, name: opts.name, query: JSON.stringify(opts.query), created_at: at, updated_at: at })
+        .insert({
+          organisation_id: opts.actor.organisationId,
+          user_id: opts.actor.userId,
+          list: opts.list,
+          name: opts.name,
+          query: JSON.stringify(opts.query),
+          created_at: at,
+          updated_at: at,
+        })
         .returning("id");
       id = rowId(row);
     }
@@ -64,7 +86,9 @@ export async function saveView(db: Knex, opts: { actor: ActorRef; list: string; 
 export async function deleteSavedView(db: Knex, opts: { actor: ActorRef; id: number; now?: Date }): Promise<void> {
   const at = (opts.now ?? new Date()).toISOString();
   await db.transaction(async (trx) => {
-    const row = await trx("saved_views").where({ id: opts.id, user_id: opts.actor.userId, organisation_id: opts.actor.organisationId }).first("id", "name", "list");
+    const row = await trx("saved_views")
+      .where({ id: opts.id, user_id: opts.actor.userId, organisation_id: opts.actor.organisationId })
+      .first("id", "name", "list");
     if (!row) throw new RecordNotFoundError("No such saved view");
     await trx("saved_views").where({ id: opts.id }).delete();
     await appendActivity(trx, {

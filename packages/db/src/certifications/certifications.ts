@@ -30,7 +30,10 @@ import { countRows, whereContains } from "../paging";
 
 const typeOrder = (t: CertificationType) => ["type_i", "type_ii", "type_iii", "universal"].indexOf(t);
 const sortTypes = (types: CertificationType[]) => [...new Set(types)].sort((a, b) => typeOrder(a) - typeOrder(b));
-export const describeTypes = (types: CertificationType[]) => sortTypes(types).map((t) => CERTIFICATION_TYPE_LABELS[t]).join(" + ");
+export const describeTypes = (types: CertificationType[]) =>
+  sortTypes(types)
+    .map((t) => CERTIFICATION_TYPE_LABELS[t])
+    .join(" + ");
 
 /** Each card with each branch its holder works in as a technician; the table the scope sees as `certifications`. */
 function certificationReach(db: Knex): Knex.QueryBuilder {
@@ -65,9 +68,15 @@ export interface CertificationRef {
 }
 
 export async function getCertificationRef(db: Knex, opts: { organisationId: number; id: number }): Promise<CertificationRef | undefined> {
-  const row = await db("certifications").where({ id: opts.id, organisation_id: opts.organisationId }).first("id", "organisation_id", "user_id", "state", "voided_at");
+  const row = await db("certifications")
+    .where({ id: opts.id, organisation_id: opts.organisationId })
+    .first("id", "organisation_id", "user_id", "state", "voided_at");
   if (!row) return undefined;
-  const branches = await db("memberships").where({ user_id: row.user_id, role: "technician" }).whereNotNull("branch_id").orderBy("branch_id").select("branch_id");
+  const branches = await db("memberships")
+    .where({ user_id: row.user_id, role: "technician" })
+    .whereNotNull("branch_id")
+    .orderBy("branch_id")
+    .select("branch_id");
   return {
     id: Number(row.id),
     organisationId: Number(row.organisation_id),
@@ -117,7 +126,9 @@ export async function createCertification(
       .first("id", "state");
     if (duplicate) {
       throw new RecordConflictError(
-        duplicate.state === "verified" ? "This card is already on file and verified" : "This card is already on file, awaiting verification",
+        duplicate.state === "verified"
+          ? "This card is already on file and verified"
+          : "This card is already on file, awaiting verification",
         "certificateNumber",
       );
     }
@@ -143,7 +154,11 @@ export async function createCertification(
     const types = sortTypes(input.types);
     await trx("certification_types").insert(types.map((type) => ({ certification_id: id, organisation_id: actor.organisationId, type })));
 
-    const branch = await trx("memberships").where({ user_id: actor.userId, role: "technician" }).whereNotNull("branch_id").orderBy("branch_id").first("branch_id");
+    const branch = await trx("memberships")
+      .where({ user_id: actor.userId, role: "technician" })
+      .whereNotNull("branch_id")
+      .orderBy("branch_id")
+      .first("branch_id");
     await appendActivity(trx, {
       organisationId: actor.organisationId,
       actorId: actor.userId,
@@ -260,7 +275,10 @@ export async function listCertifications(
     if (query.mine) qb.where("cert.user_id", opts.actorUserId);
     if (query.branchId) {
       qb.whereExists(function inBranch(this: Knex.QueryBuilder) {
-        this.select(db.raw("1")).from("memberships as bm").whereRaw("bm.user_id = cert.user_id").where({ "bm.role": "technician", "bm.branch_id": query.branchId });
+        this.select(db.raw("1"))
+          .from("memberships as bm")
+          .whereRaw("bm.user_id = cert.user_id")
+          .where({ "bm.role": "technician", "bm.branch_id": query.branchId });
       });
     }
     if (query.q) whereContains(qb, query.q, ["holder.name", "holder.email", "cert.certificate_number", "cert.certifying_organisation"]);
@@ -340,16 +358,15 @@ export async function getCertification(db: Knex, opts: { scope: ScopeFn; id: num
     .leftJoin("users as decider", "decider.id", "cert.verified_by")
     .where("cert.id", opts.id);
   whereReachable(db, qb, opts.scope);
-  const r = await qb.first(
-    "cert.*",
-    "holder.name as holder_name",
-    "holder.email as holder_email",
-    "decider.name as decider_name",
-  );
+  const r = await qb.first("cert.*", "holder.name as holder_name", "holder.email as holder_email", "decider.name as decider_name");
   if (!r) return undefined;
   const id = Number(r.id);
   const types = await typesOf(db, [id]);
-  const branchRows = await db("memberships").where({ user_id: r.user_id, role: "technician" }).whereNotNull("branch_id").orderBy("branch_id").select("branch_id");
+  const branchRows = await db("memberships")
+    .where({ user_id: r.user_id, role: "technician" })
+    .whereNotNull("branch_id")
+    .orderBy("branch_id")
+    .select("branch_id");
   const branches = await branchNamesOf(db, [Number(r.user_id)]);
   return {
     id,
@@ -383,7 +400,9 @@ export async function getCertificationFileKeys(
   db: Knex,
   opts: { organisationId: number; id: number },
 ): Promise<{ cardKey: string | null; cardMime: string | null; thumbnailKey: string | null } | undefined> {
-  const r = await db("certifications").where({ id: opts.id, organisation_id: opts.organisationId }).first("card_file_key", "card_mime", "card_thumbnail_key");
+  const r = await db("certifications")
+    .where({ id: opts.id, organisation_id: opts.organisationId })
+    .first("card_file_key", "card_mime", "card_thumbnail_key");
   if (!r) return undefined;
   return { cardKey: r.card_file_key ?? null, cardMime: r.card_mime ?? null, thumbnailKey: r.card_thumbnail_key ?? null };
 }
@@ -417,7 +436,11 @@ export async function decideCertification(
     if (cert.voided_at) throw new RecordConflictError("This card was withdrawn");
     if (Number(cert.user_id) === actor.userId) throw new ActionForbiddenError("Someone else must verify your own card");
     if (cert.state !== "pending") {
-      throw new RecordConflictError(cert.state === "verified" ? "This card is already verified" : "This card was already not accepted; the technician uploads a new one");
+      throw new RecordConflictError(
+        cert.state === "verified"
+          ? "This card is already verified"
+          : "This card was already not accepted; the technician uploads a new one",
+      );
     }
     const holder = await trx("users").where({ id: cert.user_id }).first("id", "name", "email");
     const types = (await typesOf(trx, [Number(cert.id)])).get(Number(cert.id)) ?? [];
@@ -429,7 +452,11 @@ export async function decideCertification(
       .update({ state, verified_by: actor.userId, verified_at: at, rejection_reason: reason, updated_at: at });
     if (changed !== 1) throw new RecordConflictError("This card was decided by someone else a moment ago");
 
-    const branch = await trx("memberships").where({ user_id: cert.user_id, role: "technician" }).whereNotNull("branch_id").orderBy("branch_id").first("branch_id");
+    const branch = await trx("memberships")
+      .where({ user_id: cert.user_id, role: "technician" })
+      .whereNotNull("branch_id")
+      .orderBy("branch_id")
+      .first("branch_id");
     const what = `${describeTypes(types)} card of ${holder.name} (${cert.certifying_organisation}, no. ${cert.certificate_number})`;
     await appendActivity(trx, {
       organisationId: actor.organisationId,
@@ -446,8 +473,12 @@ export async function decideCertification(
       organisationId: actor.organisationId,
       userId: Number(cert.user_id),
       kind: state === "verified" ? "certification.verified" : "certification.rejected",
-      title: state === "verified" ? `Your ${describeTypes(types)} certification card is verified` : `Your ${describeTypes(types)} certification card was not accepted`,
-      body: state === "verified" ? "It now counts for the work you log." : `Reason: ${reason} Please upload a new photo or PDF of the card.`,
+      title:
+        state === "verified"
+          ? `Your ${describeTypes(types)} certification card is verified`
+          : `Your ${describeTypes(types)} certification card was not accepted`,
+      body:
+        state === "verified" ? "It now counts for the work you log." : `Reason: ${reason} Please upload a new photo or PDF of the card.`,
       link: `/certifications/${cert.id}`,
       subjectType: "Certification",
       subjectId: Number(cert.id),
@@ -514,9 +545,15 @@ export async function correctCertification(
     await trx("certifications").where({ id: cert.id }).update(update);
     if (newTypes) {
       await trx("certification_types").where({ certification_id: cert.id }).delete();
-      await trx("certification_types").insert(newTypes.map((type) => ({ certification_id: cert.id, organisation_id: actor.organisationId, type })));
+      await trx("certification_types").insert(
+        newTypes.map((type) => ({ certification_id: cert.id, organisation_id: actor.organisationId, type })),
+      );
     }
-    const branch = await trx("memberships").where({ user_id: cert.user_id, role: "technician" }).whereNotNull("branch_id").orderBy("branch_id").first("branch_id");
+    const branch = await trx("memberships")
+      .where({ user_id: cert.user_id, role: "technician" })
+      .whereNotNull("branch_id")
+      .orderBy("branch_id")
+      .first("branch_id");
     const branchId = branch ? Number(branch.branch_id) : null;
     const [inserted] = await trx("amendments")
       .insert({
@@ -560,7 +597,10 @@ export async function correctCertification(
 export async function withdrawCertification(db: Knex, opts: { actor: ActorRef; id: number; reason: string; now?: Date }): Promise<void> {
   const at = (opts.now ?? new Date()).toISOString();
   await db.transaction(async (trx) => {
-    const cert = await trx("certifications as c").join("users as u", "u.id", "c.user_id").where({ "c.id": opts.id, "c.organisation_id": opts.actor.organisationId }).first("c.id", "u.name", "c.certificate_number");
+    const cert = await trx("certifications as c")
+      .join("users as u", "u.id", "c.user_id")
+      .where({ "c.id": opts.id, "c.organisation_id": opts.actor.organisationId })
+      .first("c.id", "u.name", "c.certificate_number");
     if (!cert) throw new RecordNotFoundError("No such certification card");
     await voidRecord(trx, {
       table: "certifications",

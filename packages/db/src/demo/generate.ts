@@ -7,15 +7,7 @@ import bcrypt from "bcryptjs";
 import type { AccessMethod, CertificationType, EvacuationUnit, JobKind } from "@coldtrail/core";
 import { describeMass } from "../mass";
 import { Prng, addDays, dayOf, isoOf, stamp } from "./prng";
-import {
-  DEMO_HISTORY_FROM,
-  DEMO_PASSWORD,
-  DEMO_TODAY,
-  MAIN_ORG,
-  SECOND_ORG,
-  type BranchSpec,
-  type OrganisationSpec,
-} from "./scenario";
+import { DEMO_HISTORY_FROM, DEMO_PASSWORD, DEMO_TODAY, MAIN_ORG, SECOND_ORG, type BranchSpec, type OrganisationSpec } from "./scenario";
 
 export type Row = Record<string, unknown>;
 
@@ -52,24 +44,36 @@ const LOW_PRESSURE = new Set(["R-11", "R-113", "R-123", "R-1233zd(E)", "R-514A"]
 const HYDROCARBONS = new Set(["R-290", "R-600a"]);
 const LB = 453.59237;
 
-const QUARTER_ENDS = [
-  "2024-12-31",
-  "2025-03-31",
-  "2025-06-30",
-  "2025-09-30",
-  "2025-12-31",
-  "2026-03-31",
-  "2026-06-30",
-  "2026-09-30",
-];
+const QUARTER_ENDS = ["2024-12-31", "2025-03-31", "2025-06-30", "2025-09-30", "2025-12-31", "2026-03-31", "2026-06-30", "2026-09-30"];
 /** The Peoria shipments of these quarter ends were never recorded (planted gap G16). */
 const UNRECORDED_SHIPMENTS = { branchCode: "PIA", dates: ["2026-03-31", "2026-06-30"] };
 
 const BRANDS = ["Frostvale", "Nimbra", "Tessaly", "Polwyn", "Veradyne", "Hexley", "Orvane", "Quenby", "Callowmark", "Brisewick"];
 const PLACES = [
-  "Alderbank", "Willowmere", "Stonecrest", "Fernhollow", "Maple Terrace", "Brackenridge", "Sunhollow", "Ashby Row",
-  "Linden Park", "Quarrystone", "Hartwell", "Briarwood", "Oakhaven", "Redfern", "Elmstead", "Highmoor", "Thornbury",
-  "Wrenfield", "Larchvale", "Kettle Creek", "Pembrook", "Saltmarsh", "Gableview", "Copse Hill",
+  "Alderbank",
+  "Willowmere",
+  "Stonecrest",
+  "Fernhollow",
+  "Maple Terrace",
+  "Brackenridge",
+  "Sunhollow",
+  "Ashby Row",
+  "Linden Park",
+  "Quarrystone",
+  "Hartwell",
+  "Briarwood",
+  "Oakhaven",
+  "Redfern",
+  "Elmstead",
+  "Highmoor",
+  "Thornbury",
+  "Wrenfield",
+  "Larchvale",
+  "Kettle Creek",
+  "Pembrook",
+  "Saltmarsh",
+  "Gableview",
+  "Copse Hill",
 ];
 const STREETS = ["Juniper", "Tanager", "Millrace", "Cobalt", "Harrowgate", "Bellwether", "Sorrel", "Kilnworth", "Lantern", "Osprey"];
 const STREET_KINDS = ["St", "Ave", "Rd", "Blvd", "Way", "Ct"];
@@ -418,7 +422,14 @@ class Generator {
     const units = [
       { n: "01", model: "Orvane RX-400 recovery unit", made: "2016-03-14", small: false, dep: false, status: "in_service" },
       { n: "02", model: "Quenby ProRecover 3 recovery unit", made: "2021-08-09", small: false, dep: false, status: "in_service" },
-      { n: "03", model: "Brisewick SA-12 small-appliance recovery unit", made: "2019-05-20", small: true, dep: false, status: "in_service" },
+      {
+        n: "03",
+        model: "Brisewick SA-12 small-appliance recovery unit",
+        made: "2019-05-20",
+        small: true,
+        dep: false,
+        status: "in_service",
+      },
       { n: "04", model: "Veradyne PassiveDraw recovery bag", made: "2020-11-02", small: true, dep: true, status: "in_service" },
       { n: "05", model: "Orvane RX-200 recovery unit", made: "2009-06-30", small: false, dep: false, status: "retired" },
     ];
@@ -746,7 +757,13 @@ class Generator {
     return this.draft({ date, kind: "charge", appliance: a, chargeG: grams, access: "service_valve", ...extra });
   }
 
-  private disposal(a: ApplianceModel, date: string, grams: number, proof: "record" | "statement" | "none", extra: Partial<Draft> = {}): Draft {
+  private disposal(
+    a: ApplianceModel,
+    date: string,
+    grams: number,
+    proof: "record" | "statement" | "none",
+    extra: Partial<Draft> = {},
+  ): Draft {
     const { access, removed } = this.accessFor(a);
     return this.draft({
       date,
@@ -855,7 +872,12 @@ class Generator {
         kind: "leak_repair",
         appliance: a,
         leakLocation: rng.pick(["Indoor coil", "Outdoor coil", "Line set flare at the air handler", "Service valve stem"]),
-        repairDescription: rng.pick(["Replaced the indoor coil", "Brazed the leak", "Replaced the flare fitting", "Replaced the valve stem seal"]),
+        repairDescription: rng.pick([
+          "Replaced the indoor coil",
+          "Brazed the leak",
+          "Replaced the flare fitting",
+          "Replaced the valve stem seal",
+        ]),
       });
       this.charge(a, d, Math.round(a.chargeG * rng.float(0.2, 0.4)), { tech: repair.tech, notes: "Recharged after leak repair" });
     }
@@ -936,24 +958,62 @@ class Generator {
     const eqUnregistered = { id: unregistered.id, serial: "RE-UNREG-925" };
 
     // G01 — Type I-only technician recovers from a rooftop unit.
-    const rtu901 = add("COL", { tag: "COL-RTU-901", category: "packaged_rooftop", refrigerant: "R-410A", chargeG: 9100, description: "7.5 ton packaged rooftop unit", siteKind: "commercial" });
-    this.recovery(rtu901, "2025-09-17", 1400, { tech: tech("tech-COL-4"), notes: "Recovered the condenser section to replace a fan motor bracket" });
+    const rtu901 = add("COL", {
+      tag: "COL-RTU-901",
+      category: "packaged_rooftop",
+      refrigerant: "R-410A",
+      chargeG: 9100,
+      description: "7.5 ton packaged rooftop unit",
+      siteKind: "commercial",
+    });
+    this.recovery(rtu901, "2025-09-17", 1400, {
+      tech: tech("tech-COL-4"),
+      notes: "Recovered the condenser section to replace a fan motor bracket",
+    });
 
     // G02 — technician with only a pending card logs a recovery.
-    const res902 = add("TUC", { tag: "TUC-RES-902", category: "residential_split", refrigerant: "R-410A", chargeG: 3200, description: "3 ton split heat pump", siteKind: "residential" });
+    const res902 = add("TUC", {
+      tag: "TUC-RES-902",
+      category: "residential_split",
+      refrigerant: "R-410A",
+      chargeG: 3200,
+      description: "3 ton split heat pump",
+      siteKind: "residential",
+    });
     this.recovery(res902, "2026-02-10", 3050, { tech: tech("tech-TUC-4"), notes: "Compressor replaced" });
     this.charge(res902, "2026-02-10", 3200, { tech: tech("tech-TUC-1") });
 
     // G03 — small appliance disposed of without a disposal statement.
-    const sa903 = add("DEN", { tag: "DEN-SA-903", category: "small_appliance", refrigerant: "R-134a", chargeG: 240, description: "Under-counter freezer", siteKind: "commercial" });
+    const sa903 = add("DEN", {
+      tag: "DEN-SA-903",
+      category: "small_appliance",
+      refrigerant: "R-134a",
+      chargeG: 240,
+      description: "Under-counter freezer",
+      siteKind: "commercial",
+    });
     this.disposal(sa903, "2026-04-22", 228, "none", { tech: tech("tech-DEN-2"), compressorOperating: true, disposalPath: "shop" });
 
     // G04 — 5–50 lb appliance disposed of without a disposal record.
-    const res904 = add("COL", { tag: "COL-RES-904", category: "residential_split", refrigerant: "R-22", chargeG: 3600, description: "3 ton split air conditioner", siteKind: "residential" });
+    const res904 = add("COL", {
+      tag: "COL-RES-904",
+      category: "residential_split",
+      refrigerant: "R-22",
+      chargeG: 3600,
+      description: "3 ton split air conditioner",
+      siteKind: "residential",
+    });
     this.disposal(res904, "2025-07-08", 3450, "none", { tech: tech("tech-COL-2"), disposalPath: "on_site" });
 
     // G05 — one disposal fills a 50 lb WC cylinder to 97 % of its water capacity.
-    const rtu905 = add("TUC", { tag: "TUC-RTU-905", category: "packaged_rooftop", refrigerant: "R-410A", chargeG: 22_500, description: "20 ton packaged rooftop unit", siteKind: "commercial" });
+    const rtu905 = add("TUC", {
+      tag: "TUC-RTU-905",
+      category: "packaged_rooftop",
+      refrigerant: "R-410A",
+      chargeG: 22_500,
+      description: "20 ton packaged rooftop unit",
+      siteKind: "commercial",
+    });
     this.disposal(rtu905, "2026-10-14", 21_900, "record", {
       tech: tech("tech-TUC-1"),
       cylinder: c905,
@@ -964,26 +1024,63 @@ class Generator {
     });
 
     // G06 — cylinder past its requalification date still in use.
-    const res906 = add("PIA", { tag: "PIA-RES-906", category: "residential_split", refrigerant: "R-410A", chargeG: 3100, description: "2.5 ton split air conditioner", siteKind: "residential" });
+    const res906 = add("PIA", {
+      tag: "PIA-RES-906",
+      category: "residential_split",
+      refrigerant: "R-410A",
+      chargeG: 3100,
+      description: "2.5 ton split air conditioner",
+      siteKind: "residential",
+    });
     this.recovery(res906, "2025-09-23", 2950, { tech: tech("tech-PIA-1"), cylinder: c906, notes: "Compressor replaced" });
     this.charge(res906, "2025-09-24", 3100, { tech: tech("tech-PIA-1") });
     this.recovery(res906, "2026-05-12", 3000, { tech: tech("tech-PIA-1"), cylinder: c906, notes: "Indoor coil replaced" });
     this.charge(res906, "2026-05-13", 3100, { tech: tech("tech-PIA-1") });
 
     // G07 — R-22 recovered into a cylinder already holding R-410A.
-    const res907 = add("COL", { tag: "COL-RES-907", category: "residential_split", refrigerant: "R-410A", chargeG: 2900, description: "2.5 ton split heat pump", siteKind: "residential" });
-    const res957 = add("COL", { tag: "COL-RES-957", category: "residential_split", refrigerant: "R-22", chargeG: 3400, description: "3 ton split air conditioner", siteKind: "residential" });
+    const res907 = add("COL", {
+      tag: "COL-RES-907",
+      category: "residential_split",
+      refrigerant: "R-410A",
+      chargeG: 2900,
+      description: "2.5 ton split heat pump",
+      siteKind: "residential",
+    });
+    const res957 = add("COL", {
+      tag: "COL-RES-957",
+      category: "residential_split",
+      refrigerant: "R-22",
+      chargeG: 3400,
+      description: "3 ton split air conditioner",
+      siteKind: "residential",
+    });
     this.recovery(res907, "2025-11-04", 2750, { tech: tech("tech-COL-1"), cylinder: c907, notes: "Compressor replaced" });
     this.charge(res907, "2025-11-05", 2900, { tech: tech("tech-COL-1") });
     this.recovery(res957, "2025-11-19", 3250, { tech: tech("tech-COL-2"), cylinder: c907, notes: "Outdoor coil replaced" });
     this.charge(res957, "2025-11-20", 3400, { tech: tech("tech-COL-2") });
 
     // G08 — supermarket rack: 23 % of its charge added, no repair followed.
-    const rack908 = add("TUC", { tag: "TUC-RACK-908", category: "commercial_refrigeration", refrigerant: "R-22", chargeG: 408_200, description: "Supermarket parallel rack, medium temperature (900 lb)", siteKind: "grocery", method: "calculation" });
+    const rack908 = add("TUC", {
+      tag: "TUC-RACK-908",
+      category: "commercial_refrigeration",
+      refrigerant: "R-22",
+      chargeG: 408_200,
+      description: "Supermarket parallel rack, medium temperature (900 lb)",
+      siteKind: "grocery",
+      method: "calculation",
+    });
     this.charge(rack908, "2026-09-12", 95_000, { tech: tech("tech-TUC-1"), notes: "Topped up after low-receiver alarms" });
 
     // G09 — rack repaired after a 25 % addition, but no verification tests.
-    const rack909 = add("DEN", { tag: "DEN-RACK-909", category: "commercial_refrigeration", refrigerant: "R-22", chargeG: 235_900, description: "Supermarket parallel rack, low temperature (520 lb)", siteKind: "grocery", method: "calculation" });
+    const rack909 = add("DEN", {
+      tag: "DEN-RACK-909",
+      category: "commercial_refrigeration",
+      refrigerant: "R-22",
+      chargeG: 235_900,
+      description: "Supermarket parallel rack, low temperature (520 lb)",
+      siteKind: "grocery",
+      method: "calculation",
+    });
     const add909 = this.charge(rack909, "2026-06-03", 60_000, { tech: tech("tech-DEN-1"), notes: "Topped up after low-receiver alarms" });
     this.draft({
       date: "2026-06-19",
@@ -995,14 +1092,30 @@ class Generator {
     });
 
     // G10 — chronic leaker: 130 % of the full charge added during 2025, every leak repaired and verified.
-    const rack910 = add("PIA", { tag: "PIA-RACK-910", category: "commercial_refrigeration", refrigerant: "R-22", chargeG: 49_900, description: "Compact rack, convenience store (110 lb)", siteKind: "grocery", method: "nameplate" });
+    const rack910 = add("PIA", {
+      tag: "PIA-RACK-910",
+      category: "commercial_refrigeration",
+      refrigerant: "R-22",
+      chargeG: 49_900,
+      description: "Compact rack, convenience store (110 lb)",
+      siteKind: "grocery",
+      method: "nameplate",
+    });
     for (const d of ["2025-02-11", "2025-04-15", "2025-06-17", "2025-08-19", "2025-10-21"]) {
       const top = this.charge(rack910, d, 12_970, { tech: tech("tech-PIA-2"), notes: "Low charge; leak search started" });
       this.repairWithVerification(rack910, addDays(d, 6), top.tech);
     }
 
     // G11 — 4 in Hg reached on a 650 lb R-134a (medium-pressure) chiller with post-1993 equipment.
-    const ch911 = add("COL", { tag: "COL-CH-911", category: "chiller", refrigerant: "R-134a", chargeG: 294_800, description: "Centrifugal chiller, convention center (650 lb)", siteKind: "commercial", method: "manufacturer_data" });
+    const ch911 = add("COL", {
+      tag: "COL-CH-911",
+      category: "chiller",
+      refrigerant: "R-134a",
+      chargeG: 294_800,
+      description: "Centrifugal chiller, convention center (650 lb)",
+      siteKind: "commercial",
+      method: "manufacturer_data",
+    });
     this.recovery(ch911, "2026-08-26", 30_000, {
       tech: tech("tech-COL-1"),
       equipment: this.equipmentBySerial.get("COL-RE-02")!,
@@ -1012,7 +1125,14 @@ class Generator {
     });
 
     // G12 — a bolt-on line tap left on a small appliance.
-    const sa912 = add("TUC", { tag: "TUC-SA-912", category: "small_appliance", refrigerant: "R-134a", chargeG: 340, description: "Reach-in freezer", siteKind: "commercial" });
+    const sa912 = add("TUC", {
+      tag: "TUC-SA-912",
+      category: "small_appliance",
+      refrigerant: "R-134a",
+      chargeG: 340,
+      description: "Reach-in freezer",
+      siteKind: "commercial",
+    });
     this.recovery(sa912, "2026-05-06", 325, {
       tech: tech("tech-TUC-3"),
       access: "bolt_on_line_tap",
@@ -1025,7 +1145,14 @@ class Generator {
     this.charge(sa912, "2026-05-07", 340, { tech: tech("tech-TUC-3") });
 
     // G13 — small appliance: 57 % recovered with the compressor not running, and no 4 in Hg vacuum.
-    const sa913 = add("DEN", { tag: "DEN-SA-913", category: "small_appliance", refrigerant: "R-134a", chargeG: 280, description: "Under-counter freezer", siteKind: "commercial" });
+    const sa913 = add("DEN", {
+      tag: "DEN-SA-913",
+      category: "small_appliance",
+      refrigerant: "R-134a",
+      chargeG: 280,
+      description: "Under-counter freezer",
+      siteKind: "commercial",
+    });
     this.recovery(sa913, "2026-07-15", 160, {
       tech: tech("tech-DEN-3"),
       compressorOperating: false,
@@ -1038,20 +1165,40 @@ class Generator {
     this.charge(sa913, "2026-07-16", 280, { tech: tech("tech-DEN-3") });
 
     // G14 — recovery with equipment that was never certified.
-    const res914 = add("PIA", { tag: "PIA-RES-914", category: "residential_split", refrigerant: "R-410A", chargeG: 2800, description: "2 ton split heat pump", siteKind: "residential" });
+    const res914 = add("PIA", {
+      tag: "PIA-RES-914",
+      category: "residential_split",
+      refrigerant: "R-410A",
+      chargeG: 2800,
+      description: "2 ton split heat pump",
+      siteKind: "residential",
+    });
     this.recovery(res914, "2026-03-03", 2650, { tech: tech("tech-PIA-3"), equipment: eqUncertified, notes: "Compressor replaced" });
     this.charge(res914, "2026-03-04", 2800, { tech: tech("tech-PIA-3") });
 
     // G15a — a Tucson job recovers into a Denver cylinder.
-    const res915 = add("TUC", { tag: "TUC-RES-915", category: "residential_split", refrigerant: "R-410A", chargeG: 2700, description: "2 ton split air conditioner", siteKind: "residential" });
+    const res915 = add("TUC", {
+      tag: "TUC-RES-915",
+      category: "residential_split",
+      refrigerant: "R-410A",
+      chargeG: 2700,
+      description: "2 ton split air conditioner",
+      siteKind: "residential",
+    });
     this.recovery(res915, "2026-01-20", 2600, { tech: tech("tech-TUC-1"), cylinder: c915, notes: "Reversing valve replaced" });
     this.charge(res915, "2026-01-21", 2700, { tech: tech("tech-TUC-1") });
 
     // G15b — recovery equipment missing from the register (a placeholder row flagged unregistered).
-    const res925 = add("COL", { tag: "COL-RES-925", category: "residential_split", refrigerant: "R-410A", chargeG: 3000, description: "2.5 ton split heat pump", siteKind: "residential" });
+    const res925 = add("COL", {
+      tag: "COL-RES-925",
+      category: "residential_split",
+      refrigerant: "R-410A",
+      chargeG: 3000,
+      description: "2.5 ton split heat pump",
+      siteKind: "residential",
+    });
     this.recovery(res925, "2025-12-09", 2850, { tech: tech("tech-COL-2"), equipment: eqUnregistered, notes: "Compressor replaced" });
     this.charge(res925, "2025-12-10", 3000, { tech: tech("tech-COL-2") });
-
   }
 
   // -------------------------------------------------------------------------------- timeline
@@ -1150,11 +1297,27 @@ class Generator {
       c.contentsG = 0;
       c.refrigerant = null;
     }
-    this.activity(b, b.managerId, "reclaim_shipment.created", "reclaim_shipment", shipment.id, at,
-      `Shipped ${full.length} cylinder${full.length === 1 ? "" : "s"} (${describeMass(total, b.spec.massUnit)}) to ${b.reclaimer.name} for reclaim`);
+    this.activity(
+      b,
+      b.managerId,
+      "reclaim_shipment.created",
+      "reclaim_shipment",
+      shipment.id,
+      at,
+      `Shipped ${full.length} cylinder${full.length === 1 ? "" : "s"} (${describeMass(total, b.spec.massUnit)}) to ${b.reclaimer.name} for reclaim`,
+    );
   }
 
-  private activity(b: BranchModel, actorId: number | null, action: string, subjectType: string, subjectId: number, at: string, summary: string, data?: unknown): void {
+  private activity(
+    b: BranchModel,
+    actorId: number | null,
+    action: string,
+    subjectType: string,
+    subjectId: number,
+    at: string,
+    summary: string,
+    data?: unknown,
+  ): void {
     this.t.add("activity", {
       organisation_id: b.orgId,
       actor_id: actorId,
@@ -1371,8 +1534,15 @@ class Generator {
         created_at: at,
         voided_at: null,
       });
-      this.activity(b, b.managerId, "purchase.created", "purchase", purchase.id, at,
-        `Bought ${describeMass(massG, b.spec.massUnit)} ${refrigerant} (${jugs} × 25 lb) from ${supplier}`);
+      this.activity(
+        b,
+        b.managerId,
+        "purchase.created",
+        "purchase",
+        purchase.id,
+        at,
+        `Bought ${describeMass(massG, b.spec.massUnit)} ${refrigerant} (${jugs} × 25 lb) from ${supplier}`,
+      );
       this.stock.set(key, onShelf + massG);
     }
     this.stock.set(key, (this.stock.get(key) ?? 0) - grams);
@@ -1385,4 +1555,3 @@ function covers(t: TechModel, a: ApplianceModel): boolean {
   if (a.lowPressure) return t.verifiedTypes.has("type_iii");
   return t.verifiedTypes.has("type_ii");
 }
-

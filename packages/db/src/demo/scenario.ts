@@ -48,7 +48,9 @@ export interface OrganisationSpec {
   people: PersonSpec[];
 }
 
-const UNIVERSAL_OK: PersonSpec["certifications"] = [{ types: ["universal"], state: "verified", issuedOn: "2016-04-12", uploadedOn: "2024-06-03" }];
+const UNIVERSAL_OK: PersonSpec["certifications"] = [
+  { types: ["universal"], state: "verified", issuedOn: "2016-04-12", uploadedOn: "2024-06-03" },
+];
 
 function tech(key: string, name: string, domain: string, branch: string, certs: PersonSpec["certifications"] = UNIVERSAL_OK): PersonSpec {
   return { key, name, email: emailOf(name, domain), role: "technician", branches: [branch], certifications: certs };
@@ -82,7 +84,13 @@ export const MAIN_ORG: OrganisationSpec = {
       counts: { sa: 16, res: 50, rtu: 14, wic: 8, rack: 2 },
       specials: [
         { prefix: "CH", category: "chiller", refrigerant: "R-134a", chargeKg: 410, description: "Centrifugal chiller, office tower" },
-        { prefix: "CH", category: "chiller", refrigerant: "R-123", chargeKg: 450, description: "Low-pressure centrifugal chiller, hospital plant" },
+        {
+          prefix: "CH",
+          category: "chiller",
+          refrigerant: "R-123",
+          chargeKg: 450,
+          description: "Low-pressure centrifugal chiller, hospital plant",
+        },
       ],
     },
     {
@@ -93,7 +101,13 @@ export const MAIN_ORG: OrganisationSpec = {
       massUnit: "lb_oz",
       counts: { sa: 16, res: 52, rtu: 16, wic: 7, rack: 2 },
       specials: [
-        { prefix: "CH", category: "chiller", refrigerant: "R-1233zd(E)", chargeKg: 380, description: "Low-pressure chiller, university library" },
+        {
+          prefix: "CH",
+          category: "chiller",
+          refrigerant: "R-1233zd(E)",
+          chargeKg: 380,
+          description: "Low-pressure chiller, university library",
+        },
       ],
     },
     {
@@ -104,7 +118,13 @@ export const MAIN_ORG: OrganisationSpec = {
       massUnit: "kg",
       counts: { sa: 16, res: 48, rtu: 14, wic: 8, rack: 2 },
       specials: [
-        { prefix: "IPR", category: "industrial_process", refrigerant: "R-507A", chargeKg: 640, description: "Blast freezer plant, food processor" },
+        {
+          prefix: "IPR",
+          category: "industrial_process",
+          refrigerant: "R-507A",
+          chargeKg: 640,
+          description: "Blast freezer plant, food processor",
+        },
       ],
     },
     {
@@ -116,7 +136,13 @@ export const MAIN_ORG: OrganisationSpec = {
       counts: { sa: 16, res: 48, rtu: 14, wic: 8, rack: 2 },
       specials: [
         { prefix: "CH", category: "chiller", refrigerant: "R-134a", chargeKg: 330, description: "Screw chiller, county courthouse" },
-        { prefix: "IPR", category: "industrial_process", refrigerant: "R-134a", chargeKg: 520, description: "Process cooling loop, plastics moulding plant" },
+        {
+          prefix: "IPR",
+          category: "industrial_process",
+          refrigerant: "R-134a",
+          chargeKg: 520,
+          description: "Process cooling loop, plastics moulding plant",
+        },
       ],
     },
   ],

@@ -148,7 +148,9 @@ export async function createImport(
   const { actor } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
-    const branch = await trx("branches").where({ id: opts.branchId, organisation_id: actor.organisationId }).first("id", "name", "archived_at");
+    const branch = await trx("branches")
+      .where({ id: opts.branchId, organisation_id: actor.organisationId })
+      .first("id", "name", "archived_at");
     if (!branch) throw new RecordNotFoundError("That branch does not exist", "branchId");
     if (branch.archived_at) throw new RecordConflictError("That branch is archived", "branchId");
     const [row] = await trx("imports")
@@ -187,9 +189,18 @@ export async function createImport(
 }
 
 export async function getImportRef(db: Knex, opts: { organisationId: number; id: number }): Promise<ImportRef | undefined> {
-  const r = await db("imports").where({ id: opts.id, organisation_id: opts.organisationId }).first("id", "organisation_id", "branch_id", "kind", "state", "created_by");
+  const r = await db("imports")
+    .where({ id: opts.id, organisation_id: opts.organisationId })
+    .first("id", "organisation_id", "branch_id", "kind", "state", "created_by");
   if (!r) return undefined;
-  return { id: Number(r.id), organisationId: Number(r.organisation_id), branchId: Number(r.branch_id), kind: r.kind, state: r.state, createdBy: Number(r.created_by) };
+  return {
+    id: Number(r.id),
+    organisationId: Number(r.organisation_id),
+    branchId: Number(r.branch_id),
+    kind: r.kind,
+    state: r.state,
+    createdBy: Number(r.created_by),
+  };
 }
 
 /** One import the scope allows (the scope sees the table as `imports`). */
@@ -201,7 +212,12 @@ export async function getImport(db: Knex, opts: { scope: ScopeFn; id: number }):
     .where(function scoped(this: Knex.QueryBuilder) {
       opts.scope(this);
     });
-  const r = await qb.first("imports.*", "branch.name as branch_name", "branch.mass_unit as branch_mass_unit", "creator.name as creator_name");
+  const r = await qb.first(
+    "imports.*",
+    "branch.name as branch_name",
+    "branch.mass_unit as branch_mass_unit",
+    "creator.name as creator_name",
+  );
   if (!r) return undefined;
   return {
     id: Number(r.id),
@@ -235,13 +251,19 @@ export async function getImport(db: Knex, opts: { scope: ScopeFn; id: number }):
 }
 
 /** Where the stored file is, for the background steps. */
-export async function getImportFile(db: Knex, opts: { id: number }): Promise<{ key: string; format: "xlsx" | "csv"; size: number } | undefined> {
+export async function getImportFile(
+  db: Knex,
+  opts: { id: number },
+): Promise<{ key: string; format: "xlsx" | "csv"; size: number } | undefined> {
   const r = await db("imports").where({ id: opts.id }).first("file_key", "file_format", "file_size");
   return r ? { key: r.file_key, format: r.file_format, size: Number(r.file_size) } : undefined;
 }
 
 /** One page of the imports the scope allows, newest first. */
-export async function listImports(db: Knex, opts: { scope: ScopeFn; query: ImportListQuery }): Promise<{ rows: ImportListRow[]; total: number; page: number; pageSize: number }> {
+export async function listImports(
+  db: Knex,
+  opts: { scope: ScopeFn; query: ImportListQuery },
+): Promise<{ rows: ImportListRow[]; total: number; page: number; pageSize: number }> {
   const { query } = opts;
   const base = () =>
     db("imports as imports").where(function scoped(this: Knex.QueryBuilder) {
@@ -332,10 +354,14 @@ async function touchImport(db: Knex | Knex.Transaction, id: number, values: Reco
 export async function setImportMapping(db: Knex, opts: { actor: ActorRef; id: number; mapping: ImportMapping; now?: Date }): Promise<void> {
   const at = (opts.now ?? new Date()).toISOString();
   await db.transaction(async (trx) => {
-    const r = await trx("imports").where({ id: opts.id, organisation_id: opts.actor.organisationId }).first("id", "kind", "state", "headings", "branch_id");
+    const r = await trx("imports")
+      .where({ id: opts.id, organisation_id: opts.actor.organisationId })
+      .first("id", "kind", "state", "headings", "branch_id");
     if (!r) throw new RecordNotFoundError("No such import");
     if (!["mapping", "checked", "failed"].includes(r.state)) {
-      throw new RecordConflictError(r.state === "imported" ? "This file was already imported" : "This import is busy or closed; wait for it or start a new one");
+      throw new RecordConflictError(
+        r.state === "imported" ? "This file was already imported" : "This import is busy or closed; wait for it or start a new one",
+      );
     }
     const kind = r.kind as ImportKind;
     const headings = parseJson<string[]>(r.headings, []);
@@ -379,7 +405,9 @@ export async function setImportMapping(db: Knex, opts: { actor: ActorRef; id: nu
 export async function cancelImport(db: Knex, opts: { actor: ActorRef; id: number; now?: Date }): Promise<void> {
   const at = (opts.now ?? new Date()).toISOString();
   await db.transaction(async (trx) => {
-    const r = await trx("imports").where({ id: opts.id, organisation_id: opts.actor.organisationId }).first("id", "state", "branch_id", "kind");
+    const r = await trx("imports")
+      .where({ id: opts.id, organisation_id: opts.actor.organisationId })
+      .first("id", "state", "branch_id", "kind");
     if (!r) throw new RecordNotFoundError("No such import");
     if (!["mapping", "checking", "checked", "failed"].includes(r.state)) {
       throw new RecordConflictError(r.state === "imported" ? "This file was already imported" : "This import cannot be cancelled now");
@@ -404,7 +432,9 @@ export async function failImport(db: Knex, opts: { id: number; message: string }
   if (!r || r.state === "imported" || r.state === "cancelled") return;
   const at = new Date().toISOString();
   await db.transaction(async (trx) => {
-    await trx("imports").where({ id: r.id }).update({ state: "failed", error: opts.message, progress_note: null, updated_at: at, finished_at: at });
+    await trx("imports")
+      .where({ id: r.id })
+      .update({ state: "failed", error: opts.message, progress_note: null, updated_at: at, finished_at: at });
     await appendActivity(trx, {
       organisationId: Number(r.organisation_id),
       actorId: null,
@@ -422,12 +452,19 @@ export async function failImport(db: Knex, opts: { id: number; message: string }
  * Marks `checking`/`importing` imports whose work is no longer running (the server restarted) as
  * failed, so nobody waits forever. `running` holds the ids this process is working on.
  */
-export async function failAbandonedImports(db: Knex, opts: { running: ReadonlySet<number>; olderThanMs: number; ids?: number[] }): Promise<number> {
+export async function failAbandonedImports(
+  db: Knex,
+  opts: { running: ReadonlySet<number>; olderThanMs: number; ids?: number[] },
+): Promise<number> {
   const before = new Date(Date.now() - opts.olderThanMs).toISOString();
   const q = db("imports").whereIn("state", ["checking", "importing"]).where("updated_at", "<", before);
   if (opts.ids) q.whereIn("id", opts.ids);
   const stale = (await q.select("id")).map((r) => Number(r.id)).filter((id) => !opts.running.has(id));
-  for (const id of stale) await failImport(db, { id, message: "The work on this file was interrupted (the server restarted). Nothing was imported; start the check again." });
+  for (const id of stale)
+    await failImport(db, {
+      id,
+      message: "The work on this file was interrupted (the server restarted). Nothing was imported; start the check again.",
+    });
   return stale.length;
 }
 
@@ -443,7 +480,10 @@ interface PassContext {
 }
 
 async function loadPassContext(db: Knex | Knex.Transaction, importId: number): Promise<PassContext> {
-  const r = await db("imports as i").join("branches as b", "b.id", "i.branch_id").where("i.id", importId).first("i.*", "b.name as branch_name", "b.mass_unit", "b.time_zone");
+  const r = await db("imports as i")
+    .join("branches as b", "b.id", "i.branch_id")
+    .where("i.id", importId)
+    .first("i.*", "b.name as branch_name", "b.mass_unit", "b.time_zone");
   if (!r) throw new RecordNotFoundError("No such import");
   const mapping = parseJson<ImportMapping | null>(r.mapping, null);
   if (!mapping) throw new RecordConflictError("Choose the columns first");
@@ -495,7 +535,13 @@ async function runPass(
     store: (issues: Array<Record<string, unknown>>) => Promise<void>;
   },
 ): Promise<PassTotals> {
-  const processor = createRowProcessor(ctx.kind, q, { organisationId: ctx.organisationId, branch: ctx.branch, actor: opts.actor, at: opts.at, importId: ctx.importId });
+  const processor = createRowProcessor(ctx.kind, q, {
+    organisationId: ctx.organisationId,
+    branch: ctx.branch,
+    actor: opts.actor,
+    at: opts.at,
+    importId: ctx.importId,
+  });
   const totals: PassTotals = { rowsRead: 0, valid: 0, invalid: 0, storedIssues: 0, preview: [] };
   let batch: SheetRow[] = [];
 
@@ -509,7 +555,12 @@ async function runPass(
       if (outcome.issues.length === 0) totals.valid++;
       else totals.invalid++;
       if (totals.preview.length < PREVIEW_ROWS) {
-        totals.preview.push({ rowNumber: outcome.rowNumber, ok: outcome.issues.length === 0, summary: outcome.summary, issues: outcome.issues });
+        totals.preview.push({
+          rowNumber: outcome.rowNumber,
+          ok: outcome.issues.length === 0,
+          summary: outcome.summary,
+          issues: outcome.issues,
+        });
       }
       for (const issue of outcome.issues) {
         if (totals.storedIssues >= IMPORT_MAX_STORED_ISSUES) break;
@@ -574,7 +625,14 @@ export async function checkImportRows(
       store: (rows) => insertIssues(db, rows),
       onBatch: async (t) => {
         const progress = Math.min(99, Math.floor((opts.source.fraction?.() ?? 0) * 100));
-        opts.onProgress?.({ importId: ctx.importId, state: "checking", rowsRead: t.rowsRead, validRows: t.valid, invalidRows: t.invalid, progress });
+        opts.onProgress?.({
+          importId: ctx.importId,
+          state: "checking",
+          rowsRead: t.rowsRead,
+          validRows: t.valid,
+          invalidRows: t.invalid,
+          progress,
+        });
         if (Date.now() - lastWrite < 400) return true;
         lastWrite = Date.now();
         const current = await db("imports").where({ id: ctx.importId }).first("state");
@@ -590,7 +648,8 @@ export async function checkImportRows(
       },
     });
     const current = await db("imports").where({ id: ctx.importId }).first("state");
-    if (current?.state !== "checking") return { state: current?.state ?? "cancelled", validRows: totals.valid, invalidRows: totals.invalid };
+    if (current?.state !== "checking")
+      return { state: current?.state ?? "cancelled", validRows: totals.valid, invalidRows: totals.invalid };
     const at = new Date().toISOString();
     await touchImport(db, ctx.importId, {
       state: "checked",
@@ -615,9 +674,12 @@ export async function startImportCommit(db: Knex, opts: { actor: ActorRef; id: n
   const r = await db("imports").where({ id: opts.id, organisation_id: opts.actor.organisationId }).first("state", "valid_rows");
   if (!r) throw new RecordNotFoundError("No such import");
   if (r.state !== "checked") {
-    throw new RecordConflictError(r.state === "imported" ? "This file was already imported" : "Check the rows first; the import is not ready");
+    throw new RecordConflictError(
+      r.state === "imported" ? "This file was already imported" : "Check the rows first; the import is not ready",
+    );
   }
-  if (Number(r.valid_rows) === 0) throw new RecordConflictError("No row of this file can be imported; correct the file and upload it again");
+  if (Number(r.valid_rows) === 0)
+    throw new RecordConflictError("No row of this file can be imported; correct the file and upload it again");
   const changed = await db("imports")
     .where({ id: opts.id, state: "checked" })
     .update({ state: "importing", progress: 0, progress_note: "Waiting to start", updated_at: new Date().toISOString() });

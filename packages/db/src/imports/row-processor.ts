@@ -66,7 +66,14 @@ function parseContext(env: ProcessorEnv) {
 }
 
 /** Rows keyed by lower-case value; `column` must be a plain column of `table`. */
-async function findByLower(q: Q, table: string, column: string, organisationId: number, values: string[], select: string[]): Promise<Map<string, Array<Record<string, unknown>>>> {
+async function findByLower(
+  q: Q,
+  table: string,
+  column: string,
+  organisationId: number,
+  values: string[],
+  select: string[],
+): Promise<Map<string, Array<Record<string, unknown>>>> {
   const out = new Map<string, Array<Record<string, unknown>>>();
   const unique = [...new Set(values.map(lower))];
   for (let i = 0; i < unique.length; i += 400) {
@@ -131,10 +138,22 @@ class ApplianceRows implements RowProcessor {
       .select("s.id", "s.name", "s.customer_id", "c.name as customer_name");
     for (const r of rows) {
       const key = lower(r.name);
-      if (!sites.has(key)) sites.set(key, { id: Number(r.id), name: r.name, customerId: r.customer_id === null ? null : Number(r.customer_id), customerName: r.customer_name ?? null, firstRow: 0 });
+      if (!sites.has(key))
+        sites.set(key, {
+          id: Number(r.id),
+          name: r.name,
+          customerId: r.customer_id === null ? null : Number(r.customer_id),
+          customerName: r.customer_name ?? null,
+          firstRow: 0,
+        });
     }
-    const customers = await this.q("customers").where({ branch_id: this.env.branch.id, organisation_id: this.env.organisationId }).whereNull("archived_at").orderBy("id").select("id", "name");
-    for (const c of customers) if (!this.customers.has(lower(c.name))) this.customers.set(lower(c.name), { id: Number(c.id), name: c.name });
+    const customers = await this.q("customers")
+      .where({ branch_id: this.env.branch.id, organisation_id: this.env.organisationId })
+      .whereNull("archived_at")
+      .orderBy("id")
+      .select("id", "name");
+    for (const c of customers)
+      if (!this.customers.has(lower(c.name))) this.customers.set(lower(c.name), { id: Number(c.id), name: c.name });
     this.sites = sites;
     return sites;
   }
@@ -155,11 +174,18 @@ class ApplianceRows implements RowProcessor {
       const key = lower(r.tag);
       const earlier = this.seen.get(key);
       if (earlier !== undefined) issues.push({ field: "tag", message: `The tag ${r.tag} is already used on row ${earlier} of this file` });
-      else if (existing.get(key)?.length) issues.push({ field: "tag", message: `An appliance with the tag ${String(existing.get(key)![0]!.tag)} is already in the register` });
+      else if (existing.get(key)?.length)
+        issues.push({
+          field: "tag",
+          message: `An appliance with the tag ${String(existing.get(key)![0]!.tag)} is already in the register`,
+        });
 
       let site = sites.get(lower(r.site));
       if (site && r.customer && site.customerName && lower(site.customerName) !== lower(r.customer)) {
-        issues.push({ field: "customer", message: `The site ${site.name} belongs to the customer ${site.customerName}, not ${r.customer}` });
+        issues.push({
+          field: "customer",
+          message: `The site ${site.name} belongs to the customer ${site.customerName}, not ${r.customer}`,
+        });
       }
       const newSite = !site || site.id === null;
       const summary = this.describe(r, newSite);
@@ -185,25 +211,52 @@ class ApplianceRows implements RowProcessor {
   private async write(r: ApplianceImportRecord, site: SiteEntry): Promise<void> {
     const { env } = this;
     const activity = (action: string, subjectType: string, subjectId: number, summary: string, data?: unknown) =>
-      appendActivity(this.q, { organisationId: env.organisationId, actorId: env.actor.userId, branchId: env.branch.id, action, subjectType, subjectId, summary, data, at: env.at });
+      appendActivity(this.q, {
+        organisationId: env.organisationId,
+        actorId: env.actor.userId,
+        branchId: env.branch.id,
+        action,
+        subjectType,
+        subjectId,
+        summary,
+        data,
+        at: env.at,
+      });
     if (site.id === null) {
       let customerId: number | null = null;
       if (site.customerName) {
         const known = this.customers.get(lower(site.customerName));
         if (known?.id) customerId = known.id;
         else {
-          const [c] = await this.q("customers").insert({ organisation_id: env.organisationId, branch_id: env.branch.id, name: site.customerName, created_at: env.at }).returning("id");
+          const [c] = await this.q("customers")
+            .insert({ organisation_id: env.organisationId, branch_id: env.branch.id, name: site.customerName, created_at: env.at })
+            .returning("id");
           customerId = rowId(c);
           this.customers.set(lower(site.customerName), { id: customerId, name: site.customerName });
-          await activity("customer.created", "Customer", customerId, `Added customer ${site.customerName} to ${env.branch.name} (spreadsheet import)`, { importId: env.importId });
+          await activity(
+            "customer.created",
+            "Customer",
+            customerId,
+            `Added customer ${site.customerName} to ${env.branch.name} (spreadsheet import)`,
+            { importId: env.importId },
+          );
         }
       }
       const [s] = await this.q("sites")
-        .insert({ organisation_id: env.organisationId, branch_id: env.branch.id, customer_id: customerId, name: site.name, address: r.siteAddress, created_at: env.at })
+        .insert({
+          organisation_id: env.organisationId,
+          branch_id: env.branch.id,
+          customer_id: customerId,
+          name: site.name,
+          address: r.siteAddress,
+          created_at: env.at,
+        })
         .returning("id");
       site.id = rowId(s);
       site.customerId = customerId;
-      await activity("site.created", "Site", site.id, `Added site ${site.name} to ${env.branch.name} (spreadsheet import)`, { importId: env.importId });
+      await activity("site.created", "Site", site.id, `Added site ${site.name} to ${env.branch.name} (spreadsheet import)`, {
+        importId: env.importId,
+      });
     }
     const [row] = await this.q("appliances")
       .insert({
@@ -233,7 +286,10 @@ class ApplianceRows implements RowProcessor {
       })
       .returning("id");
     const id = rowId(row);
-    await activity("appliance.imported", "Appliance", id, `Imported appliance ${this.describe(r, false)}`, { importId: env.importId, fullChargeG: r.fullChargeG });
+    await activity("appliance.imported", "Appliance", id, `Imported appliance ${this.describe(r, false)}`, {
+      importId: env.importId,
+      fullChargeG: r.fullChargeG,
+    });
   }
 }
 
@@ -261,8 +317,13 @@ class CylinderRows implements RowProcessor {
       }
       const key = lower(r.serial);
       const earlier = this.seen.get(key);
-      if (earlier !== undefined) issues.push({ field: "serial", message: `The serial ${r.serial} is already used on row ${earlier} of this file` });
-      else if (existing.get(key)?.length) issues.push({ field: "serial", message: `A cylinder with the serial ${String(existing.get(key)![0]!.serial)} is already in the register` });
+      if (earlier !== undefined)
+        issues.push({ field: "serial", message: `The serial ${r.serial} is already used on row ${earlier} of this file` });
+      else if (existing.get(key)?.length)
+        issues.push({
+          field: "serial",
+          message: `A cylinder with the serial ${String(existing.get(key)![0]!.serial)} is already in the register`,
+        });
       const summary = this.describe(r);
       if (issues.length === 0) {
         this.seen.set(key, p.item.rowNumber);
@@ -362,12 +423,26 @@ class JobRows implements RowProcessor {
   private async loadCylinders(serials: string[]): Promise<void> {
     const missing = [...new Set(serials.map(lower))].filter((s) => !this.cylinders.has(s));
     if (missing.length === 0) return;
-    const found = await findByLower(this.q, "cylinders", "serial", this.env.organisationId, missing, ["id", "serial", "branch_id", "refrigerant", "contents_g"]);
+    const found = await findByLower(this.q, "cylinders", "serial", this.env.organisationId, missing, [
+      "id",
+      "serial",
+      "branch_id",
+      "refrigerant",
+      "contents_g",
+    ]);
     for (const key of missing) {
       const r = found.get(key)?.[0];
       this.cylinders.set(
         key,
-        r ? { id: Number(r.id), serial: String(r.serial), branchId: Number(r.branch_id), refrigerant: (r.refrigerant as string | null) ?? null, contentsG: Number(r.contents_g) } : null,
+        r
+          ? {
+              id: Number(r.id),
+              serial: String(r.serial),
+              branchId: Number(r.branch_id),
+              refrigerant: (r.refrigerant as string | null) ?? null,
+              contentsG: Number(r.contents_g),
+            }
+          : null,
       );
     }
   }
@@ -377,10 +452,29 @@ class JobRows implements RowProcessor {
     const techs = await this.loadTechnicians();
     const parsed = items.map((item) => ({ item, ...parseJobImportRow(item.cells, parseContext(env)) }));
     const records = parsed.filter((p) => p.record).map((p) => p.record!);
-    const appliances = await findByLower(this.q, "appliances", "tag", env.organisationId, records.map((r) => r.applianceTag), ["id", "tag", "branch_id", "refrigerant", "status", "retired_on"]);
-    const equipment = await findByLower(this.q, "recovery_equipment", "serial", env.organisationId, records.filter((r) => r.equipmentSerial).map((r) => r.equipmentSerial!), ["id", "serial", "branch_id"]);
+    const appliances = await findByLower(
+      this.q,
+      "appliances",
+      "tag",
+      env.organisationId,
+      records.map((r) => r.applianceTag),
+      ["id", "tag", "branch_id", "refrigerant", "status", "retired_on"],
+    );
+    const equipment = await findByLower(
+      this.q,
+      "recovery_equipment",
+      "serial",
+      env.organisationId,
+      records.filter((r) => r.equipmentSerial).map((r) => r.equipmentSerial!),
+      ["id", "serial", "branch_id"],
+    );
     await this.loadCylinders(records.filter((r) => r.cylinderSerial).map((r) => r.cylinderSerial!));
-    const branchNames = new Map<number, string>((await this.q("branches").where({ organisation_id: env.organisationId }).select("id", "name")).map((b) => [Number(b.id), b.name as string]));
+    const branchNames = new Map<number, string>(
+      (await this.q("branches").where({ organisation_id: env.organisationId }).select("id", "name")).map((b) => [
+        Number(b.id),
+        b.name as string,
+      ]),
+    );
     const elsewhere = (branchId: number) => `the ${branchNames.get(branchId) ?? "another"} branch`;
 
     // Jobs already on record for these appliances and dates: a file imported twice is not doubled.
@@ -403,18 +497,27 @@ class JobRows implements RowProcessor {
       const issues = [...p.issues];
       const r = p.record;
       if (!r) {
-        out.push({ rowNumber: p.item.rowNumber, issues, summary: [p.item.cells.performedOn, p.item.cells.kind, p.item.cells.applianceTag].filter(Boolean).join(" · ") || "(empty)" });
+        out.push({
+          rowNumber: p.item.rowNumber,
+          issues,
+          summary: [p.item.cells.performedOn, p.item.cells.kind, p.item.cells.applianceTag].filter(Boolean).join(" · ") || "(empty)",
+        });
         continue;
       }
       const appliance = pick(appliances.get(lower(r.applianceTag)), "tag", r.applianceTag);
       if (!appliance) issues.push({ field: "applianceTag", message: `No appliance with the tag ${r.applianceTag} is in the register` });
-      else if (Number(appliance.branch_id) !== env.branch.id) issues.push({ field: "applianceTag", message: `The appliance ${String(appliance.tag)} belongs to ${elsewhere(Number(appliance.branch_id))}` });
+      else if (Number(appliance.branch_id) !== env.branch.id)
+        issues.push({
+          field: "applianceTag",
+          message: `The appliance ${String(appliance.tag)} belongs to ${elsewhere(Number(appliance.branch_id))}`,
+        });
 
       let technician: Technician | undefined;
       if (r.technician.includes("@")) technician = techs.byEmail.get(lower(r.technician));
       else {
         const named = techs.byName.get(lower(r.technician)) ?? [];
-        if (named.length > 1) issues.push({ field: "technician", message: `More than one technician is called ${r.technician}; use the e-mail address` });
+        if (named.length > 1)
+          issues.push({ field: "technician", message: `More than one technician is called ${r.technician}; use the e-mail address` });
         technician = named.length === 1 ? named[0] : undefined;
       }
       if (!technician && !issues.some((i) => i.field === "technician")) {
@@ -424,7 +527,8 @@ class JobRows implements RowProcessor {
       let cylinder: CylinderState | null = null;
       if (r.cylinderSerial) {
         cylinder = this.cylinders.get(lower(r.cylinderSerial)) ?? null;
-        if (!cylinder) issues.push({ field: "cylinderSerial", message: `No cylinder with the serial ${r.cylinderSerial} is in the register` });
+        if (!cylinder)
+          issues.push({ field: "cylinderSerial", message: `No cylinder with the serial ${r.cylinderSerial} is in the register` });
         else if (cylinder.branchId !== env.branch.id) {
           issues.push({ field: "cylinderSerial", message: `The cylinder ${cylinder.serial} belongs to ${elsewhere(cylinder.branchId)}` });
           cylinder = null;
@@ -433,17 +537,29 @@ class JobRows implements RowProcessor {
       let equipmentId: number | null = null;
       if (r.equipmentSerial) {
         const e = pick(equipment.get(lower(r.equipmentSerial)), "serial", r.equipmentSerial);
-        if (!e) issues.push({ field: "equipmentSerial", message: `No recovery equipment with the serial ${r.equipmentSerial} is in the register` });
-        else if (Number(e.branch_id) !== env.branch.id) issues.push({ field: "equipmentSerial", message: `The recovery equipment ${String(e.serial)} belongs to ${elsewhere(Number(e.branch_id))}` });
+        if (!e)
+          issues.push({
+            field: "equipmentSerial",
+            message: `No recovery equipment with the serial ${r.equipmentSerial} is in the register`,
+          });
+        else if (Number(e.branch_id) !== env.branch.id)
+          issues.push({
+            field: "equipmentSerial",
+            message: `The recovery equipment ${String(e.serial)} belongs to ${elsewhere(Number(e.branch_id))}`,
+          });
         else equipmentId = Number(e.id);
       }
 
       const refrigerant = r.refrigerant ?? (appliance ? String(appliance.refrigerant) : null);
       const mass = (g: number) => describeMass(g, env.branch.massUnit);
       if (cylinder && refrigerant && r.kind === "charge" && r.chargedG > 0) {
-        if (!cylinder.refrigerant || cylinder.contentsG <= 0) issues.push({ field: "cylinderSerial", message: `Cylinder ${cylinder.serial} is empty on record` });
+        if (!cylinder.refrigerant || cylinder.contentsG <= 0)
+          issues.push({ field: "cylinderSerial", message: `Cylinder ${cylinder.serial} is empty on record` });
         else if (normaliseDesignation(cylinder.refrigerant) !== normaliseDesignation(refrigerant)) {
-          issues.push({ field: "cylinderSerial", message: `Cylinder ${cylinder.serial} holds ${cylinder.refrigerant}, not ${refrigerant}` });
+          issues.push({
+            field: "cylinderSerial",
+            message: `Cylinder ${cylinder.serial} holds ${cylinder.refrigerant}, not ${refrigerant}`,
+          });
         } else if (cylinder.contentsG < r.chargedG) {
           issues.push({ field: "charged", message: `Cylinder ${cylinder.serial} holds only ${mass(cylinder.contentsG)} on record` });
         }
@@ -452,7 +568,8 @@ class JobRows implements RowProcessor {
       if (appliance && technician) {
         const key = [appliance.id, r.performedOn, r.kind, technician.id, r.recoveredG, r.chargedG].join("|");
         const earlier = this.seen.get(key);
-        if (onRecord.has(key)) issues.push({ field: null, message: "This job is already on record (same appliance, date, kind, technician and amount)" });
+        if (onRecord.has(key))
+          issues.push({ field: null, message: "This job is already on record (same appliance, date, kind, technician and amount)" });
         else if (earlier !== undefined) issues.push({ field: null, message: `Same job as row ${earlier} of this file` });
         else if (issues.length === 0) this.seen.set(key, p.item.rowNumber);
       }
@@ -468,7 +585,19 @@ class JobRows implements RowProcessor {
             cylinder.contentsG -= r.chargedG;
           }
         }
-        if (opts.write) await this.write(r, { applianceId: Number(appliance.id), applianceTag: String(appliance.tag), technicianId: technician.id, refrigerant: refrigerant!, cylinder, equipmentId }, summary);
+        if (opts.write)
+          await this.write(
+            r,
+            {
+              applianceId: Number(appliance.id),
+              applianceTag: String(appliance.tag),
+              technicianId: technician.id,
+              refrigerant: refrigerant!,
+              cylinder,
+              equipmentId,
+            },
+            summary,
+          );
       }
       out.push({ rowNumber: p.item.rowNumber, issues, summary });
     }
@@ -501,7 +630,14 @@ class JobRows implements RowProcessor {
 
   private async write(
     r: JobImportRecord,
-    refs: { applianceId: number; applianceTag: string; technicianId: number; refrigerant: string; cylinder: CylinderState | null; equipmentId: number | null },
+    refs: {
+      applianceId: number;
+      applianceTag: string;
+      technicianId: number;
+      refrigerant: string;
+      cylinder: CylinderState | null;
+      equipmentId: number | null;
+    },
     summary: string,
   ): Promise<void> {
     const { env, q } = this;
@@ -569,7 +705,11 @@ class JobRows implements RowProcessor {
       const wasEmpty = !current?.refrigerant || Number(current.contents_g) <= 0;
       await q("cylinders")
         .where({ id: refs.cylinder.id })
-        .update({ contents_g: q.raw("contents_g + ?", [r.recoveredG]), ...(wasEmpty ? { refrigerant: refs.refrigerant } : {}), updated_at: env.at });
+        .update({
+          contents_g: q.raw("contents_g + ?", [r.recoveredG]),
+          ...(wasEmpty ? { refrigerant: refs.refrigerant } : {}),
+          updated_at: env.at,
+        });
     }
     if (r.kind === "charge" && r.chargedG > 0) {
       if (refs.cylinder) {
@@ -586,7 +726,13 @@ class JobRows implements RowProcessor {
       if (!current?.disposed_on || current.disposed_on < r.performedOn) {
         await q("appliances")
           .where({ id: refs.applianceId })
-          .update({ status: "disposed", disposed_on: r.performedOn, retired_on: current?.retired_on ?? r.performedOn, awaiting_disposal_at_shop: false, updated_at: env.at });
+          .update({
+            status: "disposed",
+            disposed_on: r.performedOn,
+            retired_on: current?.retired_on ?? r.performedOn,
+            awaiting_disposal_at_shop: false,
+            updated_at: env.at,
+          });
       }
     }
     await appendActivity(q, {

@@ -18,8 +18,32 @@ import { jobCylinder, jobEquipment } from "./write-job";
 
 /** Which corrections make sense for which kind of job. */
 const FIELDS_BY_KIND: Record<JobKind, ReadonlyArray<keyof JobAmendmentInput["changes"]>> = {
-  recovery: ["performedOn", "amount", "amountUnit", "cylinderId", "equipmentId", "evacuationValue", "evacuationUnit", "accessMethod", "temporaryAccessRemoved", "compressorOperating", "notes"],
-  disposal: ["performedOn", "amount", "amountUnit", "cylinderId", "equipmentId", "evacuationValue", "evacuationUnit", "accessMethod", "temporaryAccessRemoved", "compressorOperating", "notes"],
+  recovery: [
+    "performedOn",
+    "amount",
+    "amountUnit",
+    "cylinderId",
+    "equipmentId",
+    "evacuationValue",
+    "evacuationUnit",
+    "accessMethod",
+    "temporaryAccessRemoved",
+    "compressorOperating",
+    "notes",
+  ],
+  disposal: [
+    "performedOn",
+    "amount",
+    "amountUnit",
+    "cylinderId",
+    "equipmentId",
+    "evacuationValue",
+    "evacuationUnit",
+    "accessMethod",
+    "temporaryAccessRemoved",
+    "compressorOperating",
+    "notes",
+  ],
   charge: ["performedOn", "amount", "amountUnit", "cylinderId", "additionExclusion", "accessMethod", "temporaryAccessRemoved", "notes"],
   leak_repair: ["performedOn", "leakLocation", "repairDescription", "shutdownNeeded", "accessMethod", "temporaryAccessRemoved", "notes"],
   verification_test: ["performedOn", "verificationStage", "verificationPassed", "verificationMethod", "notes"],
@@ -86,10 +110,7 @@ const SIGN: Record<string, number> = { recovered_into_cylinder: 1, charged_from_
  * record. A change of amount, cylinder or date replaces the job's movement (the old one is voided,
  * a new one written) and moves the cylinder contents with it, all in one transaction.
  */
-export async function amendJob(
-  db: Knex,
-  opts: { actor: ActorRef; id: number; input: JobAmendmentInput; now?: Date },
-): Promise<number> {
+export async function amendJob(db: Knex, opts: { actor: ActorRef; id: number; input: JobAmendmentInput; now?: Date }): Promise<number> {
   const { actor, input } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
@@ -99,7 +120,10 @@ export async function amendJob(
     const allowed = FIELDS_BY_KIND[kind];
     for (const [field, value] of Object.entries(c)) {
       if (value !== undefined && !allowed.includes(field as keyof typeof c)) {
-        throw new InvalidInputError(`A ${kind.replace("_", " ")} job has no ${field.replace(/[A-Z]/g, (x) => ` ${x.toLowerCase()}`)} to correct`, `changes.${field}`);
+        throw new InvalidInputError(
+          `A ${kind.replace("_", " ")} job has no ${field.replace(/[A-Z]/g, (x) => ` ${x.toLowerCase()}`)} to correct`,
+          `changes.${field}`,
+        );
       }
     }
     const mass = (g: number) => describeMass(g, job.mass_unit as MassDisplayUnit);
@@ -115,7 +139,8 @@ export async function amendJob(
     const evacUnit = c.evacuationUnit ?? job.evacuation_unit ?? undefined;
     if (evacValue !== undefined && evacUnit !== undefined) {
       if (evacUnit !== "psig" && evacValue < 0) throw new InvalidInputError("This unit cannot be negative", "changes.evacuationValue");
-      if (evacUnit === "in_hg_vacuum" && evacValue > 29.92) throw new InvalidInputError("A vacuum cannot be deeper than 29.92 in Hg", "changes.evacuationValue");
+      if (evacUnit === "in_hg_vacuum" && evacValue > 29.92)
+        throw new InvalidInputError("A vacuum cannot be deeper than 29.92 in Hg", "changes.evacuationValue");
     }
     // A temporary piercing device must be said to be removed or left.
     const access = (c.accessMethod !== undefined ? c.accessMethod : job.access_method) as AccessMethod | null;
@@ -134,15 +159,22 @@ export async function amendJob(
     const movements: Movement[] = await trx("refrigerant_movements").where({ job_id: job.id }).whereNull("voided_at").orderBy("id");
     if (c.cylinderId !== undefined) {
       if (kind === "charge" && !movements.some((m) => m.direction === "charged_from_cylinder")) {
-        throw new InvalidInputError("This charge came from stock, not from a cylinder; void it and log it again if that was wrong", "changes.cylinderId");
+        throw new InvalidInputError(
+          "This charge came from stock, not from a cylinder; void it and log it again if that was wrong",
+          "changes.cylinderId",
+        );
       }
       const cylinder = await jobCylinder(trx, actor.organisationId, Number(job.branch_id), c.cylinderId, "changes.cylinderId");
-      if (kind === "charge" && (!cylinder.refrigerant || normaliseDesignation(cylinder.refrigerant) !== normaliseDesignation(String(job.refrigerant)))) {
+      if (
+        kind === "charge" &&
+        (!cylinder.refrigerant || normaliseDesignation(cylinder.refrigerant) !== normaliseDesignation(String(job.refrigerant)))
+      ) {
         throw new RecordConflictError(`Cylinder ${cylinder.serial} does not hold ${job.refrigerant} on record`, "changes.cylinderId");
       }
       changes.cylinder_id = c.cylinderId;
     }
-    if (c.equipmentId !== undefined) await jobEquipment(trx, actor.organisationId, Number(job.branch_id), c.equipmentId, "changes.equipmentId");
+    if (c.equipmentId !== undefined)
+      await jobEquipment(trx, actor.organisationId, Number(job.branch_id), c.equipmentId, "changes.equipmentId");
 
     const words = Object.keys(changes)
       .filter((k) => String(storedLike(job[k], changes[k]) ?? "") !== String(changes[k] ?? ""))
@@ -160,7 +192,9 @@ export async function amendJob(
     });
 
     if (kind === "disposal" && changes.performed_on !== undefined) {
-      await trx("appliances").where({ id: job.appliance_id, status: "disposed" }).update({ disposed_on: changes.performed_on, updated_at: at });
+      await trx("appliances")
+        .where({ id: job.appliance_id, status: "disposed" })
+        .update({ disposed_on: changes.performed_on, updated_at: at });
     }
 
     // Replace the movement when what it says has changed, and move the cylinder contents with it.
@@ -173,24 +207,60 @@ export async function amendJob(
     if (existing.length === 0 && newGrams !== undefined && newGrams > 0 && (kind === "recovery" || kind === "disposal")) {
       // A recovery first recorded as nothing now moved refrigerant into its cylinder.
       const cylinderId = newCylinder ?? Number(job.cylinder_id);
-      await trx("refrigerant_movements").insert({ ...baseRow, cylinder_id: cylinderId, direction: "recovered_into_cylinder", refrigerant: jobRefrigerant, mass_g: newGrams, moved_on: newDate ?? job.performed_on });
-      await moveCylinderContents(trx, { cylinderId, deltaG: newGrams, refrigerant: jobRefrigerant, at, field: "changes.amount", describe: mass });
+      await trx("refrigerant_movements").insert({
+        ...baseRow,
+        cylinder_id: cylinderId,
+        direction: "recovered_into_cylinder",
+        refrigerant: jobRefrigerant,
+        mass_g: newGrams,
+        moved_on: newDate ?? job.performed_on,
+      });
+      await moveCylinderContents(trx, {
+        cylinderId,
+        deltaG: newGrams,
+        refrigerant: jobRefrigerant,
+        at,
+        field: "changes.amount",
+        describe: mass,
+      });
     }
     for (const m of existing) {
       const grams = newGrams ?? Number(m.mass_g);
       const cylinderId = m.cylinder_id === null ? null : (newCylinder ?? Number(m.cylinder_id));
       const movedOn = newDate ?? m.moved_on;
-      if (grams === Number(m.mass_g) && cylinderId === (m.cylinder_id === null ? null : Number(m.cylinder_id)) && movedOn === m.moved_on) continue;
+      if (grams === Number(m.mass_g) && cylinderId === (m.cylinder_id === null ? null : Number(m.cylinder_id)) && movedOn === m.moved_on)
+        continue;
       await trx("refrigerant_movements").where({ id: m.id }).update({ voided_at: at });
       if (grams > 0) {
-        await trx("refrigerant_movements").insert({ ...baseRow, cylinder_id: cylinderId, direction: m.direction, refrigerant: m.refrigerant, mass_g: grams, moved_on: movedOn });
+        await trx("refrigerant_movements").insert({
+          ...baseRow,
+          cylinder_id: cylinderId,
+          direction: m.direction,
+          refrigerant: m.refrigerant,
+          mass_g: grams,
+          moved_on: movedOn,
+        });
       }
       const sign = SIGN[m.direction];
       if (sign && m.cylinder_id !== null) {
         const field = newCylinder !== undefined && Number(m.cylinder_id) !== newCylinder ? "changes.cylinderId" : "changes.amount";
         // Take the old movement out of its cylinder, then put the new one into its cylinder.
-        await moveCylinderContents(trx, { cylinderId: Number(m.cylinder_id), deltaG: -sign * Number(m.mass_g), refrigerant: m.refrigerant, at, field, describe: mass });
-        await moveCylinderContents(trx, { cylinderId: cylinderId as number, deltaG: sign * grams, refrigerant: m.refrigerant, at, field, describe: mass });
+        await moveCylinderContents(trx, {
+          cylinderId: Number(m.cylinder_id),
+          deltaG: -sign * Number(m.mass_g),
+          refrigerant: m.refrigerant,
+          at,
+          field,
+          describe: mass,
+        });
+        await moveCylinderContents(trx, {
+          cylinderId: cylinderId as number,
+          deltaG: sign * grams,
+          refrigerant: m.refrigerant,
+          at,
+          field,
+          describe: mass,
+        });
       }
     }
     return amendmentId;
@@ -227,7 +297,14 @@ export async function voidJob(db: Knex, opts: { actor: ActorRef; id: number; rea
       await trx("refrigerant_movements").where({ id: m.id }).update({ voided_at: at });
       const sign = SIGN[m.direction];
       if (sign && m.cylinder_id !== null) {
-        await moveCylinderContents(trx, { cylinderId: Number(m.cylinder_id), deltaG: -sign * Number(m.mass_g), refrigerant: m.refrigerant, at, field: "reason", describe: mass });
+        await moveCylinderContents(trx, {
+          cylinderId: Number(m.cylinder_id),
+          deltaG: -sign * Number(m.mass_g),
+          refrigerant: m.refrigerant,
+          at,
+          field: "reason",
+          describe: mass,
+        });
       }
     }
     if (job.kind === "disposal" && job.appliance_status === "disposed") {
@@ -238,7 +315,8 @@ export async function voidJob(db: Knex, opts: { actor: ActorRef; id: number; rea
       let previous = "retired";
       try {
         const data = created?.data ? JSON.parse(created.data) : null;
-        if (data?.previousApplianceStatus === "in_service" || data?.previousApplianceStatus === "retired") previous = data.previousApplianceStatus;
+        if (data?.previousApplianceStatus === "in_service" || data?.previousApplianceStatus === "retired")
+          previous = data.previousApplianceStatus;
       } catch {
         // keep "retired"
       }

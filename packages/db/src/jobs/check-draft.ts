@@ -43,7 +43,8 @@ export async function checkJobDraftForActor(db: Knex, opts: { actor: ActorRef; d
   const equipment = draft.equipmentId !== undefined ? await ruleEquipment(db, actor.organisationId, draft.equipmentId) : undefined;
   const cylinder = draft.cylinderId !== undefined ? await ruleCylinder(db, actor.organisationId, draft.cylinderId) : undefined;
   // Registers of another branch are refused on save; the check does not judge them.
-  if (equipment && equipment.branchId !== branchId) throw new RecordConflictError("That recovery equipment belongs to another branch", "equipmentId");
+  if (equipment && equipment.branchId !== branchId)
+    throw new RecordConflictError("That recovery equipment belongs to another branch", "equipmentId");
   if (cylinder && cylinder.branchId !== branchId) throw new RecordConflictError("That cylinder belongs to another branch", "cylinderId");
 
   const grams = (amount: number | undefined, unit: string | null | undefined) =>
@@ -56,22 +57,37 @@ export async function checkJobDraftForActor(db: Knex, opts: { actor: ActorRef; d
       recoveredG: grams(draft.recoveredAmount, draft.recoveredUnit),
       chargedG: grams(draft.chargedAmount, draft.chargedUnit),
       chargeFromCylinder: draft.chargeSource === "cylinder",
-      evacuation: draft.evacuationValue !== undefined && draft.evacuationUnit ? { value: draft.evacuationValue, unit: draft.evacuationUnit } : null,
+      evacuation:
+        draft.evacuationValue !== undefined && draft.evacuationUnit ? { value: draft.evacuationValue, unit: draft.evacuationUnit } : null,
       accessMethod: draft.accessMethod ?? null,
       temporaryAccessRemoved: draft.temporaryAccessRemoved ?? null,
       compressorOperating: draft.compressorOperating ?? null,
       additionExclusion: toCoreExclusion(draft.additionExclusion),
     },
-    { branch, appliance, technician: technician ?? null, equipment: equipment ?? null, cylinder: cylinder ?? null, applianceJobs, settings },
+    {
+      branch,
+      appliance,
+      technician: technician ?? null,
+      equipment: equipment ?? null,
+      cylinder: cylinder ?? null,
+      applianceJobs,
+      settings,
+    },
   );
   return { ...result, branchId };
 }
 
 /** The leak rate a recorded charge gave, by the organisation's method (null for other kinds). */
-export async function leakRateOfJob(db: Knex, opts: { organisationId: number; jobId: number; applianceId: number; branchId: number }): Promise<LeakRateVerdict | null> {
+export async function leakRateOfJob(
+  db: Knex,
+  opts: { organisationId: number; jobId: number; applianceId: number; branchId: number },
+): Promise<LeakRateVerdict | null> {
   const found = await ruleAppliance(db, opts.organisationId, opts.applianceId);
   const branch = await ruleBranch(db, opts.organisationId, opts.branchId);
   if (!found || !branch) return null;
-  const [jobs, settings] = await Promise.all([ruleApplianceJobs(db, opts.organisationId, opts.applianceId), organisationSettings(db, opts.organisationId)]);
+  const [jobs, settings] = await Promise.all([
+    ruleApplianceJobs(db, opts.organisationId, opts.applianceId),
+    organisationSettings(db, opts.organisationId),
+  ]);
   return leakRateAtJob(found.appliance, jobs, opts.jobId, { timeZone: branch.timeZone, settings });
 }

@@ -1,14 +1,5 @@
 import type { Knex } from "knex";
-import type {
-  AdditionExclusion,
-  Appliance,
-  Branch,
-  Certification,
-  Cylinder,
-  Job,
-  RecoveryEquipment,
-  Technician,
-} from "@coldtrail/core";
+import type { AdditionExclusion, Appliance, Branch, Certification, Cylinder, Job, RecoveryEquipment, Technician } from "@coldtrail/core";
 import { toBool, toBoolOrNull, toNumOrNull } from "../types";
 
 /**
@@ -31,7 +22,11 @@ export async function ruleBranch(db: Db, organisationId: number, branchId: numbe
   return r ? { id: Number(r.id), name: r.name, timeZone: r.time_zone, massUnit: r.mass_unit } : undefined;
 }
 
-export async function ruleAppliance(db: Db, organisationId: number, applianceId: number): Promise<{ appliance: Appliance; branchId: number } | undefined> {
+export async function ruleAppliance(
+  db: Db,
+  organisationId: number,
+  applianceId: number,
+): Promise<{ appliance: Appliance; branchId: number } | undefined> {
   const r = await db("appliances as a")
     .join("sites as s", "s.id", "a.site_id")
     .where({ "a.id": applianceId, "a.organisation_id": organisationId })
@@ -72,7 +67,11 @@ export async function ruleTechnician(db: Db, organisationId: number, userId: num
   return { id: Number(user.id), name: user.name, certifications };
 }
 
-export async function ruleEquipment(db: Db, organisationId: number, equipmentId: number): Promise<(RecoveryEquipment & { branchId: number }) | undefined> {
+export async function ruleEquipment(
+  db: Db,
+  organisationId: number,
+  equipmentId: number,
+): Promise<(RecoveryEquipment & { branchId: number }) | undefined> {
   const r = await db("recovery_equipment").where({ id: equipmentId, organisation_id: organisationId }).first();
   if (!r) return undefined;
   return {
@@ -152,7 +151,10 @@ export async function ruleJobs(db: Db, where: (qb: Knex.QueryBuilder) => void): 
       equipmentId: toNumOrNull(r.equipment_id),
       refrigerant: r.refrigerant ?? null,
       movements: byJob.get(Number(r.id)) ?? [],
-      evacuation: r.evacuation_value === null || r.evacuation_value === undefined || !r.evacuation_unit ? null : { value: Number(r.evacuation_value), unit: r.evacuation_unit },
+      evacuation:
+        r.evacuation_value === null || r.evacuation_value === undefined || !r.evacuation_unit
+          ? null
+          : { value: Number(r.evacuation_value), unit: r.evacuation_unit },
       accessMethod: r.access_method ?? null,
       temporaryAccessRemoved: toBoolOrNull(r.temporary_access_removed),
       compressorOperating: toBoolOrNull(r.compressor_operating),

@@ -24,7 +24,12 @@ export interface ApplianceRow {
   awaitingAtShop: boolean;
 }
 
-export async function jobAppliance(trx: Knex.Transaction, organisationId: number, branchId: number, applianceId: number): Promise<ApplianceRow> {
+export async function jobAppliance(
+  trx: Knex.Transaction,
+  organisationId: number,
+  branchId: number,
+  applianceId: number,
+): Promise<ApplianceRow> {
   const a = await trx("appliances")
     .where({ id: applianceId, organisation_id: organisationId })
     .first("id", "branch_id", "tag", "status", "refrigerant", "full_charge_g", "category", "factory_sealed", "awaiting_disposal_at_shop");
@@ -44,23 +49,41 @@ export async function jobAppliance(trx: Knex.Transaction, organisationId: number
   };
 }
 
-export async function jobCylinder(trx: Knex.Transaction, organisationId: number, branchId: number, cylinderId: number, field = "cylinderId") {
+export async function jobCylinder(
+  trx: Knex.Transaction,
+  organisationId: number,
+  branchId: number,
+  cylinderId: number,
+  field = "cylinderId",
+) {
   const c = await trx("cylinders")
     .where({ id: cylinderId, organisation_id: organisationId })
     .first("id", "branch_id", "serial", "status", "unregistered", "refrigerant", "contents_g");
   if (!c) throw new RecordNotFoundError("That cylinder does not exist", field);
   if (Number(c.branch_id) !== branchId) throw new RecordConflictError("That cylinder belongs to another branch", field);
   if (c.status !== "in_service" || toBool(c.unregistered)) throw new RecordConflictError("That cylinder is not in service", field);
-  return { id: Number(c.id), serial: String(c.serial), refrigerant: (c.refrigerant as string | null) ?? null, contentsG: Number(c.contents_g) };
+  return {
+    id: Number(c.id),
+    serial: String(c.serial),
+    refrigerant: (c.refrigerant as string | null) ?? null,
+    contentsG: Number(c.contents_g),
+  };
 }
 
-export async function jobEquipment(trx: Knex.Transaction, organisationId: number, branchId: number, equipmentId: number, field = "equipmentId") {
+export async function jobEquipment(
+  trx: Knex.Transaction,
+  organisationId: number,
+  branchId: number,
+  equipmentId: number,
+  field = "equipmentId",
+) {
   const e = await trx("recovery_equipment")
     .where({ id: equipmentId, organisation_id: organisationId })
     .first("id", "branch_id", "serial", "status", "unregistered");
   if (!e) throw new RecordNotFoundError("That recovery equipment does not exist", field);
   if (Number(e.branch_id) !== branchId) throw new RecordConflictError("That recovery equipment belongs to another branch", field);
-  if (e.status !== "in_service" || toBool(e.unregistered)) throw new RecordConflictError("That recovery equipment is not in service", field);
+  if (e.status !== "in_service" || toBool(e.unregistered))
+    throw new RecordConflictError("That recovery equipment is not in service", field);
   return { id: Number(e.id), serial: String(e.serial) };
 }
 
@@ -145,7 +168,14 @@ export async function insertJob(
       // A refrigerant different from what the cylinder holds is not refused: the audit raises it.
       if (grams > 0) {
         await movement(jobId, "recovered_into_cylinder", cylinder.id, input.refrigerant, grams);
-        await moveCylinderContents(trx, { cylinderId: cylinder.id, deltaG: grams, refrigerant: input.refrigerant, at, field: "recoveredAmount", describe: mass });
+        await moveCylinderContents(trx, {
+          cylinderId: cylinder.id,
+          deltaG: grams,
+          refrigerant: input.refrigerant,
+          at,
+          field: "recoveredAmount",
+          describe: mass,
+        });
       }
       let previousStatus: string | null = null;
       if (input.kind === "disposal") {
@@ -176,15 +206,20 @@ export async function insertJob(
     }
 
     case "charge": {
-      if (appliance.status !== "in_service") throw new RecordConflictError("Refrigerant can only be added to an appliance in service", "applianceId");
+      if (appliance.status !== "in_service")
+        throw new RecordConflictError("Refrigerant can only be added to an appliance in service", "applianceId");
       const grams = toGrams(input.chargedAmount, input.chargedUnit);
       let cylinder: Awaited<ReturnType<typeof jobCylinder>> | null = null;
       if (input.chargeSource === "cylinder") {
         if (input.cylinderId === undefined) throw new InvalidInputError("Choose the cylinder it came from", "cylinderId");
         cylinder = await jobCylinder(trx, actor.organisationId, branch.id, input.cylinderId);
-        if (!cylinder.refrigerant || cylinder.contentsG <= 0) throw new RecordConflictError(`Cylinder ${cylinder.serial} is empty on record`, "cylinderId");
+        if (!cylinder.refrigerant || cylinder.contentsG <= 0)
+          throw new RecordConflictError(`Cylinder ${cylinder.serial} is empty on record`, "cylinderId");
         if (normaliseDesignation(cylinder.refrigerant) !== normaliseDesignation(input.refrigerant)) {
-          throw new RecordConflictError(`Cylinder ${cylinder.serial} holds ${cylinder.refrigerant}, not ${input.refrigerant}`, "cylinderId");
+          throw new RecordConflictError(
+            `Cylinder ${cylinder.serial} holds ${cylinder.refrigerant}, not ${input.refrigerant}`,
+            "cylinderId",
+          );
         }
       }
       const [row] = await trx("jobs")
@@ -202,17 +237,30 @@ export async function insertJob(
       const jobId = rowId(row);
       if (cylinder) {
         await movement(jobId, "charged_from_cylinder", cylinder.id, input.refrigerant, grams);
-        await moveCylinderContents(trx, { cylinderId: cylinder.id, deltaG: -grams, refrigerant: input.refrigerant, at, field: "chargedAmount", describe: mass });
+        await moveCylinderContents(trx, {
+          cylinderId: cylinder.id,
+          deltaG: -grams,
+          refrigerant: input.refrigerant,
+          at,
+          field: "chargedAmount",
+          describe: mass,
+        });
       } else {
         await movement(jobId, "charged_from_stock", null, input.refrigerant, grams);
       }
       const summary = `Charged ${mass(grams)} ${input.refrigerant} into ${appliance.tag}${cylinder ? ` from cylinder ${cylinder.serial}` : ""}`;
-      await activity(jobId, summary, { applianceId: appliance.id, cylinderId: cylinder?.id ?? null, grams, additionExclusion: input.additionExclusion ?? null });
+      await activity(jobId, summary, {
+        applianceId: appliance.id,
+        cylinderId: cylinder?.id ?? null,
+        grams,
+        additionExclusion: input.additionExclusion ?? null,
+      });
       return { id: jobId, summary };
     }
 
     case "leak_repair": {
-      if (appliance.status !== "in_service") throw new RecordConflictError("Leak repairs are logged on appliances in service", "applianceId");
+      if (appliance.status !== "in_service")
+        throw new RecordConflictError("Leak repairs are logged on appliances in service", "applianceId");
       const [row] = await trx("jobs")
         .insert({
           ...base,
@@ -231,7 +279,8 @@ export async function insertJob(
     }
 
     case "verification_test": {
-      if (appliance.status !== "in_service") throw new RecordConflictError("Verification tests are logged on appliances in service", "applianceId");
+      if (appliance.status !== "in_service")
+        throw new RecordConflictError("Verification tests are logged on appliances in service", "applianceId");
       let relatedJobId: number | null = null;
       if (input.relatedJobId !== undefined) {
         const repair = await trx("jobs")
@@ -246,7 +295,10 @@ export async function insertJob(
           .where({ organisation_id: actor.organisationId, appliance_id: appliance.id, kind: "leak_repair" })
           .where("performed_on", "<=", input.performedOn)
           .whereNull("voided_at")
-          .orderBy([{ column: "performed_on", order: "desc" }, { column: "id", order: "desc" }])
+          .orderBy([
+            { column: "performed_on", order: "desc" },
+            { column: "id", order: "desc" },
+          ])
           .first("id");
         relatedJobId = repair ? Number(repair.id) : null;
       }

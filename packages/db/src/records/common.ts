@@ -38,10 +38,19 @@ export interface WritableBranch {
 
 /** The branch a record goes into: in the actor's organisation and not archived. */
 export async function writableBranch(db: Db, organisationId: number, branchId: number): Promise<WritableBranch> {
-  const row = await db("branches").where({ id: branchId, organisation_id: organisationId }).first("id", "name", "code", "address", "time_zone", "mass_unit", "archived_at");
+  const row = await db("branches")
+    .where({ id: branchId, organisation_id: organisationId })
+    .first("id", "name", "code", "address", "time_zone", "mass_unit", "archived_at");
   if (!row) throw new RecordNotFoundError("That branch does not exist", "branchId");
   if (row.archived_at) throw new RecordConflictError("That branch is archived", "branchId");
-  return { id: Number(row.id), name: row.name, code: row.code, address: row.address ?? null, timeZone: row.time_zone, massUnit: row.mass_unit };
+  return {
+    id: Number(row.id),
+    name: row.name,
+    code: row.code,
+    address: row.address ?? null,
+    timeZone: row.time_zone,
+    massUnit: row.mass_unit,
+  };
 }
 
 /** The organisation's rule settings (leak-rate method, strict fill, requalification years …). */

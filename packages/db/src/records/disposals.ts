@@ -80,7 +80,9 @@ export async function listDisposals(db: Knex, opts: { scope: ScopeFn; query: Dis
     return qb;
   };
   const joined = () =>
-    db(`${table} as d`).join("appliances as appliance", "appliance.id", "d.appliance_id").join("branches as branch", "branch.id", "d.branch_id");
+    db(`${table} as d`)
+      .join("appliances as appliance", "appliance.id", "d.appliance_id")
+      .join("branches as branch", "branch.id", "d.branch_id");
   const total = await countRows(filtered(joined()));
   const page = query.page;
   const pageSize = query.pageSize;
@@ -262,7 +264,10 @@ export async function getDisposalStatement(db: Knex, opts: { scope: ScopeFn; id:
 }
 
 /** Where a statement's signed document is stored, for the download route (after its permission check). */
-export async function getStatementDocument(db: Knex, opts: { scope: ScopeFn; id: number }): Promise<{ key: string; mime: string } | undefined> {
+export async function getStatementDocument(
+  db: Knex,
+  opts: { scope: ScopeFn; id: number },
+): Promise<{ key: string; mime: string } | undefined> {
   const q = db("disposal_statements as d").where("d.id", opts.id).whereNotNull("d.document_file_key");
   scoped(q, opts.scope);
   const r = await q.first("d.document_file_key", "d.document_mime");
@@ -281,22 +286,36 @@ export async function getDisposalRef(
 }
 
 async function disposalAppliance(trx: Knex.Transaction, organisationId: number, applianceId: number) {
-  const a = await trx("appliances").where({ id: applianceId, organisation_id: organisationId }).first("id", "branch_id", "tag", "status", "refrigerant", "full_charge_g", "factory_sealed");
+  const a = await trx("appliances")
+    .where({ id: applianceId, organisation_id: organisationId })
+    .first("id", "branch_id", "tag", "status", "refrigerant", "full_charge_g", "factory_sealed");
   if (!a) throw new RecordNotFoundError("That appliance does not exist", "applianceId");
   return a;
 }
 
 /** The disposal job a record or statement documents: on the same appliance and not voided. */
-async function disposalJob(trx: Knex.Transaction, organisationId: number, applianceId: number, jobId: number | undefined): Promise<number | null> {
+async function disposalJob(
+  trx: Knex.Transaction,
+  organisationId: number,
+  applianceId: number,
+  jobId: number | undefined,
+): Promise<number | null> {
   if (jobId !== undefined) {
-    const job = await trx("jobs").where({ id: jobId, organisation_id: organisationId, appliance_id: applianceId }).whereIn("kind", ["disposal", "recovery"]).whereNull("voided_at").first("id");
+    const job = await trx("jobs")
+      .where({ id: jobId, organisation_id: organisationId, appliance_id: applianceId })
+      .whereIn("kind", ["disposal", "recovery"])
+      .whereNull("voided_at")
+      .first("id");
     if (!job) throw new RecordNotFoundError("That disposal job is not on record for this appliance", "jobId");
     return Number(job.id);
   }
   const latest = await trx("jobs")
     .where({ organisation_id: organisationId, appliance_id: applianceId, kind: "disposal" })
     .whereNull("voided_at")
-    .orderBy([{ column: "performed_on", order: "desc" }, { column: "id", order: "desc" }])
+    .orderBy([
+      { column: "performed_on", order: "desc" },
+      { column: "id", order: "desc" },
+    ])
     .first("id");
   return latest ? Number(latest.id) : null;
 }
@@ -316,7 +335,11 @@ export async function createDisposalRecord(db: Knex, opts: { actor: ActorRef; in
     const branch = await writableBranch(trx, actor.organisationId, Number(appliance.branch_id));
     requireDisposed(appliance);
     const existing = await trx("disposal_records").where({ appliance_id: appliance.id }).whereNull("voided_at").first("id");
-    if (existing) throw new RecordConflictError(`${appliance.tag} already has a disposal record (#${existing.id}); correct that one instead`, "applianceId");
+    if (existing)
+      throw new RecordConflictError(
+        `${appliance.tag} already has a disposal record (#${existing.id}); correct that one instead`,
+        "applianceId",
+      );
     const jobId = await disposalJob(trx, actor.organisationId, appliance.id, input.jobId);
     const grams = toGrams(input.recoveredAmount, input.recoveredUnit);
     const user = await trx("users").where({ id: actor.userId }).first("name");
@@ -369,7 +392,11 @@ export async function createDisposalStatement(
     const branch = await writableBranch(trx, actor.organisationId, Number(appliance.branch_id));
     requireDisposed(appliance);
     const existing = await trx("disposal_statements").where({ appliance_id: appliance.id }).whereNull("voided_at").first("id");
-    if (existing) throw new RecordConflictError(`${appliance.tag} already has a signed statement (#${existing.id}); correct that one instead`, "applianceId");
+    if (existing)
+      throw new RecordConflictError(
+        `${appliance.tag} already has a signed statement (#${existing.id}); correct that one instead`,
+        "applianceId",
+      );
     const jobId = await disposalJob(trx, actor.organisationId, appliance.id, input.jobId);
     const [row] = await trx("disposal_statements")
       .insert({
@@ -429,13 +456,20 @@ function columns(changes: Record<string, unknown>, map: Record<string, string>):
   return out;
 }
 
-export async function amendDisposalRecord(db: Knex, opts: { actor: ActorRef; id: number; input: DisposalRecordAmendmentInput; now?: Date }): Promise<number> {
+export async function amendDisposalRecord(
+  db: Knex,
+  opts: { actor: ActorRef; id: number; input: DisposalRecordAmendmentInput; now?: Date },
+): Promise<number> {
   const { actor, input } = opts;
   return db.transaction(async (trx) => {
-    const row = await trx("disposal_records as d").join("appliances as a", "a.id", "d.appliance_id").where({ "d.id": opts.id, "d.organisation_id": actor.organisationId }).first("a.tag");
+    const row = await trx("disposal_records as d")
+      .join("appliances as a", "a.id", "d.appliance_id")
+      .where({ "d.id": opts.id, "d.organisation_id": actor.organisationId })
+      .first("a.tag");
     if (!row) throw new RecordNotFoundError("No such disposal record");
     const changes = columns(input.changes, RECORD_COLUMNS);
-    if (input.changes.recoveredAmount !== undefined && input.changes.recoveredUnit) changes.recovered_g = toGrams(input.changes.recoveredAmount, input.changes.recoveredUnit);
+    if (input.changes.recoveredAmount !== undefined && input.changes.recoveredUnit)
+      changes.recovered_g = toGrams(input.changes.recoveredAmount, input.changes.recoveredUnit);
     return amendRecord(trx, {
       table: "disposal_records",
       subjectType: "DisposalRecord",
@@ -463,7 +497,10 @@ export async function amendDisposalStatement(
 ): Promise<number> {
   const { actor, input } = opts;
   return db.transaction(async (trx) => {
-    const row = await trx("disposal_statements as d").join("appliances as a", "a.id", "d.appliance_id").where({ "d.id": opts.id, "d.organisation_id": actor.organisationId }).first("a.tag", "d.recovered_on", "d.signed_on");
+    const row = await trx("disposal_statements as d")
+      .join("appliances as a", "a.id", "d.appliance_id")
+      .where({ "d.id": opts.id, "d.organisation_id": actor.organisationId })
+      .first("a.tag", "d.recovered_on", "d.signed_on");
     if (!row) throw new RecordNotFoundError("No such signed statement");
     const changes = columns(input.changes, STATEMENT_COLUMNS);
     if (opts.document) {
@@ -472,7 +509,8 @@ export async function amendDisposalStatement(
     }
     const recoveredOn = (changes.recovered_on as string | undefined) ?? row.recovered_on;
     const signedOn = (changes.signed_on as string | undefined) ?? row.signed_on;
-    if (signedOn && recoveredOn && signedOn < recoveredOn) throw new RecordConflictError("The statement is signed on or after the date of recovery", "changes.signedOn");
+    if (signedOn && recoveredOn && signedOn < recoveredOn)
+      throw new RecordConflictError("The statement is signed on or after the date of recovery", "changes.signedOn");
     return amendRecord(trx, {
       table: "disposal_statements",
       subjectType: "DisposalStatement",
@@ -481,16 +519,24 @@ export async function amendDisposalStatement(
       actorId: actor.userId,
       reason: input.reason,
       changes,
-      summary: opts.document ? `Attached the signed document to the statement of ${row.tag}` : `Corrected the signed statement of ${row.tag}`,
+      summary: opts.document
+        ? `Attached the signed document to the statement of ${row.tag}`
+        : `Corrected the signed statement of ${row.tag}`,
       at: (opts.now ?? new Date()).toISOString(),
     });
   });
 }
 
-export async function voidDisposal(db: Knex, opts: { actor: ActorRef; type: "record" | "statement"; id: number; reason: string; now?: Date }): Promise<void> {
+export async function voidDisposal(
+  db: Knex,
+  opts: { actor: ActorRef; type: "record" | "statement"; id: number; reason: string; now?: Date },
+): Promise<void> {
   const table = opts.type === "record" ? "disposal_records" : "disposal_statements";
   await db.transaction(async (trx) => {
-    const row = await trx(`${table} as d`).join("appliances as a", "a.id", "d.appliance_id").where({ "d.id": opts.id, "d.organisation_id": opts.actor.organisationId }).first("a.tag");
+    const row = await trx(`${table} as d`)
+      .join("appliances as a", "a.id", "d.appliance_id")
+      .where({ "d.id": opts.id, "d.organisation_id": opts.actor.organisationId })
+      .first("a.tag");
     if (!row) throw new RecordNotFoundError(opts.type === "record" ? "No such disposal record" : "No such signed statement");
     await voidRecord(trx, {
       table,
@@ -522,7 +568,10 @@ const FIFTY_LB_G = toGrams(50, "lb");
  * The monthly quantities a disposal log keeps for one branch and year. The caller checks that the
  * person may read the branch's disposals. `substr` exists in SQLite and PostgreSQL alike.
  */
-export async function monthlyDisposalTotals(db: Knex, opts: { organisationId: number; branchId: number; year: number }): Promise<MonthlyDisposalTotals> {
+export async function monthlyDisposalTotals(
+  db: Knex,
+  opts: { organisationId: number; branchId: number; year: number },
+): Promise<MonthlyDisposalTotals> {
   const branch = await db("branches").where({ id: opts.branchId, organisation_id: opts.organisationId }).first("id", "mass_unit");
   if (!branch) throw new RecordNotFoundError("That branch does not exist", "branchId");
   const from = `${opts.year}-01-01`;
@@ -536,7 +585,12 @@ export async function monthlyDisposalTotals(db: Knex, opts: { organisationId: nu
     .where("a.full_charge_g", "<", FIFTY_LB_G)
     .groupByRaw("substr(j.performed_on, 1, 7), j.refrigerant")
     .orderByRaw("substr(j.performed_on, 1, 7), j.refrigerant")
-    .select(db.raw("substr(j.performed_on, 1, 7) as month"), "j.refrigerant", db.raw("sum(j.recovered_g) as recovered_g"), db.raw("count(*) as appliances"));
+    .select(
+      db.raw("substr(j.performed_on, 1, 7) as month"),
+      "j.refrigerant",
+      db.raw("sum(j.recovered_g) as recovered_g"),
+      db.raw("count(*) as appliances"),
+    );
   const transfers = await db("reclaim_shipment_lines as l")
     .join("reclaim_shipments as s", "s.id", "l.shipment_id")
     .where({ "s.organisation_id": opts.organisationId, "s.branch_id": opts.branchId })
@@ -549,7 +603,12 @@ export async function monthlyDisposalTotals(db: Knex, opts: { organisationId: nu
     year: opts.year,
     branchId: opts.branchId,
     massUnit: branch.mass_unit,
-    recovered: recovered.map((r) => ({ month: String(r.month), refrigerant: r.refrigerant, recoveredG: Number(r.recovered_g), appliances: Number(r.appliances) })),
+    recovered: recovered.map((r) => ({
+      month: String(r.month),
+      refrigerant: r.refrigerant,
+      recoveredG: Number(r.recovered_g),
+      appliances: Number(r.appliances),
+    })),
     transfers: transfers.map((r) => ({
       shipmentId: Number(r.id),
       shippedOn: r.shipped_on,
@@ -655,10 +714,23 @@ export async function recordShopDisposals(
         .leftJoin("sites as s", "s.id", "a.site_id")
         .leftJoin("customers as c", "c.id", "s.customer_id")
         .where({ "a.id": item.applianceId, "a.organisation_id": actor.organisationId })
-        .first("a.id", "a.branch_id", "a.tag", "a.status", "a.refrigerant", "a.full_charge_g", "a.factory_sealed", "c.name as customer_name");
+        .first(
+          "a.id",
+          "a.branch_id",
+          "a.tag",
+          "a.status",
+          "a.refrigerant",
+          "a.full_charge_g",
+          "a.factory_sealed",
+          "c.name as customer_name",
+        );
       if (!a) throw new RecordNotFoundError("That appliance does not exist", field("applianceId"));
       if (Number(a.branch_id) !== branch.id) throw new RecordConflictError(`${a.tag} belongs to another branch`, field("applianceId"));
-      if (a.status !== "retired") throw new RecordConflictError(`${a.tag} is not waiting to be scrapped (status: ${String(a.status).replace("_", " ")})`, field("applianceId"));
+      if (a.status !== "retired")
+        throw new RecordConflictError(
+          `${a.tag} is not waiting to be scrapped (status: ${String(a.status).replace("_", " ")})`,
+          field("applianceId"),
+        );
       let job;
       try {
         job = await insertJob(trx, {
@@ -685,7 +757,8 @@ export async function recordShopDisposals(
         });
       } catch (err) {
         // Name the row whose amount overflowed a cylinder, rather than the whole batch.
-        if (err instanceof RecordConflictError && err.field === "recoveredAmount") throw new RecordConflictError(`${a.tag}: ${err.message}`, field("recoveredAmount"));
+        if (err instanceof RecordConflictError && err.field === "recoveredAmount")
+          throw new RecordConflictError(`${a.tag}: ${err.message}`, field("recoveredAmount"));
         throw err;
       }
       result.jobIds.push(job.id);

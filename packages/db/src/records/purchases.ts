@@ -79,7 +79,8 @@ function toRow(r: any): PurchaseRow {
   };
 }
 
-const joined = (db: Knex) => db("purchases as p").join("branches as branch", "branch.id", "p.branch_id").join("users as creator", "creator.id", "p.created_by");
+const joined = (db: Knex) =>
+  db("purchases as p").join("branches as branch", "branch.id", "p.branch_id").join("users as creator", "creator.id", "p.created_by");
 
 export async function listPurchases(db: Knex, opts: { scope: ScopeFn; query: PurchaseListQuery }): Promise<RecordPage<PurchaseRow>> {
   const { query } = opts;
@@ -110,10 +111,16 @@ export async function getPurchase(db: Knex, opts: { scope: ScopeFn; id: number }
   const r = await q.first(COLUMNS);
   if (!r) return undefined;
   const row = toRow(r);
-  return { ...row, amendments: await listAmendments(db, { organisationId: row.organisationId, subjectType: "Purchase", subjectId: row.id }) };
+  return {
+    ...row,
+    amendments: await listAmendments(db, { organisationId: row.organisationId, subjectType: "Purchase", subjectId: row.id }),
+  };
 }
 
-export async function getPurchaseRef(db: Knex, opts: { organisationId: number; id: number }): Promise<{ id: number; organisationId: number; branchId: number } | undefined> {
+export async function getPurchaseRef(
+  db: Knex,
+  opts: { organisationId: number; id: number },
+): Promise<{ id: number; organisationId: number; branchId: number } | undefined> {
   const r = await db("purchases").where({ id: opts.id, organisation_id: opts.organisationId }).first("id", "organisation_id", "branch_id");
   return r ? { id: Number(r.id), organisationId: Number(r.organisation_id), branchId: Number(r.branch_id) } : undefined;
 }
@@ -166,7 +173,10 @@ export async function createPurchase(db: Knex, opts: { actor: ActorRef; input: P
 }
 
 /** Corrects a purchase; a new quantity or date replaces its movement (the old one is voided). */
-export async function amendPurchase(db: Knex, opts: { actor: ActorRef; id: number; input: PurchaseAmendmentInput; now?: Date }): Promise<number> {
+export async function amendPurchase(
+  db: Knex,
+  opts: { actor: ActorRef; id: number; input: PurchaseAmendmentInput; now?: Date },
+): Promise<number> {
   const { actor, input } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
@@ -213,7 +223,9 @@ export async function amendPurchase(db: Knex, opts: { actor: ActorRef; id: numbe
 export async function voidPurchase(db: Knex, opts: { actor: ActorRef; id: number; reason: string; now?: Date }): Promise<void> {
   const at = (opts.now ?? new Date()).toISOString();
   await db.transaction(async (trx) => {
-    const p = await trx("purchases").where({ id: opts.id, organisation_id: opts.actor.organisationId }).first("id", "refrigerant", "supplier_name");
+    const p = await trx("purchases")
+      .where({ id: opts.id, organisation_id: opts.actor.organisationId })
+      .first("id", "refrigerant", "supplier_name");
     if (!p) throw new RecordNotFoundError("No such purchase");
     await voidRecord(trx, {
       table: "purchases",

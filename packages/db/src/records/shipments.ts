@@ -28,7 +28,12 @@ export interface ShipmentListRow {
   voidedAt: string | null;
 }
 
-const SORT: Record<ShipmentListQuery["sort"], string | null> = { date: "s.shipped_on", branch: "branch.name", reclaimer: "s.reclaimer_name", amount: null };
+const SORT: Record<ShipmentListQuery["sort"], string | null> = {
+  date: "s.shipped_on",
+  branch: "branch.name",
+  reclaimer: "s.reclaimer_name",
+  amount: null,
+};
 
 export async function listShipments(db: Knex, opts: { scope: ScopeFn; query: ShipmentListQuery }): Promise<RecordPage<ShipmentListRow>> {
   const { query } = opts;
@@ -62,7 +67,12 @@ export async function listShipments(db: Knex, opts: { scope: ScopeFn; query: Shi
   const rows: any[] = await rowsQuery.limit(query.pageSize).offset((query.page - 1) * query.pageSize);
   const ids = rows.map((r) => Number(r.id));
   // Ordered so each shipment's refrigerants come out in the same order on SQLite and PostgreSQL.
-  const lines = ids.length ? await db("reclaim_shipment_lines").whereIn("shipment_id", ids).orderBy("id").select("shipment_id", "refrigerant", "mass_g", "cylinder_id") : [];
+  const lines = ids.length
+    ? await db("reclaim_shipment_lines")
+        .whereIn("shipment_id", ids)
+        .orderBy("id")
+        .select("shipment_id", "refrigerant", "mass_g", "cylinder_id")
+    : [];
   return {
     total,
     page: query.page,
@@ -115,7 +125,11 @@ export async function getShipment(db: Knex, opts: { scope: ScopeFn; id: number }
   scoped(q, opts.scope);
   const r = await q.first("s.*", "branch.name as branch_name", "branch.mass_unit as branch_mass_unit", "creator.name as created_by_name");
   if (!r) return undefined;
-  const lines = await db("reclaim_shipment_lines as l").leftJoin("cylinders as c", "c.id", "l.cylinder_id").where("l.shipment_id", opts.id).orderBy("l.id").select("l.id", "l.cylinder_id", "c.serial", "l.refrigerant", "l.mass_g");
+  const lines = await db("reclaim_shipment_lines as l")
+    .leftJoin("cylinders as c", "c.id", "l.cylinder_id")
+    .where("l.shipment_id", opts.id)
+    .orderBy("l.id")
+    .select("l.id", "l.cylinder_id", "c.serial", "l.refrigerant", "l.mass_g");
   return {
     id: Number(r.id),
     organisationId: Number(r.organisation_id),
@@ -131,13 +145,24 @@ export async function getShipment(db: Knex, opts: { scope: ScopeFn; id: number }
     createdAt: r.created_at,
     voidedAt: r.voided_at ?? null,
     voidReason: r.void_reason ?? null,
-    lines: lines.map((l) => ({ id: Number(l.id), cylinderId: toNumOrNull(l.cylinder_id), cylinderSerial: l.serial ?? null, refrigerant: l.refrigerant, massG: Number(l.mass_g) })),
+    lines: lines.map((l) => ({
+      id: Number(l.id),
+      cylinderId: toNumOrNull(l.cylinder_id),
+      cylinderSerial: l.serial ?? null,
+      refrigerant: l.refrigerant,
+      massG: Number(l.mass_g),
+    })),
     amendments: await listAmendments(db, { organisationId: Number(r.organisation_id), subjectType: "ReclaimShipment", subjectId: opts.id }),
   };
 }
 
-export async function getShipmentRef(db: Knex, opts: { organisationId: number; id: number }): Promise<{ id: number; organisationId: number; branchId: number } | undefined> {
-  const r = await db("reclaim_shipments").where({ id: opts.id, organisation_id: opts.organisationId }).first("id", "organisation_id", "branch_id");
+export async function getShipmentRef(
+  db: Knex,
+  opts: { organisationId: number; id: number },
+): Promise<{ id: number; organisationId: number; branchId: number } | undefined> {
+  const r = await db("reclaim_shipments")
+    .where({ id: opts.id, organisation_id: opts.organisationId })
+    .first("id", "organisation_id", "branch_id");
   return r ? { id: Number(r.id), organisationId: Number(r.organisation_id), branchId: Number(r.branch_id) } : undefined;
 }
 
@@ -147,14 +172,19 @@ export async function createShipment(db: Knex, opts: { actor: ActorRef; input: R
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const branch = await writableBranch(trx, actor.organisationId, input.branchId);
-    const cylinders = await trx("cylinders").whereIn("id", input.cylinderIds).where({ organisation_id: actor.organisationId }).select("id", "branch_id", "serial", "refrigerant", "contents_g", "unregistered", "status");
+    const cylinders = await trx("cylinders")
+      .whereIn("id", input.cylinderIds)
+      .where({ organisation_id: actor.organisationId })
+      .select("id", "branch_id", "serial", "refrigerant", "contents_g", "unregistered", "status");
     const byId = new Map(cylinders.map((c) => [Number(c.id), c]));
     for (const id of input.cylinderIds) {
       const c = byId.get(id);
       if (!c) throw new RecordNotFoundError("That cylinder does not exist", "cylinderIds");
       if (Number(c.branch_id) !== branch.id) throw new RecordConflictError(`Cylinder ${c.serial} belongs to another branch`, "cylinderIds");
-      if (toBool(c.unregistered) || c.status === "retired") throw new RecordConflictError(`Cylinder ${c.serial} is not in service`, "cylinderIds");
-      if (Number(c.contents_g) <= 0 || !c.refrigerant) throw new RecordConflictError(`Cylinder ${c.serial} is empty on record`, "cylinderIds");
+      if (toBool(c.unregistered) || c.status === "retired")
+        throw new RecordConflictError(`Cylinder ${c.serial} is not in service`, "cylinderIds");
+      if (Number(c.contents_g) <= 0 || !c.refrigerant)
+        throw new RecordConflictError(`Cylinder ${c.serial} is empty on record`, "cylinderIds");
     }
     const [row] = await trx("reclaim_shipments")
       .insert({
@@ -175,7 +205,13 @@ export async function createShipment(db: Knex, opts: { actor: ActorRef; input: R
       const c = byId.get(cylinderId)!;
       const grams = Number(c.contents_g);
       total += grams;
-      await trx("reclaim_shipment_lines").insert({ organisation_id: actor.organisationId, shipment_id: id, cylinder_id: cylinderId, refrigerant: c.refrigerant, mass_g: grams });
+      await trx("reclaim_shipment_lines").insert({
+        organisation_id: actor.organisationId,
+        shipment_id: id,
+        cylinder_id: cylinderId,
+        refrigerant: c.refrigerant,
+        mass_g: grams,
+      });
       await trx("refrigerant_movements").insert({
         organisation_id: actor.organisationId,
         branch_id: branch.id,
@@ -187,7 +223,14 @@ export async function createShipment(db: Knex, opts: { actor: ActorRef; input: R
         moved_on: input.shippedOn,
         created_at: at,
       });
-      await moveCylinderContents(trx, { cylinderId, deltaG: -grams, refrigerant: c.refrigerant, at, field: "cylinderIds", describe: (g) => describeMass(g, branch.massUnit) });
+      await moveCylinderContents(trx, {
+        cylinderId,
+        deltaG: -grams,
+        refrigerant: c.refrigerant,
+        at,
+        field: "cylinderIds",
+        describe: (g) => describeMass(g, branch.massUnit),
+      });
     }
     const n = input.cylinderIds.length;
     await appendActivity(trx, {
@@ -205,7 +248,10 @@ export async function createShipment(db: Knex, opts: { actor: ActorRef; input: R
   });
 }
 
-export async function amendShipment(db: Knex, opts: { actor: ActorRef; id: number; input: ShipmentAmendmentInput; now?: Date }): Promise<number> {
+export async function amendShipment(
+  db: Knex,
+  opts: { actor: ActorRef; id: number; input: ShipmentAmendmentInput; now?: Date },
+): Promise<number> {
   const { actor, input } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
@@ -244,7 +290,10 @@ export async function voidShipment(db: Knex, opts: { actor: ActorRef; id: number
   const { actor } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   await db.transaction(async (trx) => {
-    const s = await trx("reclaim_shipments as s").join("branches as b", "b.id", "s.branch_id").where({ "s.id": opts.id, "s.organisation_id": actor.organisationId }).first("s.id", "s.reclaimer_name", "b.mass_unit");
+    const s = await trx("reclaim_shipments as s")
+      .join("branches as b", "b.id", "s.branch_id")
+      .where({ "s.id": opts.id, "s.organisation_id": actor.organisationId })
+      .first("s.id", "s.reclaimer_name", "b.mass_unit");
     if (!s) throw new RecordNotFoundError("No such shipment");
     await voidRecord(trx, {
       table: "reclaim_shipments",
@@ -260,11 +309,21 @@ export async function voidShipment(db: Knex, opts: { actor: ActorRef; id: number
     for (const m of movements) {
       const c = await trx("cylinders").where({ id: m.cylinder_id }).first("serial", "refrigerant", "contents_g");
       if (c && Number(c.contents_g) > 0 && c.refrigerant && c.refrigerant !== m.refrigerant) {
-        throw new RecordConflictError(`Cylinder ${c.serial} now holds ${c.refrigerant}; the ${m.refrigerant} shipped in it cannot be put back on record`, "reason");
+        throw new RecordConflictError(
+          `Cylinder ${c.serial} now holds ${c.refrigerant}; the ${m.refrigerant} shipped in it cannot be put back on record`,
+          "reason",
+        );
       }
       await trx("refrigerant_movements").where({ id: m.id }).update({ voided_at: at });
       if (m.cylinder_id !== null) {
-        await moveCylinderContents(trx, { cylinderId: Number(m.cylinder_id), deltaG: Number(m.mass_g), refrigerant: m.refrigerant, at, field: "reason", describe: (g) => describeMass(g, s.mass_unit) });
+        await moveCylinderContents(trx, {
+          cylinderId: Number(m.cylinder_id),
+          deltaG: Number(m.mass_g),
+          refrigerant: m.refrigerant,
+          at,
+          field: "reason",
+          describe: (g) => describeMass(g, s.mass_unit),
+        });
       }
     }
   });

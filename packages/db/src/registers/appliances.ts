@@ -184,7 +184,14 @@ export async function listAppliances(db: Knex, opts: { scope: ScopeFn; query: Ap
     if (query.category) qb.where("appliances.category", query.category);
     if (query.status) qb.where("appliances.status", query.status);
     if (query.refrigerant) qb.where("appliances.refrigerant", query.refrigerant);
-    if (query.q) whereContains(qb, query.q, ["appliances.tag", "appliances.description", "site.name", "coalesce(customer.name, '')", "coalesce(appliances.serial_number, '')"]);
+    if (query.q)
+      whereContains(qb, query.q, [
+        "appliances.tag",
+        "appliances.description",
+        "site.name",
+        "coalesce(customer.name, '')",
+        "coalesce(appliances.serial_number, '')",
+      ]);
     return qb;
   };
   const total = await countRows(filtered(appliancesWithJoins(db)));
@@ -222,7 +229,10 @@ export interface SiteOption {
 }
 
 /** Sites of one branch for the appliance form, by name. The scope sees the table as `sites`. */
-export async function listSiteOptions(db: Knex, opts: { scope: ScopeFn; branchId: number; q?: string; limit: number }): Promise<SiteOption[]> {
+export async function listSiteOptions(
+  db: Knex,
+  opts: { scope: ScopeFn; branchId: number; q?: string; limit: number },
+): Promise<SiteOption[]> {
   const qb = db("sites as sites")
     .leftJoin("customers as customer", "customer.id", "sites.customer_id")
     .where("sites.branch_id", opts.branchId)
@@ -250,15 +260,24 @@ export interface CustomerOption {
 }
 
 /** Customers of one branch for the appliance form, by name. The scope sees the table as `customers`. */
-export async function listCustomerOptions(db: Knex, opts: { scope: ScopeFn; branchId: number; q?: string; limit: number }): Promise<CustomerOption[]> {
+export async function listCustomerOptions(
+  db: Knex,
+  opts: { scope: ScopeFn; branchId: number; q?: string; limit: number },
+): Promise<CustomerOption[]> {
   const qb = db("customers as customers").where("customers.branch_id", opts.branchId).whereNull("customers.archived_at");
   applyScope(qb, opts.scope);
   if (opts.q) whereContains(qb, opts.q, ["customers.name"]);
-  const rows = await qb.orderBy([{ column: "customers.name" }, { column: "customers.id" }]).limit(opts.limit).select("customers.id", "customers.branch_id", "customers.name");
+  const rows = await qb
+    .orderBy([{ column: "customers.name" }, { column: "customers.id" }])
+    .limit(opts.limit)
+    .select("customers.id", "customers.branch_id", "customers.name");
   return rows.map((r) => ({ id: Number(r.id), branchId: Number(r.branch_id), name: r.name }));
 }
 
-type SiteFields = Pick<ApplianceInput, "siteChoice" | "siteId" | "newSiteName" | "newSiteAddress" | "customerChoice" | "customerId" | "newCustomerName">;
+type SiteFields = Pick<
+  ApplianceInput,
+  "siteChoice" | "siteId" | "newSiteName" | "newSiteAddress" | "customerChoice" | "customerId" | "newCustomerName"
+>;
 
 /** What an appliance form will add besides the appliance, for the caller's permission checks. */
 export function plannedSiteRecords(input: SiteFields): { site: boolean; customer: boolean } {
@@ -267,10 +286,15 @@ export function plannedSiteRecords(input: SiteFields): { site: boolean; customer
 }
 
 /** The existing site of the branch, or a new one (with an existing, a new or no customer). */
-async function resolveSite(trx: Knex.Transaction, opts: { actor: ActorRef; branch: RegisterBranch; input: SiteFields; at: string }): Promise<{ id: number; name: string }> {
+async function resolveSite(
+  trx: Knex.Transaction,
+  opts: { actor: ActorRef; branch: RegisterBranch; input: SiteFields; at: string },
+): Promise<{ id: number; name: string }> {
   const { actor, branch, input, at } = opts;
   if (input.siteChoice === "existing") {
-    const site = await trx("sites").where({ id: input.siteId, organisation_id: actor.organisationId }).first("id", "branch_id", "name", "archived_at");
+    const site = await trx("sites")
+      .where({ id: input.siteId, organisation_id: actor.organisationId })
+      .first("id", "branch_id", "name", "archived_at");
     if (!site) throw new RecordNotFoundError("That site does not exist", "siteId");
     if (Number(site.branch_id) !== branch.id) throw new RecordConflictError("That site belongs to another branch", "siteId");
     if (site.archived_at) throw new RecordConflictError("That site is archived", "siteId");
@@ -285,7 +309,9 @@ async function resolveSite(trx: Knex.Transaction, opts: { actor: ActorRef; branc
   } else if (input.customerChoice === "new") {
     const name = (input.newCustomerName ?? "").trim();
     if (!name) throw new InvalidInputError("Name the new customer", "newCustomerName");
-    const [c] = await trx("customers").insert({ organisation_id: actor.organisationId, branch_id: branch.id, name, created_at: at }).returning("id");
+    const [c] = await trx("customers")
+      .insert({ organisation_id: actor.organisationId, branch_id: branch.id, name, created_at: at })
+      .returning("id");
     customerId = rowId(c);
     await appendActivity(trx, {
       organisationId: actor.organisationId,
@@ -301,7 +327,14 @@ async function resolveSite(trx: Knex.Transaction, opts: { actor: ActorRef; branc
   const name = (input.newSiteName ?? "").trim();
   if (!name) throw new InvalidInputError("Name the new site", "newSiteName");
   const [s] = await trx("sites")
-    .insert({ organisation_id: actor.organisationId, branch_id: branch.id, customer_id: customerId, name, address: input.newSiteAddress ?? null, created_at: at })
+    .insert({
+      organisation_id: actor.organisationId,
+      branch_id: branch.id,
+      customer_id: customerId,
+      name,
+      address: input.newSiteAddress ?? null,
+      created_at: at,
+    })
     .returning("id");
   const siteId = rowId(s);
   await appendActivity(trx, {
@@ -422,7 +455,10 @@ export interface ApplianceUpdateResult {
  * or factory sealing are corrections of a regulated record: they need a reason and are kept as an
  * amendment with the previous values. Other changes are written with an activity row listing them.
  */
-export async function updateAppliance(db: Knex, opts: { actor: ActorRef; id: number; input: ApplianceUpdateInput; now?: Date }): Promise<ApplianceUpdateResult> {
+export async function updateAppliance(
+  db: Knex,
+  opts: { actor: ActorRef; id: number; input: ApplianceUpdateInput; now?: Date },
+): Promise<ApplianceUpdateResult> {
   const { actor, input } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   try {
@@ -430,7 +466,8 @@ export async function updateAppliance(db: Knex, opts: { actor: ActorRef; id: num
       const row = await trx("appliances").where({ id: opts.id, organisation_id: actor.organisationId }).first();
       if (!row) throw new RecordNotFoundError("No such appliance");
       const branch = await loadWritableBranch(trx, actor.organisationId, Number(row.branch_id));
-      if (input.tag.toLowerCase() !== String(row.tag).toLowerCase()) await refuseDuplicateTag(trx, actor.organisationId, input.tag, opts.id);
+      if (input.tag.toLowerCase() !== String(row.tag).toLowerCase())
+        await refuseDuplicateTag(trx, actor.organisationId, input.tag, opts.id);
       const site = await resolveSite(trx, { actor, branch, input, at });
       const { previous, next } = changedColumns(row, { ...applianceColumns(input), site_id: site.id });
       const changed = Object.keys(next);
@@ -439,7 +476,10 @@ export async function updateAppliance(db: Knex, opts: { actor: ActorRef; id: num
       const tag = input.tag;
       if (regulated.length > 0) {
         if (!input.reason || input.reason.trim().length < 3) {
-          throw new InvalidInputError(`Say why the ${describeColumns(regulated, APPLIANCE_COLUMN_WORDS)} ${regulated.length > 1 ? "are" : "is"} corrected; the previous values are kept`, "reason");
+          throw new InvalidInputError(
+            `Say why the ${describeColumns(regulated, APPLIANCE_COLUMN_WORDS)} ${regulated.length > 1 ? "are" : "is"} corrected; the previous values are kept`,
+            "reason",
+          );
         }
         const amendmentId = await amendRecord(trx, {
           table: "appliances",
@@ -479,15 +519,20 @@ export async function updateAppliance(db: Knex, opts: { actor: ActorRef; id: num
  * Puts an appliance in service, retires it or records it as disposed of, with the date and the
  * reason kept in its history (an amendment). Registers are never deleted; a status is changed.
  */
-export async function changeApplianceStatus(db: Knex, opts: { actor: ActorRef; id: number; input: ApplianceStatusInput; now?: Date }): Promise<number> {
+export async function changeApplianceStatus(
+  db: Knex,
+  opts: { actor: ActorRef; id: number; input: ApplianceStatusInput; now?: Date },
+): Promise<number> {
   const { actor, input } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const row = await trx("appliances").where({ id: opts.id, organisation_id: actor.organisationId }).first();
     if (!row) throw new RecordNotFoundError("No such appliance");
     await loadWritableBranch(trx, actor.organisationId, Number(row.branch_id));
-    if (row.status === input.status) throw new InvalidInputError(`The appliance is already ${REGISTER_LABELS.applianceStatus[input.status].toLowerCase()}`, "status");
-    if (row.installed_on && input.on < row.installed_on) throw new InvalidInputError(`The date is before the installation (${row.installed_on})`, "on");
+    if (row.status === input.status)
+      throw new InvalidInputError(`The appliance is already ${REGISTER_LABELS.applianceStatus[input.status].toLowerCase()}`, "status");
+    if (row.installed_on && input.on < row.installed_on)
+      throw new InvalidInputError(`The date is before the installation (${row.installed_on})`, "on");
     const changes: Record<string, unknown> = { status: input.status };
     if (input.status === "in_service") {
       changes.retired_on = null;
@@ -591,7 +636,13 @@ export async function listApplianceJobs(
   const byJob = new Map<number, ApplianceJobMovement[]>();
   for (const m of movements) {
     const list = byJob.get(Number(m.job_id)) ?? [];
-    list.push({ direction: m.direction, refrigerant: m.refrigerant, massG: Number(m.mass_g), cylinderId: toNumOrNull(m.cylinder_id), cylinderSerial: m.cylinder_serial ?? null });
+    list.push({
+      direction: m.direction,
+      refrigerant: m.refrigerant,
+      massG: Number(m.mass_g),
+      cylinderId: toNumOrNull(m.cylinder_id),
+      cylinderSerial: m.cylinder_serial ?? null,
+    });
     byJob.set(Number(m.job_id), list);
   }
   return {

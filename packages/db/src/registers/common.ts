@@ -1,5 +1,13 @@
 import type { Knex } from "knex";
-import { DEFAULT_SETTINGS, addDays, addYears, resolveSettings, toLocalDate, type AuditSettings, type MassDisplayUnit } from "@coldtrail/core";
+import {
+  DEFAULT_SETTINGS,
+  addDays,
+  addYears,
+  resolveSettings,
+  toLocalDate,
+  type AuditSettings,
+  type MassDisplayUnit,
+} from "@coldtrail/core";
 import { appendActivity } from "../activity";
 import { RecordConflictError, RecordNotFoundError } from "../errors";
 import { storedLike, type ScopeFn } from "../types";
@@ -30,7 +38,9 @@ export function applyScope(qb: Knex.QueryBuilder, scope: ScopeFn): void {
 
 /** The branch where a new record goes: it must be in the actor's organisation and not archived. */
 export async function loadWritableBranch(db: Knex | Knex.Transaction, organisationId: number, branchId: number): Promise<RegisterBranch> {
-  const row = await db("branches").where({ id: branchId, organisation_id: organisationId }).first("id", "name", "code", "time_zone", "mass_unit", "archived_at");
+  const row = await db("branches")
+    .where({ id: branchId, organisation_id: organisationId })
+    .first("id", "name", "code", "time_zone", "mass_unit", "archived_at");
   if (!row) throw new RecordNotFoundError("That branch does not exist", "branchId");
   if (row.archived_at) throw new RecordConflictError("That branch is archived", "branchId");
   return { id: Number(row.id), name: row.name, code: row.code, timeZone: row.time_zone, massUnit: row.mass_unit };
@@ -97,7 +107,10 @@ function sameValue(before: unknown, after: unknown): boolean {
 }
 
 /** The columns that changed, with their previous and next values. */
-export function changedColumns(row: Record<string, unknown>, next: Record<string, unknown>): { previous: Record<string, unknown>; next: Record<string, unknown> } {
+export function changedColumns(
+  row: Record<string, unknown>,
+  next: Record<string, unknown>,
+): { previous: Record<string, unknown>; next: Record<string, unknown> } {
   const prev: Record<string, unknown> = {};
   const nxt: Record<string, unknown> = {};
   for (const [column, value] of Object.entries(next)) {
@@ -126,7 +139,9 @@ export async function updateWithActivity(
     at: string;
   },
 ): Promise<void> {
-  await trx(opts.table).where({ id: opts.id, organisation_id: opts.organisationId }).update({ ...opts.next, updated_at: opts.at });
+  await trx(opts.table)
+    .where({ id: opts.id, organisation_id: opts.organisationId })
+    .update({ ...opts.next, updated_at: opts.at });
   await appendActivity(trx, {
     organisationId: opts.organisationId,
     actorId: opts.actorId,

@@ -122,13 +122,29 @@ function columns(db: Knex) {
 }
 
 /** Maximum fill by the rules core; a refrigerant without a catalogued density falls back to SG 1 (and says so). */
-export function cylinderFill(opts: { waterCapacityG: number; tareG: number; refrigerant: string | null; netG: number; strict130F: boolean }): CylinderFill | null {
+export function cylinderFill(opts: {
+  waterCapacityG: number;
+  tareG: number;
+  refrigerant: string | null;
+  netG: number;
+  strict130F: boolean;
+}): CylinderFill | null {
   if (!opts.refrigerant || !(opts.waterCapacityG > 0)) return null;
   let max: { maxNetG: number; maxGrossG: number; basis: FillBasis };
   try {
-    max = maxCylinderFill({ waterCapacityG: opts.waterCapacityG, tareG: opts.tareG, refrigerant: opts.refrigerant, strict130F: opts.strict130F });
+    max = maxCylinderFill({
+      waterCapacityG: opts.waterCapacityG,
+      tareG: opts.tareG,
+      refrigerant: opts.refrigerant,
+      strict130F: opts.strict130F,
+    });
   } catch {
-    const fallback = maxCylinderFill({ waterCapacityG: opts.waterCapacityG, tareG: opts.tareG, refrigerant: opts.refrigerant, specificGravity: 1 });
+    const fallback = maxCylinderFill({
+      waterCapacityG: opts.waterCapacityG,
+      tareG: opts.tareG,
+      refrigerant: opts.refrigerant,
+      specificGravity: 1,
+    });
     max = { ...fallback, basis: "legacy_sg_1" };
   }
   return {
@@ -162,7 +178,13 @@ function weighingIsLatest(weighing: CylinderWeighingSummary | null, movement: La
 }
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
-function toRow(r: any, weighing: CylinderWeighingSummary | null, movement: LastMovement | null, settings: AuditSettings, now: Date): CylinderRow {
+function toRow(
+  r: any,
+  weighing: CylinderWeighingSummary | null,
+  movement: LastMovement | null,
+  settings: AuditSettings,
+  now: Date,
+): CylinderRow {
   const recordedContentsG = Number(r.contents_g);
   const lastMovementOn: string | null = movement?.movedOn ?? null;
   const useWeighing = weighingIsLatest(weighing, movement);
@@ -204,9 +226,18 @@ function toRow(r: any, weighing: CylinderWeighingSummary | null, movement: LastM
 async function latestWeighings(db: Knex, ids: number[]): Promise<Map<number, CylinderWeighingSummary>> {
   const map = new Map<number, CylinderWeighingSummary>();
   if (ids.length === 0) return map;
-  const rows = await db("cylinder_weighings").whereIn("id", ids).select("id", "weighed_on", "gross_g", "net_g", "refrigerant", "created_at");
+  const rows = await db("cylinder_weighings")
+    .whereIn("id", ids)
+    .select("id", "weighed_on", "gross_g", "net_g", "refrigerant", "created_at");
   for (const w of rows) {
-    map.set(Number(w.id), { id: Number(w.id), on: w.weighed_on, createdAt: w.created_at, grossG: Number(w.gross_g), netG: Number(w.net_g), refrigerant: w.refrigerant ?? null });
+    map.set(Number(w.id), {
+      id: Number(w.id),
+      on: w.weighed_on,
+      createdAt: w.created_at,
+      grossG: Number(w.gross_g),
+      netG: Number(w.net_g),
+      refrigerant: w.refrigerant ?? null,
+    });
   }
   return map;
 }
@@ -224,9 +255,15 @@ async function latestMovements(db: Knex, ids: number[]): Promise<Map<number, Las
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 async function latestOf(db: Knex, rows: any[]) {
   const ids = (key: string) => rows.map((r) => toNumOrNull(r[key])).filter((x): x is number => x !== null);
-  const [weighings, movements] = await Promise.all([latestWeighings(db, ids("last_weighing_id")), latestMovements(db, ids("last_movement_id"))]);
+  const [weighings, movements] = await Promise.all([
+    latestWeighings(db, ids("last_weighing_id")),
+    latestMovements(db, ids("last_movement_id")),
+  ]);
   // eslint-disable-next-line @typescript-eslint/no-explicit-any
-  return (r: any) => ({ weighing: weighings.get(Number(r.last_weighing_id)) ?? null, movement: movements.get(Number(r.last_movement_id)) ?? null });
+  return (r: any) => ({
+    weighing: weighings.get(Number(r.last_weighing_id)) ?? null,
+    movement: movements.get(Number(r.last_movement_id)) ?? null,
+  });
 }
 
 const SORT_COLUMNS: Record<CylinderListQuery["sort"], string> = {
@@ -277,7 +314,8 @@ export async function listCylinders(
           any.orWhere((w) => {
             w.where("cylinders.branch_id", Number(b.id)).whereNotNull("cylinders.last_requalified_on");
             if (filter === "overdue") w.where("cylinders.last_requalified_on", "<=", overdueUpTo);
-            if (filter === "due_soon") w.where("cylinders.last_requalified_on", ">", overdueUpTo).where("cylinders.last_requalified_on", "<=", soonUpTo);
+            if (filter === "due_soon")
+              w.where("cylinders.last_requalified_on", ">", overdueUpTo).where("cylinders.last_requalified_on", "<=", soonUpTo);
             if (filter === "current") w.where("cylinders.last_requalified_on", ">", soonUpTo);
           });
         }
@@ -353,7 +391,16 @@ export async function createCylinder(db: Knex, opts: { actor: ActorRef; input: C
       await refuseDuplicateSerial(trx, actor.organisationId, input.serial);
       const cols = columnsOf(input);
       const [row] = await trx("cylinders")
-        .insert({ organisation_id: actor.organisationId, branch_id: branch.id, ...cols, refrigerant: null, contents_g: 0, unregistered: false, created_at: at, updated_at: at })
+        .insert({
+          organisation_id: actor.organisationId,
+          branch_id: branch.id,
+          ...cols,
+          refrigerant: null,
+          contents_g: 0,
+          unregistered: false,
+          created_at: at,
+          updated_at: at,
+        })
         .returning("id");
       const id = rowId(row);
       await appendActivity(trx, {
@@ -404,16 +451,22 @@ export async function updateCylinder(
       const row = await trx("cylinders").where({ id: opts.id, organisation_id: actor.organisationId }).first();
       if (!row) throw new RecordNotFoundError("No such cylinder");
       const branch = await loadWritableBranch(trx, actor.organisationId, Number(row.branch_id));
-      if (input.serial.toLowerCase() !== String(row.serial).toLowerCase()) await refuseDuplicateSerial(trx, actor.organisationId, input.serial, opts.id);
+      if (input.serial.toLowerCase() !== String(row.serial).toLowerCase())
+        await refuseDuplicateSerial(trx, actor.organisationId, input.serial, opts.id);
       const { previous, next } = changedColumns(row, columnsOf(input));
       const changed = Object.keys(next);
       if (changed.length === 0) throw new InvalidInputError("Nothing was changed", "serial");
       const regulated = changed.filter((c) => (CYLINDER_REGULATED_COLUMNS as readonly string[]).includes(c));
       const statusWords =
-        "status" in next ? `: ${REGISTER_LABELS.cylinderStatus[previous.status as CylinderStatus] ?? previous.status} → ${REGISTER_LABELS.cylinderStatus[next.status as CylinderStatus]}` : "";
+        "status" in next
+          ? `: ${REGISTER_LABELS.cylinderStatus[previous.status as CylinderStatus] ?? previous.status} → ${REGISTER_LABELS.cylinderStatus[next.status as CylinderStatus]}`
+          : "";
       if (regulated.length > 0) {
         if (!input.reason || input.reason.trim().length < 3) {
-          throw new InvalidInputError(`Say why the ${describeColumns(regulated, WORDS)} ${regulated.length > 1 ? "are" : "is"} corrected; the previous values are kept`, "reason");
+          throw new InvalidInputError(
+            `Say why the ${describeColumns(regulated, WORDS)} ${regulated.length > 1 ? "are" : "is"} corrected; the previous values are kept`,
+            "reason",
+          );
         }
         const amendmentId = await amendRecord(trx, {
           table: "cylinders",
@@ -471,7 +524,10 @@ export interface CylinderWeighingRow {
 }
 
 /** A cylinder's weighings, newest first, voided ones included (marked). */
-export async function listCylinderWeighings(db: Knex, opts: { cylinderId: number; query: RegisterHistoryQuery }): Promise<RegisterPage<CylinderWeighingRow>> {
+export async function listCylinderWeighings(
+  db: Knex,
+  opts: { cylinderId: number; query: RegisterHistoryQuery },
+): Promise<RegisterPage<CylinderWeighingRow>> {
   const page = opts.query.page ?? 1;
   const pageSize = opts.query.pageSize ?? 10;
   const dir = opts.query.dir === "asc" ? "asc" : "desc";
@@ -511,7 +567,11 @@ export async function listCylinderWeighings(db: Knex, opts: { cylinderId: number
   };
 }
 
-function weighingColumns(input: CylinderWeighingInput, cylinder: { tare_g: number; refrigerant: string | null }, massUnit: MassDisplayUnit) {
+function weighingColumns(
+  input: CylinderWeighingInput,
+  cylinder: { tare_g: number; refrigerant: string | null },
+  massUnit: MassDisplayUnit,
+) {
   const grossG = toGrams(input.grossAmount, input.grossUnit);
   const tareG = Number(cylinder.tare_g);
   if (grossG < tareG) {
@@ -524,7 +584,11 @@ function weighingColumns(input: CylinderWeighingInput, cylinder: { tare_g: numbe
   const refrigerant = input.refrigerant ?? cylinder.refrigerant ?? null;
   if (netG > 0 && !refrigerant) throw new InvalidInputError("Say which refrigerant the cylinder holds", "refrigerant");
   const temperatureC =
-    input.temperatureValue === undefined ? null : input.temperatureUnit === "C" ? input.temperatureValue : Math.round(fahrenheitToCelsius(input.temperatureValue) * 100) / 100;
+    input.temperatureValue === undefined
+      ? null
+      : input.temperatureUnit === "C"
+        ? input.temperatureValue
+        : Math.round(fahrenheitToCelsius(input.temperatureValue) * 100) / 100;
   return {
     weighed_on: input.weighedOn,
     gross_g: grossG,
@@ -537,7 +601,9 @@ function weighingColumns(input: CylinderWeighingInput, cylinder: { tare_g: numbe
 }
 
 async function loadCylinderForWrite(trx: Knex.Transaction, organisationId: number, cylinderId: number) {
-  const cylinder = await trx("cylinders").where({ id: cylinderId, organisation_id: organisationId }).first("id", "branch_id", "serial", "tare_g", "refrigerant", "water_capacity_g");
+  const cylinder = await trx("cylinders")
+    .where({ id: cylinderId, organisation_id: organisationId })
+    .first("id", "branch_id", "serial", "tare_g", "refrigerant", "water_capacity_g");
   if (!cylinder) throw new RecordNotFoundError("No such cylinder");
   const branch = await loadWritableBranch(trx, organisationId, Number(cylinder.branch_id));
   return { cylinder, branch };
@@ -558,7 +624,15 @@ export async function recordCylinderWeighing(
     const { cylinder, branch } = await loadCylinderForWrite(trx, actor.organisationId, opts.cylinderId);
     const cols = weighingColumns(input, cylinder, branch.massUnit);
     const [row] = await trx("cylinder_weighings")
-      .insert({ organisation_id: actor.organisationId, branch_id: branch.id, cylinder_id: opts.cylinderId, job_id: null, weighed_by: actor.userId, created_at: at, ...cols })
+      .insert({
+        organisation_id: actor.organisationId,
+        branch_id: branch.id,
+        cylinder_id: opts.cylinderId,
+        job_id: null,
+        weighed_by: actor.userId,
+        created_at: at,
+        ...cols,
+      })
       .returning("id");
     const id = rowId(row);
     await appendActivity(trx, {
@@ -577,7 +651,9 @@ export async function recordCylinderWeighing(
 }
 
 async function loadWeighing(trx: Knex.Transaction, organisationId: number, cylinderId: number, weighingId: number) {
-  const w = await trx("cylinder_weighings").where({ id: weighingId, organisation_id: organisationId, cylinder_id: cylinderId }).first("id", "voided_at", "refrigerant");
+  const w = await trx("cylinder_weighings")
+    .where({ id: weighingId, organisation_id: organisationId, cylinder_id: cylinderId })
+    .first("id", "voided_at", "refrigerant");
   if (!w) throw new RecordNotFoundError("No such weighing of this cylinder");
   return w;
 }
@@ -659,7 +735,11 @@ export async function listCylinderMovements(
   const page = opts.query.page ?? 1;
   const pageSize = opts.query.pageSize ?? 10;
   const dir = opts.query.dir === "asc" ? "asc" : "desc";
-  const countRow = await db("refrigerant_movements").where({ cylinder_id: opts.cylinderId }).whereNull("voided_at").count({ n: "*" }).first();
+  const countRow = await db("refrigerant_movements")
+    .where({ cylinder_id: opts.cylinderId })
+    .whereNull("voided_at")
+    .count({ n: "*" })
+    .first();
   const rows = await db("refrigerant_movements as mv")
     .leftJoin("jobs as jobs", "jobs.id", "mv.job_id")
     .leftJoin("appliances as appliance", "appliance.id", "jobs.appliance_id")
@@ -670,7 +750,18 @@ export async function listCylinderMovements(
     .orderBy("mv.id", dir)
     .limit(pageSize)
     .offset((page - 1) * pageSize)
-    .select("mv.id", "mv.moved_on", "mv.direction", "mv.refrigerant", "mv.mass_g", "mv.job_id", "jobs.kind as job_kind", "appliance.tag as appliance_tag", "mv.reclaim_shipment_id", "shipment.reclaimer_name");
+    .select(
+      "mv.id",
+      "mv.moved_on",
+      "mv.direction",
+      "mv.refrigerant",
+      "mv.mass_g",
+      "mv.job_id",
+      "jobs.kind as job_kind",
+      "appliance.tag as appliance_tag",
+      "mv.reclaim_shipment_id",
+      "shipment.reclaimer_name",
+    );
   const jobIds = rows.map((r) => toNumOrNull(r.job_id)).filter((x): x is number => x !== null);
   const readable = new Set<number>();
   if (jobIds.length) {
@@ -721,10 +812,15 @@ export async function listCylinderAmendments(db: Knex, opts: { organisationId: n
       w
         .where((c) => c.where("a.subject_type", "Cylinder").where("a.subject_id", opts.cylinderId))
         .orWhere((c) =>
-          c.where("a.subject_type", "CylinderWeighing").whereIn("a.subject_id", db("cylinder_weighings").where({ cylinder_id: opts.cylinderId }).select("id")),
+          c
+            .where("a.subject_type", "CylinderWeighing")
+            .whereIn("a.subject_id", db("cylinder_weighings").where({ cylinder_id: opts.cylinderId }).select("id")),
         ),
     )
-    .orderBy([{ column: "a.at", order: "desc" }, { column: "a.id", order: "desc" }])
+    .orderBy([
+      { column: "a.at", order: "desc" },
+      { column: "a.id", order: "desc" },
+    ])
     .limit(200)
     .select("a.id", "a.subject_type", "a.subject_id", "u.name as actor_name", "a.at", "a.reason", "a.previous", "a.next");
   return rows.map((r) => ({
@@ -759,11 +855,16 @@ export async function listRegisterActivity(
       w.where((c) => c.where("a.subject_type", opts.subjectType).where("a.subject_id", opts.subjectId));
       if (opts.subjectType === "Cylinder") {
         w.orWhere((c) =>
-          c.where("a.subject_type", "CylinderWeighing").whereIn("a.subject_id", db("cylinder_weighings").where({ cylinder_id: opts.subjectId }).select("id")),
+          c
+            .where("a.subject_type", "CylinderWeighing")
+            .whereIn("a.subject_id", db("cylinder_weighings").where({ cylinder_id: opts.subjectId }).select("id")),
         );
       }
     })
-    .orderBy([{ column: "a.at", order: "desc" }, { column: "a.id", order: "desc" }])
+    .orderBy([
+      { column: "a.at", order: "desc" },
+      { column: "a.id", order: "desc" },
+    ])
     .limit(opts.limit ?? 50)
     .select("a.id", "a.at", "a.action", "u.name as actor_name", "a.summary");
   return (await qb).map((r) => ({ id: Number(r.id), at: r.at, action: r.action, actorName: r.actor_name ?? null, summary: r.summary }));

@@ -14,7 +14,15 @@ import { appendActivity, rowId } from "../activity";
 import { amendRecord } from "../amendments";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { toBool, type ActorRef, type ScopeFn } from "../types";
-import { applyScope, changedColumns, describeColumns, isUniqueViolation, loadWritableBranch, updateWithActivity, type RegisterPage } from "./common";
+import {
+  applyScope,
+  changedColumns,
+  describeColumns,
+  isUniqueViolation,
+  loadWritableBranch,
+  updateWithActivity,
+  type RegisterPage,
+} from "./common";
 import { countRows, sortedPage, whereContains } from "../paging";
 
 export interface EquipmentRow {
@@ -162,7 +170,14 @@ export async function createEquipment(db: Knex, opts: { actor: ActorRef; input: 
       const branch = await loadWritableBranch(trx, actor.organisationId, input.branchId);
       await refuseDuplicateSerial(trx, actor.organisationId, input.serial);
       const [row] = await trx("recovery_equipment")
-        .insert({ organisation_id: actor.organisationId, branch_id: branch.id, ...columnsOf(input), unregistered: false, created_at: at, updated_at: at })
+        .insert({
+          organisation_id: actor.organisationId,
+          branch_id: branch.id,
+          ...columnsOf(input),
+          unregistered: false,
+          created_at: at,
+          updated_at: at,
+        })
         .returning("id");
       const id = rowId(row);
       await appendActivity(trx, {
@@ -178,7 +193,8 @@ export async function createEquipment(db: Knex, opts: { actor: ActorRef; input: 
       return id;
     });
   } catch (err) {
-    if (isUniqueViolation(err)) throw new RecordConflictError(`Recovery equipment with serial ${input.serial} is already registered`, "serial");
+    if (isUniqueViolation(err))
+      throw new RecordConflictError(`Recovery equipment with serial ${input.serial} is already registered`, "serial");
     throw err;
   }
 }
@@ -212,14 +228,18 @@ export async function updateEquipment(
       const row = await trx("recovery_equipment").where({ id: opts.id, organisation_id: actor.organisationId }).first();
       if (!row) throw new RecordNotFoundError("No such recovery equipment");
       const branch = await loadWritableBranch(trx, actor.organisationId, Number(row.branch_id));
-      if (input.serial.toLowerCase() !== String(row.serial).toLowerCase()) await refuseDuplicateSerial(trx, actor.organisationId, input.serial, opts.id);
+      if (input.serial.toLowerCase() !== String(row.serial).toLowerCase())
+        await refuseDuplicateSerial(trx, actor.organisationId, input.serial, opts.id);
       const { previous, next } = changedColumns(row, columnsOf(input));
       const changed = Object.keys(next);
       if (changed.length === 0) throw new InvalidInputError("Nothing was changed", "serial");
       const regulated = changed.filter((c) => (EQUIPMENT_REGULATED_COLUMNS as readonly string[]).includes(c));
       if (regulated.length > 0) {
         if (!input.reason || input.reason.trim().length < 3) {
-          throw new InvalidInputError(`Say why the ${describeColumns(regulated, WORDS)} ${regulated.length > 1 ? "are" : "is"} changed; the previous values are kept`, "reason");
+          throw new InvalidInputError(
+            `Say why the ${describeColumns(regulated, WORDS)} ${regulated.length > 1 ? "are" : "is"} changed; the previous values are kept`,
+            "reason",
+          );
         }
         const amendmentId = await amendRecord(trx, {
           table: "recovery_equipment",
@@ -250,7 +270,8 @@ export async function updateEquipment(
       return { amendmentId: null, changed };
     });
   } catch (err) {
-    if (isUniqueViolation(err)) throw new RecordConflictError(`Recovery equipment with serial ${input.serial} is already registered`, "serial");
+    if (isUniqueViolation(err))
+      throw new RecordConflictError(`Recovery equipment with serial ${input.serial} is already registered`, "serial");
     throw err;
   }
 }
@@ -266,7 +287,9 @@ export async function attachEquipmentEvidence(
   const { actor } = opts;
   const at = (opts.now ?? new Date()).toISOString();
   await db.transaction(async (trx) => {
-    const row = await trx("recovery_equipment").where({ id: opts.id, organisation_id: actor.organisationId }).first("id", "branch_id", "serial", "evidence_file_key");
+    const row = await trx("recovery_equipment")
+      .where({ id: opts.id, organisation_id: actor.organisationId })
+      .first("id", "branch_id", "serial", "evidence_file_key");
     if (!row) throw new RecordNotFoundError("No such recovery equipment");
     await loadWritableBranch(trx, actor.organisationId, Number(row.branch_id));
     await trx("recovery_equipment").where({ id: opts.id }).update({ evidence_file_key: opts.fileKey, updated_at: at });

@@ -21,7 +21,13 @@ export {
   type SiteOption,
   type CustomerOption,
 } from "./appliances";
-export { reviewApplianceLeaks, type ApplianceLeakReview, type LeakChartEvent, type OpenLeakDeadline, type LeakDeadlineKind } from "./leak-review";
+export {
+  reviewApplianceLeaks,
+  type ApplianceLeakReview,
+  type LeakChartEvent,
+  type OpenLeakDeadline,
+  type LeakDeadlineKind,
+} from "./leak-review";
 export {
   listEquipment,
   getEquipment,

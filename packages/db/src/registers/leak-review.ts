@@ -51,7 +51,12 @@ export interface ApplianceLeakReview {
   deadlines: OpenLeakDeadline[];
 }
 
-const EXCLUSION: Record<string, AdditionExclusion> = { retrofit: "retrofit", installation: "installation", seasonal: "seasonal_variance", seasonal_variance: "seasonal_variance" };
+const EXCLUSION: Record<string, AdditionExclusion> = {
+  retrofit: "retrofit",
+  installation: "installation",
+  seasonal: "seasonal_variance",
+  seasonal_variance: "seasonal_variance",
+};
 const CHARGED = new Set(["charged_from_cylinder", "charged_from_stock"]);
 const CITATION: Record<LeakRegime, string> = {
   us_608_ods: "40 CFR 82.157",
@@ -85,10 +90,25 @@ export async function reviewApplianceLeaks(
     .where({ appliance_id: opts.applianceId, organisation_id: opts.organisationId })
     .whereNull("voided_at")
     .orderBy([{ column: "performed_on" }, { column: "id" }])
-    .select("id", "kind", "performed_on", "technician_id", "equipment_id", "refrigerant", "charged_g", "recovered_g", "addition_exclusion", "verification_stage", "verification_passed");
+    .select(
+      "id",
+      "kind",
+      "performed_on",
+      "technician_id",
+      "equipment_id",
+      "refrigerant",
+      "charged_g",
+      "recovered_g",
+      "addition_exclusion",
+      "verification_stage",
+      "verification_passed",
+    );
   const movementRows = jobRows.length
     ? await db("refrigerant_movements")
-        .whereIn("job_id", jobRows.map((j) => j.id))
+        .whereIn(
+          "job_id",
+          jobRows.map((j) => j.id),
+        )
         .whereNull("voided_at")
         .select("job_id", "direction", "mass_g", "cylinder_id", "refrigerant")
     : [];
@@ -103,7 +123,8 @@ export async function reviewApplianceLeaks(
   const jobs: Job[] = jobRows.map((j) => {
     let movements = movementsByJob.get(Number(j.id)) ?? [];
     // A job whose movements were not itemised still carries its totals.
-    if (movements.length === 0 && Number(j.charged_g) > 0) movements = [{ direction: "charged", amountG: Number(j.charged_g), cylinderId: null }];
+    if (movements.length === 0 && Number(j.charged_g) > 0)
+      movements = [{ direction: "charged", amountG: Number(j.charged_g), cylinderId: null }];
     return {
       id: Number(j.id),
       kind: j.kind,
@@ -137,20 +158,32 @@ export async function reviewApplianceLeaks(
     needsIndustrialShutdownForRepair: toBool(a.industrial_shutdown_needed),
     hasLeakDetectionSystem: toBool(a.has_leak_detection),
   };
-  const coverage = leakRepairRegime({ refrigerant: appliance.refrigerant, fullChargeG: appliance.fullChargeG, category: appliance.category, on: today });
+  const coverage = leakRepairRegime({
+    refrigerant: appliance.refrigerant,
+    fullChargeG: appliance.fullChargeG,
+    category: appliance.category,
+    on: today,
+  });
   const analysis = analyseLeaks(appliance, jobs, settings, a.time_zone);
 
   // Every addition, for the chart; covered events carry the threshold in force that day.
   const additions: RefrigerantAddition[] = analysis?.additions ?? [];
   if (!analysis) {
     for (const job of jobs) {
-      for (const m of job.movements) if (m.direction === "charged") additions.push({ on: job.performedOn, amountG: m.amountG, excluded: job.additionExclusion, sourceId: job.id });
+      for (const m of job.movements)
+        if (m.direction === "charged")
+          additions.push({ on: job.performedOn, amountG: m.amountG, excluded: job.additionExclusion, sourceId: job.id });
     }
   }
   const resets = jobs.filter((j) => j.verification?.stage === "follow_up" && j.verification.passed).map((j) => j.performedOn);
   const all =
     appliance.fullChargeG && appliance.fullChargeG > 0 && additions.length > 0
-      ? leakRateHistory({ fullChargeG: appliance.fullChargeG, additions, method: settings.leakRateMethod, followUpVerificationsPassedOn: resets })
+      ? leakRateHistory({
+          fullChargeG: appliance.fullChargeG,
+          additions,
+          method: settings.leakRateMethod,
+          followUpVerificationsPassedOn: resets,
+        })
       : [];
   const covered = new Map((analysis?.events ?? []).map((c) => [c.event.on, c]));
   const events: LeakChartEvent[] = all
@@ -188,9 +221,19 @@ export async function reviewApplianceLeaks(
         citation,
       );
     } else if (!ep.initialTest) {
-      add("initial_verification", ep.deadlines.initialVerificationDueOn, `Initial verification test of the repair made on ${ep.repair.performedOn} (${found}).`, citation);
+      add(
+        "initial_verification",
+        ep.deadlines.initialVerificationDueOn,
+        `Initial verification test of the repair made on ${ep.repair.performedOn} (${found}).`,
+        citation,
+      );
     } else if (!ep.followUpTest && ep.followUpDueOn) {
-      add("follow_up_verification", ep.followUpDueOn, `Follow-up verification test after the initial test passed on ${ep.initialTest.performedOn}.`, citation);
+      add(
+        "follow_up_verification",
+        ep.followUpDueOn,
+        `Follow-up verification test after the initial test passed on ${ep.initialTest.performedOn}.`,
+        citation,
+      );
     }
   }
   if (analysis && appliance.fullChargeG) {

@@ -18,7 +18,12 @@ export default async function AppLayout({ children }: { children: React.ReactNod
   // Audits and findings (audits engineer): runs, the findings workflow and branch dashboards.
   if (ability.can("read", "Audit")) nav.push({ href: "/audits", label: "Audits", group: "Compliance" });
   if (ability.can("read", "Finding")) nav.push({ href: "/findings", label: "Findings", group: "Compliance" });
-  if (ability.can("read", "Finding") && ability.can("read", "Branch") && !ability.rulesFor("read", "Finding").every((r) => r.conditions && "technicianId" in r.conditions)) nav.push({ href: "/branches", label: "Branch dashboards", group: "Compliance" });
+  if (
+    ability.can("read", "Finding") &&
+    ability.can("read", "Branch") &&
+    !ability.rulesFor("read", "Finding").every((r) => r.conditions && "technicianId" in r.conditions)
+  )
+    nav.push({ href: "/branches", label: "Branch dashboards", group: "Compliance" });
   if (ability.can("read", "Job")) nav.push({ href: "/jobs", label: "Jobs", group: "Work" });
   if (ability.can("create", "Job")) nav.push({ href: "/jobs/new", label: "Log a job", group: "Work" });
   // Records kept beside jobs (jobs engineer): disposals, reclaim shipments, purchases.
@@ -30,17 +35,24 @@ export default async function AppLayout({ children }: { children: React.ReactNod
   if (ability.can("read", "Cylinder")) nav.push({ href: "/cylinders", label: "Cylinders", group: "Registers" });
   if (ability.can("read", "RecoveryEquipment")) nav.push({ href: "/equipment", label: "Equipment", group: "Registers" });
   // Running the organisation (issue 6): people for whoever may read them; branches, inspector access and settings under the same tab.
-  if (ability.can("update", "Branch") || ability.can("read", "Settings") || ability.can("read", "InspectorGrant")) nav.push({ href: "/admin", label: "Organisation", group: "Organisation" });
+  if (ability.can("update", "Branch") || ability.can("read", "Settings") || ability.can("read", "InspectorGrant"))
+    nav.push({ href: "/admin", label: "Organisation", group: "Organisation" });
   else if (ability.can("read", "User")) nav.push({ href: "/admin", label: "People", group: "Organisation" });
   // Certification cards and spreadsheet import (issue 3).
-  if (ability.can("read", "Certification") || ability.can("create", "Certification")) nav.push({ href: "/certifications", label: "Certifications", group: "Compliance" });
+  if (ability.can("read", "Certification") || ability.can("create", "Certification"))
+    nav.push({ href: "/certifications", label: "Certifications", group: "Compliance" });
   if (ability.can("create", "Import")) nav.push({ href: "/imports", label: "Import", group: "Organisation" });
 
-  const roles = rolesOf(actor).map((r) => ROLE_LABELS[r]).join(", ");
+  const roles = rolesOf(actor)
+    .map((r) => ROLE_LABELS[r])
+    .join(", ");
 
   return (
     <Providers rules={ability.rules}>
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-white focus:px-3 focus:py-2">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-white focus:px-3 focus:py-2"
+      >
         Skip to content
       </a>
       <header className="sticky top-0 z-30 h-14 bg-ink-900 text-white">
@@ -50,7 +62,9 @@ export default async function AppLayout({ children }: { children: React.ReactNod
           </Link>
           <div className="ml-auto flex items-center gap-3 text-sm">
             <span className="hidden text-right leading-tight md:block">
-              <span className="block font-medium" data-testid="signed-in-name">{actor.name}</span>
+              <span className="block font-medium" data-testid="signed-in-name">
+                {actor.name}
+              </span>
               <span className="block text-xs text-ink-300">{roles}</span>
             </span>
             {ability.can("read", "Branch") && <NotificationsBell />}

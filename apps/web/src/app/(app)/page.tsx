@@ -18,7 +18,9 @@ export default async function OverviewPage() {
   const technicianOnly = roles.length === 1 && roles[0] === "technician";
   // The organisation overview is for whoever may read the findings of a whole branch (officer, owner, manager, inspector).
   const branches = await listBranches(db(), { organisationId: actor.organisationId, includeArchived: true });
-  const seesBranchFindings = branches.some((b) => ability.can("read", subject("Finding", { organisationId: actor.organisationId, branchId: b.id })));
+  const seesBranchFindings = branches.some((b) =>
+    ability.can("read", subject("Finding", { organisationId: actor.organisationId, branchId: b.id })),
+  );
   const today = new Date().toISOString().slice(0, 10);
 
   return (

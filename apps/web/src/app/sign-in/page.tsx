@@ -15,10 +15,12 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
       <section className="flex flex-col justify-between bg-ink-900 px-8 py-10 text-ink-100 lg:px-14">
         <Logo tone="light" />
         <div className="my-12 max-w-md">
-          <h1 className="text-3xl font-semibold tracking-tight text-white">Every recovery, every cylinder, every branch — on the record.</h1>
+          <h1 className="text-3xl font-semibold tracking-tight text-white">
+            Every recovery, every cylinder, every branch — on the record.
+          </h1>
           <p className="mt-4 text-ink-300">
-            Log the work where it happens. Coldtrail checks it against the refrigerant rules and shows each branch what
-            is missing before an inspector asks.
+            Log the work where it happens. Coldtrail checks it against the refrigerant rules and shows each branch what is missing before an
+            inspector asks.
           </p>
         </div>
         <p className="text-sm text-ink-400">Records and checks only: local codes and licensed practice take precedence.</p>

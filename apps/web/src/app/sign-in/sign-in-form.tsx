@@ -54,7 +54,10 @@ export function SignInForm({ next }: { next: string }) {
         />
       </div>
       {error && (
-        <p role="alert" className="flex items-start gap-2 rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sm text-sev-critical">
+        <p
+          role="alert"
+          className="flex items-start gap-2 rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sm text-sev-critical"
+        >
           <span aria-hidden="true">⚠</span>
           <span>{error}</span>
         </p>

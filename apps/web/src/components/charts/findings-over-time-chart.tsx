@@ -26,27 +26,83 @@ export function FindingsOverTimeChart({ rows }: { rows: MonthRow[] }) {
   const endLabel = (name: string, line: number) =>
     function EndLabel(props: { index?: number; x?: number | string; y?: number | string; value?: unknown }) {
       return props.index === last ? (
-        <text x={Number(props.x) + 8} y={Number(props.y) + 4 + line * 14} fontSize={12} fill="var(--color-ink-900)" stroke="#fff" strokeWidth={3} paintOrder="stroke">
+        <text
+          x={Number(props.x) + 8}
+          y={Number(props.y) + 4 + line * 14}
+          fontSize={12}
+          fill="var(--color-ink-900)"
+          stroke="#fff"
+          strokeWidth={3}
+          paintOrder="stroke"
+        >
           {name} {String(props.value)}
         </text>
       ) : null;
     };
   return (
     <figure data-testid="findings-over-time-chart">
-      <div className="h-64 w-full" role="img" aria-label={`Findings by month (count): ${rows.map((r) => `${r.month} opened ${r.opened}, closed ${r.closed}, to act on ${r.active}`).join("; ")}.`}>
+      <div
+        className="h-64 w-full"
+        role="img"
+        aria-label={`Findings by month (count): ${rows.map((r) => `${r.month} opened ${r.opened}, closed ${r.closed}, to act on ${r.active}`).join("; ")}.`}
+      >
         <ResponsiveContainer width="100%" height="100%">
           <LineChart data={rows} margin={{ top: 12, right: 110, bottom: 24, left: 8 }}>
             <CartesianGrid stroke="var(--color-ink-200)" strokeDasharray="2 4" />
-            <XAxis dataKey="month" tick={{ fontSize: 12, fill: "var(--color-ink-700)" }} label={{ value: "Month", position: "insideBottom", offset: -14, fontSize: 12, fill: "var(--color-ink-700)" }} />
-            <YAxis allowDecimals={false} width={44} tick={{ fontSize: 12, fill: "var(--color-ink-700)" }} label={{ value: "Findings (count)", angle: -90, position: "insideLeft", fontSize: 12, fill: "var(--color-ink-700)", style: { textAnchor: "middle" } }} />
+            <XAxis
+              dataKey="month"
+              tick={{ fontSize: 12, fill: "var(--color-ink-700)" }}
+              label={{ value: "Month", position: "insideBottom", offset: -14, fontSize: 12, fill: "var(--color-ink-700)" }}
+            />
+            <YAxis
+              allowDecimals={false}
+              width={44}
+              tick={{ fontSize: 12, fill: "var(--color-ink-700)" }}
+              label={{
+                value: "Findings (count)",
+                angle: -90,
+                position: "insideLeft",
+                fontSize: 12,
+                fill: "var(--color-ink-700)",
+                style: { textAnchor: "middle" },
+              }}
+            />
             <Tooltip />
-            <Line name="To act on at month end" dataKey="active" stroke="var(--color-ink-900)" strokeWidth={3} dot={(p: object) => <Marker key={(p as { index: number }).index} {...(p as object)} shape="diamond" color="var(--color-ink-900)" />} isAnimationActive={false}>
+            <Line
+              name="To act on at month end"
+              dataKey="active"
+              stroke="var(--color-ink-900)"
+              strokeWidth={3}
+              dot={(p: object) => (
+                <Marker key={(p as { index: number }).index} {...(p as object)} shape="diamond" color="var(--color-ink-900)" />
+              )}
+              isAnimationActive={false}
+            >
               <LabelList dataKey="active" content={endLabel("to act on", -1)} />
             </Line>
-            <Line name="Opened" dataKey="opened" stroke="var(--color-sev-major)" strokeWidth={2} dot={(p: object) => <Marker key={(p as { index: number }).index} {...(p as object)} shape="circle" color="var(--color-sev-major)" />} isAnimationActive={false}>
+            <Line
+              name="Opened"
+              dataKey="opened"
+              stroke="var(--color-sev-major)"
+              strokeWidth={2}
+              dot={(p: object) => (
+                <Marker key={(p as { index: number }).index} {...(p as object)} shape="circle" color="var(--color-sev-major)" />
+              )}
+              isAnimationActive={false}
+            >
               <LabelList dataKey="opened" content={endLabel("opened", 0)} />
             </Line>
-            <Line name="Closed" dataKey="closed" stroke="var(--color-fjord-600)" strokeWidth={2} strokeDasharray="6 4" dot={(p: object) => <Marker key={(p as { index: number }).index} {...(p as object)} shape="square" color="var(--color-fjord-600)" />} isAnimationActive={false}>
+            <Line
+              name="Closed"
+              dataKey="closed"
+              stroke="var(--color-fjord-600)"
+              strokeWidth={2}
+              strokeDasharray="6 4"
+              dot={(p: object) => (
+                <Marker key={(p as { index: number }).index} {...(p as object)} shape="square" color="var(--color-fjord-600)" />
+              )}
+              isAnimationActive={false}
+            >
               <LabelList dataKey="closed" content={endLabel("closed", 1)} />
             </Line>
           </LineChart>

@@ -12,7 +12,13 @@ export interface BranchSeverityRow {
 }
 
 /** The count on a segment, with a white halo so it reads on solid, striped or dotted fills alike. */
-function CountLabel(props: { x?: number | string; y?: number | string; width?: number | string; height?: number | string; value?: unknown }) {
+function CountLabel(props: {
+  x?: number | string;
+  y?: number | string;
+  width?: number | string;
+  height?: number | string;
+  value?: unknown;
+}) {
   const value = typeof props.value === "number" ? props.value : Number(props.value);
   if (!(value > 0)) return null;
   return (
@@ -45,11 +51,25 @@ export function SeverityByBranchChart({ rows }: { rows: BranchSeverityRow[] }) {
         <ResponsiveContainer width="100%" height="100%">
           <BarChart data={rows} layout="vertical" margin={{ top: 4, right: 24, bottom: 24, left: 8 }} barCategoryGap="25%">
             <CartesianGrid stroke="var(--color-ink-200)" strokeDasharray="2 4" horizontal={false} />
-            <XAxis type="number" allowDecimals={false} tick={{ fontSize: 12, fill: "var(--color-ink-700)" }} label={{ value: "Open findings (count)", position: "insideBottom", offset: -14, fontSize: 12, fill: "var(--color-ink-700)" }} />
+            <XAxis
+              type="number"
+              allowDecimals={false}
+              tick={{ fontSize: 12, fill: "var(--color-ink-700)" }}
+              label={{ value: "Open findings (count)", position: "insideBottom", offset: -14, fontSize: 12, fill: "var(--color-ink-700)" }}
+            />
             <YAxis type="category" dataKey="name" width={90} tick={{ fontSize: 13, fill: "var(--color-ink-900)" }} />
             <Tooltip cursor={{ fill: "var(--color-ink-100)" }} />
             {SEVERITIES.map((s) => (
-              <Bar key={s} dataKey={s} name={SEVERITY_LABELS[s]} stackId="sev" fill={fill(s)} stroke="var(--color-ink-900)" strokeWidth={0.6} isAnimationActive={false}>
+              <Bar
+                key={s}
+                dataKey={s}
+                name={SEVERITY_LABELS[s]}
+                stackId="sev"
+                fill={fill(s)}
+                stroke="var(--color-ink-900)"
+                strokeWidth={0.6}
+                isAnimationActive={false}
+              >
                 <LabelList dataKey={s} content={CountLabel} />
               </Bar>
             ))}

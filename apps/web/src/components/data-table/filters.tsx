@@ -20,7 +20,12 @@ export function useFilters<F extends Record<string, string>>(initial: F) {
 /** The filters above a table: a search landmark laid out as a grid (`className` sets the columns). */
 export function FilterBar({ label, className = "", children }: { label?: string; className?: string; children: ReactNode }) {
   return (
-    <form role="search" aria-label={label} className={`grid gap-3 rounded-lg border border-ink-200 bg-white p-3 ${className}`} onSubmit={stay}>
+    <form
+      role="search"
+      aria-label={label}
+      className={`grid gap-3 rounded-lg border border-ink-200 bg-white p-3 ${className}`}
+      onSubmit={stay}
+    >
       {children}
     </form>
   );
@@ -35,10 +40,26 @@ export function FilterField({ label, className = "", children }: { label: string
   );
 }
 
-export function SearchFilter({ label, value, onChange, placeholder }: { label: string; value: string; onChange: (value: string) => void; placeholder: string }) {
+export function SearchFilter({
+  label,
+  value,
+  onChange,
+  placeholder,
+}: {
+  label: string;
+  value: string;
+  onChange: (value: string) => void;
+  placeholder: string;
+}) {
   return (
     <FilterField label={label}>
-      <input type="search" value={value} onChange={(e) => onChange(e.target.value)} placeholder={placeholder} className={filterInputClass} />
+      <input
+        type="search"
+        value={value}
+        onChange={(e) => onChange(e.target.value)}
+        placeholder={placeholder}
+        className={filterInputClass}
+      />
     </FilterField>
   );
 }
@@ -112,7 +133,6 @@ export function RefrigerantFilter({ value, onChange, anyLabel }: { value: string
   return <SelectFilter label="Refrigerant" value={value} onChange={onChange} anyLabel={anyLabel} options={refrigerantOptions} />;
 }
 
-
 /** Leave out, include or show only voided records. */
 export function VoidedFilter({ label, value, onChange }: { label: string; value: string; onChange: (value: string) => void }) {
   return (
@@ -130,7 +150,15 @@ export function VoidedFilter({ label, value, onChange }: { label: string; value:
 }
 
 /** A single "Show …" choice beside a short table (no filter bar). */
-export function ShowFilter({ value, onChange, options }: { value: string; onChange: (value: string) => void; options: readonly { value: string; label: ReactNode }[] }) {
+export function ShowFilter({
+  value,
+  onChange,
+  options,
+}: {
+  value: string;
+  onChange: (value: string) => void;
+  options: readonly { value: string; label: ReactNode }[];
+}) {
   return (
     <label className="inline-flex items-center gap-2 text-sm">
       <span className="font-medium text-ink-700">Show</span>

@@ -111,7 +111,12 @@ export function TableView<TFeatures extends ServerTableFeatures, T extends RowDa
       )}
 
       <div className={`${props.renderCard ? "hidden sm:block" : ""} overflow-x-auto rounded-lg border border-ink-200 bg-white`}>
-        <table className="min-w-full text-sm" aria-label={label} aria-busy={query.isFetching} aria-describedby={status ? statusId : undefined}>
+        <table
+          className="min-w-full text-sm"
+          aria-label={label}
+          aria-busy={query.isFetching}
+          aria-describedby={status ? statusId : undefined}
+        >
           {props.caption && <caption className="sr-only">{props.caption}</caption>}
           <thead className="bg-ink-100 text-left text-xs uppercase tracking-wide text-ink-600">
             {table.getHeaderGroups().map((group) => (
@@ -120,9 +125,18 @@ export function TableView<TFeatures extends ServerTableFeatures, T extends RowDa
                   const sorted = header.column.getIsSorted();
                   const canSort = header.column.getCanSort();
                   return (
-                    <th key={header.id} scope="col" className="px-3 py-2 font-semibold whitespace-nowrap" aria-sort={ariaSort(sorted, canSort)}>
+                    <th
+                      key={header.id}
+                      scope="col"
+                      className="px-3 py-2 font-semibold whitespace-nowrap"
+                      aria-sort={ariaSort(sorted, canSort)}
+                    >
                       {canSort ? (
-                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink-950">
+                        <button
+                          type="button"
+                          onClick={header.column.getToggleSortingHandler()}
+                          className="inline-flex items-center gap-1 uppercase hover:text-ink-950"
+                        >
                           <table.FlexRender header={header} />
                           <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
                         </button>
@@ -139,7 +153,11 @@ export function TableView<TFeatures extends ServerTableFeatures, T extends RowDa
             {rows.map((row, i) => (
               <Fragment key={row.id}>
                 {props.renderBeforeRow?.(row as unknown as Row<TFeatures, T>, i, rows as unknown as Row<TFeatures, T>[])}
-                <tr className={props.rowClassName ? props.rowClassName(row.original) : "hover:bg-fjord-50"} data-testid={props.rowTestId} {...props.rowAttributes?.(row.original)}>
+                <tr
+                  className={props.rowClassName ? props.rowClassName(row.original) : "hover:bg-fjord-50"}
+                  data-testid={props.rowTestId}
+                  {...props.rowAttributes?.(row.original)}
+                >
                   {row.getAllCells().map((cell) => (
                     <td key={cell.id} className="px-3 py-2 align-top">
                       <table.FlexRender cell={cell} />
@@ -214,7 +232,11 @@ export function PageControls(props: {
           {props.mode === "full" && props.onPageSize && (
             <label className="flex items-center gap-2">
               <span className="text-ink-700">Rows per page</span>
-              <select value={props.pageSize} onChange={(e) => props.onPageSize!(Number(e.target.value))} className="rounded-md border border-ink-300 bg-white px-2 py-1.5">
+              <select
+                value={props.pageSize}
+                onChange={(e) => props.onPageSize!(Number(e.target.value))}
+                className="rounded-md border border-ink-300 bg-white px-2 py-1.5"
+              >
                 {(props.pageSizes ?? DEFAULT_PAGE_SIZES).map((n) => (
                   <option key={n} value={n}>
                     {n}
@@ -223,13 +245,23 @@ export function PageControls(props: {
               </select>
             </label>
           )}
-          <button type="button" onClick={props.onPrevious} disabled={!props.canPrevious} className="min-h-10 rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
+          <button
+            type="button"
+            onClick={props.onPrevious}
+            disabled={!props.canPrevious}
+            className="min-h-10 rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40"
+          >
             Previous
           </button>
           <span className="tabular text-ink-700">
             Page {props.page} of {props.pageCount}
           </span>
-          <button type="button" onClick={props.onNext} disabled={!props.canNext} className="min-h-10 rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
+          <button
+            type="button"
+            onClick={props.onNext}
+            disabled={!props.canNext}
+            className="min-h-10 rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40"
+          >
             Next
           </button>
         </div>

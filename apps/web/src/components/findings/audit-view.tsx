@@ -12,7 +12,19 @@ import type { AuditView } from "./types";
 const STATE_WORDS = { queued: "Waiting to start", running: "Running", done: "Finished", failed: "Stopped" } as const;
 
 /** An audit: progress while it runs (polled, so the page can be left and reopened), then its results. */
-export function AuditDetail({ id, canRun, canExport, canAssign, today }: { id: number; canRun: boolean; canExport: boolean; canAssign: boolean; today: string }) {
+export function AuditDetail({
+  id,
+  canRun,
+  canExport,
+  canAssign,
+  today,
+}: {
+  id: number;
+  canRun: boolean;
+  canExport: boolean;
+  canAssign: boolean;
+  today: string;
+}) {
   const router = useRouter();
   const queryClient = useQueryClient();
   const audit = useQuery({
@@ -51,17 +63,28 @@ export function AuditDetail({ id, canRun, canExport, canAssign, today }: { id: n
           </p>
           <h1 className="text-2xl font-semibold text-ink-950">Audit #{a.id}</h1>
           <p className="text-sm text-ink-700">
-            {a.periodFrom} to {a.periodTo} · {a.packs.map((p) => (p === "us_federal" ? "US federal" : "EU")).join(" + ")} · run by {a.startedByName} on {a.createdAt.slice(0, 10)}
+            {a.periodFrom} to {a.periodTo} · {a.packs.map((p) => (p === "us_federal" ? "US federal" : "EU")).join(" + ")} · run by{" "}
+            {a.startedByName} on {a.createdAt.slice(0, 10)}
           </p>
         </div>
         <div className="flex flex-wrap gap-2">
           {canExport && finished && (
-            <a href={`/api/audits/${a.id}/export`} className="rounded-md bg-fjord-600 px-4 py-2 font-semibold text-white hover:bg-fjord-700" download data-testid="export-link">
+            <a
+              href={`/api/audits/${a.id}/export`}
+              className="rounded-md bg-fjord-600 px-4 py-2 font-semibold text-white hover:bg-fjord-700"
+              download
+              data-testid="export-link"
+            >
               Download spreadsheet (.xlsx)
             </a>
           )}
           {canRun && (finished || a.state === "failed") && (
-            <button type="button" onClick={() => rerun.mutate()} disabled={rerun.isPending} className="rounded-md border border-fjord-600 px-4 py-2 font-semibold text-fjord-700 hover:bg-fjord-50 disabled:opacity-40">
+            <button
+              type="button"
+              onClick={() => rerun.mutate()}
+              disabled={rerun.isPending}
+              className="rounded-md border border-fjord-600 px-4 py-2 font-semibold text-fjord-700 hover:bg-fjord-50 disabled:opacity-40"
+            >
               {rerun.isPending ? "Starting…" : "Run again"}
             </button>
           )}
@@ -82,7 +105,10 @@ export function AuditDetail({ id, canRun, canExport, canAssign, today }: { id: n
             aria-valuetext={`${a.progress} % — ${a.progressNote ?? STATE_WORDS[a.state]}`}
             className="h-3 flex-1 overflow-hidden rounded-full bg-ink-100"
           >
-            <div className={`h-full ${a.state === "failed" ? "bg-ink-500" : "bg-fjord-600"} transition-all`} style={{ width: `${a.progress}%` }} />
+            <div
+              className={`h-full ${a.state === "failed" ? "bg-ink-500" : "bg-fjord-600"} transition-all`}
+              style={{ width: `${a.progress}%` }}
+            />
           </div>
           <span className="tabular w-12 text-right text-sm font-semibold" data-testid="audit-progress">
             {a.progress} %
@@ -92,7 +118,9 @@ export function AuditDetail({ id, canRun, canExport, canAssign, today }: { id: n
           {a.state === "failed" ? `Stopped: ${a.error ?? "unknown reason"}` : (a.progressNote ?? STATE_WORDS[a.state])}
           {a.state !== "done" && a.state !== "failed" && " — you can leave this page; the audit keeps running."}
         </p>
-        <p className="mt-1 text-sm text-ink-600">Branches: {a.branchIds.length} ({a.branchesDone.length} checked){a.partial && " · you see the branches you may read"}</p>
+        <p className="mt-1 text-sm text-ink-600">
+          Branches: {a.branchIds.length} ({a.branchesDone.length} checked){a.partial && " · you see the branches you may read"}
+        </p>
       </section>
 
       {totals && (
@@ -111,7 +139,10 @@ export function AuditDetail({ id, canRun, canExport, canAssign, today }: { id: n
             <ul className="mt-2 space-y-1 text-sm">
               {SEVERITIES.map((s) => (
                 <li key={s} className="flex items-center gap-2">
-                  <SeverityIcon severity={s} className={`h-3.5 w-3.5 ${s === "critical" ? "text-sev-critical" : s === "major" ? "text-sev-major" : "text-sev-minor"}`} />
+                  <SeverityIcon
+                    severity={s}
+                    className={`h-3.5 w-3.5 ${s === "critical" ? "text-sev-critical" : s === "major" ? "text-sev-major" : "text-sev-minor"}`}
+                  />
                   {SEVERITY_LABELS[s]}: <span className="tabular font-semibold">{totals.bySeverity[s]}</span>
                 </li>
               ))}
@@ -123,9 +154,15 @@ export function AuditDetail({ id, canRun, canExport, canAssign, today }: { id: n
               <thead>
                 <tr className="text-left text-xs uppercase text-ink-600">
                   <th scope="col">Branch</th>
-                  <th scope="col" className="text-right">Found</th>
-                  <th scope="col" className="text-right">New</th>
-                  <th scope="col" className="text-right">Gone</th>
+                  <th scope="col" className="text-right">
+                    Found
+                  </th>
+                  <th scope="col" className="text-right">
+                    New
+                  </th>
+                  <th scope="col" className="text-right">
+                    Gone
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -167,7 +204,12 @@ export function AuditDetail({ id, canRun, canExport, canAssign, today }: { id: n
           <h2 id="findings-h" className="text-lg font-semibold text-ink-950">
             Findings of this audit
           </h2>
-          <FindingsTable fixed={{ auditId: a.id }} initial={{ state: "all", sort: "severity", dir: "asc" }} canAssign={canAssign} today={today} />
+          <FindingsTable
+            fixed={{ auditId: a.id }}
+            initial={{ state: "all", sort: "severity", dir: "asc" }}
+            canAssign={canAssign}
+            today={today}
+          />
         </section>
       )}
     </div>

@@ -24,12 +24,24 @@ export function AuditsList() {
         <table className="min-w-full text-sm">
           <thead className="bg-ink-100 text-left text-xs uppercase tracking-wide text-ink-600">
             <tr>
-              <th scope="col" className="px-3 py-2">Audit</th>
-              <th scope="col" className="px-3 py-2">Branches</th>
-              <th scope="col" className="px-3 py-2">Period</th>
-              <th scope="col" className="px-3 py-2">Run by</th>
-              <th scope="col" className="px-3 py-2">State</th>
-              <th scope="col" className="px-3 py-2 text-right">Findings</th>
+              <th scope="col" className="px-3 py-2">
+                Audit
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Branches
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Period
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Run by
+              </th>
+              <th scope="col" className="px-3 py-2">
+                State
+              </th>
+              <th scope="col" className="px-3 py-2 text-right">
+                Findings
+              </th>
             </tr>
           </thead>
           <tbody className="divide-y divide-ink-100">
@@ -64,13 +76,23 @@ export function AuditsList() {
         </table>
       </div>
       <div className="flex items-center justify-end gap-2 text-sm">
-        <button type="button" disabled={page <= 1} onClick={() => setPage((p) => p - 1)} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
+        <button
+          type="button"
+          disabled={page <= 1}
+          onClick={() => setPage((p) => p - 1)}
+          className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40"
+        >
           Previous
         </button>
         <span className="tabular">
           Page {page} of {Math.max(1, Math.ceil(total / 20))}
         </span>
-        <button type="button" disabled={page * 20 >= total} onClick={() => setPage((p) => p + 1)} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
+        <button
+          type="button"
+          disabled={page * 20 >= total}
+          onClick={() => setPage((p) => p + 1)}
+          className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40"
+        >
           Next
         </button>
       </div>

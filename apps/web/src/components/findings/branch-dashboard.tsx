@@ -38,12 +38,22 @@ function Card({ title, id, children, wide = false }: { title: string; id: string
 }
 
 export function BranchDashboardView({ branchId }: { branchId: number }) {
-  const dash = useQuery({ queryKey: ["branch-dashboard", branchId], queryFn: () => fetchJson<BranchDashboardData>(`/api/dashboard/branches/${branchId}?months=12`) });
+  const dash = useQuery({
+    queryKey: ["branch-dashboard", branchId],
+    queryFn: () => fetchJson<BranchDashboardData>(`/api/dashboard/branches/${branchId}?months=12`),
+  });
   if (dash.isLoading) return <p className="text-ink-600">Loading the dashboard…</p>;
-  if (dash.isError || !dash.data) return <p role="alert" className="text-sev-critical">⚠ There is no such branch, or you may not see it.</p>;
+  if (dash.isError || !dash.data)
+    return (
+      <p role="alert" className="text-sev-critical">
+        ⚠ There is no such branch, or you may not see it.
+      </p>
+    );
   const d = dash.data;
   const unit = d.branch.massUnit;
-  const classes = (Object.keys(d.coverage.appliancesByClass) as ApplianceCertificationClass[]).filter((c) => d.coverage.appliancesByClass[c] > 0);
+  const classes = (Object.keys(d.coverage.appliancesByClass) as ApplianceCertificationClass[]).filter(
+    (c) => d.coverage.appliancesByClass[c] > 0,
+  );
 
   return (
     <div className="space-y-4">
@@ -93,10 +103,18 @@ export function BranchDashboardView({ branchId }: { branchId: number }) {
             <table className="min-w-full text-sm" data-testid="leak-watchlist">
               <thead className="text-left text-xs uppercase text-ink-600">
                 <tr>
-                  <th scope="col" className="px-2 py-1">Appliance</th>
-                  <th scope="col" className="px-2 py-1 text-right">Leak rate (%)</th>
-                  <th scope="col" className="px-2 py-1 text-right">Threshold (%)</th>
-                  <th scope="col" className="px-2 py-1">Deadline</th>
+                  <th scope="col" className="px-2 py-1">
+                    Appliance
+                  </th>
+                  <th scope="col" className="px-2 py-1 text-right">
+                    Leak rate (%)
+                  </th>
+                  <th scope="col" className="px-2 py-1 text-right">
+                    Threshold (%)
+                  </th>
+                  <th scope="col" className="px-2 py-1">
+                    Deadline
+                  </th>
                 </tr>
               </thead>
               <tbody className="divide-y divide-ink-100">
@@ -120,7 +138,9 @@ export function BranchDashboardView({ branchId }: { branchId: number }) {
                         r.repairedOn ? (
                           <span className="text-ok">✓ Repaired {r.repairedOn}</span>
                         ) : (
-                          <span className={`font-medium ${r.repairDueOn && r.repairDueOn < d.today ? "text-sev-critical" : "text-ink-950"}`}>
+                          <span
+                            className={`font-medium ${r.repairDueOn && r.repairDueOn < d.today ? "text-sev-critical" : "text-ink-950"}`}
+                          >
                             {r.repairDueOn && r.repairDueOn < d.today ? "⚠ Repair overdue since " : "Repair due by "}
                             {r.repairDueOn}
                           </span>
@@ -140,8 +160,12 @@ export function BranchDashboardView({ branchId }: { branchId: number }) {
           <table className="min-w-full text-sm" data-testid="coverage-table">
             <thead className="text-left text-xs uppercase text-ink-600">
               <tr>
-                <th scope="col" className="px-2 py-1">Technician</th>
-                <th scope="col" className="px-2 py-1">Verified</th>
+                <th scope="col" className="px-2 py-1">
+                  Technician
+                </th>
+                <th scope="col" className="px-2 py-1">
+                  Verified
+                </th>
                 {classes.map((c) => (
                   <th key={c} scope="col" className="px-2 py-1 text-center">
                     {CLASS_WORDS[c]}
@@ -154,8 +178,16 @@ export function BranchDashboardView({ branchId }: { branchId: number }) {
                 <tr key={t.technicianId}>
                   <td className="px-2 py-1.5">{t.name}</td>
                   <td className="px-2 py-1.5">
-                    {t.verified.length ? t.verified.map((v) => CERTIFICATION_TYPE_LABELS[v]).join(" + ") : <span className="text-sev-critical">⚠ none</span>}
-                    {t.pending.length > 0 && <span className="block text-xs text-ink-600">awaiting check: {t.pending.map((v) => CERTIFICATION_TYPE_LABELS[v]).join(" + ")}</span>}
+                    {t.verified.length ? (
+                      t.verified.map((v) => CERTIFICATION_TYPE_LABELS[v]).join(" + ")
+                    ) : (
+                      <span className="text-sev-critical">⚠ none</span>
+                    )}
+                    {t.pending.length > 0 && (
+                      <span className="block text-xs text-ink-600">
+                        awaiting check: {t.pending.map((v) => CERTIFICATION_TYPE_LABELS[v]).join(" + ")}
+                      </span>
+                    )}
                   </td>
                   {classes.map((c) => (
                     <td key={c} className="px-2 py-1.5 text-center">
@@ -180,16 +212,28 @@ export function BranchDashboardView({ branchId }: { branchId: number }) {
 
         <Card title="Cylinders due for requalification or nearly full" id="cylinders-h" wide>
           {d.cylinders.length === 0 ? (
-            <p className="text-sm text-ink-600">Every cylinder in service is within its requalification date and under 90 % of its maximum fill.</p>
+            <p className="text-sm text-ink-600">
+              Every cylinder in service is within its requalification date and under 90 % of its maximum fill.
+            </p>
           ) : (
             <table className="min-w-full text-sm" data-testid="cylinder-watchlist">
               <thead className="text-left text-xs uppercase text-ink-600">
                 <tr>
-                  <th scope="col" className="px-2 py-1">Cylinder</th>
-                  <th scope="col" className="px-2 py-1">Contents</th>
-                  <th scope="col" className="px-2 py-1 text-right">Fill (% of maximum)</th>
-                  <th scope="col" className="px-2 py-1">Requalification due</th>
-                  <th scope="col" className="px-2 py-1">Why it is listed</th>
+                  <th scope="col" className="px-2 py-1">
+                    Cylinder
+                  </th>
+                  <th scope="col" className="px-2 py-1">
+                    Contents
+                  </th>
+                  <th scope="col" className="px-2 py-1 text-right">
+                    Fill (% of maximum)
+                  </th>
+                  <th scope="col" className="px-2 py-1">
+                    Requalification due
+                  </th>
+                  <th scope="col" className="px-2 py-1">
+                    Why it is listed
+                  </th>
                 </tr>
               </thead>
               <tbody className="divide-y divide-ink-100">

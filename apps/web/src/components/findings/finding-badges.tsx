@@ -25,7 +25,10 @@ export function SeverityIcon({ severity, className = "h-3.5 w-3.5" }: { severity
 
 export function SeverityBadge({ severity }: { severity: Severity }) {
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded-md border px-1.5 py-0.5 text-xs font-semibold ${SEVERITY_TONE[severity]}`} data-severity={severity}>
+    <span
+      className={`inline-flex items-center gap-1 whitespace-nowrap rounded-md border px-1.5 py-0.5 text-xs font-semibold ${SEVERITY_TONE[severity]}`}
+      data-severity={severity}
+    >
       <SeverityIcon severity={severity} />
       {SEVERITY_LABELS[severity]}
     </span>

@@ -57,7 +57,8 @@ function useFindingAction(id: number, path: string, onDone: (text: string) => vo
       body instanceof FormData
         ? fetch(`/api/findings/${id}/${path}`, { method: "POST", body, headers: { accept: "application/json" } }).then(async (res) => {
             const json = await res.json().catch(() => null);
-            if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? `Request failed (${res.status})`, json?.error?.fieldErrors ?? {});
+            if (!res.ok)
+              throw new ApiError(res.status, json?.error?.message ?? `Request failed (${res.status})`, json?.error?.fieldErrors ?? {});
             return json;
           })
         : fetchJson(`/api/findings/${id}/${path}`, { method: "POST", body: JSON.stringify(body) }),
@@ -78,7 +79,10 @@ export function FindingDetailView({ id, today }: { id: number; today: string }) 
   if (finding.isError || !f)
     return (
       <p role="alert" className="rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sev-critical">
-        ⚠ {finding.error instanceof ApiError && finding.error.status === 404 ? "There is no such finding, or you may not see it." : "The finding could not be loaded."}
+        ⚠{" "}
+        {finding.error instanceof ApiError && finding.error.status === 404
+          ? "There is no such finding, or you may not see it."
+          : "The finding could not be loaded."}
       </p>
     );
 
@@ -209,12 +213,30 @@ function Actions({ finding: f, onDone }: { finding: FindingView; onDone: (t: str
         {f.allowed.proposeFix && state === "open" && <ProposeFixForm finding={f} onDone={onDone} />}
         {f.allowed.accept && state === "fix_proposed" && <AcceptForm finding={f} onDone={onDone} />}
         {f.allowed.reopen && (state === "fix_proposed" || state === "closed" || state === "waived") && (
-          <ReasonForm finding={f} path="reopen" field="reason" label="Why reopen it" button="Reopen" done="The finding is open again; the people on it have been e-mailed." onDone={onDone} />
+          <ReasonForm
+            finding={f}
+            path="reopen"
+            field="reason"
+            label="Why reopen it"
+            button="Reopen"
+            done="The finding is open again; the people on it have been e-mailed."
+            onDone={onDone}
+          />
         )}
         {f.allowed.waive && (state === "open" || state === "fix_proposed") && (
-          <ReasonForm finding={f} path="waive" field="reason" label="Why no fix is needed (required)" button="Waive" done="The finding is waived; the branch has been e-mailed." onDone={onDone} />
+          <ReasonForm
+            finding={f}
+            path="waive"
+            field="reason"
+            label="Why no fix is needed (required)"
+            button="Waive"
+            done="The finding is waived; the branch has been e-mailed."
+            onDone={onDone}
+          />
         )}
-        {f.allowed.proposeFix && state === "fix_proposed" && <p className="text-sm text-ink-700">A fix is proposed; the compliance officer will accept it or reopen the finding.</p>}
+        {f.allowed.proposeFix && state === "fix_proposed" && (
+          <p className="text-sm text-ink-700">A fix is proposed; the compliance officer will accept it or reopen the finding.</p>
+        )}
       </div>
     </Section>
   );
@@ -222,10 +244,17 @@ function Actions({ finding: f, onDone }: { finding: FindingView; onDone: (t: str
 
 function AssignForm({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
   const queryClient = useQueryClient();
-  const people = useQuery({ queryKey: ["assignees", f.branchId], queryFn: () => fetchJson<{ rows: Assignee[] }>(`/api/findings/assignees?branchIds=${f.branchId}`) });
+  const people = useQuery({
+    queryKey: ["assignees", f.branchId],
+    queryFn: () => fetchJson<{ rows: Assignee[] }>(`/api/findings/assignees?branchIds=${f.branchId}`),
+  });
   const [to, setTo] = useState(f.assigneeId ? String(f.assigneeId) : "");
   const assign = useMutation({
-    mutationFn: () => fetchJson("/api/findings/assign", { method: "POST", body: JSON.stringify({ findingIds: [f.id], assigneeId: to === "none" ? null : Number(to) }) }),
+    mutationFn: () =>
+      fetchJson("/api/findings/assign", {
+        method: "POST",
+        body: JSON.stringify({ findingIds: [f.id], assigneeId: to === "none" ? null : Number(to) }),
+      }),
     onSuccess: () => {
       onDone(to === "none" ? "The assignment was removed." : "Assigned; they have been e-mailed.");
       void queryClient.invalidateQueries({ queryKey: ["finding", f.id] });
@@ -243,7 +272,12 @@ function AssignForm({ finding: f, onDone }: { finding: FindingView; onDone: (t: 
     >
       <label className="block text-sm">
         <span className="font-medium text-ink-700">Assign to</span>
-        <select value={to} onChange={(e) => setTo(e.target.value)} className="mt-1 w-full rounded-md border border-ink-300 bg-white px-2 py-2" aria-describedby="assign-error">
+        <select
+          value={to}
+          onChange={(e) => setTo(e.target.value)}
+          className="mt-1 w-full rounded-md border border-ink-300 bg-white px-2 py-2"
+          aria-describedby="assign-error"
+        >
           <option value="">Choose a person…</option>
           {(people.data?.rows ?? []).map((p) => (
             <option key={p.id} value={p.id}>
@@ -254,7 +288,11 @@ function AssignForm({ finding: f, onDone }: { finding: FindingView; onDone: (t: 
         </select>
       </label>
       <FieldError id="assign-error" messages={err ? (err.fields.assigneeId ?? [err.message]) : undefined} />
-      <button type="submit" disabled={!to || assign.isPending} className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40">
+      <button
+        type="submit"
+        disabled={!to || assign.isPending}
+        className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40"
+      >
         {assign.isPending ? "Assigning…" : "Assign"}
       </button>
     </form>
@@ -275,16 +313,35 @@ function ProposeFixForm({ finding: f, onDone }: { finding: FindingView; onDone: 
     >
       <label className="block text-sm">
         <span className="font-medium text-ink-700">What was done to fix it</span>
-        <textarea name="note" rows={4} required minLength={5} maxLength={4000} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" aria-describedby="note-error" />
+        <textarea
+          name="note"
+          rows={4}
+          required
+          minLength={5}
+          maxLength={4000}
+          className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2"
+          aria-describedby="note-error"
+        />
       </label>
       <FieldError id="note-error" messages={err?.fields.note} />
       <label className="block text-sm">
         <span className="font-medium text-ink-700">Evidence (optional): a photo or PDF</span>
-        <input name="file" type="file" accept="image/jpeg,image/png,image/webp,image/heic,application/pdf" capture="environment" className="mt-1 block w-full text-sm" aria-describedby="file-error" />
+        <input
+          name="file"
+          type="file"
+          accept="image/jpeg,image/png,image/webp,image/heic,application/pdf"
+          capture="environment"
+          className="mt-1 block w-full text-sm"
+          aria-describedby="file-error"
+        />
       </label>
       <FieldError id="file-error" messages={err?.fields.file} />
       {err && !err.fields.note && !err.fields.file && <FieldError id="propose-error" messages={[err.message]} />}
-      <button type="submit" disabled={action.isPending} className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40">
+      <button
+        type="submit"
+        disabled={action.isPending}
+        className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40"
+      >
         {action.isPending ? "Sending…" : "Propose as fixed"}
       </button>
     </form>
@@ -312,17 +369,34 @@ function AcceptForm({ finding: f, onDone }: { finding: FindingView; onDone: (t: 
       )}
       <label className="block text-sm">
         <span className="font-medium text-ink-700">Note on acceptance (optional)</span>
-        <input value={note} onChange={(e) => setNote(e.target.value)} maxLength={4000} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" />
+        <input
+          value={note}
+          onChange={(e) => setNote(e.target.value)}
+          maxLength={4000}
+          className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2"
+        />
       </label>
       {err && <FieldError id="accept-error" messages={err.fields.note ?? [err.message]} />}
-      <button type="submit" disabled={action.isPending} className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40">
+      <button
+        type="submit"
+        disabled={action.isPending}
+        className="rounded-md bg-fjord-600 px-4 py-2 text-sm font-semibold text-white hover:bg-fjord-700 disabled:opacity-40"
+      >
         {action.isPending ? "Accepting…" : "Accept the fix"}
       </button>
     </form>
   );
 }
 
-function ReasonForm(props: { finding: FindingView; path: string; field: string; label: string; button: string; done: string; onDone: (t: string) => void }) {
+function ReasonForm(props: {
+  finding: FindingView;
+  path: string;
+  field: string;
+  label: string;
+  button: string;
+  done: string;
+  onDone: (t: string) => void;
+}) {
   const action = useFindingAction(props.finding.id, props.path, props.onDone, props.done);
   const [value, setValue] = useState("");
   const err = action.error ? errorText(action.error) : null;
@@ -337,10 +411,21 @@ function ReasonForm(props: { finding: FindingView; path: string; field: string; 
     >
       <label className="block text-sm">
         <span className="font-medium text-ink-700">{props.label}</span>
-        <textarea value={value} onChange={(e) => setValue(e.target.value)} rows={2} maxLength={4000} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" aria-describedby={errorId} />
+        <textarea
+          value={value}
+          onChange={(e) => setValue(e.target.value)}
+          rows={2}
+          maxLength={4000}
+          className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2"
+          aria-describedby={errorId}
+        />
       </label>
       {err && <FieldError id={errorId} messages={err.fields[props.field] ?? [err.message]} />}
-      <button type="submit" disabled={action.isPending} className="rounded-md border border-ink-400 bg-white px-4 py-2 text-sm font-semibold text-ink-900 hover:bg-ink-50 disabled:opacity-40">
+      <button
+        type="submit"
+        disabled={action.isPending}
+        className="rounded-md border border-ink-400 bg-white px-4 py-2 text-sm font-semibold text-ink-900 hover:bg-ink-50 disabled:opacity-40"
+      >
         {props.button}
       </button>
     </form>
@@ -372,7 +457,12 @@ function Evidence({ finding: f, onDone }: { finding: FindingView; onDone: (t: st
         <ul className="space-y-1 text-sm" data-testid="evidence-list">
           {f.evidence.map((e) => (
             <li key={e.id}>
-              <a href={`/api/findings/${f.id}/evidence/${e.id}`} className="font-medium text-fjord-700 underline" target="_blank" rel="noreferrer">
+              <a
+                href={`/api/findings/${f.id}/evidence/${e.id}`}
+                className="font-medium text-fjord-700 underline"
+                target="_blank"
+                rel="noreferrer"
+              >
                 {e.fileName}
               </a>{" "}
               <span className="text-ink-600">
@@ -395,14 +485,25 @@ function Evidence({ finding: f, onDone }: { finding: FindingView; onDone: (t: st
         >
           <label className="block text-sm">
             <span className="font-medium text-ink-700">Attach a photo or PDF</span>
-            <input name="file" type="file" required accept="image/jpeg,image/png,image/webp,image/heic,application/pdf" className="mt-1 block w-full text-sm" aria-describedby="evidence-error" />
+            <input
+              name="file"
+              type="file"
+              required
+              accept="image/jpeg,image/png,image/webp,image/heic,application/pdf"
+              className="mt-1 block w-full text-sm"
+              aria-describedby="evidence-error"
+            />
           </label>
           <label className="block text-sm">
             <span className="font-medium text-ink-700">What it shows (optional)</span>
             <input name="note" maxLength={500} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-1.5" />
           </label>
           {err && <FieldError id="evidence-error" messages={err.fields.file ?? err.fields.note ?? [err.message]} />}
-          <button type="submit" disabled={upload.isPending} className="rounded-md border border-fjord-600 px-3 py-1.5 text-sm font-medium text-fjord-700 hover:bg-fjord-50 disabled:opacity-40">
+          <button
+            type="submit"
+            disabled={upload.isPending}
+            className="rounded-md border border-fjord-600 px-3 py-1.5 text-sm font-medium text-fjord-700 hover:bg-fjord-50 disabled:opacity-40"
+          >
             {upload.isPending ? "Uploading…" : "Attach"}
           </button>
         </form>
@@ -449,10 +550,21 @@ function Comments({ finding: f, onDone }: { finding: FindingView; onDone: (t: st
         >
           <label className="block text-sm">
             <span className="font-medium text-ink-700">Add a comment</span>
-            <textarea value={body} onChange={(e) => setBody(e.target.value)} rows={2} maxLength={4000} className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" aria-describedby="comment-error" />
+            <textarea
+              value={body}
+              onChange={(e) => setBody(e.target.value)}
+              rows={2}
+              maxLength={4000}
+              className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2"
+              aria-describedby="comment-error"
+            />
           </label>
           {err && <FieldError id="comment-error" messages={err.fields.body ?? [err.message]} />}
-          <button type="submit" disabled={!body.trim() || add.isPending} className="rounded-md border border-fjord-600 px-3 py-1.5 text-sm font-medium text-fjord-700 hover:bg-fjord-50 disabled:opacity-40">
+          <button
+            type="submit"
+            disabled={!body.trim() || add.isPending}
+            className="rounded-md border border-fjord-600 px-3 py-1.5 text-sm font-medium text-fjord-700 hover:bg-fjord-50 disabled:opacity-40"
+          >
             Comment
           </button>
         </form>
@@ -467,7 +579,11 @@ function History({ finding: f }: { finding: FindingView }) {
       <ol className="space-y-2 text-sm" data-testid="finding-history">
         {f.events.map((e) => (
           <li key={e.id} className="flex gap-2">
-            {e.toState ? <StateIcon state={e.toState} className="mt-0.5 h-4 w-4 shrink-0 text-ink-600" /> : <span aria-hidden="true">•</span>}
+            {e.toState ? (
+              <StateIcon state={e.toState} className="mt-0.5 h-4 w-4 shrink-0 text-ink-600" />
+            ) : (
+              <span aria-hidden="true">•</span>
+            )}
             <div>
               <p className="text-ink-900">
                 <strong>{ACTION_WORDS[e.action] ?? e.action}</strong>

@@ -4,7 +4,15 @@ import Link from "next/link";
 import { usePathname, useRouter } from "next/navigation";
 import { useEffect, useId, useMemo, useState } from "react";
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { createColumnHelper, rowSelectionFeature, tableFeatures, useTable, type PaginationState, type RowSelectionState, type SortingState } from "@tanstack/react-table";
+import {
+  createColumnHelper,
+  rowSelectionFeature,
+  tableFeatures,
+  useTable,
+  type PaginationState,
+  type RowSelectionState,
+  type SortingState,
+} from "@tanstack/react-table";
 import {
   DUE_BUCKETS,
   FINDING_GROUP_FIELDS,
@@ -35,8 +43,24 @@ export const DUE_WORDS: Record<(typeof DUE_BUCKETS)[number], string> = {
   later: "Due later",
   none: "No due date",
 };
-const GROUP_WORDS: Record<FindingGroupField, string> = { branch: "Branch", rule: "Rule", severity: "Severity", state: "Status", assignee: "Assignee", due: "Due date" };
-const SORT_WORDS: Record<FindingSortField, string> = { due: "Due date", severity: "Severity", branch: "Branch", rule: "Rule", state: "Status", assignee: "Assignee", opened: "First found", updated: "Last change" };
+const GROUP_WORDS: Record<FindingGroupField, string> = {
+  branch: "Branch",
+  rule: "Rule",
+  severity: "Severity",
+  state: "Status",
+  assignee: "Assignee",
+  due: "Due date",
+};
+const SORT_WORDS: Record<FindingSortField, string> = {
+  due: "Due date",
+  severity: "Severity",
+  branch: "Branch",
+  rule: "Rule",
+  state: "Status",
+  assignee: "Assignee",
+  opened: "First found",
+  updated: "Last change",
+};
 
 type ViewState = FindingViewQuery;
 
@@ -118,30 +142,54 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
     placeholderData: keepPreviousData,
   });
   const branches = useBranchOptions(!compact);
-  const assignees = useQuery({ queryKey: ["assignees"], queryFn: () => fetchJson<{ rows: Assignee[] }>("/api/findings/assignees"), enabled: canAssign });
-  const views = useQuery({ queryKey: ["saved-views"], queryFn: () => fetchJson<{ rows: SavedView[] }>("/api/saved-views"), enabled: !compact });
+  const assignees = useQuery({
+    queryKey: ["assignees"],
+    queryFn: () => fetchJson<{ rows: Assignee[] }>("/api/findings/assignees"),
+    enabled: canAssign,
+  });
+  const views = useQuery({
+    queryKey: ["saved-views"],
+    queryFn: () => fetchJson<{ rows: SavedView[] }>("/api/saved-views"),
+    enabled: !compact,
+  });
 
   const selectedIds = Object.keys(rowSelection).map(Number);
 
   const assign = useMutation({
-    mutationFn: (body: { findingIds: number[]; assigneeId: number | null }) => fetchJson<{ assigned: number }>("/api/findings/assign", { method: "POST", body: JSON.stringify(body) }),
+    mutationFn: (body: { findingIds: number[]; assigneeId: number | null }) =>
+      fetchJson<{ assigned: number }>("/api/findings/assign", { method: "POST", body: JSON.stringify(body) }),
     onSuccess: (res, vars) => {
       const who = assignees.data?.rows.find((a) => a.id === vars.assigneeId)?.name;
-      setNotice({ ok: true, text: vars.assigneeId === null ? `Assignment removed from ${res.assigned} finding${res.assigned === 1 ? "" : "s"}.` : `Assigned ${res.assigned} finding${res.assigned === 1 ? "" : "s"} to ${who ?? "them"}; they have been e-mailed.` });
+      setNotice({
+        ok: true,
+        text:
+          vars.assigneeId === null
+            ? `Assignment removed from ${res.assigned} finding${res.assigned === 1 ? "" : "s"}.`
+            : `Assigned ${res.assigned} finding${res.assigned === 1 ? "" : "s"} to ${who ?? "them"}; they have been e-mailed.`,
+      });
       setRowSelection({});
       void queryClient.invalidateQueries({ queryKey: ["findings"] });
     },
-    onError: (err) => setNotice({ ok: false, text: err instanceof ApiError ? (Object.values(err.fieldErrors)[0]?.[0] ?? err.message) : "The findings could not be assigned" }),
+    onError: (err) =>
+      setNotice({
+        ok: false,
+        text: err instanceof ApiError ? (Object.values(err.fieldErrors)[0]?.[0] ?? err.message) : "The findings could not be assigned",
+      }),
   });
 
   const saveViewMutation = useMutation({
-    mutationFn: (name: string) => fetchJson<SavedView>("/api/saved-views", { method: "POST", body: JSON.stringify({ list: "findings", name, query: view }) }),
+    mutationFn: (name: string) =>
+      fetchJson<SavedView>("/api/saved-views", { method: "POST", body: JSON.stringify({ list: "findings", name, query: view }) }),
     onSuccess: (saved) => {
       setNotice({ ok: true, text: `View "${saved.name}" saved.` });
       setViewName("");
       void queryClient.invalidateQueries({ queryKey: ["saved-views"] });
     },
-    onError: (err) => setNotice({ ok: false, text: err instanceof ApiError ? (Object.values(err.fieldErrors)[0]?.[0] ?? err.message) : "The view could not be saved" }),
+    onError: (err) =>
+      setNotice({
+        ok: false,
+        text: err instanceof ApiError ? (Object.values(err.fieldErrors)[0]?.[0] ?? err.message) : "The view could not be saved",
+      }),
   });
   const deleteView = useMutation({
     mutationFn: (id: number) => fetchJson(`/api/saved-views/${id}`, { method: "DELETE" }),
@@ -186,7 +234,11 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
             const r = i.row.original;
             return (
               <div className="min-w-[16rem] max-w-xl">
-                <Link href={`/findings/${r.id}`} className="font-medium text-fjord-700 underline-offset-2 hover:underline" data-testid="finding-link">
+                <Link
+                  href={`/findings/${r.id}`}
+                  className="font-medium text-fjord-700 underline-offset-2 hover:underline"
+                  data-testid="finding-link"
+                >
                   <span className="tabular text-ink-600">{r.ruleId}</span> {r.title}
                 </Link>
                 <p className="mt-0.5 line-clamp-2 text-xs text-ink-600">{r.detail}</p>
@@ -194,17 +246,33 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
             );
           },
         }),
-        helper.accessor("recordLabel", { id: "record", header: "Record", enableSorting: false, cell: (i) => <span className="whitespace-nowrap">{i.getValue()}</span> }),
+        helper.accessor("recordLabel", {
+          id: "record",
+          header: "Record",
+          enableSorting: false,
+          cell: (i) => <span className="whitespace-nowrap">{i.getValue()}</span>,
+        }),
         helper.accessor("branchName", { id: "branch", header: "Branch" }),
         helper.accessor((r) => r.assigneeName ?? "", {
           id: "assignee",
           header: "Assignee",
-          cell: (i) => (i.row.original.assigneeName ? <span className="whitespace-nowrap">{i.row.original.assigneeName}</span> : <span className="text-ink-500">Not assigned</span>),
+          cell: (i) =>
+            i.row.original.assigneeName ? (
+              <span className="whitespace-nowrap">{i.row.original.assigneeName}</span>
+            ) : (
+              <span className="text-ink-500">Not assigned</span>
+            ),
         }),
         helper.accessor((r) => r.dueOn ?? "", {
           id: "due",
           header: "Due",
-          cell: (i) => <DueText dueOn={i.row.original.dueOn} today={today} active={i.row.original.state === "open" || i.row.original.state === "fix_proposed"} />,
+          cell: (i) => (
+            <DueText
+              dueOn={i.row.original.dueOn}
+              today={today}
+              active={i.row.original.state === "open" || i.row.original.state === "fix_proposed"}
+            />
+          ),
         }),
       ]),
     [canAssign, today],
@@ -219,7 +287,8 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
     onSortingChange: (updater) => {
       const next = typeof updater === "function" ? updater(sorting) : updater;
       const s = next[0];
-      if (s && (FINDING_SORT_FIELDS as readonly string[]).includes(s.id)) setView((v) => ({ ...v, sort: s.id as FindingSortField, dir: s.desc ? "desc" : "asc" }));
+      if (s && (FINDING_SORT_FIELDS as readonly string[]).includes(s.id))
+        setView((v) => ({ ...v, sort: s.id as FindingSortField, dir: s.desc ? "desc" : "asc" }));
       setPagination((p) => ({ ...p, pageIndex: 0 }));
     },
     onPaginationChange: setPagination,
@@ -252,11 +321,21 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
       {!compact && (
         <FilterBar label="Filter findings" className="sm:grid-cols-3 lg:grid-cols-6">
           <FilterField label="Search" className="sm:col-span-2">
-            <input type="search" value={view.q ?? ""} onChange={(e) => set("q", e.target.value)} placeholder="Words, rule id or appliance tag" className={selectClass} />
+            <input
+              type="search"
+              value={view.q ?? ""}
+              onChange={(e) => set("q", e.target.value)}
+              placeholder="Words, rule id or appliance tag"
+              className={selectClass}
+            />
           </FilterField>
           {!fixed.branchId && (branches.data?.rows.length ?? 0) > 1 && (
             <FilterField label="Branch">
-              <select value={view.branchId ?? ""} onChange={(e) => set("branchId", e.target.value ? Number(e.target.value) : "")} className={selectClass}>
+              <select
+                value={view.branchId ?? ""}
+                onChange={(e) => set("branchId", e.target.value ? Number(e.target.value) : "")}
+                className={selectClass}
+              >
                 <option value="">All branches</option>
                 {branches.data!.rows.map((b) => (
                   <option key={b.id} value={b.id}>
@@ -277,7 +356,11 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
             </select>
           </FilterField>
           <FilterField label="Severity">
-            <select value={view.severity ?? ""} onChange={(e) => set("severity", e.target.value as ViewState["severity"])} className={selectClass}>
+            <select
+              value={view.severity ?? ""}
+              onChange={(e) => set("severity", e.target.value as ViewState["severity"])}
+              className={selectClass}
+            >
               <option value="">Every severity</option>
               {SEVERITIES.map((s) => (
                 <option key={s} value={s}>
@@ -287,7 +370,11 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
             </select>
           </FilterField>
           <FilterField label="Status">
-            <select value={view.state ?? "active"} onChange={(e) => set("state", e.target.value as ViewState["state"])} className={selectClass}>
+            <select
+              value={view.state ?? "active"}
+              onChange={(e) => set("state", e.target.value as ViewState["state"])}
+              className={selectClass}
+            >
               <option value="active">To act on</option>
               <option value="all">Every status</option>
               {FINDING_STATES.map((s) => (
@@ -298,7 +385,11 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
             </select>
           </FilterField>
           <FilterField label="Assignee">
-            <select value={view.assignee === undefined ? "" : String(view.assignee)} onChange={(e) => set("assignee", e.target.value === "" ? "" : e.target.value === "none" ? "none" : Number(e.target.value))} className={selectClass}>
+            <select
+              value={view.assignee === undefined ? "" : String(view.assignee)}
+              onChange={(e) => set("assignee", e.target.value === "" ? "" : e.target.value === "none" ? "none" : Number(e.target.value))}
+              className={selectClass}
+            >
               <option value="">Anyone</option>
               <option value="none">Not assigned</option>
               {(assignees.data?.rows ?? []).map((a) => (
@@ -319,7 +410,11 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
             </select>
           </FilterField>
           <FilterField label="Group by">
-            <select value={view.groupBy ?? ""} onChange={(e) => set("groupBy", e.target.value as FindingGroupField)} className={selectClass}>
+            <select
+              value={view.groupBy ?? ""}
+              onChange={(e) => set("groupBy", e.target.value as FindingGroupField)}
+              className={selectClass}
+            >
               <option value="">No grouping</option>
               {FINDING_GROUP_FIELDS.map((g) => (
                 <option key={g} value={g}>
@@ -329,10 +424,14 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
             </select>
           </FilterField>
           <FilterField label="Sort by">
-            <select value={`${view.sort}:${view.dir}`} onChange={(e) => {
-              const [sort, dir] = e.target.value.split(":") as [FindingSortField, "asc" | "desc"];
-              setView((v) => ({ ...v, sort, dir }));
-            }} className={selectClass}>
+            <select
+              value={`${view.sort}:${view.dir}`}
+              onChange={(e) => {
+                const [sort, dir] = e.target.value.split(":") as [FindingSortField, "asc" | "desc"];
+                setView((v) => ({ ...v, sort, dir }));
+              }}
+              className={selectClass}
+            >
               {FINDING_SORT_FIELDS.flatMap((s) => [
                 <option key={`${s}:asc`} value={`${s}:asc`}>
                   {SORT_WORDS[s]} ↑
@@ -351,7 +450,10 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                 onChange={(e) => {
                   const v = views.data?.rows.find((x) => String(x.id) === e.target.value);
                   if (v) {
-                    setView({ ...DEFAULT_VIEW, ...Object.fromEntries(Object.entries(v.query).filter(([, x]) => x !== undefined && x !== null)) } as ViewState);
+                    setView({
+                      ...DEFAULT_VIEW,
+                      ...Object.fromEntries(Object.entries(v.query).filter(([, x]) => x !== undefined && x !== null)),
+                    } as ViewState);
                     setPagination((p) => ({ ...p, pageIndex: 0 }));
                     setNotice({ ok: true, text: `Showing the view "${v.name}".` });
                   }
@@ -370,9 +472,20 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
           <div className="flex items-end gap-2 text-sm sm:col-span-3 lg:col-span-3">
             <label className="flex-1">
               <span className="block font-medium text-ink-700">Save these filters as</span>
-              <input value={viewName} onChange={(e) => setViewName(e.target.value)} placeholder="e.g. Overdue in Peoria" maxLength={100} className={selectClass} />
+              <input
+                value={viewName}
+                onChange={(e) => setViewName(e.target.value)}
+                placeholder="e.g. Overdue in Peoria"
+                maxLength={100}
+                className={selectClass}
+              />
             </label>
-            <button type="button" disabled={!viewName.trim() || saveViewMutation.isPending} onClick={() => saveViewMutation.mutate(viewName.trim())} className="rounded-md border border-fjord-600 px-3 py-1.5 font-medium text-fjord-700 hover:bg-fjord-50 disabled:opacity-40">
+            <button
+              type="button"
+              disabled={!viewName.trim() || saveViewMutation.isPending}
+              onClick={() => saveViewMutation.mutate(viewName.trim())}
+              className="rounded-md border border-fjord-600 px-3 py-1.5 font-medium text-fjord-700 hover:bg-fjord-50 disabled:opacity-40"
+            >
               Save view
             </button>
           </div>
@@ -381,7 +494,12 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
               {views.data!.rows.map((v) => (
                 <li key={v.id} className="inline-flex items-center gap-1 rounded-full border border-ink-200 bg-ink-50 px-2 py-0.5">
                   {v.name}
-                  <button type="button" onClick={() => deleteView.mutate(v.id)} className="text-ink-600 hover:text-sev-critical" aria-label={`Delete the saved view ${v.name}`}>
+                  <button
+                    type="button"
+                    onClick={() => deleteView.mutate(v.id)}
+                    className="text-ink-600 hover:text-sev-critical"
+                    aria-label={`Delete the saved view ${v.name}`}
+                  >
                     ✕
                   </button>
                 </li>
@@ -392,20 +510,31 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
       )}
 
       {notice && (
-        <p role={notice.ok ? "status" : "alert"} className={`rounded-md border px-3 py-2 text-sm ${notice.ok ? "border-ok/40 bg-green-50 text-ok" : "border-sev-critical/40 bg-red-50 text-sev-critical"}`}>
+        <p
+          role={notice.ok ? "status" : "alert"}
+          className={`rounded-md border px-3 py-2 text-sm ${notice.ok ? "border-ok/40 bg-green-50 text-ok" : "border-sev-critical/40 bg-red-50 text-sev-critical"}`}
+        >
           <span aria-hidden="true">{notice.ok ? "✓ " : "⚠ "}</span>
           {notice.text}
         </p>
       )}
 
       {canAssign && selectedIds.length > 0 && (
-        <div className="flex flex-wrap items-end gap-3 rounded-lg border border-fjord-200 bg-fjord-50 p-3 text-sm" role="region" aria-label="Assign the selected findings">
+        <div
+          className="flex flex-wrap items-end gap-3 rounded-lg border border-fjord-200 bg-fjord-50 p-3 text-sm"
+          role="region"
+          aria-label="Assign the selected findings"
+        >
           <p className="font-medium text-ink-900">
             {selectedIds.length} finding{selectedIds.length === 1 ? "" : "s"} selected
           </p>
           <label>
             <span className="block font-medium text-ink-700">Assign to</span>
-            <select value={assignTo} onChange={(e) => setAssignTo(e.target.value)} className="mt-1 rounded-md border border-ink-300 bg-white px-2 py-1.5">
+            <select
+              value={assignTo}
+              onChange={(e) => setAssignTo(e.target.value)}
+              className="mt-1 rounded-md border border-ink-300 bg-white px-2 py-1.5"
+            >
               <option value="">Choose a person…</option>
               {(assignees.data?.rows ?? []).map((a) => (
                 <option key={a.id} value={a.id}>

@@ -11,7 +11,15 @@ const PACKS: { id: RulePack; label: string; hint: string }[] = [
   { id: "eu", label: "EU", hint: "Regulation (EU) 2024/573: leak checks and leak-detection systems" },
 ];
 
-export function NewAuditForm({ branches, defaultPacks, today }: { branches: { id: number; name: string }[]; defaultPacks: RulePack[]; today: string }) {
+export function NewAuditForm({
+  branches,
+  defaultPacks,
+  today,
+}: {
+  branches: { id: number; name: string }[];
+  defaultPacks: RulePack[];
+  today: string;
+}) {
   const router = useRouter();
   const threeYearsBack = `${Number(today.slice(0, 4)) - 3}${today.slice(4)}`;
   const [branchIds, setBranchIds] = useState<number[]>(branches.map((b) => b.id));
@@ -19,7 +27,8 @@ export function NewAuditForm({ branches, defaultPacks, today }: { branches: { id
   const [periodTo, setTo] = useState(today);
   const [packs, setPacks] = useState<RulePack[]>(defaultPacks.length ? defaultPacks : ["us_federal"]);
   const start = useMutation({
-    mutationFn: () => fetchJson<{ id: number }>("/api/audits", { method: "POST", body: JSON.stringify({ branchIds, periodFrom, periodTo, packs }) }),
+    mutationFn: () =>
+      fetchJson<{ id: number }>("/api/audits", { method: "POST", body: JSON.stringify({ branchIds, periodFrom, periodTo, packs }) }),
     onSuccess: ({ id }) => router.push(`/audits/${id}`),
   });
   const fields = start.error instanceof ApiError ? start.error.fieldErrors : {};
@@ -61,16 +70,32 @@ export function NewAuditForm({ branches, defaultPacks, today }: { branches: { id
 
       <fieldset>
         <legend className="font-semibold text-ink-950">Period</legend>
-        <p className="text-sm text-ink-600">Dates are inclusive and read in each branch&apos;s time zone. Records are kept for three years, so three years is the default.</p>
+        <p className="text-sm text-ink-600">
+          Dates are inclusive and read in each branch&apos;s time zone. Records are kept for three years, so three years is the default.
+        </p>
         <div className="mt-2 grid gap-3 sm:grid-cols-2">
           <label className="text-sm">
             <span className="block font-medium text-ink-700">From</span>
-            <input type="date" value={periodFrom} onChange={(e) => setFrom(e.target.value)} required className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" aria-describedby="periodFrom-error" />
+            <input
+              type="date"
+              value={periodFrom}
+              onChange={(e) => setFrom(e.target.value)}
+              required
+              className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2"
+              aria-describedby="periodFrom-error"
+            />
             {error("periodFrom")}
           </label>
           <label className="text-sm">
             <span className="block font-medium text-ink-700">To</span>
-            <input type="date" value={periodTo} onChange={(e) => setTo(e.target.value)} required className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2" aria-describedby="periodTo-error" />
+            <input
+              type="date"
+              value={periodTo}
+              onChange={(e) => setTo(e.target.value)}
+              required
+              className="mt-1 w-full rounded-md border border-ink-300 px-2 py-2"
+              aria-describedby="periodTo-error"
+            />
             {error("periodTo")}
           </label>
         </div>
@@ -81,7 +106,12 @@ export function NewAuditForm({ branches, defaultPacks, today }: { branches: { id
         <div className="mt-2 space-y-2">
           {PACKS.map((p) => (
             <label key={p.id} className="flex items-start gap-2 text-sm">
-              <input type="checkbox" className="mt-0.5 h-4 w-4" checked={packs.includes(p.id)} onChange={() => setPacks((xs) => (xs.includes(p.id) ? xs.filter((x) => x !== p.id) : [...xs, p.id]))} />
+              <input
+                type="checkbox"
+                className="mt-0.5 h-4 w-4"
+                checked={packs.includes(p.id)}
+                onChange={() => setPacks((xs) => (xs.includes(p.id) ? xs.filter((x) => x !== p.id) : [...xs, p.id]))}
+              />
               <span>
                 <span className="font-medium">{p.label}</span> <span className="text-ink-600">— {p.hint}</span>
               </span>
@@ -96,7 +126,11 @@ export function NewAuditForm({ branches, defaultPacks, today }: { branches: { id
           ⚠ {message}
         </p>
       )}
-      <button type="submit" disabled={start.isPending} className="rounded-md bg-fjord-600 px-5 py-2.5 font-semibold text-white hover:bg-fjord-700 disabled:opacity-40">
+      <button
+        type="submit"
+        disabled={start.isPending}
+        className="rounded-md bg-fjord-600 px-5 py-2.5 font-semibold text-white hover:bg-fjord-700 disabled:opacity-40"
+      >
         {start.isPending ? "Starting…" : "Start the audit"}
       </button>
     </form>

@@ -14,7 +14,12 @@ import type { OverviewData } from "./types";
 export function OverviewDashboard() {
   const overview = useQuery({ queryKey: ["overview"], queryFn: () => fetchJson<OverviewData>("/api/dashboard/overview") });
   if (overview.isLoading) return <p className="text-ink-600">Loading the overview…</p>;
-  if (overview.isError || !overview.data) return <p role="alert" className="text-sev-critical">⚠ The overview could not be loaded.</p>;
+  if (overview.isError || !overview.data)
+    return (
+      <p role="alert" className="text-sev-critical">
+        ⚠ The overview could not be loaded.
+      </p>
+    );
   const { branches, totals, healthExplanation } = overview.data;
   return (
     <div className="space-y-4">
@@ -23,7 +28,10 @@ export function OverviewDashboard() {
         {SEVERITIES.map((s) => (
           <div key={s} className="rounded-lg border border-ink-200 bg-white p-3">
             <p className="flex items-center gap-1.5 text-sm text-ink-700">
-              <SeverityIcon severity={s} className={`h-4 w-4 ${s === "critical" ? "text-sev-critical" : s === "major" ? "text-sev-major" : "text-sev-minor"}`} />
+              <SeverityIcon
+                severity={s}
+                className={`h-4 w-4 ${s === "critical" ? "text-sev-critical" : s === "major" ? "text-sev-major" : "text-sev-minor"}`}
+              />
               {SEVERITY_LABELS[s]} to act on
             </p>
             <p className="tabular text-2xl font-semibold text-ink-950" data-testid={`total-${s}`}>
@@ -62,13 +70,27 @@ export function OverviewDashboard() {
           <table className="min-w-full text-sm">
             <thead className="bg-ink-100 text-left text-xs uppercase tracking-wide text-ink-600">
               <tr>
-                <th scope="col" className="px-3 py-2">Branch</th>
-                <th scope="col" className="px-3 py-2 text-right">Critical</th>
-                <th scope="col" className="px-3 py-2 text-right">Major</th>
-                <th scope="col" className="px-3 py-2 text-right">Minor</th>
-                <th scope="col" className="px-3 py-2 text-right">Overdue</th>
-                <th scope="col" className="px-3 py-2">Record health</th>
-                <th scope="col" className="px-3 py-2">Since the last audit</th>
+                <th scope="col" className="px-3 py-2">
+                  Branch
+                </th>
+                <th scope="col" className="px-3 py-2 text-right">
+                  Critical
+                </th>
+                <th scope="col" className="px-3 py-2 text-right">
+                  Major
+                </th>
+                <th scope="col" className="px-3 py-2 text-right">
+                  Minor
+                </th>
+                <th scope="col" className="px-3 py-2 text-right">
+                  Overdue
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Record health
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Since the last audit
+                </th>
               </tr>
             </thead>
             <tbody className="divide-y divide-ink-100">
@@ -89,7 +111,9 @@ export function OverviewDashboard() {
                   <td className="px-3 py-2">
                     <TrendText trend={b.trend} since={b.lastAudit?.finishedAt ?? null} />
                     {b.history.length > 1 && (
-                      <span className="tabular block text-xs text-ink-600">At the last audits: {b.history.map((h) => h.health.toFixed(1)).join(" → ")}</span>
+                      <span className="tabular block text-xs text-ink-600">
+                        At the last audits: {b.history.map((h) => h.health.toFixed(1)).join(" → ")}
+                      </span>
                     )}
                   </td>
                 </tr>

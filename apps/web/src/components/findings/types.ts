@@ -1,14 +1,6 @@
 // Shapes the findings and audits API routes return, as the browser receives them (type-only).
 import type { RecordHealth, HealthTrend } from "@coldtrail/core";
-import type {
-  AuditRun,
-  BranchDashboard,
-  FindingDetail,
-  FindingGroup,
-  FindingListRow,
-  OverviewBranch,
-  SavedView,
-} from "@coldtrail/db";
+import type { AuditRun, BranchDashboard, FindingDetail, FindingGroup, FindingListRow, OverviewBranch, SavedView } from "@coldtrail/db";
 
 export type { FindingListRow, FindingGroup, SavedView, OverviewBranch, BranchDashboard, RecordHealth, HealthTrend };
 

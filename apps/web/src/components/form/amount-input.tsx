@@ -42,7 +42,15 @@ export function AmountInput({
 }: AmountInputProps) {
   return (
     <div className="mt-1 flex gap-2">
-      <input id={id} type="text" inputMode="decimal" autoComplete="off" {...amount} className={`${inputClassName} mt-0 flex-1 ${tabular ? "tabular" : ""}`} {...fieldAria(id, { hint, error })} />
+      <input
+        id={id}
+        type="text"
+        inputMode="decimal"
+        autoComplete="off"
+        {...amount}
+        className={`${inputClassName} mt-0 flex-1 ${tabular ? "tabular" : ""}`}
+        {...fieldAria(id, { hint, error })}
+      />
       <label htmlFor={unitId} className="sr-only">
         {unitLabel}
       </label>

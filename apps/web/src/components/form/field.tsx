@@ -44,7 +44,18 @@ export interface FieldProps {
 }
 
 /** A labelled field with its hint and error, wired for screen readers (see `fieldAria` for the input). */
-export function Field({ id, label, hint, hintFirst = false, error, optional, children, className, labelClassName = fieldLabelClass, hintClassName = fieldHintClass }: FieldProps) {
+export function Field({
+  id,
+  label,
+  hint,
+  hintFirst = false,
+  error,
+  optional,
+  children,
+  className,
+  labelClassName = fieldLabelClass,
+  hintClassName = fieldHintClass,
+}: FieldProps) {
   const hintLine = hint ? (
     <p id={`${id}-hint`} className={hintClassName}>
       {hint}
@@ -64,7 +75,10 @@ export function Field({ id, label, hint, hintFirst = false, error, optional, chi
   );
 }
 
-type InputAttributes = Pick<InputHTMLAttributes<HTMLInputElement>, "type" | "inputMode" | "list" | "autoComplete" | "autoCapitalize" | "placeholder" | "readOnly" | "maxLength">;
+type InputAttributes = Pick<
+  InputHTMLAttributes<HTMLInputElement>,
+  "type" | "inputMode" | "list" | "autoComplete" | "autoCapitalize" | "placeholder" | "readOnly" | "maxLength"
+>;
 
 export interface TextFieldProps extends Omit<FieldProps, "children">, InputAttributes {
   /** What `register(name)` returns. */
@@ -77,12 +91,35 @@ export interface TextFieldProps extends Omit<FieldProps, "children">, InputAttri
 }
 
 /** `Field` around a registered input or textarea, with `aria-invalid` and `aria-describedby` set. */
-export function TextField({ registration, rows, inputClassName, after, type, inputMode, list, autoComplete, autoCapitalize, placeholder, readOnly, maxLength, ...field }: TextFieldProps) {
+export function TextField({
+  registration,
+  rows,
+  inputClassName,
+  after,
+  type,
+  inputMode,
+  list,
+  autoComplete,
+  autoCapitalize,
+  placeholder,
+  readOnly,
+  maxLength,
+  ...field
+}: TextFieldProps) {
   const aria = fieldAria(field.id, { hint: Boolean(field.hint), error: field.error });
   return (
     <Field {...field}>
       {rows ? (
-        <textarea id={field.id} rows={rows} {...registration} placeholder={placeholder} readOnly={readOnly} maxLength={maxLength} className={inputClassName} {...aria} />
+        <textarea
+          id={field.id}
+          rows={rows}
+          {...registration}
+          placeholder={placeholder}
+          readOnly={readOnly}
+          maxLength={maxLength}
+          className={inputClassName}
+          {...aria}
+        />
       ) : (
         <input
           id={field.id}
@@ -117,7 +154,12 @@ export interface SelectFieldProps extends Omit<FieldProps, "children"> {
 export function SelectField({ registration, options, placeholder, selectClassName, ...field }: SelectFieldProps) {
   return (
     <Field {...field}>
-      <select id={field.id} {...registration} className={selectClassName} {...fieldAria(field.id, { hint: Boolean(field.hint), error: field.error })}>
+      <select
+        id={field.id}
+        {...registration}
+        className={selectClassName}
+        {...fieldAria(field.id, { hint: Boolean(field.hint), error: field.error })}
+      >
         {placeholder !== undefined && <option value="">{placeholder}</option>}
         {options.map((o) => (
           <option key={o.value} value={o.value}>

@@ -10,7 +10,11 @@ export function FormAlert({ id, message, variant = "panel" }: { id?: string; mes
   if (!message) return null;
   if (variant === "inline") {
     return (
-      <p id={id} role="alert" className="flex items-start gap-2 rounded-md border border-sev-critical/50 bg-red-50 px-3 py-2 text-sm font-medium text-sev-critical">
+      <p
+        id={id}
+        role="alert"
+        className="flex items-start gap-2 rounded-md border border-sev-critical/50 bg-red-50 px-3 py-2 text-sm font-medium text-sev-critical"
+      >
         <span aria-hidden="true">⚠</span>
         <span>{message}</span>
       </p>

@@ -52,7 +52,13 @@ export function RadioCards<V extends string | number | boolean>({
           {registration ? (
             <input type="radio" value={String(o.value)} {...registration} className="size-5 shrink-0 accent-fjord-600" />
           ) : (
-            <input type="radio" name={name} checked={value === o.value} onChange={() => onChange?.(o.value)} className="size-5 shrink-0 accent-fjord-600" />
+            <input
+              type="radio"
+              name={name}
+              checked={value === o.value}
+              onChange={() => onChange?.(o.value)}
+              className="size-5 shrink-0 accent-fjord-600"
+            />
           )}
           {o.label}
         </label>

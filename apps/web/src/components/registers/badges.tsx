@@ -30,7 +30,11 @@ export function RequalificationBadge({ dueOn, state, today }: { dueOn: string | 
   } else words = `Requalified until ${dueOn}`;
   const d = DUE[state];
   return (
-    <span className={`inline-flex items-start gap-1.5 rounded-md border px-2 py-0.5 text-sm font-medium ${d.tone}`} data-testid="requalification-badge" data-state={state}>
+    <span
+      className={`inline-flex items-start gap-1.5 rounded-md border px-2 py-0.5 text-sm font-medium ${d.tone}`}
+      data-testid="requalification-badge"
+      data-state={state}
+    >
       <span aria-hidden="true">{d.icon}</span>
       <span>{words}</span>
     </span>
@@ -57,7 +61,13 @@ export function DueBadge({ dueOn, state, today }: { dueOn: string; state: Exclud
 
 const STATUS_ICON: Record<string, string> = { in_service: "●", retired: "◌", disposed: "✕", at_reclaimer: "⇢" };
 
-export function StatusBadge({ kind, status }: { kind: "appliance"; status: ApplianceStatus } | { kind: "cylinder"; status: CylinderStatus } | { kind: "equipment"; status: EquipmentStatus }) {
+export function StatusBadge({
+  kind,
+  status,
+}:
+  | { kind: "appliance"; status: ApplianceStatus }
+  | { kind: "cylinder"; status: CylinderStatus }
+  | { kind: "equipment"; status: EquipmentStatus }) {
   const label =
     kind === "appliance"
       ? REGISTER_LABELS.applianceStatus[status as ApplianceStatus]
@@ -82,7 +92,10 @@ const CERT: Record<EquipmentCertificationState, { icon: string; tone: string }> 
 export function CertificationBadge({ state }: { state: EquipmentCertificationState }) {
   const c = CERT[state];
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap text-sm font-medium ${c.tone}`} data-testid="equipment-certification">
+    <span
+      className={`inline-flex items-center gap-1 whitespace-nowrap text-sm font-medium ${c.tone}`}
+      data-testid="equipment-certification"
+    >
       <span aria-hidden="true">{c.icon}</span>
       {REGISTER_LABELS.equipmentCertification[state]}
     </span>

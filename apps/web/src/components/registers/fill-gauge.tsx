@@ -33,7 +33,17 @@ const BASIS_WORDS: Record<CylinderFill["basis"], string> = {
  * How full a cylinder is against its maximum net fill (computed by the rules core). Never colour
  * alone: a sentence with an icon, a marker at the maximum and a striped band for any overfill.
  */
-export function FillGauge({ netG, fill, massUnit, size = "large" }: { netG: number; fill: CylinderFill | null; massUnit: MassDisplayUnit; size?: "large" | "small" }) {
+export function FillGauge({
+  netG,
+  fill,
+  massUnit,
+  size = "large",
+}: {
+  netG: number;
+  fill: CylinderFill | null;
+  massUnit: MassDisplayUnit;
+  size?: "large" | "small";
+}) {
   const level = fillLevel(netG, fill);
   const words = LEVEL_WORDS[level];
   const percent = fill ? Math.max(0, fill.percent) : 0;
@@ -61,7 +71,9 @@ export function FillGauge({ netG, fill, massUnit, size = "large" }: { netG: numb
           className="relative h-2.5 w-full overflow-hidden rounded-sm bg-ink-100"
         >
           <div className="absolute inset-y-0 left-0 bg-fjord-600" style={{ width: `${withinWidth}%` }} />
-          {overWidth > 0 && <div className="absolute inset-y-0" style={{ left: `${markerLeft}%`, width: `${overWidth}%`, backgroundImage: OVER_STRIPES }} />}
+          {overWidth > 0 && (
+            <div className="absolute inset-y-0" style={{ left: `${markerLeft}%`, width: `${overWidth}%`, backgroundImage: OVER_STRIPES }} />
+          )}
           <div className="absolute inset-y-0 w-0.5 bg-ink-950" style={{ left: `${markerLeft}%` }} aria-hidden="true" />
         </div>
         <p className={`mt-0.5 text-xs font-medium ${words.tone}`}>
@@ -86,7 +98,11 @@ export function FillGauge({ netG, fill, massUnit, size = "large" }: { netG: numb
         {words.words}
       </p>
       <div className="relative mt-6">
-        <span className="absolute -top-5 -translate-x-1/2 text-xs font-semibold text-ink-800" style={{ left: `${markerLeft}%` }} aria-hidden="true">
+        <span
+          className="absolute -top-5 -translate-x-1/2 text-xs font-semibold text-ink-800"
+          style={{ left: `${markerLeft}%` }}
+          aria-hidden="true"
+        >
           ▼ max
         </span>
         <div
@@ -99,7 +115,9 @@ export function FillGauge({ netG, fill, massUnit, size = "large" }: { netG: numb
           className="relative h-6 w-full overflow-hidden rounded-md border border-ink-300 bg-ink-100"
         >
           <div className="absolute inset-y-0 left-0 bg-fjord-600" style={{ width: `${withinWidth}%` }} />
-          {overWidth > 0 && <div className="absolute inset-y-0" style={{ left: `${markerLeft}%`, width: `${overWidth}%`, backgroundImage: OVER_STRIPES }} />}
+          {overWidth > 0 && (
+            <div className="absolute inset-y-0" style={{ left: `${markerLeft}%`, width: `${overWidth}%`, backgroundImage: OVER_STRIPES }} />
+          )}
           <div className="absolute inset-y-0 w-1 -translate-x-1/2 bg-ink-950" style={{ left: `${markerLeft}%` }} aria-hidden="true" />
         </div>
         <div className="relative mt-1 h-4 text-xs text-ink-600 tabular" aria-hidden="true">
@@ -129,7 +147,9 @@ export function FillGauge({ netG, fill, massUnit, size = "large" }: { netG: numb
           </div>
           <div>
             <dt className="inline text-ink-600">{fill.remainingG >= 0 ? "Room left " : "Over by "}</dt>
-            <dd className={`inline font-medium tabular ${fill.remainingG < 0 ? "text-sev-critical" : ""}`}>{formatMass(Math.abs(fill.remainingG), massUnit)}</dd>
+            <dd className={`inline font-medium tabular ${fill.remainingG < 0 ? "text-sev-critical" : ""}`}>
+              {formatMass(Math.abs(fill.remainingG), massUnit)}
+            </dd>
           </div>
           <p className="text-xs text-ink-600 sm:col-span-2">Maximum: {BASIS_WORDS[fill.basis]}.</p>
         </dl>

@@ -30,7 +30,13 @@ export function TextField(props: Omit<TextFieldProps, "inputClassName"> & { inpu
 }
 
 /** A labelled amount and unit of the register forms (a mass unless `options` says otherwise). */
-export function AmountField(props: Omit<FieldProps, "children"> & Omit<AmountInputProps, "id" | "hint" | "error" | "inputClassName" | "unitClassName"> & { inputClassName?: string; unitClassName?: string }) {
+export function AmountField(
+  props: Omit<FieldProps, "children"> &
+    Omit<AmountInputProps, "id" | "hint" | "error" | "inputClassName" | "unitClassName"> & {
+      inputClassName?: string;
+      unitClassName?: string;
+    },
+) {
   return <SharedAmountField inputClassName={inputClass} unitClassName={unitSelectClass} {...props} />;
 }
 
@@ -54,8 +60,26 @@ export function SelectField(props: Omit<SelectFieldProps, "selectClassName"> & {
 }
 
 /** The branch a new record belongs to: a choice when the person may write in several, otherwise fixed. */
-export function BranchField({ id, branches, registration, error }: { id: string; branches: readonly { id: number; name: string }[]; registration: UseFormRegisterReturn; error?: string }) {
+export function BranchField({
+  id,
+  branches,
+  registration,
+  error,
+}: {
+  id: string;
+  branches: readonly { id: number; name: string }[];
+  registration: UseFormRegisterReturn;
+  error?: string;
+}) {
   if (branches.length === 1) return <input type="hidden" {...registration} />;
   if (branches.length === 0) return null;
-  return <SelectField id={id} label="Branch" error={error} registration={registration} options={branches.map((b) => ({ value: b.id, label: b.name }))} />;
+  return (
+    <SelectField
+      id={id}
+      label="Branch"
+      error={error}
+      registration={registration}
+      options={branches.map((b) => ({ value: b.id, label: b.name }))}
+    />
+  );
 }

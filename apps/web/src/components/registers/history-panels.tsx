@@ -63,13 +63,18 @@ const STATUS_WORDS: Record<string, string> = {
 export function describeValue(column: string, value: unknown, massUnit: MassDisplayUnit): string {
   if (value === null || value === undefined || value === "") return "—";
   if (column.endsWith("_g") && typeof value === "number") return formatMass(value, massUnit);
-  if (typeof value === "boolean" || ["factory_sealed", "has_leak_detection", "industrial_shutdown_needed", "small_appliance_only", "system_dependent"].includes(column)) {
+  if (
+    typeof value === "boolean" ||
+    ["factory_sealed", "has_leak_detection", "industrial_shutdown_needed", "small_appliance_only", "system_dependent"].includes(column)
+  ) {
     return value === true || value === 1 || value === "1" ? "Yes" : "No";
   }
   if (column === "category") return APPLIANCE_CATEGORY_LABELS[value as ApplianceCategory] ?? String(value);
   if (column === "status") return STATUS_WORDS[String(value)] ?? String(value);
-  if (column === "certification_state") return REGISTER_LABELS.equipmentCertification[value as keyof typeof REGISTER_LABELS.equipmentCertification] ?? String(value);
-  if (column === "full_charge_method") return REGISTER_LABELS.fullChargeMethod[value as keyof typeof REGISTER_LABELS.fullChargeMethod] ?? String(value);
+  if (column === "certification_state")
+    return REGISTER_LABELS.equipmentCertification[value as keyof typeof REGISTER_LABELS.equipmentCertification] ?? String(value);
+  if (column === "full_charge_method")
+    return REGISTER_LABELS.fullChargeMethod[value as keyof typeof REGISTER_LABELS.fullChargeMethod] ?? String(value);
   if (column === "site_id") return `site #${String(value)}`;
   return String(value);
 }
@@ -77,14 +82,24 @@ export function describeValue(column: string, value: unknown, massUnit: MassDisp
 const when = (iso: string) => new Date(iso).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" }) + " UTC";
 
 /** Corrections of a regulated record: who, when, why, and each field's previous and new value. */
-export function AmendmentsPanel({ amendments, massUnit, title = "Corrections" }: { amendments: AmendmentView[]; massUnit: MassDisplayUnit; title?: string }) {
+export function AmendmentsPanel({
+  amendments,
+  massUnit,
+  title = "Corrections",
+}: {
+  amendments: AmendmentView[];
+  massUnit: MassDisplayUnit;
+  title?: string;
+}) {
   return (
     <section aria-labelledby="amendments-h" className="rounded-lg border border-ink-200 bg-white p-4" data-testid="amendments">
       <h2 id="amendments-h" className="text-lg font-semibold text-ink-950">
         {title}
       </h2>
       {amendments.length === 0 ? (
-        <p className="mt-1 text-sm text-ink-600">No corrections. Changes to regulated fields will be listed here with their previous values.</p>
+        <p className="mt-1 text-sm text-ink-600">
+          No corrections. Changes to regulated fields will be listed here with their previous values.
+        </p>
       ) : (
         <ol className="mt-2 space-y-3">
           {amendments.map((a) => (
@@ -100,8 +115,11 @@ export function AmendmentsPanel({ amendments, massUnit, title = "Corrections" }:
                 {Object.keys(a.next).map((column) => (
                   <li key={column}>
                     <span className="font-medium">{COLUMN_WORDS[column] ?? column}:</span>{" "}
-                    <span className="text-ink-600 line-through decoration-ink-400">{describeValue(column, a.previous[column], massUnit)}</span>{" "}
-                    <span aria-label="changed to">→</span> <span className="font-medium">{describeValue(column, a.next[column], massUnit)}</span>
+                    <span className="text-ink-600 line-through decoration-ink-400">
+                      {describeValue(column, a.previous[column], massUnit)}
+                    </span>{" "}
+                    <span aria-label="changed to">→</span>{" "}
+                    <span className="font-medium">{describeValue(column, a.next[column], massUnit)}</span>
                   </li>
                 ))}
               </ul>

@@ -20,7 +20,12 @@ function EventDot(props: { cx?: number; cy?: number; payload?: Point; index?: nu
   if (payload.exceeds) {
     return (
       <g key={props.index}>
-        <path d={`M ${cx} ${cy - 8} L ${cx + 7} ${cy + 5} L ${cx - 7} ${cy + 5} Z`} fill="var(--color-sev-critical)" stroke="#fff" strokeWidth={1} />
+        <path
+          d={`M ${cx} ${cy - 8} L ${cx + 7} ${cy + 5} L ${cx - 7} ${cy + 5} Z`}
+          fill="var(--color-sev-critical)"
+          stroke="#fff"
+          strokeWidth={1}
+        />
         <line x1={cx} x2={cx} y1={cy - 4} y2={cy + 1} stroke="#fff" strokeWidth={1.5} />
       </g>
     );
@@ -35,8 +40,22 @@ const pct = (n: number | null) => (n === null ? "—" : `${n.toFixed(1)} %`);
  * force as a dashed, labelled line. Readable without colour: over-threshold points are triangles, the
  * threshold is dashed, and the same figures follow in a table.
  */
-export function LeakRateChart({ events, massUnit, method }: { events: LeakChartEvent[]; massUnit: MassDisplayUnit; method: "annualizing" | "rolling_average" }) {
-  const points: Point[] = events.map((e) => ({ t: Date.parse(`${e.on}T00:00:00Z`), on: e.on, percent: e.percent === null ? null : Math.round(e.percent * 10) / 10, threshold: e.threshold, exceeds: e.exceeds }));
+export function LeakRateChart({
+  events,
+  massUnit,
+  method,
+}: {
+  events: LeakChartEvent[];
+  massUnit: MassDisplayUnit;
+  method: "annualizing" | "rolling_average";
+}) {
+  const points: Point[] = events.map((e) => ({
+    t: Date.parse(`${e.on}T00:00:00Z`),
+    on: e.on,
+    percent: e.percent === null ? null : Math.round(e.percent * 10) / 10,
+    threshold: e.threshold,
+    exceeds: e.exceeds,
+  }));
   const lastThreshold = [...events].reverse().find((e) => e.threshold !== null)?.threshold ?? null;
   const thresholds = new Set(events.map((e) => e.threshold).filter((x): x is number => x !== null));
   const DAY = 86_400_000;
@@ -79,9 +98,20 @@ export function LeakRateChart({ events, massUnit, method }: { events: LeakChartE
                   tick={{ fontSize: 12, fill: "var(--color-ink-700)" }}
                   unit=" %"
                   width={56}
-                  label={{ value: "Leak rate (%)", angle: -90, position: "insideLeft", offset: 4, fill: "var(--color-ink-700)", fontSize: 12, style: { textAnchor: "middle" } }}
+                  label={{
+                    value: "Leak rate (%)",
+                    angle: -90,
+                    position: "insideLeft",
+                    offset: 4,
+                    fill: "var(--color-ink-700)",
+                    fontSize: 12,
+                    style: { textAnchor: "middle" },
+                  }}
                 />
-                <Tooltip labelFormatter={(v) => (typeof v === "number" ? isoDay(v) : String(v))} formatter={(value, name) => [typeof value === "number" ? `${value.toFixed(1)} %` : String(value), name]} />
+                <Tooltip
+                  labelFormatter={(v) => (typeof v === "number" ? isoDay(v) : String(v))}
+                  formatter={(value, name) => [typeof value === "number" ? `${value.toFixed(1)} %` : String(value), name]}
+                />
                 <Line
                   name="Leak rate"
                   type="linear"
@@ -110,7 +140,12 @@ export function LeakRateChart({ events, massUnit, method }: { events: LeakChartE
                     stroke={thresholds.size > 1 ? "transparent" : "var(--color-ink-900)"}
                     strokeDasharray="7 5"
                     strokeWidth={1.5}
-                    label={{ value: `Threshold ${lastThreshold} %`, position: "insideTopRight", fill: "var(--color-ink-900)", fontSize: 12 }}
+                    label={{
+                      value: `Threshold ${lastThreshold} %`,
+                      position: "insideTopRight",
+                      fill: "var(--color-ink-900)",
+                      fontSize: 12,
+                    }}
                   />
                 )}
               </LineChart>
@@ -125,12 +160,24 @@ export function LeakRateChart({ events, massUnit, method }: { events: LeakChartE
             <table className="min-w-full text-sm" aria-label="Leak-rate events">
               <thead className="bg-ink-100 text-left text-xs uppercase tracking-wide text-ink-600">
                 <tr>
-                  <th scope="col" className="px-2 py-1.5">Date</th>
-                  <th scope="col" className="px-2 py-1.5">Added</th>
-                  <th scope="col" className="px-2 py-1.5">Days since previous</th>
-                  <th scope="col" className="px-2 py-1.5">Leak rate</th>
-                  <th scope="col" className="px-2 py-1.5">Threshold</th>
-                  <th scope="col" className="px-2 py-1.5">Result</th>
+                  <th scope="col" className="px-2 py-1.5">
+                    Date
+                  </th>
+                  <th scope="col" className="px-2 py-1.5">
+                    Added
+                  </th>
+                  <th scope="col" className="px-2 py-1.5">
+                    Days since previous
+                  </th>
+                  <th scope="col" className="px-2 py-1.5">
+                    Leak rate
+                  </th>
+                  <th scope="col" className="px-2 py-1.5">
+                    Threshold
+                  </th>
+                  <th scope="col" className="px-2 py-1.5">
+                    Result
+                  </th>
                 </tr>
               </thead>
               <tbody className="divide-y divide-ink-100">
@@ -139,7 +186,9 @@ export function LeakRateChart({ events, massUnit, method }: { events: LeakChartE
                     <td className="px-2 py-1.5 tabular whitespace-nowrap">{e.on}</td>
                     <td className="px-2 py-1.5 tabular whitespace-nowrap">
                       {formatMass(e.addedG, massUnit)}
-                      {e.excludedG > 0 && <span className="block text-xs text-ink-600">+ {formatMass(e.excludedG, massUnit)} not counted</span>}
+                      {e.excludedG > 0 && (
+                        <span className="block text-xs text-ink-600">+ {formatMass(e.excludedG, massUnit)} not counted</span>
+                      )}
                     </td>
                     <td className="px-2 py-1.5 tabular">{e.daysSinceLastAddition ?? "first"}</td>
                     <td className="px-2 py-1.5 tabular">{pct(e.percent)}</td>

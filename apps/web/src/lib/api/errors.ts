@@ -6,7 +6,11 @@ import { DomainError } from "@coldtrail/db";
 export type FieldErrors = Record<string, string[]>;
 
 export interface ApiErrorBody {
-  error: { code: "unauthenticated" | "forbidden" | "invalid" | "not_found" | "conflict" | "internal"; message: string; fieldErrors?: FieldErrors };
+  error: {
+    code: "unauthenticated" | "forbidden" | "invalid" | "not_found" | "conflict" | "internal";
+    message: string;
+    fieldErrors?: FieldErrors;
+  };
 }
 
 export function errorResponse(status: number, body: ApiErrorBody["error"]): NextResponse<ApiErrorBody> {

@@ -53,7 +53,11 @@ export function route<
       if (spec.query) {
         const parsed = spec.query.safeParse(Object.fromEntries(req.nextUrl.searchParams));
         if (!parsed.success) {
-          return errorResponse(400, { code: "invalid", message: "The request has invalid parameters", fieldErrors: fieldErrorsOf(parsed.error) });
+          return errorResponse(400, {
+            code: "invalid",
+            message: "The request has invalid parameters",
+            fieldErrors: fieldErrorsOf(parsed.error),
+          });
         }
         query = parsed.data;
       }

@@ -7,7 +7,8 @@ import { ApiError } from "./fetch-json";
  */
 export function saveErrorMessage<T extends FieldValues>(err: unknown, setError: UseFormSetError<T>, fallback: string): string {
   if (!(err instanceof ApiError)) return fallback;
-  for (const [field, messages] of Object.entries(err.fieldErrors)) setError(field as FieldPath<T>, { type: "server", message: messages[0] });
+  for (const [field, messages] of Object.entries(err.fieldErrors))
+    setError(field as FieldPath<T>, { type: "server", message: messages[0] });
   return err.message;
 }
 

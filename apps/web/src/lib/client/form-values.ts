@@ -7,5 +7,7 @@ export function todayIn(timeZone: string): string {
 
 /** A stored mass shown in the branch's unit for editing (rounded for reading; untouched values are sent back in grams). */
 export function editAmount(grams: number, massUnit: MassDisplayUnit): { amount: string; unit: MassInputUnit } {
-  return massUnit === "kg" ? { amount: String(roundTo(grams / 1000, 3)), unit: "kg" } : { amount: String(roundTo(grams / 453.59237, 2)), unit: "lb" };
+  return massUnit === "kg"
+    ? { amount: String(roundTo(grams / 1000, 3)), unit: "kg" }
+    : { amount: String(roundTo(grams / 453.59237, 2)), unit: "lb" };
 }

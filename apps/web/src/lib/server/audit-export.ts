@@ -41,7 +41,10 @@ import {
  * frozen header row, a filter, widths to read by, units in the headers and real dates.
  */
 
-export const PACK_LABELS: Record<RulePack, string> = { us_federal: "US federal (40 CFR 82 Subpart F, 40 CFR 84)", eu: "EU (Regulation 2024/573)" };
+export const PACK_LABELS: Record<RulePack, string> = {
+  us_federal: "US federal (40 CFR 82 Subpart F, 40 CFR 84)",
+  eu: "EU (Regulation 2024/573)",
+};
 
 export const SHEET_NAMES = ["Summary", "Findings", "Jobs", "Leak rates", "Cylinders", "Certifications", "Disposals"] as const;
 
@@ -119,10 +122,16 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
   line("Run by", audit.startedByName);
   line("Started at (UTC)", instant(audit.startedAt ?? audit.createdAt), DATETIME);
   line("Finished at (UTC)", instant(audit.finishedAt), DATETIME);
-  line("State", audit.state === "done" ? "Finished" : audit.state === "failed" ? `Stopped: ${audit.error ?? ""}` : "Still running when exported");
+  line(
+    "State",
+    audit.state === "done" ? "Finished" : audit.state === "failed" ? `Stopped: ${audit.error ?? ""}` : "Still running when exported",
+  );
   line("Exported by", o.exportedBy);
   line("Exported at (UTC)", new Date(), DATETIME);
-  line("Findings in this workbook", counts.reduce((n, c) => n + c.n, 0));
+  line(
+    "Findings in this workbook",
+    counts.reduce((n, c) => n + c.n, 0),
+  );
   summary.addRow({}).commit();
 
   const heading = (a: string, b: string) => {
@@ -152,9 +161,13 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
   summary.addRow({}).commit();
   heading("Findings by severity", "Severity");
   const total = group(() => "all")[0]?.[1] ?? { critical: 0, major: 0, minor: 0 };
-  for (const s of ["critical", "major", "minor"] as Severity[]) sumRow("", SEVERITY_LABELS[s], { critical: 0, major: 0, minor: 0, [s]: total[s] } as Record<Severity, number>);
+  for (const s of ["critical", "major", "minor"] as Severity[])
+    sumRow("", SEVERITY_LABELS[s], { critical: 0, major: 0, minor: 0, [s]: total[s] } as Record<Severity, number>);
   summary.addRow({}).commit();
-  line("Masses", "Stored in grams; shown in kilograms (kg) and pounds (lb) in their own columns. Dates are calendar dates in each branch's time zone.");
+  line(
+    "Masses",
+    "Stored in grams; shown in kilograms (kg) and pounds (lb) in their own columns. Dates are calendar dates in each branch's time zone.",
+  );
   line("Status words", Object.values(FINDING_STATE_LABELS).join(", "));
   line("Rule packs available", RULE_PACKS.map((p) => PACK_LABELS[p]).join("; "));
   await summary.commit();
@@ -222,7 +235,13 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
     { header: "Access", key: "access", width: 30 },
     { header: "Temporary device removed", key: "removed", width: 14 },
   ]);
-  for await (const j of jobExportRows(db, { organisationId: audit.organisationId, branchIds: o.branchIds.jobs, from: period.from, to: period.to, scope: o.scopes.jobs })) {
+  for await (const j of jobExportRows(db, {
+    organisationId: audit.organisationId,
+    branchIds: o.branchIds.jobs,
+    from: period.from,
+    to: period.to,
+    scope: o.scopes.jobs,
+  })) {
     jobs
       .addRow({
         id: j.id,
@@ -269,8 +288,19 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
     { header: "Rules applied", key: "regime", width: 26 },
     { header: "Job ids", key: "jobs", width: 14 },
   ]);
-  const REGIMES: Record<string, string> = { us_608_ods: "40 CFR 82 (ozone-depleting)", us_608_substitute: "40 CFR 82 (substitute)", us_aim_hfc: "40 CFR 84 (AIM Act HFC)" };
-  for await (const l of leakRateExportRows(db, { organisationId: audit.organisationId, branchIds: o.branchIds.leak, from: period.from, to: period.to, settings: o.settings, jobVisible: o.jobVisible })) {
+  const REGIMES: Record<string, string> = {
+    us_608_ods: "40 CFR 82 (ozone-depleting)",
+    us_608_substitute: "40 CFR 82 (substitute)",
+    us_aim_hfc: "40 CFR 84 (AIM Act HFC)",
+  };
+  for await (const l of leakRateExportRows(db, {
+    organisationId: audit.organisationId,
+    branchIds: o.branchIds.leak,
+    from: period.from,
+    to: period.to,
+    settings: o.settings,
+    jobVisible: o.jobVisible,
+  })) {
     leaks
       .addRow({
         branch: l.branchName,
@@ -314,7 +344,12 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
     { header: "Requalification due", key: "due", width: 14, style: DATE },
     { header: "Status", key: "status", width: 12 },
   ]);
-  for await (const c of cylinderExportRows(db, { organisationId: audit.organisationId, branchIds: o.branchIds.cylinders, scope: o.scopes.cylinders, settings: o.settings })) {
+  for await (const c of cylinderExportRows(db, {
+    organisationId: audit.organisationId,
+    branchIds: o.branchIds.cylinders,
+    scope: o.scopes.cylinders,
+    settings: o.settings,
+  })) {
     cylinders
       .addRow({
         branch: c.branchName,
@@ -386,7 +421,13 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
     { header: "Signed on", key: "signedOn", width: 12, style: DATE },
     { header: "Job id", key: "job", width: 9 },
   ]);
-  for await (const d of disposalExportRows(db, { organisationId: audit.organisationId, branchIds: o.branchIds.disposals, from: period.from, to: period.to, scope: o.scopes.disposals })) {
+  for await (const d of disposalExportRows(db, {
+    organisationId: audit.organisationId,
+    branchIds: o.branchIds.disposals,
+    from: period.from,
+    to: period.to,
+    scope: o.scopes.disposals,
+  })) {
     disposals
       .addRow({
         kind: d.kind === "record" ? "Disposal record" : "Signed statement",

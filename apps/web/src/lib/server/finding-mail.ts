@@ -24,13 +24,20 @@ export async function deliverFindingMail(db: Knex, notificationIds: number[]): P
   let sent = 0;
   for (const n of await listUnsentFindingMail(db, { ids: notificationIds })) {
     const href = appLink(n.link ?? "/findings");
-    const paragraphs = n.body.split(/\n{2,}/).map((p) => p.trim()).filter(Boolean);
+    const paragraphs = n.body
+      .split(/\n{2,}/)
+      .map((p) => p.trim())
+      .filter(Boolean);
     try {
       await sendMail({
         to: n.email,
         subject: n.title,
         text: [`Hello ${n.name},`, ...paragraphs, `Open it in Coldtrail: ${href}`, FOOTER].join("\n\n"),
-        html: mailHtml({ heading: n.title, paragraphs: [`Hello ${n.name},`, ...paragraphs, FOOTER], action: { label: "Open in Coldtrail", href } }),
+        html: mailHtml({
+          heading: n.title,
+          paragraphs: [`Hello ${n.name},`, ...paragraphs, FOOTER],
+          action: { label: "Open in Coldtrail", href },
+        }),
       });
       await markFindingMailSent(db, { id: n.id });
       sent += 1;
@@ -54,7 +61,10 @@ export function deliverFindingMailLater(db: Knex, notificationIds: number[]): vo
  * "Today" is the UTC calendar date; each person gets at most one digest a day. `onlyUserId` sends just
  * that person's digest (the "send me my digest now" button).
  */
-export async function sendDailyDigests(db: Knex, opts: { now?: Date; onlyUserId?: number; organisationIds?: number[] } = {}): Promise<{ sent: number; people: number }> {
+export async function sendDailyDigests(
+  db: Knex,
+  opts: { now?: Date; onlyUserId?: number; organisationIds?: number[] } = {},
+): Promise<{ sent: number; people: number }> {
   const now = opts.now ?? new Date();
   const today = now.toISOString().slice(0, 10);
   let sent = 0;
@@ -65,14 +75,21 @@ export async function sendDailyDigests(db: Knex, opts: { now?: Date; onlyUserId?
       people += 1;
       const overdue = d.lines.filter((l) => l.overdue).length;
       const title = `Coldtrail digest ${today}: ${overdue} overdue, ${d.lines.length - overdue} due within 7 days`;
-      const lines = d.lines.slice(0, 50).map(
-        (l) =>
-          `• ${l.overdue ? `OVERDUE since ${l.dueOn}` : l.daysLeft === 0 ? "Due today" : `Due ${l.dueOn} (in ${l.daysLeft} day${l.daysLeft === 1 ? "" : "s"})`} — ${SEVERITY_LABELS[l.severity]} — ${l.ruleId} ${l.title} — ${l.branchName} — ${appLink(`/findings/${l.id}`)}`,
-      );
+      const lines = d.lines
+        .slice(0, 50)
+        .map(
+          (l) =>
+            `• ${l.overdue ? `OVERDUE since ${l.dueOn}` : l.daysLeft === 0 ? "Due today" : `Due ${l.dueOn} (in ${l.daysLeft} day${l.daysLeft === 1 ? "" : "s"})`} — ${SEVERITY_LABELS[l.severity]} — ${l.ruleId} ${l.title} — ${l.branchName} — ${appLink(`/findings/${l.id}`)}`,
+        );
       if (d.lines.length > 50) lines.push(`… and ${d.lines.length - 50} more: ${appLink("/findings?due=overdue")}`);
       const body = [`These findings are yours to see through and are overdue or due within 7 days.`, lines.join("\n")].join("\n\n");
       const [id] = await db.transaction((trx) =>
-        insertFindingNotifications(trx, organisationId, [{ userId: d.userId, kind: "finding_digest", title, body, link: "/findings?state=active&sort=due", subjectId: null }], now.toISOString()),
+        insertFindingNotifications(
+          trx,
+          organisationId,
+          [{ userId: d.userId, kind: "finding_digest", title, body, link: "/findings?state=active&sort=due", subjectId: null }],
+          now.toISOString(),
+        ),
       );
       if (id === undefined) continue;
       try {
@@ -82,7 +99,17 @@ export async function sendDailyDigests(db: Knex, opts: { now?: Date; onlyUserId?
           text: [`Hello ${d.name},`, body, `All your findings: ${appLink("/findings?state=active&sort=due")}`, FOOTER].join("\n\n"),
           html: mailHtml({
             heading: title,
-            paragraphs: [`Hello ${d.name},`, "These findings are yours to see through and are overdue or due within 7 days.", ...d.lines.slice(0, 50).map((l) => `${l.overdue ? `Overdue since ${l.dueOn}` : `Due ${l.dueOn}`} · ${SEVERITY_LABELS[l.severity]} · ${l.ruleId} ${l.title} · ${l.branchName} (finding #${l.id})`), FOOTER],
+            paragraphs: [
+              `Hello ${d.name},`,
+              "These findings are yours to see through and are overdue or due within 7 days.",
+              ...d.lines
+                .slice(0, 50)
+                .map(
+                  (l) =>
+                    `${l.overdue ? `Overdue since ${l.dueOn}` : `Due ${l.dueOn}`} · ${SEVERITY_LABELS[l.severity]} · ${l.ruleId} ${l.title} · ${l.branchName} (finding #${l.id})`,
+                ),
+              FOOTER,
+            ],
             action: { label: "Open your findings", href: appLink("/findings?state=active&sort=due") },
           }),
         });

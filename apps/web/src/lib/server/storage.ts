@@ -34,7 +34,10 @@ export class UploadRejected extends Error {
 }
 
 /** Sniffs the real type of an upload and refuses anything but the allowed types or an oversized file. */
-export async function checkUpload(bytes: Uint8Array, allowed: readonly string[] = IMAGE_AND_PDF_TYPES): Promise<{ mime: string; ext: string }> {
+export async function checkUpload(
+  bytes: Uint8Array,
+  allowed: readonly string[] = IMAGE_AND_PDF_TYPES,
+): Promise<{ mime: string; ext: string }> {
   if (bytes.byteLength === 0) throw new UploadRejected("The file is empty");
   if (bytes.byteLength > MAX_UPLOAD_BYTES) throw new UploadRejected(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`);
   const type = await fileTypeFromBuffer(bytes);

@@ -21,14 +21,24 @@ export const technicianNotCertified: AuditRule = {
       const appliance = index.appliances.get(job.applianceId);
       if (!appliance || (!small(appliance) && safePressureClass(appliance) === null)) continue;
       if (job.technicianId === null) {
-        hits.push({ recordType: "job", recordId: job.id, on: job.performedOn, detail: `${jobWords(job)} on ${applianceWords(appliance)} names no technician, so certification cannot be shown` });
+        hits.push({
+          recordType: "job",
+          recordId: job.id,
+          on: job.performedOn,
+          detail: `${jobWords(job)} on ${applianceWords(appliance)} names no technician, so certification cannot be shown`,
+        });
         continue;
       }
       const tech = index.technicians.get(job.technicianId);
       if (!tech) continue; // reported by CT-REF-01
       const coverage = checkCertificationCoverage(tech.certifications, appliance);
       if (!coverage.allowed) {
-        hits.push({ recordType: "job", recordId: job.id, on: job.performedOn, detail: `${tech.name} worked on ${applianceWords(appliance)} (${jobWords(job)}): ${coverage.reason}` });
+        hits.push({
+          recordType: "job",
+          recordId: job.id,
+          on: job.performedOn,
+          detail: `${tech.name} worked on ${applianceWords(appliance)} (${jobWords(job)}): ${coverage.reason}`,
+        });
       }
     }
     return hits;
@@ -50,7 +60,11 @@ export const certificationUnverified: AuditRule = {
     for (const tech of records.technicians) {
       for (const cert of tech.certifications) {
         if (cert.state !== "pending") continue;
-        hits.push({ recordType: "certification", recordId: cert.id, detail: `${tech.name}'s ${CERTIFICATION_TYPE_LABELS[cert.type]} card is awaiting verification` });
+        hits.push({
+          recordType: "certification",
+          recordId: cert.id,
+          detail: `${tech.name}'s ${CERTIFICATION_TYPE_LABELS[cert.type]} card is awaiting verification`,
+        });
       }
     }
     return hits;

@@ -9,7 +9,8 @@ export const cylinderOverfilled: AuditRule = {
   effectiveFrom: "1993-07-13",
   effectiveUntil: null,
   citation: "AHRI Guideline K (80 % of water capacity × specific gravity); 49 CFR 173.304a",
-  explanation: "A recovery cylinder may hold at most 80 % of its water capacity times the liquid's specific gravity; beyond that it can become liquid-full and burst when warm.",
+  explanation:
+    "A recovery cylinder may hold at most 80 % of its water capacity times the liquid's specific gravity; beyond that it can become liquid-full and burst when warm.",
   fix: "Transfer the excess into another empty recovery cylinder of the same refrigerant and weigh both.",
   check(records, { index }) {
     const hits: RuleHit[] = [];
@@ -50,21 +51,31 @@ export const cylinderPastRequalification: AuditRule = {
   effectiveFrom: "1993-07-13",
   effectiveUntil: null,
   citation: "49 CFR 180.209",
-  explanation: "A refillable recovery cylinder must not be filled after its requalification (hydrostatic retest) date has passed; the period is a setting (5 years by default).",
+  explanation:
+    "A refillable recovery cylinder must not be filled after its requalification (hydrostatic retest) date has passed; the period is a setting (5 years by default).",
   fix: "Empty the cylinder and send it for requalification, then record the new test date; until then do not fill it.",
   check(records, { index, asOf, settings }) {
     const hits: RuleHit[] = [];
     for (const cylinder of records.cylinders) {
       if (cylinder.status !== "in_service") continue;
       if (!cylinder.lastRequalifiedOn) {
-        hits.push({ recordType: "cylinder", recordId: cylinder.id, detail: `Cylinder ${cylinder.serial} has no requalification date on record` });
+        hits.push({
+          recordType: "cylinder",
+          recordId: cylinder.id,
+          detail: `Cylinder ${cylinder.serial} has no requalification date on record`,
+        });
         continue;
       }
       const due = requalificationDueOn(cylinder.lastRequalifiedOn, cylinder.requalificationYears ?? settings.requalificationYears);
       if (asOf < due) continue;
       const fillsAfter = (index.cylinderLedgers.get(cylinder.id) ?? []).filter((s) => s.entry.kind === "in" && s.entry.on >= due).length;
       const filled = fillsAfter ? `; filled ${fillsAfter} time${fillsAfter > 1 ? "s" : ""} since` : "";
-      hits.push({ recordType: "cylinder", recordId: cylinder.id, dueOn: due, detail: `Cylinder ${cylinder.serial} was due for requalification on ${due} (last tested ${cylinder.lastRequalifiedOn})${filled}` });
+      hits.push({
+        recordType: "cylinder",
+        recordId: cylinder.id,
+        dueOn: due,
+        detail: `Cylinder ${cylinder.serial} was due for requalification on ${due} (last tested ${cylinder.lastRequalifiedOn})${filled}`,
+      });
     }
     return hits;
   },
@@ -107,7 +118,8 @@ export const cylinderNonCondensables: AuditRule = {
   effectiveFrom: "1993-07-13",
   effectiveUntil: null,
   citation: "Common practice: pressure–temperature check (EPA Section 608 training); AHRI 700 non-condensables limit",
-  explanation: "A settled cylinder reading clearly above the refrigerant's saturation pressure at its temperature suggests air or other non-condensables; the tolerance is a setting.",
+  explanation:
+    "A settled cylinder reading clearly above the refrigerant's saturation pressure at its temperature suggests air or other non-condensables; the tolerance is a setting.",
   fix: "Let the cylinder settle to room temperature and read again; if still high, purge non-condensables with recovery-grade equipment or tell the reclaimer.",
   check(records, { index }) {
     const hits: RuleHit[] = [];
@@ -115,7 +127,13 @@ export const cylinderNonCondensables: AuditRule = {
       for (const step of index.cylinderLedgers.get(cylinder.id) ?? []) {
         const e = step.entry;
         if (e.kind !== "weighing" || step.pressureCheck?.status !== "non_condensables_suspected") continue;
-        hits.push({ recordType: "cylinder", recordId: cylinder.id, qualifier: `weighing-${e.weighingId}`, on: e.on, detail: `Cylinder ${cylinder.serial} on ${e.on}: ${step.pressureCheck.reason}` });
+        hits.push({
+          recordType: "cylinder",
+          recordId: cylinder.id,
+          qualifier: `weighing-${e.weighingId}`,
+          on: e.on,
+          detail: `Cylinder ${cylinder.serial} on ${e.on}: ${step.pressureCheck.reason}`,
+        });
       }
     }
     return hits;

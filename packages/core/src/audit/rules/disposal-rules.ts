@@ -8,7 +8,10 @@ const BAND_LOW_G = toGrams(5, "lb");
 const BAND_HIGH_G = toGrams(50, "lb");
 
 /** Appliances sent for disposal, with the date: a disposal job, or the status "disposed". */
-function* disposedAppliances(records: BranchRecords, index: AuditContext["index"]): Generator<{ appliance: Appliance; on: string | undefined }> {
+function* disposedAppliances(
+  records: BranchRecords,
+  index: AuditContext["index"],
+): Generator<{ appliance: Appliance; on: string | undefined }> {
   for (const appliance of records.appliances) {
     const disposalJob = (index.jobsByAppliance.get(appliance.id) ?? []).find((j) => j.kind === "disposal");
     if (!disposalJob && appliance.status !== "disposed") continue;
@@ -34,12 +37,22 @@ export const disposalRecordMissing: AuditRule = {
       if (g === null || g <= BAND_LOW_G || g >= BAND_HIGH_G) continue;
       const disposal = index.disposalRecordsByAppliance.get(appliance.id)?.[0];
       if (!disposal) {
-        hits.push({ recordType: "appliance", recordId: appliance.id, on, detail: `${applianceWords(appliance)}, ${index.mass(g)}, was disposed of without a disposal record` });
+        hits.push({
+          recordType: "appliance",
+          recordId: appliance.id,
+          on,
+          detail: `${applianceWords(appliance)}, ${index.mass(g)}, was disposed of without a disposal record`,
+        });
         continue;
       }
       const c = disposalRecordCompleteness(disposal);
       if (!c.complete) {
-        hits.push({ recordType: "appliance", recordId: appliance.id, on, detail: `The disposal record of ${applianceWords(appliance)} lacks: ${c.missing.join(", ")}` });
+        hits.push({
+          recordType: "appliance",
+          recordId: appliance.id,
+          on,
+          detail: `The disposal record of ${applianceWords(appliance)} lacks: ${c.missing.join(", ")}`,
+        });
       }
     }
     return hits;
@@ -63,12 +76,22 @@ export const smallApplianceStatementMissing: AuditRule = {
       if (!small(appliance)) continue;
       const statements = index.statementsByAppliance.get(appliance.id) ?? [];
       if (statements.length === 0) {
-        hits.push({ recordType: "appliance", recordId: appliance.id, on, detail: `Small appliance ${applianceWords(appliance)} was disposed of without a signed recovery statement` });
+        hits.push({
+          recordType: "appliance",
+          recordId: appliance.id,
+          on,
+          detail: `Small appliance ${applianceWords(appliance)} was disposed of without a signed recovery statement`,
+        });
         continue;
       }
       const results = statements.map(smallApplianceStatementCompleteness);
       if (results.some((r) => r.complete)) continue;
-      hits.push({ recordType: "appliance", recordId: appliance.id, on, detail: `The disposal statement of ${applianceWords(appliance)} lacks: ${results[0]!.missing.join(", ")}` });
+      hits.push({
+        recordType: "appliance",
+        recordId: appliance.id,
+        on,
+        detail: `The disposal statement of ${applianceWords(appliance)} lacks: ${results[0]!.missing.join(", ")}`,
+      });
     }
     return hits;
   },
@@ -89,9 +112,16 @@ export const disposalWithoutRecovery: AuditRule = {
     for (const appliance of records.appliances) {
       if (appliance.status === "in_service" || appliance.fullChargeG === 0) continue;
       const jobs = index.jobsByAppliance.get(appliance.id) ?? [];
-      const recovered = jobs.some((j) => recoveredG(j) > 0) || (index.disposalRecordsByAppliance.get(appliance.id) ?? []).some((d) => (d.recoveredG ?? 0) > 0) || (index.statementsByAppliance.get(appliance.id) ?? []).length > 0;
+      const recovered =
+        jobs.some((j) => recoveredG(j) > 0) ||
+        (index.disposalRecordsByAppliance.get(appliance.id) ?? []).some((d) => (d.recoveredG ?? 0) > 0) ||
+        (index.statementsByAppliance.get(appliance.id) ?? []).length > 0;
       if (recovered) continue;
-      hits.push({ recordType: "appliance", recordId: appliance.id, detail: `${applianceWords(appliance)} is ${appliance.status} but no recovery of its refrigerant is recorded` });
+      hits.push({
+        recordType: "appliance",
+        recordId: appliance.id,
+        detail: `${applianceWords(appliance)} is ${appliance.status} but no recovery of its refrigerant is recorded`,
+      });
     }
     return hits;
   },

@@ -39,13 +39,22 @@ export const euLeakCheckOverdue: AuditRule = {
       const last = inspections.filter((x) => x.on <= asOf).pop();
       const base = last?.on ?? appliance.installedOn;
       if (!base) {
-        hits.push({ recordType: "appliance", recordId: appliance.id, detail: `${applianceWords(appliance)} (${r.reason}) has no leak check or installation date on record` });
+        hits.push({
+          recordType: "appliance",
+          recordId: appliance.id,
+          detail: `${applianceWords(appliance)} (${r.reason}) has no leak check or installation date on record`,
+        });
         continue;
       }
       const due = addMonths(base, r.intervalMonths);
       if (asOf <= due) continue;
       const since = last ? `last checked ${last.on}` : `installed ${base}, never checked`;
-      hits.push({ recordType: "appliance", recordId: appliance.id, dueOn: due, detail: `${applianceWords(appliance)}: ${r.reason}; ${since}, so a check was due by ${due}` });
+      hits.push({
+        recordType: "appliance",
+        recordId: appliance.id,
+        dueOn: due,
+        detail: `${applianceWords(appliance)}: ${r.reason}; ${since}, so a check was due by ${due}`,
+      });
     }
     return hits;
   },
@@ -59,7 +68,8 @@ export const euLeakDetectionMissing: AuditRule = {
   effectiveFrom: "2024-03-11",
   effectiveUntil: null,
   citation: "Regulation (EU) 2024/573 Art. 6",
-  explanation: "Equipment with 500 t CO2e or more of Annex I gases (100 kg or more of Annex II gases) must have a leak-detection system, itself checked at least every 12 months.",
+  explanation:
+    "Equipment with 500 t CO2e or more of Annex I gases (100 kg or more of Annex II gases) must have a leak-detection system, itself checked at least every 12 months.",
   fix: "Fit a leak-detection system that alerts the operator or service company, and record it on the appliance.",
   check(records) {
     const hits: RuleHit[] = [];
@@ -67,7 +77,11 @@ export const euLeakDetectionMissing: AuditRule = {
       const r = interval(appliance);
       if (!r?.leakDetectionSystemRequired || appliance.hasLeakDetectionSystem) continue;
       const amount = r.co2eTonnes !== null ? `${r.co2eTonnes.toFixed(0)} t CO2e` : `${gramsToKg(appliance.fullChargeG ?? 0).toFixed(0)} kg`;
-      hits.push({ recordType: "appliance", recordId: appliance.id, detail: `${applianceWords(appliance)} holds ${amount} and has no leak-detection system recorded` });
+      hits.push({
+        recordType: "appliance",
+        recordId: appliance.id,
+        detail: `${applianceWords(appliance)} holds ${amount} and has no leak-detection system recorded`,
+      });
     }
     return hits;
   },

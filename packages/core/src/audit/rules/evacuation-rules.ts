@@ -35,7 +35,12 @@ export const evacuationNotReached: AuditRule = {
       const pressureClass = safePressureClass(appliance);
       if (!pressureClass) continue;
       const equipment = job.equipmentId !== null ? index.equipment.get(job.equipmentId) : undefined;
-      const req = requiredEvacuation({ pressureClass, fullChargeG: appliance.fullChargeG, equipmentManufacturedOn: equipment?.manufacturedOn ?? null, smallAppliance: false });
+      const req = requiredEvacuation({
+        pressureClass,
+        fullChargeG: appliance.fullChargeG,
+        equipmentManufacturedOn: equipment?.manufacturedOn ?? null,
+        smallAppliance: false,
+      });
       const verdict = evacuationSatisfied(req, { reading: job.evacuation });
       if (verdict.satisfied) continue;
       const charge = appliance.fullChargeG === null ? "charge unknown" : index.mass(appliance.fullChargeG);
@@ -58,13 +63,19 @@ export const evacuationNotRecorded: AuditRule = {
   effectiveFrom: "1993-07-13",
   effectiveUntil: null,
   citation: "40 CFR 82.156(a)",
-  explanation: "The technician must verify the evacuation level before opening or disposing of an appliance; without a recorded level the job cannot show compliance.",
+  explanation:
+    "The technician must verify the evacuation level before opening or disposing of an appliance; without a recorded level the job cannot show compliance.",
   fix: "Add the evacuation level reached (any unit) to the job.",
   check(_records, { index }) {
     const hits: RuleHit[] = [];
     for (const { job, appliance } of recoveryJobs(index)) {
       if (small(appliance) || job.evacuation || !safePressureClass(appliance)) continue;
-      hits.push({ recordType: "job", recordId: job.id, on: job.performedOn, detail: `${jobWords(job)} on ${applianceWords(appliance)} has no evacuation level` });
+      hits.push({
+        recordType: "job",
+        recordId: job.id,
+        on: job.performedOn,
+        detail: `${jobWords(job)} on ${applianceWords(appliance)} has no evacuation level`,
+      });
     }
     return hits;
   },
@@ -86,7 +97,13 @@ export const smallApplianceRecoveryShort: AuditRule = {
     for (const { job, appliance } of recoveryJobs(index)) {
       if (!small(appliance)) continue;
       const equipment = job.equipmentId !== null ? index.equipment.get(job.equipmentId) : undefined;
-      const req = requiredEvacuation({ pressureClass: "high", fullChargeG: appliance.fullChargeG, equipmentManufacturedOn: equipment?.manufacturedOn ?? null, smallAppliance: true, compressorOperating: job.compressorOperating });
+      const req = requiredEvacuation({
+        pressureClass: "high",
+        fullChargeG: appliance.fullChargeG,
+        equipmentManufacturedOn: equipment?.manufacturedOn ?? null,
+        smallAppliance: true,
+        compressorOperating: job.compressorOperating,
+      });
       const got = recoveredG(job);
       const verdict = evacuationSatisfied(req, { reading: job.evacuation, recoveredG: got, fullChargeG: appliance.fullChargeG });
       if (verdict.satisfied) continue;
@@ -119,7 +136,12 @@ export const temporaryAccessLeftInPlace: AuditRule = {
       const appliance = job.applianceId !== null ? index.appliances.get(job.applianceId) : undefined;
       const where = appliance ? ` on ${applianceWords(appliance)}` : "";
       const state = job.temporaryAccessRemoved === false ? "was left in place" : "is not recorded as removed";
-      hits.push({ recordType: "job", recordId: job.id, on: job.performedOn, detail: `${ACCESS_METHOD_LABELS[job.accessMethod]} used in ${jobWords(job)}${where} ${state}` });
+      hits.push({
+        recordType: "job",
+        recordId: job.id,
+        on: job.performedOn,
+        detail: `${ACCESS_METHOD_LABELS[job.accessMethod]} used in ${jobWords(job)}${where} ${state}`,
+      });
     }
     return hits;
   },
@@ -133,7 +155,8 @@ export const equipmentNotCertified: AuditRule = {
   effectiveFrom: "1993-11-15",
   effectiveUntil: null,
   citation: "40 CFR 82.158; 82.156(a)",
-  explanation: "Recovery and recycling equipment must be certified by an EPA-approved testing organization (to AHRI 740) before it is used.",
+  explanation:
+    "Recovery and recycling equipment must be certified by an EPA-approved testing organization (to AHRI 740) before it is used.",
   fix: "Record the equipment's certification (label or certificate) or take it out of service and redo the work with certified equipment.",
   check(_records, { index }) {
     const hits: RuleHit[] = [];
@@ -142,7 +165,12 @@ export const equipmentNotCertified: AuditRule = {
       const equipment = index.equipment.get(job.equipmentId);
       if (!equipment || equipment.certification === "certified") continue;
       const state = equipment.certification === "unknown" ? "has no recorded certification" : "is not certified";
-      hits.push({ recordType: "job", recordId: job.id, on: job.performedOn, detail: `Recovery equipment ${equipment.serial} used in ${jobWords(job)} ${state}` });
+      hits.push({
+        recordType: "job",
+        recordId: job.id,
+        on: job.performedOn,
+        detail: `Recovery equipment ${equipment.serial} used in ${jobWords(job)} ${state}`,
+      });
     }
     return hits;
   },
@@ -168,7 +196,12 @@ export const systemDependentOnLargeAppliance: AuditRule = {
       const appliance = index.appliances.get(job.applianceId);
       if (!equipment || !appliance || equipment.kind !== "system_dependent") continue;
       if (appliance.fullChargeG === null || appliance.fullChargeG <= SYSTEM_DEPENDENT_MAX_G) continue;
-      hits.push({ recordType: "job", recordId: job.id, on: job.performedOn, detail: `System-dependent equipment ${equipment.serial} was used on ${applianceWords(appliance)}, which holds ${index.mass(appliance.fullChargeG)}` });
+      hits.push({
+        recordType: "job",
+        recordId: job.id,
+        on: job.performedOn,
+        detail: `System-dependent equipment ${equipment.serial} was used on ${applianceWords(appliance)}, which holds ${index.mass(appliance.fullChargeG)}`,
+      });
     }
     return hits;
   },

@@ -13,7 +13,10 @@ const CITATION: Record<LeakRegime, string> = {
   us_aim_hfc: "40 CFR 84.106",
 };
 
-function* episodes(records: { appliances: Appliance[] }, index: AuditContext["index"]): Generator<{ appliance: Appliance; episode: LeakEpisode }> {
+function* episodes(
+  records: { appliances: Appliance[] },
+  index: AuditContext["index"],
+): Generator<{ appliance: Appliance; episode: LeakEpisode }> {
   for (const appliance of records.appliances) {
     const analysis = index.leaks(appliance);
     if (!analysis) continue;
@@ -59,18 +62,29 @@ export const leakRepairOverdue: AuditRule = {
   effectiveFrom: "1993-07-13",
   effectiveUntil: null,
   citation: "40 CFR 82.157(d); 40 CFR 84.106",
-  explanation: "The repair of a leak over the threshold was not done within 30 days (120 days where an industrial-process shutdown is needed).",
+  explanation:
+    "The repair of a leak over the threshold was not done within 30 days (120 days where an industrial-process shutdown is needed).",
   fix: "Repair the leak now and log it; if it cannot be repaired, write a retrofit or retirement plan and record it.",
   check(records, { index, asOf }) {
     const hits: RuleHit[] = [];
     for (const { appliance, episode } of episodes(records, index)) {
       if (episode.retiredOn) continue;
       const due = episode.deadlines.repairDueOn;
-      const base = { recordType: "appliance" as const, recordId: appliance.id, qualifier: episode.startOn, citation: CITATION[episode.regime], dueOn: due };
+      const base = {
+        recordType: "appliance" as const,
+        recordId: appliance.id,
+        qualifier: episode.startOn,
+        citation: CITATION[episode.regime],
+        dueOn: due,
+      };
       if (!episode.repair && asOf > due) {
         hits.push({ ...base, detail: `${applianceWords(appliance)}: ${rate(episode)}; no repair recorded, due by ${due}` });
       } else if (episode.repair && episode.repair.performedOn > due) {
-        hits.push({ ...base, on: episode.repair.performedOn, detail: `${applianceWords(appliance)}: ${rate(episode)}; repaired on ${episode.repair.performedOn}, after the ${due} deadline` });
+        hits.push({
+          ...base,
+          on: episode.repair.performedOn,
+          detail: `${applianceWords(appliance)}: ${rate(episode)}; repaired on ${episode.repair.performedOn}, after the ${due} deadline`,
+        });
       }
     }
     return hits;
@@ -85,7 +99,8 @@ export const verificationTestMissing: AuditRule = {
   effectiveFrom: "2019-01-01",
   effectiveUntil: null,
   citation: "40 CFR 82.157(e); 40 CFR 84.106",
-  explanation: "A leak repair needs an initial verification test within the repair window and a follow-up verification test within 10 days of a successful initial test.",
+  explanation:
+    "A leak repair needs an initial verification test within the repair window and a follow-up verification test within 10 days of a successful initial test.",
   fix: "Perform the missing verification test and log it as a verification-test job (initial or follow-up, passed or not).",
   check(records, { index, asOf }) {
     const hits: RuleHit[] = [];
@@ -94,17 +109,41 @@ export const verificationTestMissing: AuditRule = {
       const base = { recordType: "appliance" as const, recordId: appliance.id, citation: CITATION[episode.regime] };
       const initialDue = episode.deadlines.initialVerificationDueOn;
       if (!episode.initialTest) {
-        if (asOf > initialDue) hits.push({ ...base, qualifier: `${episode.startOn}:initial`, dueOn: initialDue, detail: `${applianceWords(appliance)}: no passed initial verification test after the repair of ${episode.repair.performedOn}; due by ${initialDue}` });
+        if (asOf > initialDue)
+          hits.push({
+            ...base,
+            qualifier: `${episode.startOn}:initial`,
+            dueOn: initialDue,
+            detail: `${applianceWords(appliance)}: no passed initial verification test after the repair of ${episode.repair.performedOn}; due by ${initialDue}`,
+          });
         continue;
       }
       if (episode.initialTest.performedOn > initialDue) {
-        hits.push({ ...base, qualifier: `${episode.startOn}:initial`, dueOn: initialDue, on: episode.initialTest.performedOn, detail: `${applianceWords(appliance)}: initial verification test on ${episode.initialTest.performedOn}, after the ${initialDue} deadline` });
+        hits.push({
+          ...base,
+          qualifier: `${episode.startOn}:initial`,
+          dueOn: initialDue,
+          on: episode.initialTest.performedOn,
+          detail: `${applianceWords(appliance)}: initial verification test on ${episode.initialTest.performedOn}, after the ${initialDue} deadline`,
+        });
       }
       const followDue = episode.followUpDueOn as string;
       if (!episode.followUpTest) {
-        if (asOf > followDue) hits.push({ ...base, qualifier: `${episode.startOn}:follow-up`, dueOn: followDue, detail: `${applianceWords(appliance)}: no passed follow-up verification test after the initial test of ${episode.initialTest.performedOn}; due by ${followDue}` });
+        if (asOf > followDue)
+          hits.push({
+            ...base,
+            qualifier: `${episode.startOn}:follow-up`,
+            dueOn: followDue,
+            detail: `${applianceWords(appliance)}: no passed follow-up verification test after the initial test of ${episode.initialTest.performedOn}; due by ${followDue}`,
+          });
       } else if (episode.followUpTest.performedOn > followDue) {
-        hits.push({ ...base, qualifier: `${episode.startOn}:follow-up`, dueOn: followDue, on: episode.followUpTest.performedOn, detail: `${applianceWords(appliance)}: follow-up verification test on ${episode.followUpTest.performedOn}, after the ${followDue} deadline` });
+        hits.push({
+          ...base,
+          qualifier: `${episode.startOn}:follow-up`,
+          dueOn: followDue,
+          on: episode.followUpTest.performedOn,
+          detail: `${applianceWords(appliance)}: follow-up verification test on ${episode.followUpTest.performedOn}, after the ${followDue} deadline`,
+        });
       }
     }
     return hits;
@@ -119,7 +158,8 @@ export const chronicLeakerNotReported: AuditRule = {
   effectiveFrom: "2019-01-01",
   effectiveUntil: null,
   citation: "40 CFR 82.157(j); 40 CFR 84.106",
-  explanation: "An appliance that leaks 125 % or more of its full charge in one calendar year must be reported to EPA by 1 March of the following year.",
+  explanation:
+    "An appliance that leaks 125 % or more of its full charge in one calendar year must be reported to EPA by 1 March of the following year.",
   fix: "Submit the chronic-leak report to EPA and record the submission date.",
   check(records, { index }) {
     const hits: RuleHit[] = [];
@@ -133,7 +173,12 @@ export const chronicLeakerNotReported: AuditRule = {
         if (!prev || a.on > prev) lastAdditionInYear.set(y, a.on);
       }
       for (const [year, lastOn] of [...lastAdditionInYear].sort((a, b) => a[0] - b[0])) {
-        const regime = leakRepairRegime({ refrigerant: appliance.refrigerant, fullChargeG: appliance.fullChargeG, category: appliance.category, on: lastOn }).regime;
+        const regime = leakRepairRegime({
+          refrigerant: appliance.refrigerant,
+          fullChargeG: appliance.fullChargeG,
+          category: appliance.category,
+          on: lastOn,
+        }).regime;
         if (!regime) continue;
         const test = chronicLeakTest(appliance.fullChargeG, analysis.additions, year);
         if (!test.chronic || index.chronicReports.has(`${appliance.id}:${year}`)) continue;
@@ -168,7 +213,12 @@ export const periodicInspectionOverdue: AuditRule = {
       const analysis = index.leaks(appliance);
       const last = analysis?.episodes[analysis.episodes.length - 1];
       if (!analysis || !last || appliance.status !== "in_service" || appliance.fullChargeG === null) continue;
-      const plan = periodicInspectionPlan({ useClass: analysis.useClass, fullChargeG: appliance.fullChargeG, regime: last.regime, hasAutomaticLeakDetection: appliance.hasLeakDetectionSystem ?? false });
+      const plan = periodicInspectionPlan({
+        useClass: analysis.useClass,
+        fullChargeG: appliance.fullChargeG,
+        regime: last.regime,
+        hasAutomaticLeakDetection: appliance.hasLeakDetectionSystem ?? false,
+      });
       if (!plan.interval) continue;
       // Inspections are owed for the 12 months after the exceedance (assumes the rate then stays below).
       const windowEnd = addMonths(last.startOn, 12);
@@ -179,7 +229,14 @@ export const periodicInspectionOverdue: AuditRule = {
         if (due > windowEnd || due >= asOf) break;
         const next = inspections[firstOnOrAfter(inspections, addDays(base, 1), (x) => x.on)];
         if (!next || next.on > due) {
-          hits.push({ recordType: "appliance", recordId: appliance.id, qualifier: `${last.startOn}:${due}`, citation: CITATION[last.regime], dueOn: due, detail: `${applianceWords(appliance)}: ${plan.interval} leak inspection due by ${due} (after the exceedance of ${last.startOn}) is not recorded` });
+          hits.push({
+            recordType: "appliance",
+            recordId: appliance.id,
+            qualifier: `${last.startOn}:${due}`,
+            citation: CITATION[last.regime],
+            dueOn: due,
+            detail: `${applianceWords(appliance)}: ${plan.interval} leak inspection due by ${due} (after the exceedance of ${last.startOn}) is not recorded`,
+          });
           break;
         }
         base = next.on;
@@ -188,4 +245,3 @@ export const periodicInspectionOverdue: AuditRule = {
     return hits;
   },
 };
-

@@ -21,7 +21,9 @@ export const massBalanceUnaccounted: AuditRule = {
     for (const row of branchMassBalance(records, period, settings)) {
       if (row.withinTolerance) continue;
       const sign = row.unaccountedG > 0 ? "missing" : "more used or shipped than came in";
-      const stock = row.stockCounted ? `, stock change ${index.mass(row.stockChangeG)}` : ", no stock count on record (stock change taken as zero)";
+      const stock = row.stockCounted
+        ? `, stock change ${index.mass(row.stockChangeG)}`
+        : ", no stock count on record (stock change taken as zero)";
       hits.push({
         recordType: "branch",
         recordId: records.branch.id,
@@ -41,15 +43,19 @@ export const missingRegisterReference: AuditRule = {
   effectiveFrom: "1993-07-13",
   effectiveUntil: null,
   citation: "40 CFR 82.155(c), 82.157(l) (records identify the appliance and the refrigerant's whereabouts)",
-  explanation: "Every appliance, recovery cylinder, piece of recovery equipment and technician a job names must exist in the branch's registers, so the record can be traced.",
+  explanation:
+    "Every appliance, recovery cylinder, piece of recovery equipment and technician a job names must exist in the branch's registers, so the record can be traced.",
   fix: "Add the missing appliance, cylinder, equipment or technician to its register, or correct the job.",
   check(_records, { index }) {
     const hits: RuleHit[] = [];
     for (const job of index.jobs) {
       const missing: [string, string][] = [];
-      if (job.applianceId !== null && !index.appliances.has(job.applianceId)) missing.push([`appliance-${job.applianceId}`, `appliance #${job.applianceId}`]);
-      if (job.equipmentId !== null && !index.equipment.has(job.equipmentId)) missing.push([`equipment-${job.equipmentId}`, `recovery equipment #${job.equipmentId}`]);
-      if (job.technicianId !== null && !index.technicians.has(job.technicianId)) missing.push([`technician-${job.technicianId}`, `technician #${job.technicianId}`]);
+      if (job.applianceId !== null && !index.appliances.has(job.applianceId))
+        missing.push([`appliance-${job.applianceId}`, `appliance #${job.applianceId}`]);
+      if (job.equipmentId !== null && !index.equipment.has(job.equipmentId))
+        missing.push([`equipment-${job.equipmentId}`, `recovery equipment #${job.equipmentId}`]);
+      if (job.technicianId !== null && !index.technicians.has(job.technicianId))
+        missing.push([`technician-${job.technicianId}`, `technician #${job.technicianId}`]);
       const cylinders = new Set<number>();
       let unnamed = 0;
       for (const m of job.movements) {
@@ -58,11 +64,23 @@ export const missingRegisterReference: AuditRule = {
       }
       for (const id of [...cylinders].sort((a, b) => a - b)) missing.push([`cylinder-${id}`, `cylinder #${id}`]);
       for (const [qualifier, what] of missing) {
-        hits.push({ recordType: "job", recordId: job.id, qualifier, on: job.performedOn, detail: `${jobWords(job)} names ${what}, which is not in the register` });
+        hits.push({
+          recordType: "job",
+          recordId: job.id,
+          qualifier,
+          on: job.performedOn,
+          detail: `${jobWords(job)} names ${what}, which is not in the register`,
+        });
       }
       if (unnamed > 0) {
         const r = movementRefrigerant(job, {}) ?? "refrigerant";
-        hits.push({ recordType: "job", recordId: job.id, qualifier: "cylinder-none", on: job.performedOn, detail: `${jobWords(job)} recovered ${index.mass(unnamed)} ${r} without naming a recovery cylinder` });
+        hits.push({
+          recordType: "job",
+          recordId: job.id,
+          qualifier: "cylinder-none",
+          on: job.performedOn,
+          detail: `${jobWords(job)} recovered ${index.mass(unnamed)} ${r} without naming a recovery cylinder`,
+        });
       }
     }
     return hits;
@@ -86,11 +104,21 @@ export const serviceRecordIncomplete: AuditRule = {
       if (job.applianceId === null || job.kind === "disposal") continue;
       const appliance = index.appliances.get(job.applianceId);
       if (!appliance) continue;
-      const regime = leakRepairRegime({ refrigerant: appliance.refrigerant, fullChargeG: appliance.fullChargeG, category: appliance.category, on: job.performedOn });
+      const regime = leakRepairRegime({
+        refrigerant: appliance.refrigerant,
+        fullChargeG: appliance.fullChargeG,
+        category: appliance.category,
+        on: job.performedOn,
+      });
       if (!regime.regime) continue;
       const c = serviceRecordCompleteness(job, appliance);
       if (c.complete) continue;
-      hits.push({ recordType: "job", recordId: job.id, on: job.performedOn, detail: `${jobWords(job)} on ${applianceWords(appliance)} lacks: ${c.missing.join(", ")}` });
+      hits.push({
+        recordType: "job",
+        recordId: job.id,
+        on: job.performedOn,
+        detail: `${jobWords(job)} on ${applianceWords(appliance)} lacks: ${c.missing.join(", ")}`,
+      });
     }
     return hits;
   },

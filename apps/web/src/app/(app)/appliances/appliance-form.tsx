@@ -30,7 +30,21 @@ import { optionsOf } from "@/lib/client/options";
 import { editAmount } from "@/lib/client/form-values";
 import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import { RadioCards, RefrigerantList } from "@/components/form";
-import { AmountField, Field, FieldError, FormAlert, TextField, buttonSecondary, describedBy, fieldAria, inputClass, labelClass, selectClass, StickyFormActions, SelectField } from "@/components/registers/form-fields";
+import {
+  AmountField,
+  Field,
+  FieldError,
+  FormAlert,
+  TextField,
+  buttonSecondary,
+  describedBy,
+  fieldAria,
+  inputClass,
+  labelClass,
+  selectClass,
+  StickyFormActions,
+  SelectField,
+} from "@/components/registers/form-fields";
 import { PRESSURE_CLASS_WORDS, todayIn } from "@/components/registers/words";
 
 export interface WritableBranch {
@@ -44,7 +58,21 @@ type FormIn = z.input<typeof applianceInput> & { reason?: string };
 type FormOut = z.output<typeof applianceInput> & { reason?: string };
 
 /** What the rules core derives from what is typed so far: shown before saving. */
-function DerivedPreview({ refrigerant, amount, unit, factorySealed, category, today }: { refrigerant: string; amount: unknown; unit: MassInputUnit; factorySealed: boolean; category: string; today: string }) {
+function DerivedPreview({
+  refrigerant,
+  amount,
+  unit,
+  factorySealed,
+  category,
+  today,
+}: {
+  refrigerant: string;
+  amount: unknown;
+  unit: MassInputUnit;
+  factorySealed: boolean;
+  category: string;
+  today: string;
+}) {
   const designation = refrigerant ? normaliseDesignation(refrigerant) : "";
   const known = designation ? getRefrigerant(designation) : undefined;
   const numeric = typeof amount === "number" ? amount : Number(String(amount ?? "").replace(",", "."));
@@ -72,7 +100,12 @@ function DerivedPreview({ refrigerant, amount, unit, factorySealed, category, to
   })();
   const regime =
     category && (APPLIANCE_CATEGORIES as readonly string[]).includes(category)
-      ? leakRepairRegime({ refrigerant: designation, fullChargeG: grams, category: category as (typeof APPLIANCE_CATEGORIES)[number], on: today })
+      ? leakRepairRegime({
+          refrigerant: designation,
+          fullChargeG: grams,
+          category: category as (typeof APPLIANCE_CATEGORIES)[number],
+          on: today,
+        })
       : null;
   return (
     <dl className="grid gap-1 text-sm" data-testid="derived-preview">
@@ -93,14 +126,20 @@ function DerivedPreview({ refrigerant, amount, unit, factorySealed, category, to
       {regime && (
         <div>
           <dt className="inline text-ink-600">Leak repair rules: </dt>
-          <dd className="inline font-medium">{regime.regime ? `Apply (${regime.citation})` : `Do not apply: ${regime.reason.charAt(0).toLowerCase()}${regime.reason.slice(1)}`}</dd>
+          <dd className="inline font-medium">
+            {regime.regime
+              ? `Apply (${regime.citation})`
+              : `Do not apply: ${regime.reason.charAt(0).toLowerCase()}${regime.reason.slice(1)}`}
+          </dd>
         </div>
       )}
     </dl>
   );
 }
 
-export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[] } | { mode: "edit"; branches: WritableBranch[]; appliance: ApplianceRow }) {
+export function ApplianceForm(
+  props: { mode: "create"; branches: WritableBranch[] } | { mode: "edit"; branches: WritableBranch[]; appliance: ApplianceRow },
+) {
   const router = useRouter();
   const queryClient = useQueryClient();
   const uid = useId();
@@ -110,7 +149,14 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
   const [siteSearch, setSiteSearch] = useState("");
   const [chosenSite, setChosenSite] = useState<SiteOption | null>(
     editing
-      ? { id: editing.siteId, branchId: editing.branchId, name: editing.siteName, address: editing.siteAddress, customerId: editing.customerId, customerName: editing.customerName }
+      ? {
+          id: editing.siteId,
+          branchId: editing.branchId,
+          name: editing.siteName,
+          address: editing.siteAddress,
+          customerId: editing.customerId,
+          customerName: editing.customerName,
+        }
       : null,
   );
 
@@ -165,11 +211,13 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
   const category = watch("category") as string;
   const status = watch("status");
   const dirty = formState.dirtyFields as Record<string, unknown>;
-  const regulatedDirty = editing && ["category", "refrigerant", "fullChargeAmount", "fullChargeUnit", "fullChargeMethod", "factorySealed"].some((k) => dirty[k]);
+  const regulatedDirty =
+    editing && ["category", "refrigerant", "fullChargeAmount", "fullChargeUnit", "fullChargeMethod", "factorySealed"].some((k) => dirty[k]);
 
   const sites = useQuery({
     queryKey: ["register-sites", branchId, siteSearch],
-    queryFn: () => fetchJson<{ rows: SiteOption[] }>(`/api/appliances/sites?branchId=${branchId}&limit=8&q=${encodeURIComponent(siteSearch)}`),
+    queryFn: () =>
+      fetchJson<{ rows: SiteOption[] }>(`/api/appliances/sites?branchId=${branchId}&limit=8&q=${encodeURIComponent(siteSearch)}`),
     enabled: Boolean(branchId) && siteChoice === "existing" && chosenSite === null,
   });
   const customers = useQuery({
@@ -205,7 +253,11 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
     },
   });
 
-  const onSubmit = submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the appliance can be saved." });
+  const onSubmit = submitOrExplain(handleSubmit, {
+    save: save.mutate,
+    setFormError,
+    invalid: "Some fields need attention before the appliance can be saved.",
+  });
 
   const f = (name: string) => `${uid}-${name}`;
   const today = todayIn(branch?.timeZone ?? "UTC");
@@ -321,7 +373,14 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
         {siteChoice === "new" && (
           <div className="space-y-3">
             <TextField id={f("newSiteName")} label="Site name" error={err("newSiteName")} registration={register("newSiteName")} />
-            <TextField id={f("newSiteAddress")} label="Address" optional error={err("newSiteAddress")} registration={register("newSiteAddress")} autoComplete="street-address" />
+            <TextField
+              id={f("newSiteAddress")}
+              label="Address"
+              optional
+              error={err("newSiteAddress")}
+              registration={register("newSiteAddress")}
+              autoComplete="street-address"
+            />
             <fieldset>
               <legend className={labelClass}>Customer</legend>
               <RadioCards
@@ -346,7 +405,12 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
               />
             )}
             {customerChoice === "new" && (
-              <TextField id={f("newCustomerName")} label="Customer name" error={err("newCustomerName")} registration={register("newCustomerName")} />
+              <TextField
+                id={f("newCustomerName")}
+                label="Customer name"
+                error={err("newCustomerName")}
+                registration={register("newCustomerName")}
+              />
             )}
           </div>
         )}
@@ -355,8 +419,22 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
       <fieldset className="space-y-4 rounded-lg border border-ink-200 bg-white p-4">
         <legend className="px-1 text-base font-semibold text-ink-950">The appliance</legend>
         <div className="grid gap-4 sm:grid-cols-2">
-          <TextField id={f("tag")} label="Tag" hint="How people name it, e.g. RTU-07" error={err("tag")} registration={register("tag")} autoComplete="off" />
-          <SelectField id={f("category")} label="Kind of appliance" error={err("category")} registration={register("category")} placeholder="Choose…" options={categoryOptions} />
+          <TextField
+            id={f("tag")}
+            label="Tag"
+            hint="How people name it, e.g. RTU-07"
+            error={err("tag")}
+            registration={register("tag")}
+            autoComplete="off"
+          />
+          <SelectField
+            id={f("category")}
+            label="Kind of appliance"
+            error={err("category")}
+            registration={register("category")}
+            placeholder="Choose…"
+            options={categoryOptions}
+          />
         </div>
         <TextField id={f("description")} label="Description" error={err("description")} registration={register("description")} />
         <div className="grid gap-4 sm:grid-cols-2">
@@ -390,7 +468,12 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
         />
         <div className="space-y-2">
           <label className="flex min-h-11 items-start gap-3">
-            <input type="checkbox" {...register("factorySealed")} className="mt-1 size-5 accent-fjord-600" aria-describedby={describedBy(f("factorySealed"), { error: err("factorySealed") })} />
+            <input
+              type="checkbox"
+              {...register("factorySealed")}
+              className="mt-1 size-5 accent-fjord-600"
+              aria-describedby={describedBy(f("factorySealed"), { error: err("factorySealed") })}
+            />
             <span>
               <span className="font-medium">Charged and sealed in the factory</span>
               <span className="block text-sm text-ink-600">Fully manufactured, charged and hermetically sealed by its maker.</span>
@@ -428,9 +511,30 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
         <legend className="px-1 text-base font-semibold text-ink-950">Nameplate and dates</legend>
         <div className="grid gap-4 sm:grid-cols-2">
           <TextField id={f("makeModel")} label="Make and model" optional error={err("makeModel")} registration={register("makeModel")} />
-          <TextField id={f("serialNumber")} label="Serial number" optional error={err("serialNumber")} registration={register("serialNumber")} autoComplete="off" />
-          <TextField id={f("manufacturedOn")} label="Manufactured on" optional error={err("manufacturedOn")} registration={register("manufacturedOn")} type="date" />
-          <TextField id={f("installedOn")} label="Installed on" optional error={err("installedOn")} registration={register("installedOn")} type="date" />
+          <TextField
+            id={f("serialNumber")}
+            label="Serial number"
+            optional
+            error={err("serialNumber")}
+            registration={register("serialNumber")}
+            autoComplete="off"
+          />
+          <TextField
+            id={f("manufacturedOn")}
+            label="Manufactured on"
+            optional
+            error={err("manufacturedOn")}
+            registration={register("manufacturedOn")}
+            type="date"
+          />
+          <TextField
+            id={f("installedOn")}
+            label="Installed on"
+            optional
+            error={err("installedOn")}
+            registration={register("installedOn")}
+            type="date"
+          />
         </div>
         {!editing && (
           <div className="grid gap-4 sm:grid-cols-2">
@@ -445,7 +549,13 @@ export function ApplianceForm(props: { mode: "create"; branches: WritableBranch[
               ]}
             />
             {status === "retired" && (
-              <TextField id={f("retiredOn")} label="Taken out of service on" error={err("retiredOn")} registration={register("retiredOn")} type="date" />
+              <TextField
+                id={f("retiredOn")}
+                label="Taken out of service on"
+                error={err("retiredOn")}
+                registration={register("retiredOn")}
+                type="date"
+              />
             )}
           </div>
         )}

@@ -11,7 +11,17 @@ import {
 } from "@coldtrail/core";
 import type { ApplianceRow } from "@coldtrail/db";
 import { useBranchOptions } from "@/lib/client/use-branch-options";
-import { BranchFilter, DataTable, FilterBar, RefrigerantFilter, SearchFilter, SelectFilter, optionsOf, serverColumnHelper, useFilters } from "@/components/data-table";
+import {
+  BranchFilter,
+  DataTable,
+  FilterBar,
+  RefrigerantFilter,
+  SearchFilter,
+  SelectFilter,
+  optionsOf,
+  serverColumnHelper,
+  useFilters,
+} from "@/components/data-table";
 import { StatusBadge } from "@/components/registers/badges";
 import { PRESSURE_CLASS_WORDS } from "@/components/registers/words";
 
@@ -49,7 +59,9 @@ const columns = helper.columns([
     cell: (info) => (
       <span className="whitespace-nowrap">
         {info.getValue()}
-        {info.row.original.pressureClass && <span className="block text-xs text-ink-600">{PRESSURE_CLASS_WORDS[info.row.original.pressureClass]}</span>}
+        {info.row.original.pressureClass && (
+          <span className="block text-xs text-ink-600">{PRESSURE_CLASS_WORDS[info.row.original.pressureClass]}</span>
+        )}
       </span>
     ),
   }),
@@ -92,9 +104,21 @@ export function AppliancesTable() {
       <FilterBar label="Filter appliances" className="sm:grid-cols-2 lg:grid-cols-5">
         <SearchFilter label="Search" value={filters.q} onChange={(v) => set("q", v)} placeholder="Tag, site, customer, serial" />
         <BranchFilter branches={branchRows} value={filters.branchId} onChange={(v) => set("branchId", v)} />
-        <SelectFilter label="Kind" value={filters.category} onChange={(v) => set("category", v)} anyLabel="All kinds" options={optionsOf(APPLIANCE_CATEGORIES, APPLIANCE_CATEGORY_LABELS)} />
+        <SelectFilter
+          label="Kind"
+          value={filters.category}
+          onChange={(v) => set("category", v)}
+          anyLabel="All kinds"
+          options={optionsOf(APPLIANCE_CATEGORIES, APPLIANCE_CATEGORY_LABELS)}
+        />
         <RefrigerantFilter value={filters.refrigerant} onChange={(v) => set("refrigerant", v)} anyLabel="All refrigerants" />
-        <SelectFilter label="Status" value={filters.status} onChange={(v) => set("status", v)} anyLabel="Any status" options={optionsOf(APPLIANCE_STATUSES, REGISTER_LABELS.applianceStatus)} />
+        <SelectFilter
+          label="Status"
+          value={filters.status}
+          onChange={(v) => set("status", v)}
+          anyLabel="Any status"
+          options={optionsOf(APPLIANCE_STATUSES, REGISTER_LABELS.applianceStatus)}
+        />
       </FilterBar>
       <DataTable
         label="Appliances"

@@ -16,7 +16,9 @@ export default async function AppliancesPage({ searchParams }: { searchParams: P
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-semibold text-ink-950">Appliances</h1>
-          <p className="text-sm text-ink-600">Every appliance your branches look after, with its refrigerant, full charge and what the rules derive from them.</p>
+          <p className="text-sm text-ink-600">
+            Every appliance your branches look after, with its refrigerant, full charge and what the rules derive from them.
+          </p>
         </div>
         {signedIn.ability.can("create", "Appliance") && (
           <Link href="/appliances/new" className="rounded-md bg-fjord-600 px-4 py-2.5 font-semibold text-white hover:bg-fjord-700">

@@ -15,7 +15,10 @@ export default async function AuditsPage() {
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-semibold text-ink-950">Audits</h1>
-          <p className="text-sm text-ink-600">Each audit checks the records of the branches it covers against the rules; its findings stay the same findings from one run to the next.</p>
+          <p className="text-sm text-ink-600">
+            Each audit checks the records of the branches it covers against the rules; its findings stay the same findings from one run to
+            the next.
+          </p>
         </div>
         {signedIn.ability.can("run", "Audit") && (
           <Link href="/audits/new" className="rounded-md bg-fjord-600 px-4 py-2.5 font-semibold text-white hover:bg-fjord-700">

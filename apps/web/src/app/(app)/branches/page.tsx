@@ -13,7 +13,10 @@ export default async function BranchesPage() {
     <div className="space-y-4">
       <div>
         <h1 className="text-2xl font-semibold text-ink-950">Branches</h1>
-        <p className="text-sm text-ink-600">Open a branch for its dashboard: findings by rule, refrigerant by month, the leak watchlist, certification coverage and cylinders to watch.</p>
+        <p className="text-sm text-ink-600">
+          Open a branch for its dashboard: findings by rule, refrigerant by month, the leak watchlist, certification coverage and cylinders
+          to watch.
+        </p>
       </div>
       <OverviewDashboard />
     </div>

@@ -15,7 +15,9 @@ export default async function CertificationsPage({ searchParams }: { searchParam
   const own = { organisationId: actor.organisationId, userId: actor.userId };
   const uploads = ability.can("create", subject("Certification", own));
   const verifies = ability.can("verify", "Certification");
-  const readsOthers = ability.can("read", "Certification") && (verifies || ability.rulesFor("read", "Certification").some((r) => !r.conditions || !("userId" in r.conditions)));
+  const readsOthers =
+    ability.can("read", "Certification") &&
+    (verifies || ability.rulesFor("read", "Certification").some((r) => !r.conditions || !("userId" in r.conditions)));
   if (!uploads && !ability.can("read", "Certification")) redirect("/");
   const { uploaded } = await searchParams;
 
@@ -24,7 +26,8 @@ export default async function CertificationsPage({ searchParams }: { searchParam
       <div>
         <h1 className="text-2xl font-semibold text-ink-950">Certification cards</h1>
         <p className="text-sm text-ink-600">
-          Section 608 technician certifications. Only cards the compliance officer has verified count when the rules check who may work on an appliance.
+          Section 608 technician certifications. Only cards the compliance officer has verified count when the rules check who may work on
+          an appliance.
         </p>
       </div>
 
@@ -40,7 +43,10 @@ export default async function CertificationsPage({ searchParams }: { searchParam
             <h2 id="mine-h" className="text-lg font-semibold text-ink-950">
               Your cards
             </h2>
-            <Link href="/certifications/new" className="flex min-h-12 items-center rounded-lg bg-fjord-600 px-5 py-3 font-semibold text-white hover:bg-fjord-700">
+            <Link
+              href="/certifications/new"
+              className="flex min-h-12 items-center rounded-lg bg-fjord-600 px-5 py-3 font-semibold text-white hover:bg-fjord-700"
+            >
               Add a card
             </Link>
           </div>
@@ -53,7 +59,11 @@ export default async function CertificationsPage({ searchParams }: { searchParam
           <h2 id="queue-h" className="text-lg font-semibold text-ink-950">
             {verifies ? "Verification queue" : "Cards of your branches' technicians"}
           </h2>
-          {verifies && <p className="text-sm text-ink-600">Open a card to see it large, then verify it or say why it is not accepted. The technician is told by e-mail and in the app.</p>}
+          {verifies && (
+            <p className="text-sm text-ink-600">
+              Open a card to see it large, then verify it or say why it is not accepted. The technician is told by e-mail and in the app.
+            </p>
+          )}
           <CardsTable queue={verifies} caption={verifies ? "Certification cards to verify" : "Certification cards"} />
         </section>
       )}

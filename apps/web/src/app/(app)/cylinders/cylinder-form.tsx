@@ -26,7 +26,9 @@ import type { WritableBranch } from "../appliances/appliance-form";
 type FormIn = z.input<typeof cylinderInput> & { reason?: string };
 type FormOut = z.output<typeof cylinderInput> & { reason?: string };
 
-export function CylinderForm(props: { mode: "create"; branches: WritableBranch[] } | { mode: "edit"; branches: WritableBranch[]; cylinder: CylinderRow }) {
+export function CylinderForm(
+  props: { mode: "create"; branches: WritableBranch[] } | { mode: "edit"; branches: WritableBranch[]; cylinder: CylinderRow },
+) {
   const router = useRouter();
   const queryClient = useQueryClient();
   const uid = useId();
@@ -53,13 +55,22 @@ export function CylinderForm(props: { mode: "create"; branches: WritableBranch[]
           status: editing.status,
           reason: "",
         }
-      : { branchId: first?.id, serial: "", specification: "", purpose: "recovery", waterCapacityUnit: unit, tareUnit: unit, status: "in_service" },
+      : {
+          branchId: first?.id,
+          serial: "",
+          specification: "",
+          purpose: "recovery",
+          waterCapacityUnit: unit,
+          tareUnit: unit,
+          status: "in_service",
+        },
   });
   const { register, handleSubmit, setError, formState } = form;
   const errors = formState.errors as Record<string, { message?: string } | undefined>;
   const err = (name: string) => errors[name]?.message;
   const dirty = formState.dirtyFields as Record<string, unknown>;
-  const regulatedDirty = editing && ["waterCapacityAmount", "waterCapacityUnit", "tareAmount", "tareUnit", "lastRequalifiedOn"].some((k) => dirty[k]);
+  const regulatedDirty =
+    editing && ["waterCapacityAmount", "waterCapacityUnit", "tareAmount", "tareUnit", "lastRequalifiedOn"].some((k) => dirty[k]);
 
   const save = useMutation({
     mutationFn: async (values: FormOut) => {
@@ -67,7 +78,8 @@ export function CylinderForm(props: { mode: "create"; branches: WritableBranch[]
         const { branchId: _b, ...rest } = values;
         const body: Record<string, unknown> = { ...rest };
         // Untouched stamped figures go back exactly as stored (display rounding never changes them).
-        if (!dirty.waterCapacityAmount && !dirty.waterCapacityUnit) Object.assign(body, { waterCapacityAmount: editing.waterCapacityG, waterCapacityUnit: "g" });
+        if (!dirty.waterCapacityAmount && !dirty.waterCapacityUnit)
+          Object.assign(body, { waterCapacityAmount: editing.waterCapacityG, waterCapacityUnit: "g" });
         if (!dirty.tareAmount && !dirty.tareUnit) Object.assign(body, { tareAmount: editing.tareG, tareUnit: "g" });
         await fetchJson(`/api/cylinders/${editing.id}`, { method: "PATCH", body: JSON.stringify(body) });
         return editing.id;
@@ -91,13 +103,24 @@ export function CylinderForm(props: { mode: "create"; branches: WritableBranch[]
       noValidate
       className="space-y-5"
       data-testid="cylinder-form"
-      onSubmit={submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the cylinder can be saved." })}
+      onSubmit={submitOrExplain(handleSubmit, {
+        save: save.mutate,
+        setFormError,
+        invalid: "Some fields need attention before the cylinder can be saved.",
+      })}
     >
       <CylinderCautions />
       <FormAlert message={formError} />
       {!editing && <BranchField id={f("branchId")} branches={props.branches} registration={register("branchId")} error={err("branchId")} />}
       <div className="grid gap-4 sm:grid-cols-2">
-        <TextField id={f("serial")} label="Serial number" hint="Stamped on the cylinder's collar" error={err("serial")} registration={register("serial")} autoComplete="off" />
+        <TextField
+          id={f("serial")}
+          label="Serial number"
+          hint="Stamped on the cylinder's collar"
+          error={err("serial")}
+          registration={register("serial")}
+          autoComplete="off"
+        />
         <TextField
           id={f("specification")}
           label="Specification"
@@ -133,7 +156,14 @@ export function CylinderForm(props: { mode: "create"; branches: WritableBranch[]
           amount={register("tareAmount")}
           unit={register("tareUnit")}
         />
-        <TextField id={f("manufacturedOn")} label="Manufactured on" optional error={err("manufacturedOn")} registration={register("manufacturedOn")} type="date" />
+        <TextField
+          id={f("manufacturedOn")}
+          label="Manufactured on"
+          optional
+          error={err("manufacturedOn")}
+          registration={register("manufacturedOn")}
+          type="date"
+        />
         <TextField
           id={f("lastRequalifiedOn")}
           label="Last requalified on"
@@ -142,8 +172,20 @@ export function CylinderForm(props: { mode: "create"; branches: WritableBranch[]
           registration={register("lastRequalifiedOn")}
           type="date"
         />
-        <SelectField id={f("purpose")} label="Used for" error={err("purpose")} registration={register("purpose")} options={optionsOf(CYLINDER_PURPOSES, REGISTER_LABELS.cylinderPurpose)} />
-        <SelectField id={f("status")} label="Status" error={err("status")} registration={register("status")} options={optionsOf(CYLINDER_STATUSES, REGISTER_LABELS.cylinderStatus)} />
+        <SelectField
+          id={f("purpose")}
+          label="Used for"
+          error={err("purpose")}
+          registration={register("purpose")}
+          options={optionsOf(CYLINDER_PURPOSES, REGISTER_LABELS.cylinderPurpose)}
+        />
+        <SelectField
+          id={f("status")}
+          label="Status"
+          error={err("status")}
+          registration={register("status")}
+          options={optionsOf(CYLINDER_STATUSES, REGISTER_LABELS.cylinderStatus)}
+        />
       </div>
       {editing && (
         <TextField

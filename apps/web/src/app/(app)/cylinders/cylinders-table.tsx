@@ -4,7 +4,17 @@ import Link from "next/link";
 import { CYLINDER_STATUSES, REGISTER_LABELS, formatMass } from "@coldtrail/core";
 import type { CylinderRow } from "@coldtrail/db";
 import { useBranchOptions } from "@/lib/client/use-branch-options";
-import { BranchFilter, DataTable, FilterBar, RefrigerantFilter, SearchFilter, SelectFilter, optionsOf, serverColumnHelper, useFilters } from "@/components/data-table";
+import {
+  BranchFilter,
+  DataTable,
+  FilterBar,
+  RefrigerantFilter,
+  SearchFilter,
+  SelectFilter,
+  optionsOf,
+  serverColumnHelper,
+  useFilters,
+} from "@/components/data-table";
 import { RequalificationBadge, StatusBadge } from "@/components/registers/badges";
 import { FillGauge } from "@/components/registers/fill-gauge";
 
@@ -19,13 +29,19 @@ const columns = helper.columns([
       return (
         <Link href={`/cylinders/${c.id}`} className="font-medium text-fjord-700 underline-offset-2 hover:underline">
           {c.serial}
-          <span className="block text-xs font-normal text-ink-600">{[c.specification, REGISTER_LABELS.cylinderPurpose[c.purpose]].filter(Boolean).join(" · ")}</span>
+          <span className="block text-xs font-normal text-ink-600">
+            {[c.specification, REGISTER_LABELS.cylinderPurpose[c.purpose]].filter(Boolean).join(" · ")}
+          </span>
         </Link>
       );
     },
   }),
   helper.accessor("branchName", { id: "branch", header: "Branch" }),
-  helper.accessor((r) => r.refrigerant ?? "", { id: "refrigerant", header: "Refrigerant", cell: (i) => (i.row.original.netG > 0 ? i.getValue() || "—" : "—") }),
+  helper.accessor((r) => r.refrigerant ?? "", {
+    id: "refrigerant",
+    header: "Refrigerant",
+    cell: (i) => (i.row.original.netG > 0 ? i.getValue() || "—" : "—"),
+  }),
   helper.accessor("recordedContentsG", {
     id: "contents",
     header: "Net contents",
@@ -39,7 +55,11 @@ const columns = helper.columns([
       );
     },
   }),
-  helper.display({ id: "fill", header: "Fill", cell: (i) => <FillGauge size="small" netG={i.row.original.netG} fill={i.row.original.fill} massUnit={i.row.original.massUnit} /> }),
+  helper.display({
+    id: "fill",
+    header: "Fill",
+    cell: (i) => <FillGauge size="small" netG={i.row.original.netG} fill={i.row.original.fill} massUnit={i.row.original.massUnit} />,
+  }),
   helper.accessor("waterCapacityG", {
     id: "waterCapacity",
     header: "Water capacity",
@@ -56,7 +76,10 @@ const columns = helper.columns([
 
 function CylinderCard({ c }: { c: CylinderRow }) {
   return (
-    <Link href={`/cylinders/${c.id}`} className="block space-y-1.5 rounded-lg border border-ink-200 bg-white px-4 py-3 hover:border-fjord-600">
+    <Link
+      href={`/cylinders/${c.id}`}
+      className="block space-y-1.5 rounded-lg border border-ink-200 bg-white px-4 py-3 hover:border-fjord-600"
+    >
       <span className="flex items-baseline justify-between gap-2">
         <span className="font-semibold text-fjord-700">{c.serial}</span>
         <StatusBadge kind="cylinder" status={c.status} />
@@ -87,8 +110,20 @@ export function CylindersTable() {
         <SearchFilter label="Search" value={filters.q} onChange={(v) => set("q", v)} placeholder="Serial or specification" />
         <BranchFilter branches={branchRows} value={filters.branchId} onChange={(v) => set("branchId", v)} />
         <RefrigerantFilter value={filters.refrigerant} onChange={(v) => set("refrigerant", v)} anyLabel="Any" />
-        <SelectFilter label="Requalification" value={filters.requalification} onChange={(v) => set("requalification", v)} anyLabel="Any" options={REQUALIFICATION_OPTIONS} />
-        <SelectFilter label="Status" value={filters.status} onChange={(v) => set("status", v)} anyLabel="Any status" options={optionsOf(CYLINDER_STATUSES, REGISTER_LABELS.cylinderStatus)} />
+        <SelectFilter
+          label="Requalification"
+          value={filters.requalification}
+          onChange={(v) => set("requalification", v)}
+          anyLabel="Any"
+          options={REQUALIFICATION_OPTIONS}
+        />
+        <SelectFilter
+          label="Status"
+          value={filters.status}
+          onChange={(v) => set("status", v)}
+          anyLabel="Any status"
+          options={optionsOf(CYLINDER_STATUSES, REGISTER_LABELS.cylinderStatus)}
+        />
       </FilterBar>
       <DataTable
         label="Cylinders"

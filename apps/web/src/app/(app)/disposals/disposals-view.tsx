@@ -28,7 +28,14 @@ const recordColumns: RecordColumn<DisposalListRow>[] = [
   { id: "who", header: "Company", cell: (r) => r.who ?? "—" },
   { id: "where", header: "Location", cell: (r) => r.where ?? "—" },
   { id: "refrigerant", header: "Refrigerant", sortable: true, cell: (r) => r.refrigerant ?? "—" },
-  { id: "amount", header: "Recovered", sortable: true, cell: (r) => <span className="tabular whitespace-nowrap">{r.recoveredG === null ? "—" : formatMass(r.recoveredG, r.branchMassUnit)}</span> },
+  {
+    id: "amount",
+    header: "Recovered",
+    sortable: true,
+    cell: (r) => (
+      <span className="tabular whitespace-nowrap">{r.recoveredG === null ? "—" : formatMass(r.recoveredG, r.branchMassUnit)}</span>
+    ),
+  },
 ];
 
 const statementColumns: RecordColumn<DisposalListRow>[] = [
@@ -92,7 +99,13 @@ export function DisposalsView({ initialTab }: { initialTab: "record" | "statemen
           </button>
         ))}
       </div>
-      <RecordFilters branches={branchRows} value={filters} onChange={setFilters} searchLabel="Search appliance" searchPlaceholder="Tag or description" />
+      <RecordFilters
+        branches={branchRows}
+        value={filters}
+        onChange={setFilters}
+        searchLabel="Search appliance"
+        searchPlaceholder="Tag or description"
+      />
       <div role="tabpanel">
         <RecordTable<DisposalListRow>
           key={tab}
@@ -125,13 +138,20 @@ function MonthlyTotals({ branches }: { branches: BranchOption[] }) {
           <h2 id="monthly-h" className="text-lg font-semibold text-ink-950">
             Monthly quantities
           </h2>
-          <p className="text-sm text-ink-600">Refrigerant recovered from disposed appliances of more than 5 and less than 50 lb, by month and type, and what went for reclamation.</p>
+          <p className="text-sm text-ink-600">
+            Refrigerant recovered from disposed appliances of more than 5 and less than 50 lb, by month and type, and what went for
+            reclamation.
+          </p>
         </div>
         <div className="flex gap-2">
           {branches.length > 1 && (
             <label className="text-sm">
               <span className="block font-medium text-ink-700">Branch</span>
-              <select value={branchId} onChange={(e) => setBranchId(e.target.value)} className="mt-1 rounded-md border border-ink-300 bg-white px-2 py-2">
+              <select
+                value={branchId}
+                onChange={(e) => setBranchId(e.target.value)}
+                className="mt-1 rounded-md border border-ink-300 bg-white px-2 py-2"
+              >
                 {branches.map((b) => (
                   <option key={b.id} value={b.id}>
                     {b.name}
@@ -142,7 +162,13 @@ function MonthlyTotals({ branches }: { branches: BranchOption[] }) {
           )}
           <label className="text-sm">
             <span className="block font-medium text-ink-700">Year</span>
-            <input type="number" inputMode="numeric" value={year} onChange={(e) => setYear(e.target.value)} className="mt-1 w-24 rounded-md border border-ink-300 px-2 py-2 tabular" />
+            <input
+              type="number"
+              inputMode="numeric"
+              value={year}
+              onChange={(e) => setYear(e.target.value)}
+              className="mt-1 w-24 rounded-md border border-ink-300 px-2 py-2 tabular"
+            />
           </label>
         </div>
       </div>
@@ -153,16 +179,26 @@ function MonthlyTotals({ branches }: { branches: BranchOption[] }) {
             <caption className="text-left font-semibold text-ink-800">Recovered from disposed appliances</caption>
             <thead className="text-left text-xs uppercase tracking-wide text-ink-600">
               <tr>
-                <th scope="col" className="py-1 pr-3">Month</th>
-                <th scope="col" className="py-1 pr-3">Refrigerant</th>
-                <th scope="col" className="py-1 pr-3">Appliances</th>
-                <th scope="col" className="py-1">Quantity</th>
+                <th scope="col" className="py-1 pr-3">
+                  Month
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Refrigerant
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Appliances
+                </th>
+                <th scope="col" className="py-1">
+                  Quantity
+                </th>
               </tr>
             </thead>
             <tbody className="divide-y divide-ink-100">
               {t.recovered.length === 0 && (
                 <tr>
-                  <td colSpan={4} className="py-2 text-ink-600">Nothing recovered from disposals in {t.year}.</td>
+                  <td colSpan={4} className="py-2 text-ink-600">
+                    Nothing recovered from disposals in {t.year}.
+                  </td>
                 </tr>
               )}
               {t.recovered.map((r) => (
@@ -179,16 +215,26 @@ function MonthlyTotals({ branches }: { branches: BranchOption[] }) {
             <caption className="text-left font-semibold text-ink-800">Transferred for reclamation</caption>
             <thead className="text-left text-xs uppercase tracking-wide text-ink-600">
               <tr>
-                <th scope="col" className="py-1 pr-3">Date</th>
-                <th scope="col" className="py-1 pr-3">Refrigerant</th>
-                <th scope="col" className="py-1 pr-3">To</th>
-                <th scope="col" className="py-1">Quantity</th>
+                <th scope="col" className="py-1 pr-3">
+                  Date
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Refrigerant
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  To
+                </th>
+                <th scope="col" className="py-1">
+                  Quantity
+                </th>
               </tr>
             </thead>
             <tbody className="divide-y divide-ink-100">
               {t.transfers.length === 0 && (
                 <tr>
-                  <td colSpan={4} className="py-2 text-ink-600">No shipments for reclaim in {t.year}.</td>
+                  <td colSpan={4} className="py-2 text-ink-600">
+                    No shipments for reclaim in {t.year}.
+                  </td>
                 </tr>
               )}
               {t.transfers.map((r) => (

@@ -19,12 +19,16 @@ export default async function DisposalsPage({ searchParams }: { searchParams: Pr
         <div>
           <h1 className="text-2xl font-semibold text-ink-950">Disposals</h1>
           <p className="text-sm text-ink-600">
-            Disposal records for appliances of more than 5 and less than 50 lb, signed statements for small appliances, and the monthly quantities the log keeps.
+            Disposal records for appliances of more than 5 and less than 50 lb, signed statements for small appliances, and the monthly
+            quantities the log keeps.
           </p>
         </div>
         <div className="flex flex-wrap gap-2">
           {canCreate && canLogJobs && (
-            <Link href="/disposals/shop" className="rounded-md border border-fjord-600 bg-white px-4 py-2.5 font-semibold text-fjord-700 hover:bg-fjord-50">
+            <Link
+              href="/disposals/shop"
+              className="rounded-md border border-fjord-600 bg-white px-4 py-2.5 font-semibold text-fjord-700 hover:bg-fjord-50"
+            >
               Scrap run at the shop
             </Link>
           )}

@@ -6,20 +6,37 @@ import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useForm, type Resolver } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
-import { EQUIPMENT_CERTIFICATION_STATES, EQUIPMENT_STATUSES, REGISTER_LABELS, equipmentInput, equipmentUpdateInput, equipmentEra } from "@coldtrail/core";
+import {
+  EQUIPMENT_CERTIFICATION_STATES,
+  EQUIPMENT_STATUSES,
+  REGISTER_LABELS,
+  equipmentInput,
+  equipmentUpdateInput,
+  equipmentEra,
+} from "@coldtrail/core";
 import type { EquipmentRow } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { optionsOf } from "@/lib/client/options";
 import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import { RadioCards } from "@/components/form";
-import { FieldError, FormAlert, TextField, labelClass, StickyFormActions, SelectField, BranchField } from "@/components/registers/form-fields";
+import {
+  FieldError,
+  FormAlert,
+  TextField,
+  labelClass,
+  StickyFormActions,
+  SelectField,
+  BranchField,
+} from "@/components/registers/form-fields";
 import { ERA_WORDS } from "@/components/registers/words";
 import type { WritableBranch } from "../appliances/appliance-form";
 
 type FormIn = z.input<typeof equipmentInput> & { reason?: string };
 type FormOut = z.output<typeof equipmentInput> & { reason?: string };
 
-export function EquipmentForm(props: { mode: "create"; branches: WritableBranch[] } | { mode: "edit"; branches: WritableBranch[]; equipment: EquipmentRow }) {
+export function EquipmentForm(
+  props: { mode: "create"; branches: WritableBranch[] } | { mode: "edit"; branches: WritableBranch[]; equipment: EquipmentRow },
+) {
   const router = useRouter();
   const queryClient = useQueryClient();
   const uid = useId();
@@ -40,7 +57,15 @@ export function EquipmentForm(props: { mode: "create"; branches: WritableBranch[
           status: editing.status,
           reason: "",
         }
-      : { branchId: props.branches[0]?.id, serial: "", makeModel: "", certificationState: "unknown", smallApplianceOnly: false, systemDependent: false, status: "in_service" },
+      : {
+          branchId: props.branches[0]?.id,
+          serial: "",
+          makeModel: "",
+          certificationState: "unknown",
+          smallApplianceOnly: false,
+          systemDependent: false,
+          status: "in_service",
+        },
   });
   const { register, handleSubmit, watch, setError, formState } = form;
   const errors = formState.errors as Record<string, { message?: string } | undefined>;
@@ -75,12 +100,23 @@ export function EquipmentForm(props: { mode: "create"; branches: WritableBranch[
       noValidate
       className="space-y-5"
       data-testid="equipment-form"
-      onSubmit={submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the equipment can be saved." })}
+      onSubmit={submitOrExplain(handleSubmit, {
+        save: save.mutate,
+        setFormError,
+        invalid: "Some fields need attention before the equipment can be saved.",
+      })}
     >
       <FormAlert message={formError} />
       {!editing && <BranchField id={f("branchId")} branches={props.branches} registration={register("branchId")} error={err("branchId")} />}
       <div className="grid gap-4 sm:grid-cols-2">
-        <TextField id={f("serial")} label="Serial number" hint="As printed on the unit's label" error={err("serial")} registration={register("serial")} autoComplete="off" />
+        <TextField
+          id={f("serial")}
+          label="Serial number"
+          hint="As printed on the unit's label"
+          error={err("serial")}
+          registration={register("serial")}
+          autoComplete="off"
+        />
         <TextField id={f("makeModel")} label="Make and model" optional error={err("makeModel")} registration={register("makeModel")} />
         <TextField
           id={f("manufacturedOn")}
@@ -91,7 +127,13 @@ export function EquipmentForm(props: { mode: "create"; branches: WritableBranch[
           registration={register("manufacturedOn")}
           type="date"
         />
-        <SelectField id={f("status")} label="Status" error={err("status")} registration={register("status")} options={optionsOf(EQUIPMENT_STATUSES, REGISTER_LABELS.equipmentStatus)} />
+        <SelectField
+          id={f("status")}
+          label="Status"
+          error={err("status")}
+          registration={register("status")}
+          options={optionsOf(EQUIPMENT_STATUSES, REGISTER_LABELS.equipmentStatus)}
+        />
       </div>
       <fieldset>
         <legend className={labelClass}>Certification by an approved testing organisation</legend>
@@ -103,7 +145,14 @@ export function EquipmentForm(props: { mode: "create"; branches: WritableBranch[
         />
         <FieldError id={`${f("certificationState")}-error`} message={err("certificationState")} />
       </fieldset>
-      <TextField id={f("certifiedBy")} label="Testing organisation" optional hint="Named on the unit's certification label" error={err("certifiedBy")} registration={register("certifiedBy")} />
+      <TextField
+        id={f("certifiedBy")}
+        label="Testing organisation"
+        optional
+        hint="Named on the unit's certification label"
+        error={err("certifiedBy")}
+        registration={register("certifiedBy")}
+      />
       <div className="space-y-2">
         <label className="flex min-h-11 items-start gap-3">
           <input type="checkbox" {...register("smallApplianceOnly")} className="mt-1 size-5 accent-fjord-600" />
@@ -113,7 +162,9 @@ export function EquipmentForm(props: { mode: "create"; branches: WritableBranch[
           <input type="checkbox" {...register("systemDependent")} className="mt-1 size-5 accent-fjord-600" />
           <span>
             <span className="font-medium">System-dependent</span>
-            <span className="block text-sm text-ink-600">Relies on the appliance&apos;s own compressor or pressure (e.g. a recovery bag).</span>
+            <span className="block text-sm text-ink-600">
+              Relies on the appliance&apos;s own compressor or pressure (e.g. a recovery bag).
+            </span>
           </span>
         </label>
       </div>

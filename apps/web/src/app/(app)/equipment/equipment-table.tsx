@@ -4,7 +4,16 @@ import Link from "next/link";
 import { EQUIPMENT_CERTIFICATION_STATES, EQUIPMENT_STATUSES, REGISTER_LABELS } from "@coldtrail/core";
 import type { EquipmentRow } from "@coldtrail/db";
 import { useBranchOptions } from "@/lib/client/use-branch-options";
-import { BranchFilter, DataTable, FilterBar, SearchFilter, SelectFilter, optionsOf, serverColumnHelper, useFilters } from "@/components/data-table";
+import {
+  BranchFilter,
+  DataTable,
+  FilterBar,
+  SearchFilter,
+  SelectFilter,
+  optionsOf,
+  serverColumnHelper,
+  useFilters,
+} from "@/components/data-table";
 import { CertificationBadge, StatusBadge } from "@/components/registers/badges";
 import { ERA_WORDS, equipmentKind } from "@/components/registers/words";
 
@@ -81,7 +90,13 @@ export function EquipmentTable() {
           anyLabel="Any"
           options={optionsOf(EQUIPMENT_CERTIFICATION_STATES, REGISTER_LABELS.equipmentCertification)}
         />
-        <SelectFilter label="Status" value={filters.status} onChange={(v) => set("status", v)} anyLabel="Any status" options={optionsOf(EQUIPMENT_STATUSES, REGISTER_LABELS.equipmentStatus)} />
+        <SelectFilter
+          label="Status"
+          value={filters.status}
+          onChange={(v) => set("status", v)}
+          anyLabel="Any status"
+          options={optionsOf(EQUIPMENT_STATUSES, REGISTER_LABELS.equipmentStatus)}
+        />
       </FilterBar>
       <DataTable
         label="Recovery equipment"

@@ -19,7 +19,10 @@ export default async function FindingsPage({ searchParams }: { searchParams: Pro
     <div className="space-y-4">
       <div>
         <h1 className="text-2xl font-semibold text-ink-950">Findings</h1>
-        <p className="text-sm text-ink-600">Every gap the rules found in the records you may see. Filter, sort and group them; officers assign them to the branch that fixes them.</p>
+        <p className="text-sm text-ink-600">
+          Every gap the rules found in the records you may see. Filter, sort and group them; officers assign them to the branch that fixes
+          them.
+        </p>
       </div>
       <details className="rounded-lg border border-ink-200 bg-white px-3 py-2 text-sm">
         <summary className="cursor-pointer font-medium text-ink-800">What the statuses mean</summary>

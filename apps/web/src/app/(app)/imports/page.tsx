@@ -19,8 +19,8 @@ export default async function ImportsPage() {
         <div>
           <h1 className="text-2xl font-semibold text-ink-950">Spreadsheet import</h1>
           <p className="max-w-2xl text-sm text-ink-600">
-            Bring appliances, recovery cylinders or past jobs in from an Excel workbook (.xlsx) or a CSV file. Every row is checked first; you see which rows have problems and why, and only
-            the valid rows are imported, all together.
+            Bring appliances, recovery cylinders or past jobs in from an Excel workbook (.xlsx) or a CSV file. Every row is checked first;
+            you see which rows have problems and why, and only the valid rows are imported, all together.
           </p>
         </div>
         {canImport && (

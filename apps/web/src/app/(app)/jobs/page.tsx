@@ -15,7 +15,9 @@ export default async function JobsPage({ searchParams }: { searchParams: Promise
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-semibold text-ink-950">Jobs</h1>
-          <p className="text-sm text-ink-600">Every recovery, charge, repair, test and disposal you may see, newest first. Voided jobs are left out unless you ask for them.</p>
+          <p className="text-sm text-ink-600">
+            Every recovery, charge, repair, test and disposal you may see, newest first. Voided jobs are left out unless you ask for them.
+          </p>
         </div>
         {signedIn.ability.can("create", "Job") && (
           <Link href="/jobs/new" className="rounded-md bg-fjord-600 px-4 py-2.5 font-semibold text-white hover:bg-fjord-700">
@@ -25,7 +27,10 @@ export default async function JobsPage({ searchParams }: { searchParams: Promise
       </div>
       {created && (
         <p role="status" className="flex items-center gap-2 rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">
-          <span aria-hidden="true">✓</span> Job saved. <Link href={`/jobs/${encodeURIComponent(created)}`} className="underline">View it</Link>
+          <span aria-hidden="true">✓</span> Job saved.{" "}
+          <Link href={`/jobs/${encodeURIComponent(created)}`} className="underline">
+            View it
+          </Link>
         </p>
       )}
       <JobsTable />

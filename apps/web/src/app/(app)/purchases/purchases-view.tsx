@@ -20,10 +20,25 @@ const columns: RecordColumn<PurchaseRow>[] = [
     ),
   },
   { id: "branch", header: "Branch", sortable: true, cell: (r) => r.branchName },
-  { id: "supplier", header: "Supplier", sortable: true, cell: (r) => <>{r.supplierName}{r.invoiceReference && <span className="block text-xs text-ink-600">{r.invoiceReference}</span>}</> },
+  {
+    id: "supplier",
+    header: "Supplier",
+    sortable: true,
+    cell: (r) => (
+      <>
+        {r.supplierName}
+        {r.invoiceReference && <span className="block text-xs text-ink-600">{r.invoiceReference}</span>}
+      </>
+    ),
+  },
   { id: "refrigerant", header: "Refrigerant", sortable: true, cell: (r) => r.refrigerant },
   { id: "containers", header: "Containers", cell: (r) => <span className="tabular">{r.containerCount ?? "—"}</span> },
-  { id: "amount", header: "Quantity", sortable: true, cell: (r) => <span className="tabular whitespace-nowrap font-medium">{formatMass(r.massG, r.branchMassUnit)}</span> },
+  {
+    id: "amount",
+    header: "Quantity",
+    sortable: true,
+    cell: (r) => <span className="tabular whitespace-nowrap font-medium">{formatMass(r.massG, r.branchMassUnit)}</span>,
+  },
 ];
 
 export function PurchasesView() {
@@ -31,8 +46,21 @@ export function PurchasesView() {
   const branches = useBranchOptions();
   return (
     <div className="space-y-3">
-      <RecordFilters branches={branches.data?.rows ?? []} value={filters} onChange={setFilters} searchLabel="Search supplier" searchPlaceholder="Supplier or invoice" />
-      <RecordTable<PurchaseRow> queryKey="purchases" path="/api/purchases" params={filters} columns={columns} noun="purchases" testId="purchase-row" />
+      <RecordFilters
+        branches={branches.data?.rows ?? []}
+        value={filters}
+        onChange={setFilters}
+        searchLabel="Search supplier"
+        searchPlaceholder="Supplier or invoice"
+      />
+      <RecordTable<PurchaseRow>
+        queryKey="purchases"
+        path="/api/purchases"
+        params={filters}
+        columns={columns}
+        noun="purchases"
+        testId="purchase-row"
+      />
     </div>
   );
 }

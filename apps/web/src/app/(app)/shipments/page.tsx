@@ -15,7 +15,9 @@ export default async function ShipmentsPage() {
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-semibold text-ink-950">Reclaim shipments</h1>
-          <p className="text-sm text-ink-600">Recovery cylinders sent to a reclaimer: which cylinders, how much of each refrigerant, to whom and when.</p>
+          <p className="text-sm text-ink-600">
+            Recovery cylinders sent to a reclaimer: which cylinders, how much of each refrigerant, to whom and when.
+          </p>
         </div>
         {signedIn.ability.can("create", "ReclaimShipment") && (
           <Link href="/shipments/new" className="rounded-md bg-fjord-600 px-4 py-2.5 font-semibold text-white hover:bg-fjord-700">

@@ -20,7 +20,17 @@ const columns: RecordColumn<ShipmentListRow>[] = [
     ),
   },
   { id: "branch", header: "Branch", sortable: true, cell: (r) => r.branchName },
-  { id: "reclaimer", header: "Reclaimer", sortable: true, cell: (r) => <>{r.reclaimerName}{r.reference && <span className="block text-xs text-ink-600">{r.reference}</span>}</> },
+  {
+    id: "reclaimer",
+    header: "Reclaimer",
+    sortable: true,
+    cell: (r) => (
+      <>
+        {r.reclaimerName}
+        {r.reference && <span className="block text-xs text-ink-600">{r.reference}</span>}
+      </>
+    ),
+  },
   { id: "cylinders", header: "Cylinders", cell: (r) => <span className="tabular">{r.cylinderCount}</span> },
   {
     id: "byRefrigerant",
@@ -35,7 +45,12 @@ const columns: RecordColumn<ShipmentListRow>[] = [
       </ul>
     ),
   },
-  { id: "amount", header: "Total", sortable: true, cell: (r) => <span className="tabular whitespace-nowrap font-medium">{formatMass(r.totalG, r.branchMassUnit)}</span> },
+  {
+    id: "amount",
+    header: "Total",
+    sortable: true,
+    cell: (r) => <span className="tabular whitespace-nowrap font-medium">{formatMass(r.totalG, r.branchMassUnit)}</span>,
+  },
 ];
 
 export function ShipmentsView() {
@@ -43,8 +58,21 @@ export function ShipmentsView() {
   const branches = useBranchOptions();
   return (
     <div className="space-y-3">
-      <RecordFilters branches={branches.data?.rows ?? []} value={filters} onChange={setFilters} searchLabel="Search reclaimer" searchPlaceholder="Name or reference" />
-      <RecordTable<ShipmentListRow> queryKey="shipments" path="/api/shipments" params={filters} columns={columns} noun="shipments" testId="shipment-row" />
+      <RecordFilters
+        branches={branches.data?.rows ?? []}
+        value={filters}
+        onChange={setFilters}
+        searchLabel="Search reclaimer"
+        searchPlaceholder="Name or reference"
+      />
+      <RecordTable<ShipmentListRow>
+        queryKey="shipments"
+        path="/api/shipments"
+        params={filters}
+        columns={columns}
+        noun="shipments"
+        testId="shipment-row"
+      />
     </div>
   );
 }

@@ -10,7 +10,13 @@ import { branchesAllowed } from "../findings/_lib/access";
 export function visibleAudit<T extends AuditRun>(run: T, readableBranchIds: Set<number>): T & { partial: boolean } {
   if (!run.summary) return { ...run, partial: run.branchIds.some((b) => !readableBranchIds.has(b)) };
   const branches = run.summary.branches.filter((b) => readableBranchIds.has(b.branchId));
-  const totals: AuditSummary["totals"] = { found: 0, created: 0, noLongerFound: 0, foundAgain: 0, bySeverity: { critical: 0, major: 0, minor: 0 } };
+  const totals: AuditSummary["totals"] = {
+    found: 0,
+    created: 0,
+    noLongerFound: 0,
+    foundAgain: 0,
+    bySeverity: { critical: 0, major: 0, minor: 0 },
+  };
   const byRule: Record<string, number> = {};
   for (const b of branches) {
     totals.found += b.found;
@@ -20,7 +26,11 @@ export function visibleAudit<T extends AuditRun>(run: T, readableBranchIds: Set<
     for (const s of Object.keys(b.foundBySeverity) as Severity[]) totals.bySeverity[s] += b.foundBySeverity[s];
     for (const [rule, n] of Object.entries(b.foundByRule)) byRule[rule] = (byRule[rule] ?? 0) + n;
   }
-  return { ...run, summary: { branches, totals, byRule }, partial: branches.length < run.summary.branches.length || run.branchIds.some((b) => !readableBranchIds.has(b)) };
+  return {
+    ...run,
+    summary: { branches, totals, byRule },
+    partial: branches.length < run.summary.branches.length || run.branchIds.some((b) => !readableBranchIds.has(b)),
+  };
 }
 
 /** Branches whose findings the person may read (branch-level permission). */

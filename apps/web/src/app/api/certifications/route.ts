@@ -7,7 +7,11 @@ import { checkCardFile, refuseWith, storeCard } from "./_lib/card-files";
 
 /** Cards the signed-in person may read: the officer's queue, a manager's branch, a technician's own. */
 export const GET = route({ can: ["read", "Certification"], query: certificationListQuery }, async ({ actor, ability, db, query }) => {
-  return listCertifications(db, { scope: scopeByAbility(ability, "read", "Certification", "certifications"), query, actorUserId: actor.userId });
+  return listCertifications(db, {
+    scope: scopeByAbility(ability, "read", "Certification", "certifications"),
+    query,
+    actorUserId: actor.userId,
+  });
 });
 
 /**
@@ -15,7 +19,10 @@ export const GET = route({ can: ["read", "Certification"], query: certificationL
  * `certificateNumber`, `issuedOn`). Fields and file are checked together; nothing is stored unless both pass.
  */
 export const POST = route({ can: ["create", "Certification"] }, async ({ req, actor, ability, db }) => {
-  ForbiddenError.from(ability).throwUnlessCan("create", subject("Certification", { organisationId: actor.organisationId, userId: actor.userId }));
+  ForbiddenError.from(ability).throwUnlessCan(
+    "create",
+    subject("Certification", { organisationId: actor.organisationId, userId: actor.userId }),
+  );
   let form: FormData;
   try {
     form = await req.formData();
@@ -33,7 +40,10 @@ export const POST = route({ can: ["create", "Certification"] }, async ({ req, ac
     issuedOn: text("issuedOn"),
   });
   const file = await checkCardFile(form.get("card"));
-  const issues = [...(fields.success ? [] : fields.error.issues.map((i) => ({ code: "custom" as const, path: i.path.map(String), message: i.message }))), ...file.issues];
+  const issues = [
+    ...(fields.success ? [] : fields.error.issues.map((i) => ({ code: "custom" as const, path: i.path.map(String), message: i.message }))),
+    ...file.issues,
+  ];
   if (issues.length > 0 || !fields.success || !file.card) refuseWith(issues);
 
   const keys = await storeCard(file.card, { organisationId: actor.organisationId, userId: actor.userId });

@@ -6,7 +6,11 @@ import { authorizeCreateInBranch } from "../appliances/_shared/register-access";
 
 /** The cylinder register with each cylinder's fill and requalification, one page at a time. */
 export const GET = route({ can: ["read", "Cylinder"], query: cylinderListQuery }, async ({ actor, ability, db, query }) => {
-  return listCylinders(db, { scope: scopeByAbility(ability, "read", "Cylinder", "cylinders"), organisationId: actor.organisationId, query });
+  return listCylinders(db, {
+    scope: scopeByAbility(ability, "read", "Cylinder", "cylinders"),
+    organisationId: actor.organisationId,
+    query,
+  });
 });
 
 /** Adds an empty cylinder to a branch's register. */

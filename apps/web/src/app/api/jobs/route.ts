@@ -17,7 +17,12 @@ export const POST = route({ can: ["create", "Job"], body: jobInput }, async ({ a
   }
   ForbiddenError.from(ability).throwUnlessCan(
     "create",
-    subject("Job", { organisationId: actor.organisationId, branchId: appliance.branchId, technicianId: actor.userId, performedOn: body.performedOn }),
+    subject("Job", {
+      organisationId: actor.organisationId,
+      branchId: appliance.branchId,
+      technicianId: actor.userId,
+      performedOn: body.performedOn,
+    }),
   );
   const id = await createJob(db, {
     actor: { userId: actor.userId, organisationId: actor.organisationId },

@@ -7,5 +7,11 @@ import { route } from "@/lib/api/route";
  * to the person's user id and organisation, for every role. Anyone signed in with a role may read theirs.
  */
 export const GET = route({ can: ["read", "Branch"], query: notificationListQuery }, async ({ actor, db, query }) => {
-  return listNotifications(db, { userId: actor.userId, organisationId: actor.organisationId, page: query.page, pageSize: query.pageSize, unreadOnly: query.unread });
+  return listNotifications(db, {
+    userId: actor.userId,
+    organisationId: actor.organisationId,
+    page: query.page,
+    pageSize: query.pageSize,
+    unreadOnly: query.unread,
+  });
 });

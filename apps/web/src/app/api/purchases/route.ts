@@ -11,7 +11,10 @@ export const GET = route({ can: ["read", "Purchase"], query: purchaseListQuery }
 
 /** Record refrigerant bought by a branch. */
 export const POST = route({ can: ["create", "Purchase"], body: purchaseInput }, async ({ actor, ability, db, body }) => {
-  ForbiddenError.from(ability).throwUnlessCan("create", subject("Purchase", { organisationId: actor.organisationId, branchId: body.branchId }));
+  ForbiddenError.from(ability).throwUnlessCan(
+    "create",
+    subject("Purchase", { organisationId: actor.organisationId, branchId: body.branchId }),
+  );
   const id = await createPurchase(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
   return NextResponse.json({ id }, { status: 201 });
 });

@@ -38,7 +38,13 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
         {view.invitedByName} invited <strong className="break-all">{view.email}</strong> as {view.access}.
       </p>
       <p className="text-sm text-ink-600">Choose your password to finish. This link works once, until {utc(view.expiresAt!)}.</p>
-      <NewPasswordForm token={token} endpoint="/api/invitation/accept" askName initialName={view.name ?? ""} submitLabel="Save my password and sign in" />
+      <NewPasswordForm
+        token={token}
+        endpoint="/api/invitation/accept"
+        askName
+        initialName={view.name ?? ""}
+        submitLabel="Save my password and sign in"
+      />
     </PublicShell>
   );
 }

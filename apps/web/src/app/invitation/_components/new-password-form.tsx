@@ -12,7 +12,19 @@ const inputClass =
  * Choose a password from an e-mail link (invitation or reset), then sign in with it. `askName`
  * shows the name field (invitations). Validation is repeated on the server with the same schema.
  */
-export function NewPasswordForm({ token, endpoint, askName, initialName = "", submitLabel }: { token: string; endpoint: string; askName?: boolean; initialName?: string; submitLabel: string }) {
+export function NewPasswordForm({
+  token,
+  endpoint,
+  askName,
+  initialName = "",
+  submitLabel,
+}: {
+  token: string;
+  endpoint: string;
+  askName?: boolean;
+  initialName?: string;
+  submitLabel: string;
+}) {
   const uid = useId();
   const [errors, setErrors] = useState<Record<string, string | undefined>>({});
   const [formError, setFormError] = useState<string | null>(null);
@@ -62,16 +74,24 @@ export function NewPasswordForm({ token, endpoint, askName, initialName = "", su
   if (signedInFailed) {
     return (
       <p role="status" className="rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-ok">
-        <span aria-hidden="true">✓ </span>Your password is saved. <a href="/sign-in" className="font-medium underline">Sign in</a> with it.
+        <span aria-hidden="true">✓ </span>Your password is saved.{" "}
+        <a href="/sign-in" className="font-medium underline">
+          Sign in
+        </a>{" "}
+        with it.
       </p>
     );
   }
 
-  const described = (name: string, hint?: boolean) => [hint ? `${uid}-${name}-hint` : null, errors[name] ? `${uid}-${name}-error` : null].filter(Boolean).join(" ") || undefined;
+  const described = (name: string, hint?: boolean) =>
+    [hint ? `${uid}-${name}-hint` : null, errors[name] ? `${uid}-${name}-error` : null].filter(Boolean).join(" ") || undefined;
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-5">
       {formError && (
-        <p role="alert" className="flex items-start gap-2 rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sm text-sev-critical">
+        <p
+          role="alert"
+          className="flex items-start gap-2 rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sm text-sev-critical"
+        >
           <span aria-hidden="true">⚠</span>
           <span>{formError}</span>
         </p>
@@ -81,7 +101,15 @@ export function NewPasswordForm({ token, endpoint, askName, initialName = "", su
           <label htmlFor={`${uid}-name`} className="block text-sm font-medium text-ink-800">
             Your full name
           </label>
-          <input id={`${uid}-name`} name="name" defaultValue={initialName} autoComplete="name" className={inputClass} aria-invalid={errors.name ? true : undefined} aria-describedby={described("name")} />
+          <input
+            id={`${uid}-name`}
+            name="name"
+            defaultValue={initialName}
+            autoComplete="name"
+            className={inputClass}
+            aria-invalid={errors.name ? true : undefined}
+            aria-describedby={described("name")}
+          />
           <FieldError id={`${uid}-name-error`} message={errors.name} />
         </div>
       )}
@@ -118,7 +146,11 @@ export function NewPasswordForm({ token, endpoint, askName, initialName = "", su
         />
         <FieldError id={`${uid}-confirmPassword-error`} message={errors.confirmPassword} />
       </div>
-      <button type="submit" disabled={pending} className="flex w-full items-center justify-center rounded-md bg-fjord-600 px-4 py-3 text-base font-semibold text-white hover:bg-fjord-700 disabled:opacity-60">
+      <button
+        type="submit"
+        disabled={pending}
+        className="flex w-full items-center justify-center rounded-md bg-fjord-600 px-4 py-3 text-base font-semibold text-white hover:bg-fjord-700 disabled:opacity-60"
+      >
         {pending ? "Saving…" : submitLabel}
       </button>
     </form>

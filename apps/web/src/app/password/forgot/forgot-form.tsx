@@ -19,7 +19,11 @@ export function ForgotForm() {
       const res = await fetchJson<{ message: string }>("/api/password/forgot", { method: "POST", body: JSON.stringify({ email }) });
       setAnswer(res.message);
     } catch (err) {
-      setError(err instanceof ApiError ? (err.fieldErrors.email?.[0] ?? err.message) : "The request could not be sent. Check your connection and try again.");
+      setError(
+        err instanceof ApiError
+          ? (err.fieldErrors.email?.[0] ?? err.message)
+          : "The request could not be sent. Check your connection and try again.",
+      );
     } finally {
       setPending(false);
     }
@@ -56,7 +60,11 @@ export function ForgotForm() {
           </p>
         )}
       </div>
-      <button type="submit" disabled={pending} className="flex w-full items-center justify-center rounded-md bg-fjord-600 px-4 py-3 text-base font-semibold text-white hover:bg-fjord-700 disabled:opacity-60">
+      <button
+        type="submit"
+        disabled={pending}
+        className="flex w-full items-center justify-center rounded-md bg-fjord-600 px-4 py-3 text-base font-semibold text-white hover:bg-fjord-700 disabled:opacity-60"
+      >
         {pending ? "Sending…" : "Send me a link"}
       </button>
     </form>

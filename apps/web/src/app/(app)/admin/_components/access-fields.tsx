@@ -31,7 +31,10 @@ export function AccessFields({
   const uid = useId();
   const needsBranches = value.roles.some((r) => BRANCH_ROLES.includes(r));
   const toggleRole = (role: AssignableRole, on: boolean) =>
-    onChange({ ...value, roles: on ? [...value.roles, role].filter((r, i, a) => a.indexOf(r) === i) : value.roles.filter((r) => r !== role) });
+    onChange({
+      ...value,
+      roles: on ? [...value.roles, role].filter((r, i, a) => a.indexOf(r) === i) : value.roles.filter((r) => r !== role),
+    });
   const toggleBranch = (id: number, on: boolean) =>
     onChange({ ...value, branchIds: on ? [...new Set([...value.branchIds, id])] : value.branchIds.filter((b) => b !== id) });
   const shownBranches = branches.filter((b) => !b.archivedAt || value.branchIds.includes(b.id));
@@ -45,7 +48,10 @@ export function AccessFields({
             const checked = value.roles.includes(role);
             const locked = lockUnticked && !checked;
             return (
-              <label key={role} className={`flex gap-3 rounded-md border p-3 ${checked ? "border-fjord-600 bg-fjord-50" : "border-ink-200 bg-white"} ${locked ? "opacity-60" : ""}`}>
+              <label
+                key={role}
+                className={`flex gap-3 rounded-md border p-3 ${checked ? "border-fjord-600 bg-fjord-50" : "border-ink-200 bg-white"} ${locked ? "opacity-60" : ""}`}
+              >
                 <input
                   type="checkbox"
                   name="roles"
@@ -78,7 +84,10 @@ export function AccessFields({
             const checked = value.branchIds.includes(b.id);
             const locked = (lockUnticked && !checked) || !needsBranches;
             return (
-              <label key={b.id} className={`flex items-center gap-2 rounded-md border px-3 py-2 ${checked && needsBranches ? "border-fjord-600 bg-fjord-50" : "border-ink-200 bg-white"} ${locked ? "opacity-60" : ""}`}>
+              <label
+                key={b.id}
+                className={`flex items-center gap-2 rounded-md border px-3 py-2 ${checked && needsBranches ? "border-fjord-600 bg-fjord-50" : "border-ink-200 bg-white"} ${locked ? "opacity-60" : ""}`}
+              >
                 <input
                   type="checkbox"
                   name="branchIds"

@@ -1,10 +1,4 @@
-import {
-  GRANT_STATE_LABELS,
-  PERSON_STATUS_LABELS,
-  type CertificationState,
-  type GrantState,
-  type PersonStatus,
-} from "@coldtrail/core";
+import { GRANT_STATE_LABELS, PERSON_STATUS_LABELS, type CertificationState, type GrantState, type PersonStatus } from "@coldtrail/core";
 
 /** Every state has a word and an icon; colour only repeats what they say. */
 function Badge({ icon, label, tone }: { icon: string; label: string; tone: string }) {

@@ -18,7 +18,9 @@ type FormOut = z.output<typeof branchInput>;
 /** Local time in a zone, to confirm the choice ("it is 14:05 there now"). */
 function localTimeIn(timeZone: string): string | null {
   if (!isValidTimeZone(timeZone)) return null;
-  return new Intl.DateTimeFormat("en-US", { timeZone, weekday: "short", hour: "2-digit", minute: "2-digit", timeZoneName: "short" }).format(new Date());
+  return new Intl.DateTimeFormat("en-US", { timeZone, weekday: "short", hour: "2-digit", minute: "2-digit", timeZoneName: "short" }).format(
+    new Date(),
+  );
 }
 
 /** Opens a branch, or edits one (the code is fixed once chosen: the tags of its records carry it). */
@@ -90,7 +92,13 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
           <label htmlFor={`${uid}-name`} className={labelClass}>
             Name
           </label>
-          <input id={`${uid}-name`} {...register("name")} className={inputClass} aria-invalid={invalid("name")} aria-describedby={describedBy("name")} />
+          <input
+            id={`${uid}-name`}
+            {...register("name")}
+            className={inputClass}
+            aria-invalid={invalid("name")}
+            aria-describedby={describedBy("name")}
+          />
           <FieldError id={`${uid}-name-error`} message={errors.name?.message} />
         </div>
         <div>
@@ -115,7 +123,14 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
         <label htmlFor={`${uid}-address`} className={labelClass}>
           Address <span className="font-normal text-ink-600">(optional)</span>
         </label>
-        <textarea id={`${uid}-address`} rows={2} {...register("address")} className={inputClass} aria-invalid={invalid("address")} aria-describedby={describedBy("address")} />
+        <textarea
+          id={`${uid}-address`}
+          rows={2}
+          {...register("address")}
+          className={inputClass}
+          aria-invalid={invalid("address")}
+          aria-describedby={describedBy("address")}
+        />
         <FieldError id={`${uid}-address-error`} message={errors.address?.message} />
       </div>
       <div className="grid gap-5 sm:grid-cols-2">

@@ -27,14 +27,28 @@ function RevokeButton({ grant, onDone }: { grant: InspectorGrantRow; onDone: (er
   if (grant.state !== "active") return null;
   if (!confirming) {
     return (
-      <button type="button" onClick={() => setConfirming(true)} className="rounded-md border border-sev-critical/50 bg-white px-3 py-1.5 text-sm font-semibold text-sev-critical hover:bg-red-50">
+      <button
+        type="button"
+        onClick={() => setConfirming(true)}
+        className="rounded-md border border-sev-critical/50 bg-white px-3 py-1.5 text-sm font-semibold text-sev-critical hover:bg-red-50"
+      >
         Withdraw…
       </button>
     );
   }
   return (
-    <span className="inline-flex flex-wrap items-center gap-2" role="group" aria-label={`Confirm withdrawing ${grant.inspectorName}'s access`}>
-      <button type="button" onClick={() => revoke.mutate()} disabled={revoke.isPending} autoFocus className="rounded-md bg-sev-critical px-3 py-1.5 text-sm font-semibold text-white">
+    <span
+      className="inline-flex flex-wrap items-center gap-2"
+      role="group"
+      aria-label={`Confirm withdrawing ${grant.inspectorName}'s access`}
+    >
+      <button
+        type="button"
+        onClick={() => revoke.mutate()}
+        disabled={revoke.isPending}
+        autoFocus
+        className="rounded-md bg-sev-critical px-3 py-1.5 text-sm font-semibold text-white"
+      >
         Withdraw now
       </button>
       <button type="button" onClick={() => setConfirming(false)} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 text-sm">
@@ -48,12 +62,19 @@ function ResendButton({ grant, onDone }: { grant: InspectorGrantRow; onDone: (er
   const resend = useMutation({
     mutationFn: () => fetchJson<{ mailSent: boolean }>(`/api/admin/inspector-grants/${grant.id}/invitation`, { method: "POST" }),
     onSuccess: (res) =>
-      res.mailSent ? onDone(null, `A new link is on its way to ${grant.inspectorEmail}.`) : onDone("A new link was made but the e-mail could not be sent."),
+      res.mailSent
+        ? onDone(null, `A new link is on its way to ${grant.inspectorEmail}.`)
+        : onDone("A new link was made but the e-mail could not be sent."),
     onError: (err) => onDone(errorMessage(err, "The link could not be sent.")),
   });
   if (grant.state !== "active" || grant.inspectorStatus !== "invited") return null;
   return (
-    <button type="button" onClick={() => resend.mutate()} disabled={resend.isPending} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 text-sm font-medium">
+    <button
+      type="button"
+      onClick={() => resend.mutate()}
+      disabled={resend.isPending}
+      className="rounded-md border border-ink-300 bg-white px-3 py-1.5 text-sm font-medium"
+    >
       {resend.isPending ? "Sending…" : "Send a new link"}
     </button>
   );

@@ -31,11 +31,15 @@ export default async function InspectorsPage({ searchParams }: { searchParams: P
       </div>
       {(granted === "invited" || granted === "notified") && (
         <p role="status" className="flex items-center gap-2 rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">
-          <span aria-hidden="true">✓</span> Access given; {granted === "invited" ? "an invitation to choose a password" : "a notice"} was e-mailed to the inspector.
+          <span aria-hidden="true">✓</span> Access given; {granted === "invited" ? "an invitation to choose a password" : "a notice"} was
+          e-mailed to the inspector.
         </p>
       )}
       {granted === "unsent" && (
-        <p role="alert" className="flex items-center gap-2 rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sm text-sev-critical">
+        <p
+          role="alert"
+          className="flex items-center gap-2 rounded-md border border-sev-critical/40 bg-red-50 px-3 py-2 text-sm text-sev-critical"
+        >
           <span aria-hidden="true">⚠</span> Access given, but the e-mail could not be sent. Use “Send a new link” beside the access below.
         </p>
       )}

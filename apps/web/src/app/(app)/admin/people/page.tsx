@@ -18,7 +18,9 @@ export default async function PeoplePage({ searchParams }: { searchParams: Promi
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-semibold text-ink-950">People</h1>
-          <p className="text-sm text-ink-600">Everyone who can sign in, has been invited, or no longer signs in — with their roles and branches.</p>
+          <p className="text-sm text-ink-600">
+            Everyone who can sign in, has been invited, or no longer signs in — with their roles and branches.
+          </p>
         </div>
         {ability.can("invite", "User") && (
           <Link href="/admin/people/invite" className="rounded-md bg-fjord-600 px-4 py-2.5 font-semibold text-white hover:bg-fjord-700">

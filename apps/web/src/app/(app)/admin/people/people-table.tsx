@@ -5,7 +5,16 @@ import { useQuery } from "@tanstack/react-query";
 import { PERSON_STATUSES, PERSON_STATUS_LABELS, ROLES, ROLE_LABELS } from "@coldtrail/core";
 import type { AdminBranchPage, PersonRow } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
-import { BranchFilter, DataTable, FilterBar, SearchFilter, SelectFilter, optionsOf, serverColumnHelper, useFilters } from "@/components/data-table";
+import {
+  BranchFilter,
+  DataTable,
+  FilterBar,
+  SearchFilter,
+  SelectFilter,
+  optionsOf,
+  serverColumnHelper,
+  useFilters,
+} from "@/components/data-table";
 import { PersonStatusBadge } from "../_components/badges";
 
 const helper = serverColumnHelper<PersonRow>();
@@ -40,7 +49,12 @@ const columns = helper.columns([
       return row.branches.map((b) => (b.archived ? `${b.name} (archived)` : b.name)).join(", ");
     },
   }),
-  helper.accessor("status", { id: "status", header: "Status", enableSorting: false, cell: (info) => <PersonStatusBadge status={info.getValue()} /> }),
+  helper.accessor("status", {
+    id: "status",
+    header: "Status",
+    enableSorting: false,
+    cell: (info) => <PersonStatusBadge status={info.getValue()} />,
+  }),
   helper.accessor("createdAt", {
     id: "createdAt",
     header: "Added",
@@ -59,9 +73,21 @@ export function PeopleTable() {
     <div className="space-y-3">
       <FilterBar className="sm:grid-cols-2 lg:grid-cols-4">
         <SearchFilter label="Search" value={filters.q} onChange={(v) => set("q", v)} placeholder="Name or e-mail" />
-        <SelectFilter label="Role" value={filters.role} onChange={(v) => set("role", v)} anyLabel="All roles" options={optionsOf(ROLES, ROLE_LABELS)} />
+        <SelectFilter
+          label="Role"
+          value={filters.role}
+          onChange={(v) => set("role", v)}
+          anyLabel="All roles"
+          options={optionsOf(ROLES, ROLE_LABELS)}
+        />
         <BranchFilter branches={branches.data?.rows ?? []} value={filters.branchId} onChange={(v) => set("branchId", v)} markArchived />
-        <SelectFilter label="Status" value={filters.status} onChange={(v) => set("status", v)} anyLabel="Any status" options={optionsOf(PERSON_STATUSES, PERSON_STATUS_LABELS)} />
+        <SelectFilter
+          label="Status"
+          value={filters.status}
+          onChange={(v) => set("status", v)}
+          anyLabel="Any status"
+          options={optionsOf(PERSON_STATUSES, PERSON_STATUS_LABELS)}
+        />
       </FilterBar>
       <DataTable
         url="/api/admin/people"

@@ -83,7 +83,12 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
     </p>
   );
 
-  const numberField = (name: "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG", label: string, unit: string, step: string) => (
+  const numberField = (
+    name: "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG",
+    label: string,
+    unit: string,
+    step: string,
+  ) => (
     <div className="rounded-md border border-ink-200 p-4">
       <label htmlFor={`${uid}-${name}`} className={labelClass}>
         {label}
@@ -120,7 +125,14 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
           <label htmlFor={`${uid}-name`} className={labelClass}>
             Name
           </label>
-          <input id={`${uid}-name`} {...register("name")} disabled={!canEdit} className={inputClass} aria-invalid={errors.name ? true : undefined} aria-describedby={described("name", false)} />
+          <input
+            id={`${uid}-name`}
+            {...register("name")}
+            disabled={!canEdit}
+            className={inputClass}
+            aria-invalid={errors.name ? true : undefined}
+            aria-describedby={described("name", false)}
+          />
           <FieldError id={`${uid}-name-error`} message={errors.name?.message} />
         </div>
         <Controller
@@ -133,7 +145,10 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
                 <legend className={labelClass}>Rules the audits apply</legend>
                 <div className="mt-2 space-y-2">
                   {RULE_PACKS.map((p) => (
-                    <label key={p} className={`flex gap-3 rounded-md border p-3 ${value.includes(p) ? "border-fjord-600 bg-fjord-50" : "border-ink-200"}`}>
+                    <label
+                      key={p}
+                      className={`flex gap-3 rounded-md border p-3 ${value.includes(p) ? "border-fjord-600 bg-fjord-50" : "border-ink-200"}`}
+                    >
                       <input
                         type="checkbox"
                         checked={value.includes(p)}
@@ -189,7 +204,13 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
         </div>
         <div className="rounded-md border border-ink-200 p-4">
           <label className="flex items-start gap-3">
-            <input type="checkbox" {...register("strictFill130F")} disabled={!canEdit} className="mt-1 h-4 w-4 accent-fjord-600" aria-describedby={described("strictFill130F", true)} />
+            <input
+              type="checkbox"
+              {...register("strictFill130F")}
+              disabled={!canEdit}
+              className="mt-1 h-4 w-4 accent-fjord-600"
+              aria-describedby={described("strictFill130F", true)}
+            />
             <span className={labelClass}>Stricter cylinder fill (liquid density at 130 °F)</span>
           </label>
           <Why name="strictFill130F" />
@@ -218,7 +239,8 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
             type="button"
             className={secondaryButton}
             onClick={() => {
-              for (const [key, value] of Object.entries(DEFAULT_SETTINGS)) setValue(key as keyof AuditSettings, value as never, { shouldDirty: true });
+              for (const [key, value] of Object.entries(DEFAULT_SETTINGS))
+                setValue(key as keyof AuditSettings, value as never, { shouldDirty: true });
               setNotice(null);
             }}
           >

@@ -45,7 +45,12 @@ const DIRECTION_WORDS: Record<string, string> = {
 
 function MovedLines({ j, massUnit }: { j: ApplianceJobRow; massUnit: ApplianceRow["massUnit"] }) {
   if (j.movements.length === 0) {
-    if (j.kind === "verification_test") return <span>{j.verificationStage === "follow_up" ? "Follow-up" : "Initial"} test: {j.verificationPassed ? "✓ passed" : "✕ failed"}</span>;
+    if (j.kind === "verification_test")
+      return (
+        <span>
+          {j.verificationStage === "follow_up" ? "Follow-up" : "Initial"} test: {j.verificationPassed ? "✓ passed" : "✕ failed"}
+        </span>
+      );
     return <span className="text-ink-600">No refrigerant moved</span>;
   }
   return (
@@ -79,7 +84,11 @@ function JobCard({ j, massUnit }: { j: ApplianceJobRow; massUnit: ApplianceRow["
 function historyColumns(massUnit: ApplianceRow["massUnit"]) {
   const helper = serverColumnHelper<ApplianceJobRow>();
   return helper.columns([
-    helper.accessor("performedOn", { id: "performedOn", header: "Date", cell: (i) => <span className="tabular whitespace-nowrap">{i.getValue()}</span> }),
+    helper.accessor("performedOn", {
+      id: "performedOn",
+      header: "Date",
+      cell: (i) => <span className="tabular whitespace-nowrap">{i.getValue()}</span>,
+    }),
     helper.accessor("kind", {
       id: "kind",
       header: "Job",
@@ -107,7 +116,8 @@ function StatusChange({ appliance, onDone }: { appliance: ApplianceRow; onDone: 
   });
   const errors = form.formState.errors;
   const save = useMutation({
-    mutationFn: (values: StatusOut) => fetchJson(`/api/appliances/${appliance.id}/status`, { method: "POST", body: JSON.stringify(values) }),
+    mutationFn: (values: StatusOut) =>
+      fetchJson(`/api/appliances/${appliance.id}/status`, { method: "POST", body: JSON.stringify(values) }),
     onSuccess: async () => {
       await queryClient.invalidateQueries({ queryKey: ["appliance", String(appliance.id)] });
       await queryClient.invalidateQueries({ queryKey: ["appliances"] });
@@ -138,11 +148,25 @@ function StatusChange({ appliance, onDone }: { appliance: ApplianceRow; onDone: 
           </select>
         </Field>
         <Field id={f("on")} label="On" error={errors.on?.message}>
-          <input id={f("on")} type="date" {...form.register("on")} className={inputClass} aria-invalid={errors.on ? true : undefined} aria-describedby={describedBy(f("on"), { error: errors.on?.message })} />
+          <input
+            id={f("on")}
+            type="date"
+            {...form.register("on")}
+            className={inputClass}
+            aria-invalid={errors.on ? true : undefined}
+            aria-describedby={describedBy(f("on"), { error: errors.on?.message })}
+          />
         </Field>
       </div>
       <Field id={f("reason")} label="Why" error={errors.reason?.message}>
-        <textarea id={f("reason")} rows={2} {...form.register("reason")} className={inputClass} aria-invalid={errors.reason ? true : undefined} aria-describedby={describedBy(f("reason"), { error: errors.reason?.message })} />
+        <textarea
+          id={f("reason")}
+          rows={2}
+          {...form.register("reason")}
+          className={inputClass}
+          aria-invalid={errors.reason ? true : undefined}
+          aria-describedby={describedBy(f("reason"), { error: errors.reason?.message })}
+        />
       </Field>
       <div className="flex gap-2">
         <button type="submit" className={buttonPrimary} disabled={save.isPending}>
@@ -158,7 +182,11 @@ function StatusChange({ appliance, onDone }: { appliance: ApplianceRow; onDone: 
 
 export function ApplianceDetail({ id, saved }: { id: string; saved?: string }) {
   const [changingStatus, setChangingStatus] = useState(false);
-  const query = useQuery({ queryKey: ["appliance", id], queryFn: () => fetchJson<ApplianceResponse>(`/api/appliances/${encodeURIComponent(id)}`), retry: false });
+  const query = useQuery({
+    queryKey: ["appliance", id],
+    queryFn: () => fetchJson<ApplianceResponse>(`/api/appliances/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   if (query.isLoading) return <p className="text-ink-600">Loading the appliance…</p>;
   if (query.isError) {
     return <LoadError error={query.error} noun="appliance" back={{ href: "/appliances", label: "Back to appliances" }} />;
@@ -218,7 +246,9 @@ export function ApplianceDetail({ id, saved }: { id: string; saved?: string }) {
             <DetailRow label="Pressure class">{a.pressureClass ? PRESSURE_CLASS_WORDS[a.pressureClass] : "Unknown"}</DetailRow>
             <DetailRow label="Small appliance">{a.smallAppliance ? "Yes: factory sealed with 5 lb or less" : "No"}</DetailRow>
             <DetailRow label="Certification needed">
-              <span data-testid="certification-needed">{a.certificationTypes.map((t) => CERTIFICATION_TYPE_LABELS[t]).join(" or ") || "—"}</span>
+              <span data-testid="certification-needed">
+                {a.certificationTypes.map((t) => CERTIFICATION_TYPE_LABELS[t]).join(" or ") || "—"}
+              </span>
             </DetailRow>
             <DetailRow label="Leak repair rules">
               {leaks.coverage.regime ? (

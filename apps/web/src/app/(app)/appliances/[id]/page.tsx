@@ -5,7 +5,13 @@ import { ApplianceDetail } from "./appliance-detail";
 
 export const metadata: Metadata = { title: "Appliance" };
 
-export default async function AppliancePage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ saved?: string }> }) {
+export default async function AppliancePage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<{ saved?: string }>;
+}) {
   const signedIn = await currentActor();
   if (!signedIn) redirect("/sign-in");
   const { id } = await params;

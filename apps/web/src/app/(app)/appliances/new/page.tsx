@@ -15,7 +15,9 @@ export default async function NewAppliancePage() {
   return (
     <div className="mx-auto max-w-2xl">
       <h1 className="text-2xl font-semibold text-ink-950">Add an appliance</h1>
-      <p className="mb-5 text-ink-600">Where it is, what it holds and how much. The rules work out its pressure class and the certification it needs.</p>
+      <p className="mb-5 text-ink-600">
+        Where it is, what it holds and how much. The rules work out its pressure class and the certification it needs.
+      </p>
       <ApplianceForm mode="create" branches={branches} />
     </div>
   );

@@ -12,5 +12,13 @@ export default async function AuditPage({ params }: { params: Promise<{ id: stri
   if (ability.cannot("read", "Audit")) redirect("/");
   const id = Number((await params).id);
   if (!Number.isInteger(id) || id <= 0) notFound();
-  return <AuditDetail id={id} canRun={ability.can("run", "Audit")} canExport={ability.can("export", "Audit")} canAssign={ability.can("assign", "Finding")} today={new Date().toISOString().slice(0, 10)} />;
+  return (
+    <AuditDetail
+      id={id}
+      canRun={ability.can("run", "Audit")}
+      canExport={ability.can("export", "Audit")}
+      canAssign={ability.can("assign", "Finding")}
+      today={new Date().toISOString().slice(0, 10)}
+    />
+  );
 }

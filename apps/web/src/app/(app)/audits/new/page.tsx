@@ -18,9 +18,15 @@ export default async function NewAuditPage() {
     <div className="space-y-4">
       <div>
         <h1 className="text-2xl font-semibold text-ink-950">New audit</h1>
-        <p className="text-sm text-ink-600">Choose what to check. The audit runs in the background; you can leave the page and come back to it.</p>
+        <p className="text-sm text-ink-600">
+          Choose what to check. The audit runs in the background; you can leave the page and come back to it.
+        </p>
       </div>
-      <NewAuditForm branches={branches.map((b) => ({ id: b.id, name: b.name }))} defaultPacks={packs} today={new Date().toISOString().slice(0, 10)} />
+      <NewAuditForm
+        branches={branches.map((b) => ({ id: b.id, name: b.name }))}
+        defaultPacks={packs}
+        today={new Date().toISOString().slice(0, 10)}
+      />
     </div>
   );
 }

@@ -29,11 +29,16 @@ const FIELD_WORDS: Record<string, string> = {
   issued_on: "Issue date",
   types: "Type",
 };
-const shown = (key: string, v: unknown) => (v === null || v === undefined || v === "" ? "—" : key === "types" && Array.isArray(v) ? typesText(v as CertificationType[]) : String(v));
+const shown = (key: string, v: unknown) =>
+  v === null || v === undefined || v === "" ? "—" : key === "types" && Array.isArray(v) ? typesText(v as CertificationType[]) : String(v);
 
 export function CardDetailView({ id }: { id: string }) {
   const queryClient = useQueryClient();
-  const card = useQuery({ queryKey: ["certification", id], queryFn: () => fetchJson<CardDetail>(`/api/certifications/${encodeURIComponent(id)}`), retry: false });
+  const card = useQuery({
+    queryKey: ["certification", id],
+    queryFn: () => fetchJson<CardDetail>(`/api/certifications/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   const [notice, setNotice] = useState<string | null>(null);
   const refresh = async (message: string) => {
     setNotice(message);
@@ -84,7 +89,9 @@ export function CardDetailView({ id }: { id: string }) {
             <DetailRow label="Technician">
               {c.technicianName}
               <span className="block text-sm text-ink-600">{c.technicianEmail}</span>
-              <span className="block text-sm text-ink-600">{c.branchNames.length ? c.branchNames.join(", ") : "Not a technician of any branch"}</span>
+              <span className="block text-sm text-ink-600">
+                {c.branchNames.length ? c.branchNames.join(", ") : "Not a technician of any branch"}
+              </span>
             </DetailRow>
             <DetailRow label="Type">{typesText(c.types)}</DetailRow>
             <DetailRow label="Certifying organisation">{c.certifyingOrganisation}</DetailRow>
@@ -150,10 +157,17 @@ function DecisionPanel({ id, technician, onDone }: { id: number; technician: str
       fetchJson<{ state: string; emailed: boolean }>(`/api/certifications/${id}/decision`, { method: "POST", body: JSON.stringify(body) }),
     onSuccess: async (r) => {
       setError(null);
-      const told = r.emailed ? `${technician} has been told by e-mail and in the app.` : `${technician} has been told in the app; the e-mail could not be sent.`;
+      const told = r.emailed
+        ? `${technician} has been told by e-mail and in the app.`
+        : `${technician} has been told in the app; the e-mail could not be sent.`;
       await onDone(`${r.state === "verified" ? "Card verified." : "Card not accepted."} ${told}`);
     },
-    onError: (err) => setError(err instanceof ApiError ? (Object.values(err.fieldErrors)[0]?.[0] ?? err.message) : "The decision could not be sent; nothing was changed."),
+    onError: (err) =>
+      setError(
+        err instanceof ApiError
+          ? (Object.values(err.fieldErrors)[0]?.[0] ?? err.message)
+          : "The decision could not be sent; nothing was changed.",
+      ),
   });
 
   return (
@@ -164,10 +178,19 @@ function DecisionPanel({ id, technician, onDone }: { id: number; technician: str
       <p className="text-sm text-ink-700">Check that the name, type and number on the card match what was entered.</p>
       {mode === "choose" ? (
         <div className="mt-3 flex flex-wrap gap-2">
-          <button type="button" disabled={decide.isPending} onClick={() => decide.mutate({ decision: "verify" })} className="rounded-lg bg-fjord-600 px-4 py-3 font-semibold text-white hover:bg-fjord-700 disabled:opacity-60">
+          <button
+            type="button"
+            disabled={decide.isPending}
+            onClick={() => decide.mutate({ decision: "verify" })}
+            className="rounded-lg bg-fjord-600 px-4 py-3 font-semibold text-white hover:bg-fjord-700 disabled:opacity-60"
+          >
             <span aria-hidden="true">✓ </span>Verify this card
           </button>
-          <button type="button" onClick={() => setMode("reject")} className="rounded-lg border border-ink-300 bg-white px-4 py-3 font-semibold text-ink-900 hover:border-sev-critical">
+          <button
+            type="button"
+            onClick={() => setMode("reject")}
+            className="rounded-lg border border-ink-300 bg-white px-4 py-3 font-semibold text-ink-900 hover:border-sev-critical"
+          >
             <span aria-hidden="true">✕ </span>Do not accept…
           </button>
         </div>
@@ -199,7 +222,11 @@ function DecisionPanel({ id, technician, onDone }: { id: number; technician: str
             The technician reads this in the e-mail and in the app.
           </p>
           <div className="flex flex-wrap gap-2">
-            <button type="submit" disabled={decide.isPending} className="rounded-lg bg-sev-critical px-4 py-3 font-semibold text-white disabled:opacity-60">
+            <button
+              type="submit"
+              disabled={decide.isPending}
+              className="rounded-lg bg-sev-critical px-4 py-3 font-semibold text-white disabled:opacity-60"
+            >
               <span aria-hidden="true">✕ </span>Do not accept the card
             </button>
             <button type="button" onClick={() => setMode("choose")} className="rounded-lg border border-ink-300 bg-white px-4 py-3">
@@ -221,7 +248,13 @@ function CorrectionForm({ card, onDone }: { card: CardDetail; onDone: (message: 
   const [error, setErrorText] = useState<string | null>(null);
   const { register, handleSubmit, formState, setError } = useForm<CorrectionIn, unknown, CorrectionOut>({
     resolver: zodResolver(certificationCorrectionInput),
-    defaultValues: { reason: "", types: card.types, certifyingOrganisation: card.certifyingOrganisation, certificateNumber: card.certificateNumber, issuedOn: card.issuedOn ?? "" },
+    defaultValues: {
+      reason: "",
+      types: card.types,
+      certifyingOrganisation: card.certifyingOrganisation,
+      certificateNumber: card.certificateNumber,
+      issuedOn: card.issuedOn ?? "",
+    },
   });
   const save = useMutation({
     mutationFn: (values: CorrectionOut) => {
@@ -276,9 +309,19 @@ function CorrectionForm({ card, onDone }: { card: CardDetail; onDone: (message: 
         <label htmlFor={`${uid}-why`} className="block text-sm font-medium text-ink-800">
           Why is it corrected?
         </label>
-        <textarea id={`${uid}-why`} rows={2} {...register("reason")} className="block w-full rounded-md border border-ink-300 px-2 py-2" aria-invalid={e.reason ? true : undefined} />
+        <textarea
+          id={`${uid}-why`}
+          rows={2}
+          {...register("reason")}
+          className="block w-full rounded-md border border-ink-300 px-2 py-2"
+          aria-invalid={e.reason ? true : undefined}
+        />
         <FieldError message={e.reason?.message} />
-        <button type="submit" disabled={save.isPending} className="rounded-lg bg-fjord-600 px-4 py-2.5 font-semibold text-white disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={save.isPending}
+          className="rounded-lg bg-fjord-600 px-4 py-2.5 font-semibold text-white disabled:opacity-60"
+        >
           Save the correction
         </button>
         <FieldError message={error} />
@@ -292,7 +335,10 @@ type WithdrawIn = z.input<typeof certificationWithdrawInput>;
 function WithdrawForm({ id, onDone }: { id: number; onDone: (message: string) => Promise<void> }) {
   const uid = useId();
   const [error, setErrorText] = useState<string | null>(null);
-  const { register, handleSubmit, formState } = useForm<WithdrawIn>({ resolver: zodResolver(certificationWithdrawInput), defaultValues: { reason: "" } });
+  const { register, handleSubmit, formState } = useForm<WithdrawIn>({
+    resolver: zodResolver(certificationWithdrawInput),
+    defaultValues: { reason: "" },
+  });
   const withdraw = useMutation({
     mutationFn: (v: WithdrawIn) => fetchJson(`/api/certifications/${id}/withdraw`, { method: "POST", body: JSON.stringify(v) }),
     onSuccess: async () => onDone("Card withdrawn. It stays in the history but no longer counts or appears in lists."),
@@ -307,7 +353,11 @@ function WithdrawForm({ id, onDone }: { id: number; onDone: (message: string) =>
         </label>
         <textarea id={`${uid}-why`} rows={2} {...register("reason")} className="block w-full rounded-md border border-ink-300 px-2 py-2" />
         <FieldError message={formState.errors.reason?.message} />
-        <button type="submit" disabled={withdraw.isPending} className="rounded-lg border border-sev-critical px-4 py-2.5 font-semibold text-sev-critical disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={withdraw.isPending}
+          className="rounded-lg border border-sev-critical px-4 py-2.5 font-semibold text-sev-critical disabled:opacity-60"
+        >
           Withdraw the card
         </button>
         <FieldError message={error} />

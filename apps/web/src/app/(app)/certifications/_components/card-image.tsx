@@ -47,7 +47,12 @@ export function CardImage({ id, mime, hasCard, label }: { id: number; mime: stri
   return (
     <a href={url} target="_blank" rel="noreferrer" className="block" title="Open the full-size photo">
       {/* eslint-disable-next-line @next/next/no-img-element -- a private, permission-checked file; not for the image optimiser */}
-      <img src={url} alt={label} onError={() => setBroken(true)} className="max-h-[75vh] w-full rounded-lg border border-ink-200 bg-white object-contain" />
+      <img
+        src={url}
+        alt={label}
+        onError={() => setBroken(true)}
+        className="max-h-[75vh] w-full rounded-lg border border-ink-200 bg-white object-contain"
+      />
     </a>
   );
 }
@@ -57,10 +62,20 @@ export function CardThumb({ id, mime, hasThumbnail, label }: { id: number; mime:
   const [broken, setBroken] = useState(false);
   if (hasThumbnail && !broken) {
     // eslint-disable-next-line @next/next/no-img-element -- private file behind a permission check
-    return <img src={cardFileUrl(id, "thumbnail")} alt={label} onError={() => setBroken(true)} className="h-16 w-24 rounded border border-ink-200 bg-white object-cover" />;
+    return (
+      <img
+        src={cardFileUrl(id, "thumbnail")}
+        alt={label}
+        onError={() => setBroken(true)}
+        className="h-16 w-24 rounded border border-ink-200 bg-white object-cover"
+      />
+    );
   }
   return (
-    <span className="flex h-16 w-24 items-center justify-center rounded border border-ink-200 bg-ink-50 text-xs font-semibold text-ink-600" aria-label={label}>
+    <span
+      className="flex h-16 w-24 items-center justify-center rounded border border-ink-200 bg-ink-50 text-xs font-semibold text-ink-600"
+      aria-label={label}
+    >
       <span aria-hidden="true">{mime === "application/pdf" ? "PDF" : "▭"}</span>
     </span>
   );

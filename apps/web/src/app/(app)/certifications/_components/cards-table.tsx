@@ -3,7 +3,16 @@
 import Link from "next/link";
 import { CERTIFICATION_STATE_LABELS, CERTIFICATION_STATES, CERTIFICATION_TYPE_LABELS } from "@coldtrail/core";
 import { useBranchOptions } from "@/lib/client/use-branch-options";
-import { BranchFilter, DataTable, FilterBar, SearchFilter, SelectFilter, optionsOf, serverColumnHelper, useFilters } from "@/components/data-table";
+import {
+  BranchFilter,
+  DataTable,
+  FilterBar,
+  SearchFilter,
+  SelectFilter,
+  optionsOf,
+  serverColumnHelper,
+  useFilters,
+} from "@/components/data-table";
 import { CardState } from "./card-state";
 import { CardThumb } from "./card-image";
 import type { CardRow } from "./card-types";
@@ -26,14 +35,24 @@ const columns = helper.columns([
     cell: (info) => {
       const r = info.row.original;
       return (
-        <Link href={`/certifications/${r.id}`} className="font-medium text-fjord-700 underline-offset-2 hover:underline" data-testid="card-link">
+        <Link
+          href={`/certifications/${r.id}`}
+          className="font-medium text-fjord-700 underline-offset-2 hover:underline"
+          data-testid="card-link"
+        >
           {r.technicianName}
-          <span className="block text-xs font-normal text-ink-600">{r.branchNames.length ? r.branchNames.join(", ") : "No branch as technician"}</span>
+          <span className="block text-xs font-normal text-ink-600">
+            {r.branchNames.length ? r.branchNames.join(", ") : "No branch as technician"}
+          </span>
         </Link>
       );
     },
   }),
-  helper.accessor((r) => r.types.map((t) => CERTIFICATION_TYPE_LABELS[t]).join(" + "), { id: "types", header: "Type", enableSorting: false }),
+  helper.accessor((r) => r.types.map((t) => CERTIFICATION_TYPE_LABELS[t]).join(" + "), {
+    id: "types",
+    header: "Type",
+    enableSorting: false,
+  }),
   helper.accessor("certifyingOrganisation", {
     id: "certifyingOrganisation",
     header: "Certifying organisation",
@@ -44,7 +63,11 @@ const columns = helper.columns([
       </span>
     ),
   }),
-  helper.accessor("uploadedAt", { id: "uploadedAt", header: "Uploaded", cell: (info) => <span className="tabular whitespace-nowrap">{dateOf(info.getValue())}</span> }),
+  helper.accessor("uploadedAt", {
+    id: "uploadedAt",
+    header: "Uploaded",
+    cell: (info) => <span className="tabular whitespace-nowrap">{dateOf(info.getValue())}</span>,
+  }),
   helper.accessor("state", { id: "state", header: "State", cell: (info) => <CardState state={info.getValue()} /> }),
   helper.accessor((r) => r.decidedAt ?? "", {
     id: "decidedAt",
@@ -74,8 +97,19 @@ export function CardsTable({ queue, caption }: { queue: boolean; caption: string
   return (
     <div className="space-y-3">
       <FilterBar className="sm:grid-cols-3">
-        <SelectFilter label="State" value={filters.state} onChange={(v) => set("state", v)} anyLabel="All states" options={optionsOf(CERTIFICATION_STATES, CERTIFICATION_STATE_LABELS)} />
-        <SearchFilter label="Search cards" value={filters.q} onChange={(v) => set("q", v)} placeholder="Technician, number or organisation" />
+        <SelectFilter
+          label="State"
+          value={filters.state}
+          onChange={(v) => set("state", v)}
+          anyLabel="All states"
+          options={optionsOf(CERTIFICATION_STATES, CERTIFICATION_STATE_LABELS)}
+        />
+        <SearchFilter
+          label="Search cards"
+          value={filters.q}
+          onChange={(v) => set("q", v)}
+          placeholder="Technician, number or organisation"
+        />
         <BranchFilter branches={branches.data?.rows ?? []} value={filters.branchId} onChange={(v) => set("branchId", v)} />
       </FilterBar>
       <DataTable

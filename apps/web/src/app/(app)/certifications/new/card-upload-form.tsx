@@ -21,7 +21,8 @@ const TYPE_HINTS: Record<(typeof CERTIFICATION_TYPES)[number], string> = {
   universal: "All of the above",
 };
 
-const inputClass = "mt-1 block w-full rounded-lg border border-ink-300 bg-white px-3 py-3 text-lg text-ink-950 shadow-sm aria-[invalid=true]:border-sev-critical";
+const inputClass =
+  "mt-1 block w-full rounded-lg border border-ink-300 bg-white px-3 py-3 text-lg text-ink-950 shadow-sm aria-[invalid=true]:border-sev-critical";
 const labelClass = "block text-base font-semibold text-ink-900";
 const pickerClass =
   "flex min-h-14 cursor-pointer items-center justify-center gap-2 rounded-lg border-2 px-4 py-3 text-center text-base font-semibold has-[:focus-visible]:outline has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-fjord-500";
@@ -131,20 +132,40 @@ export function CardUploadForm() {
         <div className="mt-2 grid gap-2 sm:grid-cols-2">
           <label className={`${pickerClass} border-fjord-600 bg-fjord-600 text-white hover:bg-fjord-700`}>
             <CameraIcon /> Take a photo of the card
-            <input type="file" accept="image/*,application/pdf" capture="environment" className="sr-only" onChange={(e) => choose(e.target.files?.[0])} />
+            <input
+              type="file"
+              accept="image/*,application/pdf"
+              capture="environment"
+              className="sr-only"
+              onChange={(e) => choose(e.target.files?.[0])}
+            />
           </label>
           <label className={`${pickerClass} border-ink-300 bg-white text-ink-900 hover:border-fjord-600`}>
             <FileIcon /> Choose a photo or PDF
-            <input type="file" accept="image/*,application/pdf" className="sr-only" onChange={(e) => choose(e.target.files?.[0])} data-testid="card-file" />
+            <input
+              type="file"
+              accept="image/*,application/pdf"
+              className="sr-only"
+              onChange={(e) => choose(e.target.files?.[0])}
+              data-testid="card-file"
+            />
           </label>
         </div>
         {file && (
           <div className="mt-3 flex items-center gap-3 rounded-lg border border-ink-200 bg-white p-3" data-testid="chosen-card">
             {preview ? (
               // eslint-disable-next-line @next/next/no-img-element -- a local preview of the chosen file
-              <img src={preview} alt="The chosen photo of the card" onError={() => setPreview(null)} className="h-20 w-28 rounded object-cover" />
+              <img
+                src={preview}
+                alt="The chosen photo of the card"
+                onError={() => setPreview(null)}
+                className="h-20 w-28 rounded object-cover"
+              />
             ) : (
-              <span className="flex h-20 w-28 items-center justify-center rounded bg-ink-100 text-sm font-semibold text-ink-700" aria-hidden="true">
+              <span
+                className="flex h-20 w-28 items-center justify-center rounded bg-ink-100 text-sm font-semibold text-ink-700"
+                aria-hidden="true"
+              >
                 {file.type === "application/pdf" ? "PDF" : <FileIcon />}
               </span>
             )}
@@ -227,7 +248,11 @@ export function CardUploadForm() {
       </div>
 
       <div className="sticky bottom-0 -mx-4 border-t border-ink-200 bg-white/95 px-4 py-3 backdrop-blur">
-        <button type="submit" disabled={save.isPending} className="w-full rounded-lg bg-fjord-600 px-4 py-4 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={save.isPending}
+          className="w-full rounded-lg bg-fjord-600 px-4 py-4 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60"
+        >
           {save.isPending ? "Sending…" : "Send the card for verification"}
         </button>
       </div>

@@ -37,7 +37,8 @@ function VoidWeighing({ cylinderId, weighing, onDone }: { cylinderId: number; we
   const [error, setError] = useState<string | undefined>();
   const [formError, setFormError] = useState<string | null>(null);
   const save = useMutation({
-    mutationFn: () => fetchJson(`/api/cylinders/${cylinderId}/weighings/${weighing.id}/void`, { method: "POST", body: JSON.stringify({ reason }) }),
+    mutationFn: () =>
+      fetchJson(`/api/cylinders/${cylinderId}/weighings/${weighing.id}/void`, { method: "POST", body: JSON.stringify({ reason }) }),
     onSuccess: async () => {
       await Promise.all([
         queryClient.invalidateQueries({ queryKey: ["cylinder", String(cylinderId)] }),
@@ -71,7 +72,15 @@ function VoidWeighing({ cylinderId, weighing, onDone }: { cylinderId: number; we
       <p className="text-sm text-ink-600">For a weighing entered in error. It stays in the history, marked as void.</p>
       <FormAlert message={formError} />
       <Field id={`${uid}-reason`} label="Why" error={error}>
-        <textarea id={`${uid}-reason`} rows={2} value={reason} onChange={(e) => setReason(e.target.value)} className={inputClass} aria-invalid={error ? true : undefined} aria-describedby={describedBy(`${uid}-reason`, { error })} />
+        <textarea
+          id={`${uid}-reason`}
+          rows={2}
+          value={reason}
+          onChange={(e) => setReason(e.target.value)}
+          className={inputClass}
+          aria-invalid={error ? true : undefined}
+          aria-describedby={describedBy(`${uid}-reason`, { error })}
+        />
       </Field>
       <div className="flex gap-2">
         <button type="submit" className={buttonPrimary} disabled={save.isPending}>
@@ -100,14 +109,32 @@ function WeighingState({ w }: { w: CylinderWeighingRow }) {
   );
 }
 
-function WeighingActions({ w, canUpdate, onSelect }: { w: CylinderWeighingRow; canUpdate: boolean; onSelect: (mode: "amend" | "void", w: CylinderWeighingRow) => void }) {
+function WeighingActions({
+  w,
+  canUpdate,
+  onSelect,
+}: {
+  w: CylinderWeighingRow;
+  canUpdate: boolean;
+  onSelect: (mode: "amend" | "void", w: CylinderWeighingRow) => void;
+}) {
   if (!canUpdate || w.voidedAt) return null;
   return (
     <span className="flex gap-1">
-      <button type="button" className="min-h-10 rounded-md border border-ink-300 px-3 text-sm" onClick={() => onSelect("amend", w)} aria-label={`Correct the weighing of ${w.weighedOn}`}>
+      <button
+        type="button"
+        className="min-h-10 rounded-md border border-ink-300 px-3 text-sm"
+        onClick={() => onSelect("amend", w)}
+        aria-label={`Correct the weighing of ${w.weighedOn}`}
+      >
         Correct
       </button>
-      <button type="button" className="min-h-10 rounded-md border border-ink-300 px-3 text-sm" onClick={() => onSelect("void", w)} aria-label={`Void the weighing of ${w.weighedOn}`}>
+      <button
+        type="button"
+        className="min-h-10 rounded-md border border-ink-300 px-3 text-sm"
+        onClick={() => onSelect("void", w)}
+        aria-label={`Void the weighing of ${w.weighedOn}`}
+      >
         Void
       </button>
     </span>
@@ -123,12 +150,18 @@ function MovementRecord({ m }: { m: CylinderMovementRow }) {
     );
   }
   if (m.reclaimShipmentId) return <span>Shipment to {m.reclaimerName ?? "a reclaimer"}</span>;
-  return <span className="text-ink-600">{m.jobKind ? `${JOB_KIND_LABELS[m.jobKind as JobKind] ?? "A job"} (not one you may open)` : "—"}</span>;
+  return (
+    <span className="text-ink-600">{m.jobKind ? `${JOB_KIND_LABELS[m.jobKind as JobKind] ?? "A job"} (not one you may open)` : "—"}</span>
+  );
 }
 
 export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
   const [selected, setSelected] = useState<{ mode: "amend" | "void"; weighing: CylinderWeighingRow } | null>(null);
-  const query = useQuery({ queryKey: ["cylinder", id], queryFn: () => fetchJson<CylinderResponse>(`/api/cylinders/${encodeURIComponent(id)}`), retry: false });
+  const query = useQuery({
+    queryKey: ["cylinder", id],
+    queryFn: () => fetchJson<CylinderResponse>(`/api/cylinders/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   const data = query.data;
   const c = data?.cylinder;
   const canUpdate = data?.permissions.update ?? false;
@@ -137,8 +170,16 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
     const helper = serverColumnHelper<CylinderWeighingRow>();
     const unit = c?.massUnit ?? "lb_oz";
     return helper.columns([
-      helper.accessor("weighedOn", { id: "weighedOn", header: "Date", cell: (i) => <span className="tabular whitespace-nowrap">{i.getValue()}</span> }),
-      helper.accessor("grossG", { id: "gross", header: "Scale reading", cell: (i) => <span className="tabular whitespace-nowrap">{formatMass(i.getValue(), unit)}</span> }),
+      helper.accessor("weighedOn", {
+        id: "weighedOn",
+        header: "Date",
+        cell: (i) => <span className="tabular whitespace-nowrap">{i.getValue()}</span>,
+      }),
+      helper.accessor("grossG", {
+        id: "gross",
+        header: "Scale reading",
+        cell: (i) => <span className="tabular whitespace-nowrap">{formatMass(i.getValue(), unit)}</span>,
+      }),
       helper.accessor("netG", {
         id: "net",
         header: "Net",
@@ -154,7 +195,11 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
         cell: (i) => {
           const w = i.row.original;
           if (w.pressurePsig === null && w.temperatureC === null) return <span className="text-ink-600">—</span>;
-          return <span className="tabular whitespace-nowrap">{w.pressurePsig ?? "—"} psig · {temperatureText(w, unit)}</span>;
+          return (
+            <span className="tabular whitespace-nowrap">
+              {w.pressurePsig ?? "—"} psig · {temperatureText(w, unit)}
+            </span>
+          );
         },
       }),
       helper.accessor("weighedByName", { id: "by", header: "By" }),
@@ -162,7 +207,9 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
       helper.display({
         id: "actions",
         header: () => <span className="sr-only">Actions</span>,
-        cell: (i) => <WeighingActions w={i.row.original} canUpdate={canUpdate} onSelect={(mode, weighing) => setSelected({ mode, weighing })} />,
+        cell: (i) => (
+          <WeighingActions w={i.row.original} canUpdate={canUpdate} onSelect={(mode, weighing) => setSelected({ mode, weighing })} />
+        ),
       }),
     ]);
   }, [c?.massUnit, canUpdate]);
@@ -171,7 +218,11 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
     const helper = serverColumnHelper<CylinderMovementRow>();
     const unit = c?.massUnit ?? "lb_oz";
     return helper.columns([
-      helper.accessor("movedOn", { id: "movedOn", header: "Date", cell: (i) => <span className="tabular whitespace-nowrap">{i.getValue()}</span> }),
+      helper.accessor("movedOn", {
+        id: "movedOn",
+        header: "Date",
+        cell: (i) => <span className="tabular whitespace-nowrap">{i.getValue()}</span>,
+      }),
       helper.accessor("direction", { id: "direction", header: "What", cell: (i) => MOVEMENT_WORDS[i.getValue()]?.words ?? i.getValue() }),
       helper.accessor("massG", {
         id: "mass",
@@ -198,7 +249,13 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
       <Link href="/cylinders" className="text-sm text-fjord-700 underline">
         ← All cylinders
       </Link>
-      {saved && <Notice>{saved === "created" ? "Cylinder added to the register. It starts empty: record a weighing to set its contents." : "Changes saved."}</Notice>}
+      {saved && (
+        <Notice>
+          {saved === "created"
+            ? "Cylinder added to the register. It starts empty: record a weighing to set its contents."
+            : "Changes saved."}
+        </Notice>
+      )}
       <header className="flex flex-wrap items-start justify-between gap-3">
         <div>
           <p className="text-sm font-medium uppercase tracking-wide text-ink-600">
@@ -239,7 +296,9 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
                 {c.netG > 0 ? `${formatMass(c.netG, c.massUnit)} ${c.refrigerant ?? ""}` : "Empty"}
               </span>
               <span className="block text-sm text-ink-600">
-                {c.netSource === "weighing" && c.lastWeighing ? `From the weighing of ${c.lastWeighing.on}` : "From the recorded fills, draws and shipments"}
+                {c.netSource === "weighing" && c.lastWeighing
+                  ? `From the weighing of ${c.lastWeighing.on}`
+                  : "From the recorded fills, draws and shipments"}
               </span>
             </DetailRow>
             <DetailRow label="By the records">
@@ -278,7 +337,9 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
               <span className="tabular" data-testid="requalification-due">
                 {c.requalification.dueOn ?? "Unknown"}
               </span>
-              <span className="block text-sm text-ink-600">Every {c.requalification.years} years (49 CFR 180.209; organisation setting)</span>
+              <span className="block text-sm text-ink-600">
+                Every {c.requalification.years} years (49 CFR 180.209; organisation setting)
+              </span>
             </DetailRow>
             <DetailRow label="Today">
               <RequalificationBadge {...c.requalification} />
@@ -303,8 +364,12 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
       </div>
 
       {canUpdate && !selected && <WeighingForm cylinder={c} />}
-      {canUpdate && selected?.mode === "amend" && <WeighingForm key={selected.weighing.id} cylinder={c} amend={selected.weighing} onDone={() => setSelected(null)} />}
-      {canUpdate && selected?.mode === "void" && <VoidWeighing cylinderId={c.id} weighing={selected.weighing} onDone={() => setSelected(null)} />}
+      {canUpdate && selected?.mode === "amend" && (
+        <WeighingForm key={selected.weighing.id} cylinder={c} amend={selected.weighing} onDone={() => setSelected(null)} />
+      )}
+      {canUpdate && selected?.mode === "void" && (
+        <VoidWeighing cylinderId={c.id} weighing={selected.weighing} onDone={() => setSelected(null)} />
+      )}
 
       <section aria-labelledby="weighings-h" className="space-y-2">
         <h2 id="weighings-h" className="text-lg font-semibold text-ink-950">
@@ -375,7 +440,10 @@ export function CylinderDetail({ id, saved }: { id: string; saved?: string }) {
       </section>
 
       <AmendmentsPanel
-        amendments={amendments.map((a) => ({ ...a, subjectLabel: a.subjectType === "CylinderWeighing" ? `Weighing no. ${a.subjectId}` : "Cylinder" }))}
+        amendments={amendments.map((a) => ({
+          ...a,
+          subjectLabel: a.subjectType === "CylinderWeighing" ? `Weighing no. ${a.subjectId}` : "Cylinder",
+        }))}
         massUnit={c.massUnit}
       />
       {activity && <ActivityPanel activity={activity} />}

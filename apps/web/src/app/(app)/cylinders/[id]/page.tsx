@@ -5,7 +5,13 @@ import { CylinderDetail } from "./cylinder-detail";
 
 export const metadata: Metadata = { title: "Cylinder" };
 
-export default async function CylinderPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ saved?: string }> }) {
+export default async function CylinderPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<{ saved?: string }>;
+}) {
   const signedIn = await currentActor();
   if (!signedIn) redirect("/sign-in");
   const { id } = await params;

@@ -33,7 +33,17 @@ const TEMPERATURE_UNITS = [
 type FormOut = z.output<typeof cylinderWeighingAmendInput>;
 
 /** What the reading means before it is saved: net contents against the maximum fill (rules core). */
-function NetPreview({ cylinder, gross, unit, refrigerant }: { cylinder: CylinderRow; gross: unknown; unit: MassInputUnit; refrigerant: string }) {
+function NetPreview({
+  cylinder,
+  gross,
+  unit,
+  refrigerant,
+}: {
+  cylinder: CylinderRow;
+  gross: unknown;
+  unit: MassInputUnit;
+  refrigerant: string;
+}) {
   const value = Number(String(gross ?? "").replace(",", "."));
   if (!String(gross ?? "").trim() || !Number.isFinite(value) || value <= 0) return null;
   const grossG = toGrams(value, unit);
@@ -41,7 +51,8 @@ function NetPreview({ cylinder, gross, unit, refrigerant }: { cylinder: Cylinder
   if (netG < 0) {
     return (
       <p className="text-sm font-medium text-sev-critical" data-testid="weighing-preview">
-        <span aria-hidden="true">⚠ </span>Lighter than the empty cylinder (tare {formatMass(cylinder.tareG, cylinder.massUnit)}): check the scale and the unit.
+        <span aria-hidden="true">⚠ </span>Lighter than the empty cylinder (tare {formatMass(cylinder.tareG, cylinder.massUnit)}): check the
+        scale and the unit.
       </p>
     );
   }
@@ -49,7 +60,12 @@ function NetPreview({ cylinder, gross, unit, refrigerant }: { cylinder: Cylinder
   let maxText = "";
   let over = false;
   if (designation && getRefrigerant(designation)) {
-    const max = maxCylinderFill({ waterCapacityG: cylinder.waterCapacityG, tareG: cylinder.tareG, refrigerant: designation, strict130F: cylinder.fill?.strict130F ?? false });
+    const max = maxCylinderFill({
+      waterCapacityG: cylinder.waterCapacityG,
+      tareG: cylinder.tareG,
+      refrigerant: designation,
+      strict130F: cylinder.fill?.strict130F ?? false,
+    });
     const percent = max.maxNetG > 0 ? (netG / max.maxNetG) * 100 : 0;
     over = netG > max.maxNetG;
     maxText = ` — ${Math.round(percent)} % of the maximum fill (${formatMass(max.maxNetG, cylinder.massUnit)} net)`;
@@ -81,7 +97,10 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
         grossUnit: unit,
         refrigerant: amend.refrigerant ?? "",
         pressurePsig: amend.pressurePsig ?? "",
-        temperatureValue: amend.temperatureC === null ? "" : String(roundTo(unit === "kg" ? amend.temperatureC : celsiusToFahrenheit(amend.temperatureC), 1)),
+        temperatureValue:
+          amend.temperatureC === null
+            ? ""
+            : String(roundTo(unit === "kg" ? amend.temperatureC : celsiusToFahrenheit(amend.temperatureC), 1)),
         temperatureUnit: unit === "kg" ? "C" : "F",
         notes: amend.notes ?? "",
         reason: "",
@@ -112,7 +131,10 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
       if (!amend) delete body.reason;
       return amend
         ? fetchJson(`/api/cylinders/${cylinder.id}/weighings/${amend.id}`, { method: "PATCH", body: JSON.stringify(body) })
-        : fetchJson<{ id: number; netG: number }>(`/api/cylinders/${cylinder.id}/weighings`, { method: "POST", body: JSON.stringify(body) });
+        : fetchJson<{ id: number; netG: number }>(`/api/cylinders/${cylinder.id}/weighings`, {
+            method: "POST",
+            body: JSON.stringify(body),
+          });
     },
     onSuccess: async () => {
       await Promise.all([
@@ -137,7 +159,11 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
       className="space-y-4 rounded-lg border border-ink-200 bg-white p-4"
       aria-labelledby={f("title")}
       data-testid={amend ? "weighing-amend-form" : "weighing-form"}
-      onSubmit={submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the weighing can be saved." })}
+      onSubmit={submitOrExplain(handleSubmit, {
+        save: save.mutate,
+        setFormError,
+        invalid: "Some fields need attention before the weighing can be saved.",
+      })}
     >
       <h2 id={f("title")} className="text-lg font-semibold text-ink-950">
         {amend ? `Correct the weighing of ${amend.weighedOn}` : "Record a weighing"}
@@ -197,9 +223,21 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
         />
         <TextField id={f("notes")} label="Notes" optional error={err("notes")} registration={register("notes")} />
       </div>
-      <NetPreview cylinder={cylinder} gross={watch("grossAmount")} unit={watch("grossUnit") as MassInputUnit} refrigerant={String(watch("refrigerant") ?? "")} />
+      <NetPreview
+        cylinder={cylinder}
+        gross={watch("grossAmount")}
+        unit={watch("grossUnit") as MassInputUnit}
+        refrigerant={String(watch("refrigerant") ?? "")}
+      />
       {amend && (
-        <TextField id={f("reason")} label="Why it is corrected" hint="The previous values stay in the weighing's history." error={err("reason")} registration={register("reason")} rows={2} />
+        <TextField
+          id={f("reason")}
+          label="Why it is corrected"
+          hint="The previous values stay in the weighing's history."
+          error={err("reason")}
+          registration={register("reason")}
+          rows={2}
+        />
       )}
       <div className="flex flex-wrap gap-2">
         <button type="submit" className={buttonPrimary} disabled={save.isPending}>

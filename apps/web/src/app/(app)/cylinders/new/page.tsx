@@ -15,7 +15,9 @@ export default async function NewCylinderPage() {
   return (
     <div className="mx-auto max-w-2xl">
       <h1 className="text-2xl font-semibold text-ink-950">Add a cylinder</h1>
-      <p className="mb-5 text-ink-600">Copy the figures stamped on the cylinder. Its maximum fill and requalification date follow from them.</p>
+      <p className="mb-5 text-ink-600">
+        Copy the figures stamped on the cylinder. Its maximum fill and requalification date follow from them.
+      </p>
       <CylinderForm mode="create" branches={branches} />
     </div>
   );

@@ -41,7 +41,12 @@ function fieldsOf(uid: string, form: UseFormReturn<FieldValues>) {
 
 /** The record or signed statement that proves a disposal, chosen by the appliance's size. */
 export function DisposalProofForm({ jobId }: { jobId: string | null }) {
-  const job = useQuery({ queryKey: ["job", jobId], queryFn: () => fetchJson<JobDetail>(`/api/jobs/${jobId}`), enabled: jobId !== null, retry: false });
+  const job = useQuery({
+    queryKey: ["job", jobId],
+    queryFn: () => fetchJson<JobDetail>(`/api/jobs/${jobId}`),
+    enabled: jobId !== null,
+    retry: false,
+  });
   const recent = useQuery({
     queryKey: ["jobs", "disposals-recent"],
     queryFn: () => fetchJson<JobListPage>("/api/jobs?kind=disposal&pageSize=20"),
@@ -53,13 +58,18 @@ export function DisposalProofForm({ jobId }: { jobId: string | null }) {
     return (
       <div className="space-y-4">
         <h1 className="text-2xl font-semibold text-ink-950">Disposal record or signed statement</h1>
-        <p className="text-ink-600">Choose the disposal job it documents. Log the disposal job first if the recovery is not recorded yet.</p>
+        <p className="text-ink-600">
+          Choose the disposal job it documents. Log the disposal job first if the recovery is not recorded yet.
+        </p>
         <ul className="space-y-2" aria-label="Recent disposal jobs">
           {recent.isLoading && <li className="text-ink-600">Loading disposal jobs…</li>}
           {recent.data?.rows.length === 0 && <li className="text-ink-600">No disposal jobs you may see.</li>}
           {recent.data?.rows.map((r) => (
             <li key={r.id}>
-              <Link href={`/disposals/new?jobId=${r.id}`} className="block min-h-14 rounded-lg border border-ink-200 bg-white px-4 py-3 hover:border-fjord-600">
+              <Link
+                href={`/disposals/new?jobId=${r.id}`}
+                className="block min-h-14 rounded-lg border border-ink-200 bg-white px-4 py-3 hover:border-fjord-600"
+              >
                 <span className="block font-semibold text-ink-950">
                   {r.applianceTag} <span className="font-normal text-ink-600">· {r.performedOn}</span>
                 </span>
@@ -79,14 +89,21 @@ export function DisposalProofForm({ jobId }: { jobId: string | null }) {
   if (job.isLoading) return <p className="text-ink-600">Loading the disposal job…</p>;
   if (job.isError || !job.data) return <p role="alert">No such job, or it is not one you may see.</p>;
   const j = job.data;
-  const existing = j.disposalStatementId ? `/disposals/statements/${j.disposalStatementId}` : j.disposalRecordId ? `/disposals/records/${j.disposalRecordId}` : null;
+  const existing = j.disposalStatementId
+    ? `/disposals/statements/${j.disposalStatementId}`
+    : j.disposalRecordId
+      ? `/disposals/records/${j.disposalRecordId}`
+      : null;
   const type = override ?? (j.applianceCategory === "small_appliance" ? "statement" : "record");
   return (
     <div className="space-y-5">
       <header>
-        <h1 className="text-2xl font-semibold text-ink-950">{type === "statement" ? "Signed statement" : "Disposal record"} for {j.applianceTag}</h1>
+        <h1 className="text-2xl font-semibold text-ink-950">
+          {type === "statement" ? "Signed statement" : "Disposal record"} for {j.applianceTag}
+        </h1>
         <p className="text-ink-600">
-          Disposal job #{j.id} on {j.performedOn}: {formatMass(j.recoveredG, j.branchMassUnit)} {j.refrigerant} recovered by {j.technicianName}.
+          Disposal job #{j.id} on {j.performedOn}: {formatMass(j.recoveredG, j.branchMassUnit)} {j.refrigerant} recovered by{" "}
+          {j.technicianName}.
         </p>
       </header>
       {existing && (
@@ -101,7 +118,11 @@ export function DisposalProofForm({ jobId }: { jobId: string | null }) {
         {type === "statement"
           ? "Small appliances need a statement, signed by whoever delivers the unit for disposal, that the refrigerant was recovered (40 CFR 82.155(b))."
           : "Appliances of more than 5 and less than 50 lb need a record of each disposal (40 CFR 82.155(c))."}{" "}
-        <button type="button" className="font-medium text-fjord-700 underline" onClick={() => setOverride(type === "statement" ? "record" : "statement")}>
+        <button
+          type="button"
+          className="font-medium text-fjord-700 underline"
+          onClick={() => setOverride(type === "statement" ? "record" : "statement")}
+        >
           {type === "statement" ? "Keep a disposal record instead" : "Keep a signed statement instead"}
         </button>
       </p>
@@ -150,7 +171,11 @@ function RecordForm({ job }: { job: JobDetail }) {
     <form
       noValidate
       className="space-y-5"
-      onSubmit={submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the record can be saved." })}
+      onSubmit={submitOrExplain(handleSubmit, {
+        save: save.mutate,
+        setFormError,
+        invalid: "Some fields need attention before the record can be saved.",
+      })}
     >
       <FormAlert message={formError} />
       {field("companyName", "Company name", { hint: "The company whose appliance was disposed of." })}
@@ -253,7 +278,9 @@ function StatementForm({ job }: { job: JobDetail }) {
         {field("signedByName", "Signed by")}
         {field("signedOn", "Date signed", { type: "date" })}
       </div>
-      {field("contractReference", "Contract reference (optional)", { hint: "Only if a contract says the refrigerant is removed before delivery." })}
+      {field("contractReference", "Contract reference (optional)", {
+        hint: "Only if a contract says the refrigerant is removed before delivery.",
+      })}
       <Field
         id={`${uid}-document`}
         label={
@@ -272,12 +299,22 @@ function StatementForm({ job }: { job: JobDetail }) {
           onChange={(e) => {
             const f = e.target.files?.[0] ?? null;
             setFile(f);
-            setFileError(f && f.size > MAX_DOCUMENT_BYTES ? "The file is larger than 10 MB" : f && f.type && !DOCUMENT_TYPES.includes(f.type) ? "Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded" : null);
+            setFileError(
+              f && f.size > MAX_DOCUMENT_BYTES
+                ? "The file is larger than 10 MB"
+                : f && f.type && !DOCUMENT_TYPES.includes(f.type)
+                  ? "Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded"
+                  : null,
+            );
           }}
           className="mt-1 block w-full rounded-lg border border-ink-300 bg-white px-3 py-3 text-base file:mr-3 file:min-h-11 file:rounded-md file:border-0 file:bg-fjord-600 file:px-4 file:font-semibold file:text-white"
           {...fieldAria(`${uid}-document`, { hint: true, error: fileError ?? undefined })}
         />
-        {file && !fileError && <p className="mt-1 text-sm text-ok">✓ {file.type === "application/pdf" ? "PDF" : "Photo"} chosen ({Math.ceil(file.size / 1024)} KB)</p>}
+        {file && !fileError && (
+          <p className="mt-1 text-sm text-ok">
+            ✓ {file.type === "application/pdf" ? "PDF" : "Photo"} chosen ({Math.ceil(file.size / 1024)} KB)
+          </p>
+        )}
       </Field>
       <button type="submit" disabled={save.isPending} className={primaryButton}>
         {save.isPending ? "Saving…" : "Save signed statement"}

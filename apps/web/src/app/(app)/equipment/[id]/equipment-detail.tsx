@@ -32,11 +32,13 @@ function EvacuationClaims({ e }: { e: EquipmentRow }) {
         Evacuation levels it may be used to claim
       </h2>
       <p className="text-sm text-ink-600">
-        {ERA_WORDS[e.era]}: the {e.era === "before_1993_11_15" ? "“before 15 November 1993”" : "“on or after 15 November 1993”"} column of 40 CFR 82.156.
+        {ERA_WORDS[e.era]}: the {e.era === "before_1993_11_15" ? "“before 15 November 1993”" : "“on or after 15 November 1993”"} column of
+        40 CFR 82.156.
         {!e.manufacturedOn && " Without a manufacture date the stricter, later column applies."}
         {e.certificationState !== "certified" && (
           <strong className="mt-1 block font-medium text-sev-critical">
-            <span aria-hidden="true">⚠ </span>Only certified recovery equipment may be used; recoveries with this unit will be raised in audits until its certification is on file.
+            <span aria-hidden="true">⚠ </span>Only certified recovery equipment may be used; recoveries with this unit will be raised in
+            audits until its certification is on file.
           </strong>
         )}
       </p>
@@ -44,9 +46,15 @@ function EvacuationClaims({ e }: { e: EquipmentRow }) {
         <table className="min-w-full text-sm">
           <thead className="bg-ink-100 text-left text-xs uppercase tracking-wide text-ink-600">
             <tr>
-              <th scope="col" className="px-2 py-1.5">Appliance</th>
-              <th scope="col" className="px-2 py-1.5">Charge under 200 lb</th>
-              <th scope="col" className="px-2 py-1.5">Charge 200 lb or more</th>
+              <th scope="col" className="px-2 py-1.5">
+                Appliance
+              </th>
+              <th scope="col" className="px-2 py-1.5">
+                Charge under 200 lb
+              </th>
+              <th scope="col" className="px-2 py-1.5">
+                Charge 200 lb or more
+              </th>
             </tr>
           </thead>
           <tbody className="divide-y divide-ink-100">
@@ -65,7 +73,8 @@ function EvacuationClaims({ e }: { e: EquipmentRow }) {
                 Small appliance
               </th>
               <td colSpan={2} className="px-2 py-1.5">
-                {small.operatingPercent} % of the charge with the compressor running, {small.notOperatingPercent} % without, or {level(SMALL_APPLIANCE_RECOVERY.alternativeVacuum)}
+                {small.operatingPercent} % of the charge with the compressor running, {small.notOperatingPercent} % without, or{" "}
+                {level(SMALL_APPLIANCE_RECOVERY.alternativeVacuum)}
               </td>
             </tr>
           </tbody>
@@ -144,7 +153,11 @@ function EvidenceUpload({ e }: { e: EquipmentRow }) {
 }
 
 export function EquipmentDetail({ id, saved }: { id: string; saved?: string }) {
-  const query = useQuery({ queryKey: ["equipment-unit", id], queryFn: () => fetchJson<EquipmentResponse>(`/api/equipment/${encodeURIComponent(id)}`), retry: false });
+  const query = useQuery({
+    queryKey: ["equipment-unit", id],
+    queryFn: () => fetchJson<EquipmentResponse>(`/api/equipment/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   if (query.isLoading) return <p className="text-ink-600">Loading the recovery equipment…</p>;
   if (query.isError) {
     return <LoadError error={query.error} noun="recovery equipment" back={{ href: "/equipment", label: "Back to recovery equipment" }} />;
@@ -203,7 +216,11 @@ export function EquipmentDetail({ id, saved }: { id: string; saved?: string }) {
           {!e.hasEvidence && <p className="text-sm text-ink-700">No label photo or certificate is on file.</p>}
           {e.evidenceType === "image" && (
             // eslint-disable-next-line @next/next/no-img-element
-            <img src={evidenceUrl} alt={`Certification label of recovery equipment ${e.serial}`} className="mt-2 max-h-80 rounded-md border border-ink-200" />
+            <img
+              src={evidenceUrl}
+              alt={`Certification label of recovery equipment ${e.serial}`}
+              className="mt-2 max-h-80 rounded-md border border-ink-200"
+            />
           )}
           {e.evidenceType === "pdf" && (
             <a href={evidenceUrl} target="_blank" rel="noopener" className="mt-2 inline-block font-medium text-fjord-700 underline">

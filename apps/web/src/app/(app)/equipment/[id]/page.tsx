@@ -5,7 +5,13 @@ import { EquipmentDetail } from "./equipment-detail";
 
 export const metadata: Metadata = { title: "Recovery equipment" };
 
-export default async function EquipmentUnitPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ saved?: string }> }) {
+export default async function EquipmentUnitPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<{ saved?: string }>;
+}) {
   const signedIn = await currentActor();
   if (!signedIn) redirect("/sign-in");
   const { id } = await params;

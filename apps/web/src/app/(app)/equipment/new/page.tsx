@@ -15,7 +15,9 @@ export default async function NewEquipmentPage() {
   return (
     <div className="mx-auto max-w-2xl">
       <h1 className="text-2xl font-semibold text-ink-950">Add recovery equipment</h1>
-      <p className="mb-5 text-ink-600">The manufacture date decides which evacuation levels the unit may be used to claim; attach its certification label after saving.</p>
+      <p className="mb-5 text-ink-600">
+        The manufacture date decides which evacuation levels the unit may be used to claim; attach its certification label after saving.
+      </p>
       <EquipmentForm mode="create" branches={branches} />
     </div>
   );

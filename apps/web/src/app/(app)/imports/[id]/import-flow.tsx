@@ -67,7 +67,11 @@ export function ImportFlow({ id }: { id: string }) {
         <ProgressPanel
           label={d.state === "checking" ? "Checking every row" : `Importing ${n(d.validRows)} rows in one go`}
           progress={d.progress}
-          note={d.state === "checking" ? `${n(d.totalRows)} rows checked so far` : `${n(d.totalRows)} rows read · nothing is saved until every row is written`}
+          note={
+            d.state === "checking"
+              ? `${n(d.totalRows)} rows checked so far`
+              : `${n(d.totalRows)} rows read · nothing is saved until every row is written`
+          }
         />
       )}
 
@@ -84,7 +88,11 @@ export function ImportFlow({ id }: { id: string }) {
               Upload a corrected file
             </Link>
             {!remap && d.mapping && (
-              <button type="button" onClick={() => setRemap(true)} className="rounded-lg border border-ink-300 bg-white px-4 py-2.5 font-semibold text-ink-900">
+              <button
+                type="button"
+                onClick={() => setRemap(true)}
+                className="rounded-lg border border-ink-300 bg-white px-4 py-2.5 font-semibold text-ink-900"
+              >
                 Check it again
               </button>
             )}
@@ -92,7 +100,9 @@ export function ImportFlow({ id }: { id: string }) {
         </div>
       )}
 
-      {d.state === "cancelled" && <p className="rounded-lg border border-ink-300 bg-ink-100 p-4 text-ink-800">This import was cancelled; nothing was imported.</p>}
+      {d.state === "cancelled" && (
+        <p className="rounded-lg border border-ink-300 bg-ink-100 p-4 text-ink-800">This import was cancelled; nothing was imported.</p>
+      )}
 
       {(d.state === "checked" || d.state === "imported") && !showMapping && (
         <section aria-labelledby="summary-h" className="space-y-3">
@@ -106,7 +116,9 @@ export function ImportFlow({ id }: { id: string }) {
                 Imported {n(d.importedRows)} {what}
               </strong>{" "}
               into {d.branchName}.{" "}
-              {d.invalidRows > 0 ? `${n(d.invalidRows)} rows with problems were not imported; they are listed below.` : "Every row was imported."}{" "}
+              {d.invalidRows > 0
+                ? `${n(d.invalidRows)} rows with problems were not imported; they are listed below.`
+                : "Every row was imported."}{" "}
               <Link href={REGISTER_LINKS[d.kind]} className="font-semibold underline">
                 Open the register
               </Link>
@@ -114,7 +126,8 @@ export function ImportFlow({ id }: { id: string }) {
           ) : (
             <div className="rounded-lg border border-fjord-600/50 bg-white p-4" data-testid="import-summary">
               <p className="text-lg">
-                <strong className="tabular">{n(d.validRows)}</strong> of <span className="tabular">{n(d.totalRows)}</span> rows can be imported.{" "}
+                <strong className="tabular">{n(d.validRows)}</strong> of <span className="tabular">{n(d.totalRows)}</span> rows can be
+                imported.{" "}
                 {d.invalidRows > 0 && (
                   <span className="text-sev-major">
                     <span aria-hidden="true">⚠ </span>
@@ -122,7 +135,10 @@ export function ImportFlow({ id }: { id: string }) {
                   </span>
                 )}
               </p>
-              <p className="mt-1 text-sm text-ink-600">Correct those rows in your file and import them later, or import the valid rows now. The rows are checked once more as they are written.</p>
+              <p className="mt-1 text-sm text-ink-600">
+                Correct those rows in your file and import them later, or import the valid rows now. The rows are checked once more as they
+                are written.
+              </p>
               <CommitButtons detail={d} onRemap={() => setRemap(true)} onDone={refresh} />
             </div>
           )}
@@ -144,7 +160,11 @@ function Steps({ state }: { state: ImportView["state"] }) {
         const done = i < index;
         const current = i === index || (index === 4 && i === 3);
         return (
-          <li key={s} aria-current={current ? "step" : undefined} className={`rounded-full border px-3 py-1 ${current ? "border-fjord-600 bg-fjord-50 font-semibold text-fjord-800" : done ? "border-ok/40 text-ok" : "border-ink-200 text-ink-600"}`}>
+          <li
+            key={s}
+            aria-current={current ? "step" : undefined}
+            className={`rounded-full border px-3 py-1 ${current ? "border-fjord-600 bg-fjord-50 font-semibold text-fjord-800" : done ? "border-ok/40 text-ok" : "border-ink-200 text-ink-600"}`}
+          >
             <span aria-hidden="true">{done || index === 4 ? "✓ " : `${i + 1}. `}</span>
             {s}
           </li>
@@ -161,7 +181,14 @@ function ProgressPanel({ label, progress, note }: { label: string; progress: num
       <p id={`${uid}-l`} className="font-semibold text-ink-950">
         {label}…
       </p>
-      <div role="progressbar" aria-labelledby={`${uid}-l`} aria-valuemin={0} aria-valuemax={100} aria-valuenow={progress} className="mt-2 h-4 w-full overflow-hidden rounded-full bg-ink-100">
+      <div
+        role="progressbar"
+        aria-labelledby={`${uid}-l`}
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={progress}
+        className="mt-2 h-4 w-full overflow-hidden rounded-full bg-ink-100"
+      >
         <div className="h-full rounded-full bg-fjord-600 transition-all" style={{ width: `${Math.max(2, progress)}%` }} />
       </div>
       <p className="mt-1 text-sm text-ink-600 tabular" aria-live="polite">
@@ -186,9 +213,15 @@ function MappingForm({ detail, onDone }: { detail: ImportView; onDone: () => Pro
   const save = useMutation({
     mutationFn: () => fetchJson(`/api/imports/${detail.id}/mapping`, { method: "PUT", body: JSON.stringify({ mapping }) }),
     onSuccess: onDone,
-    onError: (err) => setServerError(err instanceof ApiError ? (Object.values(err.fieldErrors)[0]?.[0] ?? err.message) : "The columns could not be sent; nothing was changed."),
+    onError: (err) =>
+      setServerError(
+        err instanceof ApiError
+          ? (Object.values(err.fieldErrors)[0]?.[0] ?? err.message)
+          : "The columns could not be sent; nothing was changed.",
+      ),
   });
-  const sampleOf = (column: number | null) => (column === null ? "" : detail.sample.map((r) => r[column] ?? "").find((v) => v.trim() !== "") ?? "");
+  const sampleOf = (column: number | null) =>
+    column === null ? "" : (detail.sample.map((r) => r[column] ?? "").find((v) => v.trim() !== "") ?? "");
 
   return (
     <section aria-labelledby={`${uid}-h`} className="space-y-4">
@@ -196,7 +229,9 @@ function MappingForm({ detail, onDone }: { detail: ImportView; onDone: () => Pro
         <h2 id={`${uid}-h`} className="text-lg font-semibold text-ink-950">
           Which column holds what?
         </h2>
-        <p className="text-sm text-ink-600">Columns were matched by their headings; check them and change any that are wrong. Fields marked required must come from a column.</p>
+        <p className="text-sm text-ink-600">
+          Columns were matched by their headings; check them and change any that are wrong. Fields marked required must come from a column.
+        </p>
       </div>
       <form
         onSubmit={(e) => {
@@ -225,7 +260,12 @@ function MappingForm({ detail, onDone }: { detail: ImportView; onDone: () => Pro
             return (
               <div key={f.key} className="rounded-lg border border-ink-200 bg-white p-3">
                 <label htmlFor={`${uid}-${f.key}`} className="block font-semibold text-ink-900">
-                  {f.label} {f.required ? <span className="text-sm font-normal text-ink-600">(required)</span> : <span className="text-sm font-normal text-ink-600">(optional)</span>}
+                  {f.label}{" "}
+                  {f.required ? (
+                    <span className="text-sm font-normal text-ink-600">(required)</span>
+                  ) : (
+                    <span className="text-sm font-normal text-ink-600">(optional)</span>
+                  )}
                 </label>
                 <select
                   id={`${uid}-${f.key}`}
@@ -290,7 +330,11 @@ function MappingForm({ detail, onDone }: { detail: ImportView; onDone: () => Pro
           </div>
         </details>
 
-        <button type="submit" disabled={save.isPending} className="rounded-lg bg-fjord-600 px-5 py-3 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={save.isPending}
+          className="rounded-lg bg-fjord-600 px-5 py-3 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60"
+        >
           {save.isPending ? "Starting…" : "Check every row"}
         </button>
       </form>
@@ -324,7 +368,12 @@ function CommitButtons({ detail, onRemap, onDone }: { detail: ImportView; onRema
         <button type="button" onClick={onRemap} className="rounded-lg border border-ink-300 bg-white px-4 py-3 font-semibold text-ink-900">
           Change the columns
         </button>
-        <button type="button" disabled={cancel.isPending} onClick={() => cancel.mutate()} className="rounded-lg border border-ink-300 bg-white px-4 py-3 text-ink-700">
+        <button
+          type="button"
+          disabled={cancel.isPending}
+          onClick={() => cancel.mutate()}
+          className="rounded-lg border border-ink-300 bg-white px-4 py-3 text-ink-700"
+        >
           Cancel the import
         </button>
       </div>
@@ -412,7 +461,11 @@ const issueColumns = issueHelper.columns([
       );
     },
   }),
-  issueHelper.accessor((r) => r.value ?? "", { id: "value", header: "Value in the file", cell: (i) => (i.getValue() ? <span className="font-mono text-xs">{i.getValue()}</span> : <span className="text-ink-500">(empty)</span>) }),
+  issueHelper.accessor((r) => r.value ?? "", {
+    id: "value",
+    header: "Value in the file",
+    cell: (i) => (i.getValue() ? <span className="font-mono text-xs">{i.getValue()}</span> : <span className="text-ink-500">(empty)</span>),
+  }),
   issueHelper.accessor("message", { header: "Why" }),
 ]);
 
@@ -420,7 +473,8 @@ function IssuesTable({ id }: { id: number }) {
   const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 50 });
   const issues = useQuery({
     queryKey: ["import-issues", id, pagination],
-    queryFn: () => fetchJson<Paged<ImportIssueRow>>(`/api/imports/${id}/issues?page=${pagination.pageIndex + 1}&pageSize=${pagination.pageSize}`),
+    queryFn: () =>
+      fetchJson<Paged<ImportIssueRow>>(`/api/imports/${id}/issues?page=${pagination.pageIndex + 1}&pageSize=${pagination.pageSize}`),
     placeholderData: keepPreviousData,
   });
   const table = useTable({
@@ -468,13 +522,23 @@ function IssuesTable({ id }: { id: number }) {
       </div>
       {total > pagination.pageSize && (
         <div className="flex items-center justify-end gap-2 text-sm">
-          <button type="button" onClick={() => table.previousPage()} disabled={!table.getCanPreviousPage()} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
+          <button
+            type="button"
+            onClick={() => table.previousPage()}
+            disabled={!table.getCanPreviousPage()}
+            className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40"
+          >
             Previous
           </button>
           <span className="tabular">
             Page {pagination.pageIndex + 1} of {Math.max(1, table.getPageCount())}
           </span>
-          <button type="button" onClick={() => table.nextPage()} disabled={!table.getCanNextPage()} className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40">
+          <button
+            type="button"
+            onClick={() => table.nextPage()}
+            disabled={!table.getCanNextPage()}
+            className="rounded-md border border-ink-300 bg-white px-3 py-1.5 disabled:opacity-40"
+          >
             Next
           </button>
         </div>

@@ -14,7 +14,10 @@ const LOOK: Record<ImportState, { icon: string; tone: string }> = {
 export function ImportStateBadge({ state }: { state: ImportState }) {
   const look = LOOK[state];
   return (
-    <span className={`inline-flex items-center gap-1.5 whitespace-nowrap rounded-full border px-2 py-0.5 text-xs font-semibold ${look.tone}`} data-testid="import-state">
+    <span
+      className={`inline-flex items-center gap-1.5 whitespace-nowrap rounded-full border px-2 py-0.5 text-xs font-semibold ${look.tone}`}
+      data-testid="import-state"
+    >
       <span aria-hidden="true">{look.icon}</span>
       {IMPORT_STATE_LABELS[state]}
     </span>

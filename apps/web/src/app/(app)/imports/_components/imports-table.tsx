@@ -9,7 +9,14 @@ import type { ImportListRow } from "./import-types";
 const helper = serverColumnHelper<ImportListRow>();
 
 const columns = helper.columns([
-  helper.accessor("createdAt", { header: "Started", cell: (i) => <span className="tabular whitespace-nowrap">{new Date(i.getValue()).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" })}</span> }),
+  helper.accessor("createdAt", {
+    header: "Started",
+    cell: (i) => (
+      <span className="tabular whitespace-nowrap">
+        {new Date(i.getValue()).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" })}
+      </span>
+    ),
+  }),
   helper.accessor("fileLabel", {
     header: "File",
     cell: (i) => (
@@ -28,7 +35,11 @@ const columns = helper.columns([
       return (
         <span className="tabular whitespace-nowrap text-xs">
           {r.totalRows.toLocaleString("en-US")} read
-          {r.state === "imported" ? ` · ${r.importedRows.toLocaleString("en-US")} imported` : r.validRows ? ` · ${r.validRows.toLocaleString("en-US")} valid` : ""}
+          {r.state === "imported"
+            ? ` · ${r.importedRows.toLocaleString("en-US")} imported`
+            : r.validRows
+              ? ` · ${r.validRows.toLocaleString("en-US")} valid`
+              : ""}
           {r.invalidRows ? ` · ${r.invalidRows.toLocaleString("en-US")} with problems` : ""}
         </span>
       );

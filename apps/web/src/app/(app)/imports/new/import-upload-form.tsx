@@ -53,7 +53,13 @@ export function ImportUploadForm() {
           else setError(field as FieldPath<FormIn>, { type: "server", message: messages[0] });
         }
         const onFields = Object.keys(err.fieldErrors).length > 0;
-        setFormError(err.status === 403 ? "You may not import into that branch." : onFields ? "Nothing was saved: see the message below." : err.message);
+        setFormError(
+          err.status === 403
+            ? "You may not import into that branch."
+            : onFields
+              ? "Nothing was saved: see the message below."
+              : err.message,
+        );
       } else setFormError("The file could not be sent. Check your connection; nothing was saved.");
     },
   });
@@ -85,7 +91,10 @@ export function ImportUploadForm() {
         <legend className="text-base font-semibold text-ink-900">What does the file hold?</legend>
         <div className="mt-2 grid gap-2">
           {IMPORT_KINDS.map((k) => (
-            <label key={k} className="flex min-h-14 cursor-pointer items-center gap-3 rounded-lg border border-ink-200 bg-white px-4 py-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600 has-[:checked]:bg-fjord-50">
+            <label
+              key={k}
+              className="flex min-h-14 cursor-pointer items-center gap-3 rounded-lg border border-ink-200 bg-white px-4 py-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600 has-[:checked]:bg-fjord-50"
+            >
               <input type="radio" value={k} {...register("kind")} className="size-5 accent-fjord-600" />
               <span>
                 <span className="block font-semibold">{IMPORT_KIND_LABELS[k]}</span>
@@ -123,7 +132,8 @@ export function ImportUploadForm() {
           Spreadsheet
         </label>
         <p id={`${uid}-file-hint`} className="text-sm text-ink-600">
-          An Excel workbook (.xlsx, first worksheet) or a CSV file, up to {IMPORT_MAX_BYTES / 1024 / 1024} MB, with the column headings in its first row. Required columns: {required.join(", ")}.{" "}
+          An Excel workbook (.xlsx, first worksheet) or a CSV file, up to {IMPORT_MAX_BYTES / 1024 / 1024} MB, with the column headings in
+          its first row. Required columns: {required.join(", ")}.{" "}
           <a href={`/api/imports/template?kind=${kind}`} download className="font-medium text-fjord-700 underline">
             Download the template
           </a>
@@ -144,7 +154,11 @@ export function ImportUploadForm() {
         <FieldError id={`${uid}-file-error`} message={fileError} />
       </div>
 
-      <button type="submit" disabled={upload.isPending} className="w-full rounded-lg bg-fjord-600 px-4 py-3.5 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60 sm:w-auto">
+      <button
+        type="submit"
+        disabled={upload.isPending}
+        className="w-full rounded-lg bg-fjord-600 px-4 py-3.5 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60 sm:w-auto"
+      >
         {upload.isPending ? "Reading the file…" : "Read the file"}
       </button>
     </form>

@@ -16,7 +16,9 @@ export default async function NewImportPage() {
         ← Spreadsheet import
       </Link>
       <h1 className="mt-2 text-2xl font-semibold text-ink-950">Start an import</h1>
-      <p className="mb-5 text-ink-600">Choose what the file holds and the branch it belongs to. Nothing is imported until you have seen the check.</p>
+      <p className="mb-5 text-ink-600">
+        Choose what the file holds and the branch it belongs to. Nothing is imported until you have seen the check.
+      </p>
       <ImportUploadForm />
     </div>
   );

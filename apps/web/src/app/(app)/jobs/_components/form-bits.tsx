@@ -25,8 +25,10 @@ export const hintClass = "mt-1 text-sm text-ink-600";
 export const choiceClass = radioCardClass.large;
 /** The unit beside an amount (`AmountInput`). */
 export const unitSelectClass = "w-28 rounded-lg border border-ink-300 bg-white px-3 text-lg";
-export const primaryButton = "w-full rounded-lg bg-fjord-600 px-4 py-4 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60";
-export const secondaryButton = "rounded-md border border-ink-300 bg-white px-4 py-2 text-base font-medium text-ink-800 hover:border-fjord-600";
+export const primaryButton =
+  "w-full rounded-lg bg-fjord-600 px-4 py-4 text-lg font-semibold text-white hover:bg-fjord-700 disabled:opacity-60";
+export const secondaryButton =
+  "rounded-md border border-ink-300 bg-white px-4 py-2 text-base font-medium text-ink-800 hover:border-fjord-600";
 
 export function SavedNotice({ children }: { children: ReactNode }) {
   return <Notice>{children}</Notice>;
@@ -43,7 +45,13 @@ export function TextField(props: Omit<TextFieldProps, "inputClassName"> & { inpu
 }
 
 /** A labelled amount and unit of the record forms (a mass unless `options` says otherwise). */
-export function AmountField(props: Omit<FieldProps, "children"> & Omit<AmountInputProps, "id" | "hint" | "error" | "inputClassName" | "unitClassName"> & { inputClassName?: string; unitClassName?: string }) {
+export function AmountField(
+  props: Omit<FieldProps, "children"> &
+    Omit<AmountInputProps, "id" | "hint" | "error" | "inputClassName" | "unitClassName"> & {
+      inputClassName?: string;
+      unitClassName?: string;
+    },
+) {
   return <SharedAmountField labelClassName={labelClass} inputClassName={inputClass} unitClassName={unitSelectClass} {...props} />;
 }
 

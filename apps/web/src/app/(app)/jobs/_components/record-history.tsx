@@ -8,10 +8,16 @@ import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { FieldError, FormAlert, SavedNotice, inputClass, labelClass, secondaryButton } from "./form-bits";
 
 /** How a stored value reads in the history: grams in the branch's unit, yes/no, dates as they are. */
-export function describeValue(column: string, value: unknown, massUnit: MassDisplayUnit, words: Record<string, Record<string, string>> = {}): string {
+export function describeValue(
+  column: string,
+  value: unknown,
+  massUnit: MassDisplayUnit,
+  words: Record<string, Record<string, string>> = {},
+): string {
   if (value === null || value === undefined || value === "") return "—";
   if (column.endsWith("_g") && typeof value === "number") return formatMass(value, massUnit);
-  if (typeof value === "boolean" || ((value === 0 || value === 1) && /(removed|operating|passed|needed)$/.test(column))) return value ? "Yes" : "No";
+  if (typeof value === "boolean" || ((value === 0 || value === 1) && /(removed|operating|passed|needed)$/.test(column)))
+    return value ? "Yes" : "No";
   if (column === "document_file_key") return "signed document on file";
   if (column.endsWith("_id")) return `#${value}`;
   const mapped = words[column]?.[String(value)];
@@ -46,7 +52,9 @@ export function AmendmentHistory({
             <li key={a.id} className="border-l-4 border-fjord-500 pl-3" data-testid="amendment">
               <p className="text-sm text-ink-700">
                 <span className="font-semibold text-ink-950">{a.actorName}</span> corrected this on{" "}
-                <time dateTime={a.at}>{new Date(a.at).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short", ...(timeZone ? { timeZone } : {}) })}</time>
+                <time dateTime={a.at}>
+                  {new Date(a.at).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short", ...(timeZone ? { timeZone } : {}) })}
+                </time>
               </p>
               <p className="text-sm">
                 <span className="font-medium">Why:</span> {a.reason}
@@ -72,7 +80,9 @@ export function AmendmentHistory({
                       <th scope="row" className="pr-3 text-left font-normal text-ink-700">
                         {fieldWords[column] ?? column.replaceAll("_", " ")}
                       </th>
-                      <td className="pr-3 tabular text-ink-600 line-through decoration-ink-400">{describeValue(column, a.previous[column], massUnit, valueWords)}</td>
+                      <td className="pr-3 tabular text-ink-600 line-through decoration-ink-400">
+                        {describeValue(column, a.previous[column], massUnit, valueWords)}
+                      </td>
                       <td className="tabular font-medium text-ink-950">{describeValue(column, a.next[column], massUnit, valueWords)}</td>
                     </tr>
                   ))}
@@ -89,7 +99,15 @@ export function AmendmentHistory({
 export type AmendField =
   | { name: string; label: string; type: "text" | "textarea" | "date"; value: string | null }
   | { name: string; label: string; type: "number"; value: number | null; hint?: string }
-  | { name: string; label: string; type: "select"; value: string | null; options: { value: string; label: string }[]; allowEmpty?: string; numeric?: boolean }
+  | {
+      name: string;
+      label: string;
+      type: "select";
+      value: string | null;
+      options: { value: string; label: string }[];
+      allowEmpty?: string;
+      numeric?: boolean;
+    }
   | { name: string; label: string; type: "yesno"; value: boolean | null }
   | { name: string; label: string; type: "mass"; value: number | null; unitField: string; massUnit: MassDisplayUnit };
 
@@ -107,7 +125,17 @@ function initialText(f: AmendField): string {
  * "Correct this record": the editable fields with their current values and a required reason.
  * Only the fields changed are sent; the server keeps the previous values in the history.
  */
-export function AmendPanel({ url, fields, invalidate, title = "Correct this record" }: { url: string; fields: AmendField[]; invalidate: QueryKey[]; title?: string }) {
+export function AmendPanel({
+  url,
+  fields,
+  invalidate,
+  title = "Correct this record",
+}: {
+  url: string;
+  fields: AmendField[];
+  invalidate: QueryKey[];
+  title?: string;
+}) {
   const uid = useId();
   const queryClient = useQueryClient();
   const [open, setOpen] = useState(false);
@@ -179,7 +207,9 @@ export function AmendPanel({ url, fields, invalidate, title = "Correct this reco
       <h2 id={`${uid}-h`} className="text-lg font-semibold text-ink-950">
         {title}
       </h2>
-      <p className="text-sm text-ink-600">Change what was entered wrongly. The record keeps the previous values, who changed them and why.</p>
+      <p className="text-sm text-ink-600">
+        Change what was entered wrongly. The record keeps the previous values, who changed them and why.
+      </p>
       <FormAlert message={formError} />
       {fields.map((f) => {
         const id = `${uid}-${f.name}`;
@@ -200,8 +230,17 @@ export function AmendPanel({ url, fields, invalidate, title = "Correct this reco
                     ["true", "Yes"],
                     ["false", "No"],
                   ].map(([v, label]) => (
-                    <label key={v} className="flex min-h-12 flex-1 cursor-pointer items-center gap-2 rounded-lg border border-ink-200 px-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600">
-                      <input type="radio" name={id} checked={values[f.name] === v} onChange={() => set(v!)} className="size-5 shrink-0 accent-fjord-600" />
+                    <label
+                      key={v}
+                      className="flex min-h-12 flex-1 cursor-pointer items-center gap-2 rounded-lg border border-ink-200 px-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600"
+                    >
+                      <input
+                        type="radio"
+                        name={id}
+                        checked={values[f.name] === v}
+                        onChange={() => set(v!)}
+                        className="size-5 shrink-0 accent-fjord-600"
+                      />
                       {label}
                     </label>
                   ))}
@@ -214,7 +253,13 @@ export function AmendPanel({ url, fields, invalidate, title = "Correct this reco
                   {f.type === "mass" && <span className="font-normal text-ink-600"> ({f.massUnit === "kg" ? "kg" : "lb"})</span>}
                 </label>
                 {f.type === "textarea" ? (
-                  <textarea {...common} rows={3} value={values[f.name] ?? ""} onChange={(e) => set(e.target.value)} className={inputClass} />
+                  <textarea
+                    {...common}
+                    rows={3}
+                    value={values[f.name] ?? ""}
+                    onChange={(e) => set(e.target.value)}
+                    className={inputClass}
+                  />
                 ) : f.type === "select" ? (
                   <select {...common} value={values[f.name] ?? ""} onChange={(e) => set(e.target.value)} className={`${inputClass} py-3`}>
                     {f.allowEmpty !== undefined && <option value="">{f.allowEmpty}</option>}
@@ -257,7 +302,11 @@ export function AmendPanel({ url, fields, invalidate, title = "Correct this reco
         <FieldError id={`${uid}-reason-error`} message={errors.reason} />
       </div>
       <div className="flex flex-wrap gap-2">
-        <button type="submit" disabled={save.isPending} className="rounded-lg bg-fjord-600 px-5 py-3 font-semibold text-white hover:bg-fjord-700 disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={save.isPending}
+          className="rounded-lg bg-fjord-600 px-5 py-3 font-semibold text-white hover:bg-fjord-700 disabled:opacity-60"
+        >
           {save.isPending ? "Saving…" : "Save correction"}
         </button>
         <button type="button" onClick={() => setOpen(false)} className={secondaryButton}>
@@ -285,7 +334,11 @@ export function VoidPanel({ url, invalidate, what }: { url: string; invalidate: 
   });
   if (!open) {
     return (
-      <button type="button" onClick={() => setOpen(true)} className="rounded-md border border-sev-critical/50 bg-white px-4 py-2 font-medium text-sev-critical hover:bg-red-50">
+      <button
+        type="button"
+        onClick={() => setOpen(true)}
+        className="rounded-md border border-sev-critical/50 bg-white px-4 py-2 font-medium text-sev-critical hover:bg-red-50"
+      >
         Void this {what}…
       </button>
     );
@@ -301,7 +354,9 @@ export function VoidPanel({ url, invalidate, what }: { url: string; invalidate: 
       className="space-y-3 rounded-lg border-2 border-sev-critical/50 bg-white p-4"
     >
       <p className="font-semibold text-ink-950">Void this {what}?</p>
-      <p className="text-sm text-ink-600">Use this only for a record entered in error. It stays on file, marked void with your reason, and leaves the lists.</p>
+      <p className="text-sm text-ink-600">
+        Use this only for a record entered in error. It stays on file, marked void with your reason, and leaves the lists.
+      </p>
       <div>
         <label htmlFor={`${uid}-void-reason`} className={labelClass}>
           Why is it void?
@@ -318,7 +373,11 @@ export function VoidPanel({ url, invalidate, what }: { url: string; invalidate: 
         <FieldError id={`${uid}-void-error`} message={error ?? undefined} />
       </div>
       <div className="flex gap-2">
-        <button type="submit" disabled={voidIt.isPending} className="rounded-lg bg-sev-critical px-5 py-3 font-semibold text-white disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={voidIt.isPending}
+          className="rounded-lg bg-sev-critical px-5 py-3 font-semibold text-white disabled:opacity-60"
+        >
           {voidIt.isPending ? "Voiding…" : `Void ${what}`}
         </button>
         <button type="button" onClick={() => setOpen(false)} className={secondaryButton}>
@@ -333,7 +392,11 @@ export function VoidPanel({ url, invalidate, what }: { url: string; invalidate: 
 export function VoidedBanner({ at, reason, by }: { at: string | null; reason: string | null; by?: string | null }) {
   if (!at) return null;
   return (
-    <p role="note" className="flex items-start gap-2 rounded-lg border border-ink-400 bg-ink-100 px-4 py-3 text-ink-900" data-testid="voided-banner">
+    <p
+      role="note"
+      className="flex items-start gap-2 rounded-lg border border-ink-400 bg-ink-100 px-4 py-3 text-ink-900"
+      data-testid="voided-banner"
+    >
       <span aria-hidden="true">⊘</span>
       <span>
         <strong>Void</strong> since {new Date(at).toLocaleDateString("en-US", { dateStyle: "medium" })}

@@ -1,7 +1,16 @@
 "use client";
 
 import { useMemo, type ReactNode } from "react";
-import { DataTable, DateFilter, FilterBar, SearchFilter, BranchFilter, VoidedFilter, serverColumnHelper, voidedRowClass } from "@/components/data-table";
+import {
+  DataTable,
+  DateFilter,
+  FilterBar,
+  SearchFilter,
+  BranchFilter,
+  VoidedFilter,
+  serverColumnHelper,
+  voidedRowClass,
+} from "@/components/data-table";
 
 export { VoidTag } from "@/components/data-table";
 

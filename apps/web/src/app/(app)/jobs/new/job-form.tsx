@@ -89,7 +89,13 @@ const SAVE_LABELS: Record<JobKind, string> = {
   disposal: "Save disposal",
 };
 
-const TEST_METHODS = ["Bubble test (soap solution)", "Electronic leak detector", "Standing pressure test with dry nitrogen", "Standing vacuum test", "Ultrasonic leak detector"];
+const TEST_METHODS = [
+  "Bubble test (soap solution)",
+  "Electronic leak detector",
+  "Standing pressure test with dry nitrogen",
+  "Standing vacuum test",
+  "Ultrasonic leak detector",
+];
 
 function useDebounced<T>(value: T, ms: number): T {
   const [debounced, setDebounced] = useState(value);
@@ -124,7 +130,13 @@ export function JobForm({ initialKind }: { initialKind: JobKind | null }) {
           <div className="mt-2 grid gap-2">
             {JOB_KINDS.map((k) => (
               <label key={k} className={choiceClass}>
-                <input type="radio" name={`${uid}-kind`} value={k} onChange={() => choose(k)} className="size-5 shrink-0 accent-fjord-600" />
+                <input
+                  type="radio"
+                  name={`${uid}-kind`}
+                  value={k}
+                  onChange={() => choose(k)}
+                  className="size-5 shrink-0 accent-fjord-600"
+                />
                 <span>
                   <span className="block text-lg font-semibold text-ink-950">{JOB_KIND_LABELS[k]}</span>
                   <span className="block text-sm text-ink-600">{KIND_HINTS[k]}</span>
@@ -156,7 +168,17 @@ export function JobForm({ initialKind }: { initialKind: JobKind | null }) {
   );
 }
 
-function AppliancePicker({ appliance, setAppliance, error, onClear }: { appliance: ApplianceOption | null; setAppliance: (a: ApplianceOption) => void; error?: string; onClear: () => void }) {
+function AppliancePicker({
+  appliance,
+  setAppliance,
+  error,
+  onClear,
+}: {
+  appliance: ApplianceOption | null;
+  setAppliance: (a: ApplianceOption) => void;
+  error?: string;
+  onClear: () => void;
+}) {
   const uid = useId();
   const [search, setSearch] = useState("");
   const q = useDebounced(search, 250);
@@ -175,7 +197,8 @@ function AppliancePicker({ appliance, setAppliance, error, onClear }: { applianc
           <p className="text-lg font-semibold text-ink-950">{appliance.tag}</p>
           <p className="text-ink-700">{appliance.description}</p>
           <p className="mt-1 text-sm text-ink-600">
-            {APPLIANCE_CATEGORY_LABELS[appliance.category]} · {appliance.refrigerant} · full charge {formatMass(appliance.fullChargeG, appliance.massUnit)}
+            {APPLIANCE_CATEGORY_LABELS[appliance.category]} · {appliance.refrigerant} · full charge{" "}
+            {formatMass(appliance.fullChargeG, appliance.massUnit)}
           </p>
           <p className="text-sm text-ink-600">
             {appliance.siteName} · {appliance.branchName}
@@ -205,7 +228,11 @@ function AppliancePicker({ appliance, setAppliance, error, onClear }: { applianc
             {appliances.data?.rows.length === 0 && <li className="text-ink-600">No appliance in service in your branches matches.</li>}
             {appliances.data?.rows.map((a) => (
               <li key={a.id}>
-                <button type="button" onClick={() => setAppliance(a)} className="block min-h-14 w-full rounded-lg border border-ink-200 bg-white px-4 py-3 text-left hover:border-fjord-600">
+                <button
+                  type="button"
+                  onClick={() => setAppliance(a)}
+                  className="block min-h-14 w-full rounded-lg border border-ink-200 bg-white px-4 py-3 text-left hover:border-fjord-600"
+                >
                   <span className="block font-semibold text-ink-950">
                     {a.tag} <span className="font-normal text-ink-600">· {a.refrigerant}</span>
                   </span>
@@ -238,7 +265,15 @@ function defaultsFor(kind: JobKind): FieldValues {
   }
 }
 
-function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance: ApplianceOption | null; setAppliance: (a: ApplianceOption | null) => void }) {
+function KindForm({
+  kind,
+  appliance,
+  setAppliance,
+}: {
+  kind: JobKind;
+  appliance: ApplianceOption | null;
+  setAppliance: (a: ApplianceOption | null) => void;
+}) {
   const router = useRouter();
   const queryClient = useQueryClient();
   const uid = useId();
@@ -310,7 +345,11 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
     },
   });
 
-  const onSubmit = submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the job can be saved." });
+  const onSubmit = submitOrExplain(handleSubmit, {
+    save: save.mutate,
+    setFormError,
+    invalid: "Some fields need attention before the job can be saved.",
+  });
 
   const errorOf = (name: string) => errors[name]?.message as string | undefined;
   const describedBy = (name: string) => (errors[name] ? `${uid}-${name}-error` : undefined);
@@ -318,7 +357,9 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
   const amountName = kind === "charge" ? "chargedAmount" : "recoveredAmount";
   const unitName = kind === "charge" ? "chargedUnit" : "recoveredUnit";
   const chargeFromCylinder = kind === "charge" && values.chargeSource === "cylinder";
-  const cylinderRows = (cylinders.data?.rows ?? []).filter((c) => !chargeFromCylinder || (c.contentsG > 0 && c.refrigerant === appliance?.refrigerant));
+  const cylinderRows = (cylinders.data?.rows ?? []).filter(
+    (c) => !chargeFromCylinder || (c.contentsG > 0 && c.refrigerant === appliance?.refrigerant),
+  );
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-7" aria-describedby={formError ? `${uid}-form-error` : undefined}>
@@ -349,7 +390,13 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
             inputClassName={`${inputClass} bg-ink-50`}
           />
         )}
-        <TextField id={`${uid}-date`} label="Date of the work" error={errorOf("performedOn")} registration={register("performedOn")} type="date" />
+        <TextField
+          id={`${uid}-date`}
+          label="Date of the work"
+          error={errorOf("performedOn")}
+          registration={register("performedOn")}
+          type="date"
+        />
       </div>
 
       {(recovering || kind === "charge") && (
@@ -370,7 +417,11 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
         <>
           <fieldset aria-describedby={describedBy("chargeSource")}>
             <legend className={labelClass}>Where did the refrigerant come from?</legend>
-            <RadioCards className="mt-2 grid gap-2" registration={register("chargeSource")} options={optionsOf(CHARGE_SOURCES, CHARGE_SOURCE_LABELS)} />
+            <RadioCards
+              className="mt-2 grid gap-2"
+              registration={register("chargeSource")}
+              options={optionsOf(CHARGE_SOURCES, CHARGE_SOURCE_LABELS)}
+            />
             <FieldError id={`${uid}-chargeSource-error`} message={errorOf("chargeSource")} />
           </fieldset>
           <fieldset>
@@ -389,7 +440,9 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
         <fieldset>
           <legend className={labelClass}>{chargeFromCylinder ? "Cylinder it came from" : "Recovery cylinder"}</legend>
           {!appliance && <p className={hintClass}>Choose the appliance first; the cylinders of its branch appear here.</p>}
-          {appliance && chargeFromCylinder && cylinderRows.length === 0 && <p className={hintClass}>No cylinder of this branch holds {appliance.refrigerant} on record.</p>}
+          {appliance && chargeFromCylinder && cylinderRows.length === 0 && (
+            <p className={hintClass}>No cylinder of this branch holds {appliance.refrigerant} on record.</p>
+          )}
           <RadioCards
             className="mt-2 space-y-2"
             groupProps={{ role: "radiogroup", "aria-describedby": describedBy("cylinderId") }}
@@ -414,7 +467,9 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
           {feedback.data?.cylinderAfter && values.cylinderId && (
             <p className={hintClass} data-testid="cylinder-after">
               After this job the cylinder holds {formatMass(feedback.data.cylinderAfter.netG, massUnit)}
-              {feedback.data.cylinderAfter.maxNetG !== null && ` of its ${formatMass(feedback.data.cylinderAfter.maxNetG, massUnit)} maximum`}.
+              {feedback.data.cylinderAfter.maxNetG !== null &&
+                ` of its ${formatMass(feedback.data.cylinderAfter.maxNetG, massUnit)} maximum`}
+              .
             </p>
           )}
         </fieldset>
@@ -448,7 +503,11 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
             <AmountField
               id={`${uid}-evac`}
               label="Evacuation level reached"
-              hint={feedback.data?.evacuationRequired && appliance ? <span data-testid="evacuation-required">Required here: {feedback.data.evacuationRequired}</span> : undefined}
+              hint={
+                feedback.data?.evacuationRequired && appliance ? (
+                  <span data-testid="evacuation-required">Required here: {feedback.data.evacuationRequired}</span>
+                ) : undefined
+              }
               hintFirst
               error={errorOf("evacuationValue")}
               unitLabel="Unit of the evacuation level"
@@ -464,8 +523,21 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
 
       {kind === "leak_repair" && (
         <>
-          <TextField id={`${uid}-leak`} label="Where was the leak?" error={errorOf("leakLocation")} registration={register("leakLocation")} type="text" placeholder="e.g. Evaporator return bend" />
-          <TextField id={`${uid}-repair`} label="What was repaired?" error={errorOf("repairDescription")} registration={register("repairDescription")} rows={3} />
+          <TextField
+            id={`${uid}-leak`}
+            label="Where was the leak?"
+            error={errorOf("leakLocation")}
+            registration={register("leakLocation")}
+            type="text"
+            placeholder="e.g. Evaporator return bend"
+          />
+          <TextField
+            id={`${uid}-repair`}
+            label="What was repaired?"
+            error={errorOf("repairDescription")}
+            registration={register("repairDescription")}
+            rows={3}
+          />
           {appliance?.category === "industrial_process" && (
             <Controller
               control={control}
@@ -486,7 +558,11 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
         <>
           <fieldset aria-describedby={describedBy("verificationStage")}>
             <legend className={labelClass}>Which test?</legend>
-            <RadioCards className="mt-2 grid gap-2" registration={register("verificationStage")} options={optionsOf(VERIFICATION_STAGES, VERIFICATION_STAGE_LABELS)} />
+            <RadioCards
+              className="mt-2 grid gap-2"
+              registration={register("verificationStage")}
+              options={optionsOf(VERIFICATION_STAGES, VERIFICATION_STAGE_LABELS)}
+            />
             <FieldError id={`${uid}-verificationStage-error`} message={errorOf("verificationStage")} />
           </fieldset>
           <Controller
@@ -534,7 +610,11 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
       {kind === "disposal" && (
         <fieldset>
           <legend className={labelClass}>Where is it taken apart?</legend>
-          <RadioCards className="mt-2 grid gap-2" registration={register("disposalPath")} options={optionsOf(DISPOSAL_PATHS, DISPOSAL_PATH_LABELS)} />
+          <RadioCards
+            className="mt-2 grid gap-2"
+            registration={register("disposalPath")}
+            options={optionsOf(DISPOSAL_PATHS, DISPOSAL_PATH_LABELS)}
+          />
           <p className={hintClass}>After saving, add the disposal record (more than 5 lb) or the signed statement (small appliance).</p>
         </fieldset>
       )}
@@ -542,7 +622,8 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
       {kind !== "verification_test" && (
         <fieldset>
           <legend className={labelClass}>
-            How was the circuit accessed?{kind === "charge" || kind === "leak_repair" ? <span className="font-normal text-ink-600"> (optional)</span> : null}
+            How was the circuit accessed?
+            {kind === "charge" || kind === "leak_repair" ? <span className="font-normal text-ink-600"> (optional)</span> : null}
           </legend>
           <RadioCards
             className="mt-2 grid gap-2 sm:grid-cols-2"
@@ -561,7 +642,9 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
           render={({ field }) => (
             <fieldset aria-describedby={describedBy("temporaryAccessRemoved")}>
               <legend className={labelClass}>Was the temporary piercing device removed?</legend>
-              <p className={hintClass}>A piercing device left on the line is a leak point; remove it and install a proper access fitting.</p>
+              <p className={hintClass}>
+                A piercing device left on the line is a leak point; remove it and install a proper access fitting.
+              </p>
               <YesNo name={field.name} value={field.value} onChange={field.onChange} yes="Yes, removed" no="No, still in place" />
               <FieldError id={`${uid}-temporaryAccessRemoved-error`} message={errorOf("temporaryAccessRemoved")} />
               {fieldWarnings("temporaryAccessRemoved")}
@@ -577,7 +660,9 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
           render={({ field }) => (
             <fieldset>
               <legend className={labelClass}>Was the appliance&apos;s compressor running during recovery?</legend>
-              <p className={hintClass}>Small appliances: 90 % of the charge must be recovered with a running compressor, 80 % without (or 4 in Hg vacuum).</p>
+              <p className={hintClass}>
+                Small appliances: 90 % of the charge must be recovered with a running compressor, 80 % without (or 4 in Hg vacuum).
+              </p>
               <YesNo name={field.name} value={field.value} onChange={field.onChange} yes="Running" no="Not running" />
             </fieldset>
           )}
@@ -592,7 +677,8 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
         {warnings.length > 0 && (
           <p className="mb-2 text-sm font-medium text-ink-800">
             <span aria-hidden="true">⚠ </span>
-            {warnings.length === 1 ? "1 thing would become a finding." : `${warnings.length} things would become findings.`} You can still save; fix what you can first.
+            {warnings.length === 1 ? "1 thing would become a finding." : `${warnings.length} things would become findings.`} You can still
+            save; fix what you can first.
           </p>
         )}
         <button type="submit" disabled={save.isPending} className={primaryButton}>
@@ -604,12 +690,26 @@ function KindForm({ kind, appliance, setAppliance }: { kind: JobKind; appliance:
 }
 
 /** The "before you save" panel: what the rules would raise if the job were saved now, and the leak rate. */
-function DraftFeedback({ appliance, feedback, checking, massUnitLabel }: { appliance: ApplianceOption | null; feedback: DraftCheckResult | undefined; checking: boolean; massUnitLabel: boolean }) {
+function DraftFeedback({
+  appliance,
+  feedback,
+  checking,
+  massUnitLabel,
+}: {
+  appliance: ApplianceOption | null;
+  feedback: DraftCheckResult | undefined;
+  checking: boolean;
+  massUnitLabel: boolean;
+}) {
   if (!appliance) return null;
   const warnings = feedback?.warnings ?? [];
   const leak = feedback?.leakRate;
   return (
-    <section aria-labelledby="draft-check-h" className="space-y-2 rounded-lg border border-ink-200 bg-white p-4" data-testid="draft-feedback">
+    <section
+      aria-labelledby="draft-check-h"
+      className="space-y-2 rounded-lg border border-ink-200 bg-white p-4"
+      data-testid="draft-feedback"
+    >
       <h2 id="draft-check-h" className="flex items-center gap-2 text-lg font-semibold text-ink-950">
         Rules check before you save {checking && <span className="text-sm font-normal text-ink-600">checking…</span>}
       </h2>

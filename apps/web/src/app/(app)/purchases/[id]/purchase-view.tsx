@@ -21,7 +21,11 @@ const FIELD_WORDS: Record<string, string> = {
 
 export function PurchaseView({ id, saved }: { id: string; saved: boolean }) {
   const ability = useAbility();
-  const q = useQuery({ queryKey: ["purchase", id], queryFn: () => fetchJson<PurchaseDetail>(`/api/purchases/${encodeURIComponent(id)}`), retry: false });
+  const q = useQuery({
+    queryKey: ["purchase", id],
+    queryFn: () => fetchJson<PurchaseDetail>(`/api/purchases/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   if (q.isLoading) return <p className="text-ink-600">Loading the purchase…</p>;
   if (q.isError || !q.data) {
     return <LoadError error={q.error} noun="purchase" />;
@@ -51,7 +55,10 @@ export function PurchaseView({ id, saved }: { id: string; saved: boolean }) {
           ["Quantity", formatMass(p.massG, p.branchMassUnit)],
           ["Containers", p.containerCount ?? "—"],
           ["Invoice", p.invoiceReference ?? "—"],
-          ["Recorded", `${new Date(p.createdAt).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" })} by ${p.createdByName}`],
+          [
+            "Recorded",
+            `${new Date(p.createdAt).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" })} by ${p.createdByName}`,
+          ],
         ].map(([label, value]) => (
           <div key={String(label)} className="grid gap-x-3 gap-y-0.5 py-2 sm:grid-cols-[11rem_1fr]">
             <dt className="text-sm font-medium text-ink-600">{label}</dt>

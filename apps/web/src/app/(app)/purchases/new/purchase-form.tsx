@@ -22,11 +22,22 @@ export function PurchaseForm({ organisationId }: { organisationId: number }) {
   const queryClient = useQueryClient();
   const [formError, setFormError] = useState<string | null>(null);
   const branches = useBranchOptions();
-  const writable = (branches.data?.rows ?? []).filter((b) => !b.archivedAt && ability.can("create", subject("Purchase", { organisationId, branchId: b.id })));
+  const writable = (branches.data?.rows ?? []).filter(
+    (b) => !b.archivedAt && ability.can("create", subject("Purchase", { organisationId, branchId: b.id })),
+  );
   const form = useForm<FieldValues>({
     resolver: zodResolver(purchaseInput as never) as unknown as Resolver<FieldValues>,
     mode: "onTouched",
-    defaultValues: { branchId: "", purchasedOn: todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone), supplierName: "", refrigerant: "", amount: "", unit: "lb", containerCount: "", invoiceReference: "" },
+    defaultValues: {
+      branchId: "",
+      purchasedOn: todayIn(Intl.DateTimeFormat().resolvedOptions().timeZone),
+      supplierName: "",
+      refrigerant: "",
+      amount: "",
+      unit: "lb",
+      containerCount: "",
+      invoiceReference: "",
+    },
   });
   const { register, handleSubmit, formState, setError, setValue, watch } = form;
   const errors = formState.errors;
@@ -66,7 +77,11 @@ export function PurchaseForm({ organisationId }: { organisationId: number }) {
     <form
       noValidate
       className="space-y-5"
-      onSubmit={submitOrExplain(handleSubmit, { save: save.mutate, setFormError, invalid: "Some fields need attention before the purchase can be saved." })}
+      onSubmit={submitOrExplain(handleSubmit, {
+        save: save.mutate,
+        setFormError,
+        invalid: "Some fields need attention before the purchase can be saved.",
+      })}
     >
       <header>
         <h1 className="text-2xl font-semibold text-ink-950">Record a purchase</h1>
@@ -74,7 +89,12 @@ export function PurchaseForm({ organisationId }: { organisationId: number }) {
       </header>
       <FormAlert message={formError} />
       <Field id={`${uid}-branchId`} label="Branch" error={err("branchId")}>
-        <select id={`${uid}-branchId`} {...register("branchId")} className={`${inputClass} py-3`} {...fieldAria(`${uid}-branchId`, { error: err("branchId") })}>
+        <select
+          id={`${uid}-branchId`}
+          {...register("branchId")}
+          className={`${inputClass} py-3`}
+          {...fieldAria(`${uid}-branchId`, { error: err("branchId") })}
+        >
           {writable.map((b) => (
             <option key={b.id} value={b.id}>
               {b.name}
@@ -86,7 +106,15 @@ export function PurchaseForm({ organisationId }: { organisationId: number }) {
       {field("supplierName", "Supplier")}
       {field("refrigerant", "Refrigerant", { list: `${uid}-refrigerants` })}
       <RefrigerantList id={`${uid}-refrigerants`} />
-      <AmountField id={`${uid}-amount`} label="Quantity bought" error={err("amount")} unitId={`${uid}-unit`} unitLabel="Unit of the quantity" amount={register("amount")} unit={register("unit")} />
+      <AmountField
+        id={`${uid}-amount`}
+        label="Quantity bought"
+        error={err("amount")}
+        unitId={`${uid}-unit`}
+        unitLabel="Unit of the quantity"
+        amount={register("amount")}
+        unit={register("unit")}
+      />
       {field("containerCount", "Number of containers (optional)", { inputMode: "numeric" })}
       {field("invoiceReference", "Invoice reference (optional)")}
       <button type="submit" disabled={save.isPending} className={primaryButton}>

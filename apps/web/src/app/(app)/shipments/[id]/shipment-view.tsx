@@ -21,7 +21,11 @@ const FIELD_WORDS: Record<string, string> = {
 
 export function ShipmentView({ id, saved }: { id: string; saved: boolean }) {
   const ability = useAbility();
-  const q = useQuery({ queryKey: ["shipment", id], queryFn: () => fetchJson<ShipmentDetail>(`/api/shipments/${encodeURIComponent(id)}`), retry: false });
+  const q = useQuery({
+    queryKey: ["shipment", id],
+    queryFn: () => fetchJson<ShipmentDetail>(`/api/shipments/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   if (q.isLoading) return <p className="text-ink-600">Loading the shipment…</p>;
   if (q.isError || !q.data) {
     return <LoadError error={q.error} noun="shipment" />;
@@ -53,9 +57,15 @@ export function ShipmentView({ id, saved }: { id: string; saved: boolean }) {
         <table className="mt-2 min-w-full text-sm" data-testid="shipment-lines">
           <thead className="text-left text-xs uppercase tracking-wide text-ink-600">
             <tr>
-              <th scope="col" className="py-1 pr-3">Cylinder</th>
-              <th scope="col" className="py-1 pr-3">Refrigerant</th>
-              <th scope="col" className="py-1">Quantity</th>
+              <th scope="col" className="py-1 pr-3">
+                Cylinder
+              </th>
+              <th scope="col" className="py-1 pr-3">
+                Refrigerant
+              </th>
+              <th scope="col" className="py-1">
+                Quantity
+              </th>
             </tr>
           </thead>
           <tbody className="divide-y divide-ink-100">
@@ -84,7 +94,10 @@ export function ShipmentView({ id, saved }: { id: string; saved: boolean }) {
           ["Address", s.reclaimerAddress ?? "—"],
           ["Reference", s.reference ?? "—"],
           ["Notes", s.notes ?? "—"],
-          ["Recorded", `${new Date(s.createdAt).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" })} by ${s.createdByName}`],
+          [
+            "Recorded",
+            `${new Date(s.createdAt).toLocaleString("en-US", { dateStyle: "medium", timeStyle: "short" })} by ${s.createdByName}`,
+          ],
         ].map(([label, value]) => (
           <div key={label} className="grid gap-x-3 gap-y-0.5 py-2 sm:grid-cols-[11rem_1fr]">
             <dt className="text-sm font-medium text-ink-600">{label}</dt>

@@ -17,7 +17,9 @@ export function ShipmentForm({ organisationId }: { organisationId: number }) {
   const ability = useAbility();
   const queryClient = useQueryClient();
   const branches = useQuery({ queryKey: ["branches"], queryFn: () => fetchJson<{ rows: BranchOption[] }>("/api/lookup/branches") });
-  const writable = (branches.data?.rows ?? []).filter((b) => !b.archivedAt && ability.can("create", subject("ReclaimShipment", { organisationId, branchId: b.id })));
+  const writable = (branches.data?.rows ?? []).filter(
+    (b) => !b.archivedAt && ability.can("create", subject("ReclaimShipment", { organisationId, branchId: b.id })),
+  );
   const [branchId, setBranchId] = useState<string>("");
   const branch = writable.find((b) => String(b.id) === branchId) ?? writable[0];
   const cylinders = useQuery({
@@ -54,15 +56,38 @@ export function ShipmentForm({ organisationId }: { organisationId: number }) {
     },
   });
 
-  const text = (id: string, label: string, value: string, set: (v: string) => void, field: string, opts: { textarea?: boolean; type?: string } = {}) => (
+  const text = (
+    id: string,
+    label: string,
+    value: string,
+    set: (v: string) => void,
+    field: string,
+    opts: { textarea?: boolean; type?: string } = {},
+  ) => (
     <div>
       <label htmlFor={`${uid}-${id}`} className={labelClass}>
         {label}
       </label>
       {opts.textarea ? (
-        <textarea id={`${uid}-${id}`} rows={2} value={value} onChange={(e) => set(e.target.value)} className={inputClass} aria-invalid={errors[field] ? true : undefined} aria-describedby={errors[field] ? `${uid}-${id}-error` : undefined} />
+        <textarea
+          id={`${uid}-${id}`}
+          rows={2}
+          value={value}
+          onChange={(e) => set(e.target.value)}
+          className={inputClass}
+          aria-invalid={errors[field] ? true : undefined}
+          aria-describedby={errors[field] ? `${uid}-${id}-error` : undefined}
+        />
       ) : (
-        <input id={`${uid}-${id}`} type={opts.type ?? "text"} value={value} onChange={(e) => set(e.target.value)} className={inputClass} aria-invalid={errors[field] ? true : undefined} aria-describedby={errors[field] ? `${uid}-${id}-error` : undefined} />
+        <input
+          id={`${uid}-${id}`}
+          type={opts.type ?? "text"}
+          value={value}
+          onChange={(e) => set(e.target.value)}
+          className={inputClass}
+          aria-invalid={errors[field] ? true : undefined}
+          aria-describedby={errors[field] ? `${uid}-${id}-error` : undefined}
+        />
       )}
       <FieldError id={`${uid}-${id}-error`} message={errors[field]} />
     </div>
@@ -81,13 +106,18 @@ export function ShipmentForm({ organisationId }: { organisationId: number }) {
     >
       <header>
         <h1 className="text-2xl font-semibold text-ink-950">Record a reclaim shipment</h1>
-        <p className="text-ink-600">Pick the cylinders that left for the reclaimer. Each ships what it holds on record and is then empty.</p>
+        <p className="text-ink-600">
+          Pick the cylinders that left for the reclaimer. Each ships what it holds on record and is then empty.
+        </p>
       </header>
       <aside className="rounded-lg border border-sev-minor/40 bg-amber-50 px-4 py-3 text-sm text-ink-800">
         <p className="font-semibold">
           <span aria-hidden="true">⚠ </span>Handling cylinders
         </p>
-        <p>Secure cylinders upright with caps on; never heat or overfill a cylinder. Local codes and licensed practice take precedence over this app.</p>
+        <p>
+          Secure cylinders upright with caps on; never heat or overfill a cylinder. Local codes and licensed practice take precedence over
+          this app.
+        </p>
       </aside>
       <FormAlert message={formError} />
       {writable.length > 1 && (
@@ -118,7 +148,10 @@ export function ShipmentForm({ organisationId }: { organisationId: number }) {
         {!cylinders.isLoading && full.length === 0 && <p className={hintClass}>No cylinder of this branch holds refrigerant on record.</p>}
         <div className="mt-2 space-y-2" aria-describedby={errors.cylinderIds ? `${uid}-cyl-error` : undefined}>
           {full.map((c) => (
-            <label key={c.id} className="flex min-h-14 cursor-pointer items-center gap-3 rounded-lg border border-ink-200 bg-white px-4 py-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600 has-[:checked]:bg-fjord-50">
+            <label
+              key={c.id}
+              className="flex min-h-14 cursor-pointer items-center gap-3 rounded-lg border border-ink-200 bg-white px-4 py-3 has-[:checked]:border-2 has-[:checked]:border-fjord-600 has-[:checked]:bg-fjord-50"
+            >
               <input
                 type="checkbox"
                 checked={picked.includes(c.id)}
@@ -147,7 +180,11 @@ export function ShipmentForm({ organisationId }: { organisationId: number }) {
       {text("reference", "Bill of lading or manifest number (optional)", reference, setReference, "reference")}
       {text("notes", "Notes (optional)", notes, setNotes, "notes", { textarea: true })}
       <button type="submit" disabled={save.isPending} className={primaryButton}>
-        {save.isPending ? "Saving…" : picked.length ? `Save shipment of ${picked.length} cylinder${picked.length === 1 ? "" : "s"}` : "Save shipment"}
+        {save.isPending
+          ? "Saving…"
+          : picked.length
+            ? `Save shipment of ${picked.length} cylinder${picked.length === 1 ? "" : "s"}`
+            : "Save shipment"}
       </button>
     </form>
   );

@@ -26,13 +26,14 @@ export const GET = route<undefined, undefined, Params>({ can: ["read", "Applianc
   const ref = { organisationId: appliance.organisationId, branchId: appliance.branchId };
   // Leak events and deadlines are shown for the dates on which the reader may read this appliance's jobs
   // (everyone who reads the branch's jobs; an inspector only inside the granted window).
-  const visibleOn = (date: string) =>
-    ability.can("read", subject("Job", { ...ref, technicianId: actor.userId, performedOn: date }));
+  const visibleOn = (date: string) => ability.can("read", subject("Job", { ...ref, technicianId: actor.userId, performedOn: date }));
   const permissions = registerPermissions(ability, "appliance", ref);
   const [leaks, amendments, activity] = await Promise.all([
     reviewApplianceLeaks(db, { organisationId: appliance.organisationId, applianceId: id, visibleOn }),
     listAmendments(db, { organisationId: appliance.organisationId, subjectType: "Appliance", subjectId: id }),
-    permissions.readActivity ? listRegisterActivity(db, { organisationId: appliance.organisationId, subjectType: "Appliance", subjectId: id }) : null,
+    permissions.readActivity
+      ? listRegisterActivity(db, { organisationId: appliance.organisationId, subjectType: "Appliance", subjectId: id })
+      : null,
   ]);
   return { appliance, leaks, amendments, activity, permissions };
 });

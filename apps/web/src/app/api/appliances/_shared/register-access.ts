@@ -42,7 +42,12 @@ export async function authorizeRegisterRecord(
 }
 
 /** Refuses to create a register record in a branch the person may not write to. */
-export function authorizeCreateInBranch(ability: AppAbility, actor: Actor, kind: RegisterKind | "Site" | "Customer", branchId: number): void {
+export function authorizeCreateInBranch(
+  ability: AppAbility,
+  actor: Actor,
+  kind: RegisterKind | "Site" | "Customer",
+  branchId: number,
+): void {
   const name = kind === "Site" || kind === "Customer" ? kind : REGISTERS[kind].subject;
   ForbiddenError.from(ability).throwUnlessCan("create", subject(name, { organisationId: actor.organisationId, branchId }));
 }

@@ -1,7 +1,14 @@
 import "server-only";
 import { z } from "zod";
 import type { Action, Actor, AppAbility } from "@coldtrail/core";
-import { ActionForbiddenError, DomainError, canOnCertification, getCertificationRef, type CertificationRef, type Knex } from "@coldtrail/db";
+import {
+  ActionForbiddenError,
+  DomainError,
+  canOnCertification,
+  getCertificationRef,
+  type CertificationRef,
+  type Knex,
+} from "@coldtrail/db";
 
 const idParam = z.coerce.number().int().positive();
 
@@ -16,7 +23,9 @@ export async function cardFor(db: Knex, actor: Actor, ability: AppAbility, rawId
   if (!ref || !canOnCertification(ability, "read", ref)) throw new DomainError("not_found", "No such certification card");
   if (action !== "read" && !canOnCertification(ability, action, ref)) {
     throw new ActionForbiddenError(
-      action === "update" && ref.userId === actor.userId ? "A card can be corrected by its holder only while it awaits verification" : "You do not have permission to do that",
+      action === "update" && ref.userId === actor.userId
+        ? "A card can be corrected by its holder only while it awaits verification"
+        : "You do not have permission to do that",
     );
   }
   return ref;

@@ -27,8 +27,10 @@ export async function checkCardFile(part: FormDataEntryValue | null): Promise<{ 
   const refuse = (message: string) => ({ issues: [{ code: "custom" as const, path: ["card"], message }] });
   if (!(part instanceof File)) return refuse("Take a photo of the card or choose a photo or PDF of it");
   if (part.size === 0) return refuse("The file is empty");
-  if (isPathLikeFileName(part.name)) return refuse("That file name is not accepted (it looks like a folder path); rename the file and try again");
-  if (part.size > MAX_UPLOAD_BYTES) return refuse(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB; take a smaller photo or scan`);
+  if (isPathLikeFileName(part.name))
+    return refuse("That file name is not accepted (it looks like a folder path); rename the file and try again");
+  if (part.size > MAX_UPLOAD_BYTES)
+    return refuse(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB; take a smaller photo or scan`);
   const bytes = new Uint8Array(await part.arrayBuffer());
   let type: { mime: string; ext: string };
   try {
@@ -56,10 +58,15 @@ async function makeThumbnail(bytes: Uint8Array): Promise<Uint8Array> {
 }
 
 /** Stores the card (and its thumbnail) under keys we make; returns the keys. */
-export async function storeCard(card: CheckedCard, owner: { organisationId: number; userId: number }): Promise<{ fileKey: string; thumbnailKey: string | null }> {
+export async function storeCard(
+  card: CheckedCard,
+  owner: { organisationId: number; userId: number },
+): Promise<{ fileKey: string; thumbnailKey: string | null }> {
   const prefix = `certifications/${owner.organisationId}/${owner.userId}`;
   const fileKey = await putFile({ prefix, bytes: card.bytes, mime: card.mime, ext: card.ext });
-  const thumbnailKey = card.thumbnail ? await putFile({ prefix: `${prefix}/thumbnails`, bytes: card.thumbnail, mime: "image/jpeg", ext: "jpg" }) : null;
+  const thumbnailKey = card.thumbnail
+    ? await putFile({ prefix: `${prefix}/thumbnails`, bytes: card.thumbnail, mime: "image/jpeg", ext: "jpg" })
+    : null;
   return { fileKey, thumbnailKey };
 }
 

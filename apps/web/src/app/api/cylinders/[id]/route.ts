@@ -13,7 +13,9 @@ export const GET = route<undefined, undefined, Params>({ can: ["read", "Cylinder
   const permissions = registerPermissions(ability, "cylinder", cylinder);
   const [amendments, activity] = await Promise.all([
     listCylinderAmendments(db, { organisationId: cylinder.organisationId, cylinderId: id }),
-    permissions.readActivity ? listRegisterActivity(db, { organisationId: cylinder.organisationId, subjectType: "Cylinder", subjectId: id }) : null,
+    permissions.readActivity
+      ? listRegisterActivity(db, { organisationId: cylinder.organisationId, subjectType: "Cylinder", subjectId: id })
+      : null,
   ]);
   return { cylinder, amendments, activity, permissions };
 });

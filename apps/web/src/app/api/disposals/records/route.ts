@@ -8,7 +8,10 @@ import { route } from "@/lib/api/route";
 export const POST = route({ can: ["create", "Disposal"], body: disposalRecordInput }, async ({ actor, ability, db, body }) => {
   const appliance = await getApplianceRef(db, { organisationId: actor.organisationId, id: body.applianceId });
   if (!appliance) throw new DomainError("invalid", "That appliance is not in your organisation's register", "applianceId");
-  ForbiddenError.from(ability).throwUnlessCan("create", subject("Disposal", { organisationId: actor.organisationId, branchId: appliance.branchId }));
+  ForbiddenError.from(ability).throwUnlessCan(
+    "create",
+    subject("Disposal", { organisationId: actor.organisationId, branchId: appliance.branchId }),
+  );
   const id = await createDisposalRecord(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
   return NextResponse.json({ id }, { status: 201 });
 });

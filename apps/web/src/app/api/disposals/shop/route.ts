@@ -10,7 +10,9 @@ const queueQuery = z.object({ branchId: z.coerce.number().int().positive().optio
 /** Retired units waiting to be scrapped, in the branches the person may log disposals for. */
 export const GET = route({ can: ["create", "Job"], query: queueQuery }, async ({ actor, ability, db, query }) => {
   const rows = await listShopQueue(db, { scope: scopeByAbility(ability, "read", "Appliance", "appliances"), branchId: query.branchId });
-  return { rows: rows.filter((r) => ability.can("create", subject("Disposal", { organisationId: actor.organisationId, branchId: r.branchId }))) };
+  return {
+    rows: rows.filter((r) => ability.can("create", subject("Disposal", { organisationId: actor.organisationId, branchId: r.branchId }))),
+  };
 });
 
 /** The shop's scrap run: a disposal job and its record or signed statement for each unit picked, all or nothing. */
@@ -20,6 +22,10 @@ export const POST = route({ can: ["create", "Job"], body: shopDisposalBatchInput
   const where = { organisationId: actor.organisationId, branchId: first.branchId };
   ForbiddenError.from(ability).throwUnlessCan("create", subject("Job", { ...where, technicianId: actor.userId }));
   ForbiddenError.from(ability).throwUnlessCan("create", subject("Disposal", where));
-  const result = await recordShopDisposals(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, branchId: first.branchId, input: body });
+  const result = await recordShopDisposals(db, {
+    actor: { userId: actor.userId, organisationId: actor.organisationId },
+    branchId: first.branchId,
+    input: body,
+  });
   return NextResponse.json(result, { status: 201 });
 });

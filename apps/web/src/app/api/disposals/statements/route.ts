@@ -15,7 +15,10 @@ export const POST = route({ can: ["create", "Disposal"] }, async ({ req, actor, 
   const input = disposalStatementInput.parse(fields); // a ZodError becomes a 400 naming each field
   const appliance = await getApplianceRef(db, { organisationId: actor.organisationId, id: input.applianceId });
   if (!appliance) throw new DomainError("invalid", "That appliance is not in your organisation's register", "applianceId");
-  ForbiddenError.from(ability).throwUnlessCan("create", subject("Disposal", { organisationId: actor.organisationId, branchId: appliance.branchId }));
+  ForbiddenError.from(ability).throwUnlessCan(
+    "create",
+    subject("Disposal", { organisationId: actor.organisationId, branchId: appliance.branchId }),
+  );
   const document = file ? await storeSignedDocument(file.bytes, actor.organisationId) : undefined;
   const id = await createDisposalStatement(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input, document });
   return NextResponse.json({ id, document: Boolean(document) }, { status: 201 });

@@ -13,7 +13,9 @@ export const GET = route<undefined, undefined, Params>({ can: ["read", "Recovery
   const permissions = registerPermissions(ability, "equipment", equipment);
   const [amendments, activity] = await Promise.all([
     listAmendments(db, { organisationId: equipment.organisationId, subjectType: "RecoveryEquipment", subjectId: id }),
-    permissions.readActivity ? listRegisterActivity(db, { organisationId: equipment.organisationId, subjectType: "RecoveryEquipment", subjectId: id }) : null,
+    permissions.readActivity
+      ? listRegisterActivity(db, { organisationId: equipment.organisationId, subjectType: "RecoveryEquipment", subjectId: id })
+      : null,
   ]);
   return { equipment, amendments, activity, permissions };
 });

@@ -6,7 +6,11 @@ import { canOnFinding, pathId } from "../_lib/access";
 /** One finding with the rule's explanation, its history, comments and evidence; 404 when not readable. */
 export const GET = route<undefined, undefined, { id: string }>({ can: ["read", "Finding"] }, async ({ ability, actor, db, params }) => {
   const id = pathId(params.id, "finding");
-  const finding = await getFinding(db, { organisationId: actor.organisationId, scope: scopeByAbility(ability, "read", "Finding", "findings"), id });
+  const finding = await getFinding(db, {
+    organisationId: actor.organisationId,
+    scope: scopeByAbility(ability, "read", "Finding", "findings"),
+    id,
+  });
   if (!finding) throw new DomainError("not_found", "No such finding");
   const rule = getRule(finding.ruleId);
   const can = (action: Parameters<typeof canOnFinding>[1]) => canOnFinding(ability, action, finding);

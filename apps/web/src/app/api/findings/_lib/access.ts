@@ -14,7 +14,13 @@ export function pathId(raw: string | undefined, what: string): number {
 }
 
 /** Branches of the organisation on which the person may `action` the subject (branch-level conditions only). */
-export async function branchesAllowed(db: Knex, actor: Actor, ability: AppAbility, action: Action, subjectName: SubjectName): Promise<{ id: number; name: string }[]> {
+export async function branchesAllowed(
+  db: Knex,
+  actor: Actor,
+  ability: AppAbility,
+  action: Action,
+  subjectName: SubjectName,
+): Promise<{ id: number; name: string }[]> {
   const branches = await listBranches(db, { organisationId: actor.organisationId, includeArchived: true });
   return branches
     .filter((b) => ability.can(action, subject(subjectName, { organisationId: actor.organisationId, branchId: b.id, id: b.id })))
@@ -22,6 +28,10 @@ export async function branchesAllowed(db: Knex, actor: Actor, ability: AppAbilit
 }
 
 /** Whether the person may do `action` to a finding, judged on the fields the ability conditions read. */
-export function canOnFinding(ability: AppAbility, action: Action, f: { organisationId: number; branchId: number; technicianId: number | null }): boolean {
+export function canOnFinding(
+  ability: AppAbility,
+  action: Action,
+  f: { organisationId: number; branchId: number; technicianId: number | null },
+): boolean {
   return ability.can(action, subject("Finding", { organisationId: f.organisationId, branchId: f.branchId, technicianId: f.technicianId }));
 }

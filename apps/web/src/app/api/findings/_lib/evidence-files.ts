@@ -30,13 +30,18 @@ function displayName(clientName: string, ext: string): string {
 }
 
 /** Checks an optional file part; returns the problems under `field` instead of throwing. */
-export async function checkEvidenceFile(part: FormDataEntryValue | null, field = "file"): Promise<{ file?: CheckedEvidence; issues: Issue[] }> {
+export async function checkEvidenceFile(
+  part: FormDataEntryValue | null,
+  field = "file",
+): Promise<{ file?: CheckedEvidence; issues: Issue[] }> {
   const refuse = (message: string) => ({ issues: [{ code: "custom" as const, path: [field], message }] });
   if (part === null || part === "") return { issues: [] };
   if (!(part instanceof File)) return refuse("Choose a photo or a PDF");
   if (part.size === 0) return refuse("The file is empty");
-  if (isPathLikeFileName(part.name)) return refuse("That file name is not accepted (it looks like a folder path); rename the file and try again");
-  if (part.size > MAX_UPLOAD_BYTES) return refuse(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB; choose a smaller photo or scan`);
+  if (isPathLikeFileName(part.name))
+    return refuse("That file name is not accepted (it looks like a folder path); rename the file and try again");
+  if (part.size > MAX_UPLOAD_BYTES)
+    return refuse(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB; choose a smaller photo or scan`);
   const bytes = new Uint8Array(await part.arrayBuffer());
   try {
     const type = await checkUpload(bytes);
@@ -47,8 +52,17 @@ export async function checkEvidenceFile(part: FormDataEntryValue | null, field =
   }
 }
 
-export async function storeEvidence(file: CheckedEvidence, owner: { organisationId: number; findingId: number }, note?: string | null): Promise<EvidenceFile> {
-  const fileKey = await putFile({ prefix: `findings/${owner.organisationId}/${owner.findingId}`, bytes: file.bytes, mime: file.mime, ext: file.ext });
+export async function storeEvidence(
+  file: CheckedEvidence,
+  owner: { organisationId: number; findingId: number },
+  note?: string | null,
+): Promise<EvidenceFile> {
+  const fileKey = await putFile({
+    prefix: `findings/${owner.organisationId}/${owner.findingId}`,
+    bytes: file.bytes,
+    mime: file.mime,
+    ext: file.ext,
+  });
   return { fileKey, fileName: file.displayName, mime: file.mime, sizeBytes: file.bytes.byteLength, note: note ?? null };
 }
 

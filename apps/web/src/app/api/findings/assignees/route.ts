@@ -19,6 +19,9 @@ const query = z.object({
 
 /** People who may be given findings of the branches named: their branch managers and the owners. */
 export const GET = route({ can: ["assign", "Finding"], query }, async ({ actor, db, query }) => {
-  const rows = await listAssignableUsers(db, { organisationId: actor.organisationId, ...(query.branchIds ? { branchIds: query.branchIds } : {}) });
+  const rows = await listAssignableUsers(db, {
+    organisationId: actor.organisationId,
+    ...(query.branchIds ? { branchIds: query.branchIds } : {}),
+  });
   return { rows: rows.map((u) => ({ id: u.id, name: u.name, role: u.role, branchIds: u.branchIds })) };
 });

@@ -11,7 +11,14 @@ export const GET = route<undefined, undefined, { id: string }>({ can: ["read", "
   }
   const live = liveProgress(detail.id);
   if (live && live.state === detail.state) {
-    return { ...detail, progress: live.progress, totalRows: live.rowsRead, validRows: live.validRows, invalidRows: live.invalidRows, running: true };
+    return {
+      ...detail,
+      progress: live.progress,
+      totalRows: live.rowsRead,
+      validRows: live.validRows,
+      invalidRows: live.invalidRows,
+      running: true,
+    };
   }
   return { ...detail, running: isRunning(detail.id) };
 });

@@ -18,7 +18,13 @@ export function assertMayImport(ability: AppAbility, actor: Actor, kind: ImportK
 }
 
 /** The import named in the URL if the person may read it (404 otherwise); with `action` "create" also the import permission. */
-export async function importFor(db: Knex, actor: Actor, ability: AppAbility, rawId: string, action: Action = "read"): Promise<ImportDetail> {
+export async function importFor(
+  db: Knex,
+  actor: Actor,
+  ability: AppAbility,
+  rawId: string,
+  action: Action = "read",
+): Promise<ImportDetail> {
   const id = idParam.safeParse(rawId);
   if (!id.success) throw new DomainError("not_found", "No such import");
   const detail = await getImport(db, { scope: scopeByAbility(ability, "read", "Import", "imports"), id: id.data });

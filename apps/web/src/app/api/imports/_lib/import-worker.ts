@@ -75,7 +75,12 @@ export function startCommit(id: number, actor: ActorRef): void {
     await commitImportRows(db, { importId: id, actor, source, onProgress });
     // Continuous audit: the imported records' branch is re-checked like after any other write.
     const row = await db("imports").where({ id }).first("branch_id", "organisation_id");
-    if (row) void reevaluateAfterWrite(getDb(), { organisationId: Number(row.organisation_id), branchId: Number(row.branch_id), actorId: actor.userId });
+    if (row)
+      void reevaluateAfterWrite(getDb(), {
+        organisationId: Number(row.organisation_id),
+        branchId: Number(row.branch_id),
+        actorId: actor.userId,
+      });
   });
 }
 

@@ -31,15 +31,18 @@ const SAMPLE_ROWS = 5;
  */
 export async function identifySpreadsheet(fileName: string, bytes: Uint8Array): Promise<{ format: SpreadsheetFormat; bytes: Uint8Array }> {
   if (bytes.byteLength === 0) throw new SpreadsheetRejected("The file is empty");
-  if (bytes.byteLength > IMPORT_MAX_BYTES) throw new SpreadsheetRejected(`The file is larger than ${IMPORT_MAX_BYTES / 1024 / 1024} MB; split it into smaller files`);
+  if (bytes.byteLength > IMPORT_MAX_BYTES)
+    throw new SpreadsheetRejected(`The file is larger than ${IMPORT_MAX_BYTES / 1024 / 1024} MB; split it into smaller files`);
   const ext = /\.([a-z0-9]+)$/i.exec(fileName.trim())?.[1]?.toLowerCase();
   if (ext === "xlsx") {
-    if (!ZIP_SIGNATURE.every((b, i) => bytes[i] === b)) throw new SpreadsheetRejected("This file is named .xlsx but is not an Excel workbook; it may be damaged");
+    if (!ZIP_SIGNATURE.every((b, i) => bytes[i] === b))
+      throw new SpreadsheetRejected("This file is named .xlsx but is not an Excel workbook; it may be damaged");
     return { format: "xlsx", bytes };
   }
   if (ext === "csv" || ext === "txt") {
     const sniffed = await fileTypeFromBuffer(bytes);
-    if (sniffed) throw new SpreadsheetRejected(`This file is named .${ext} but holds ${sniffed.ext.toUpperCase()} data, not comma-separated text`);
+    if (sniffed)
+      throw new SpreadsheetRejected(`This file is named .${ext} but holds ${sniffed.ext.toUpperCase()} data, not comma-separated text`);
     const head = bytes.subarray(0, 65536);
     if (head.includes(0)) throw new SpreadsheetRejected("This file is not text; save the spreadsheet as CSV or XLSX");
     // Stored as UTF-8: text saved in the older Windows encoding is converted once, here.
@@ -104,20 +107,27 @@ export async function* sheetRows(format: SpreadsheetFormat, input: Readable): As
     const decoder = new TextDecoder("utf-8");
     let rowNumber = 0;
     for await (const chunk of input) {
-      for (const cells of csv.push(decoder.decode(chunk as Uint8Array, { stream: true }))) yield { rowNumber: ++rowNumber, cells: cells.slice(0, MAX_COLUMNS) };
+      for (const cells of csv.push(decoder.decode(chunk as Uint8Array, { stream: true })))
+        yield { rowNumber: ++rowNumber, cells: cells.slice(0, MAX_COLUMNS) };
     }
     for (const cells of [...csv.push(decoder.decode()), ...csv.end()]) yield { rowNumber: ++rowNumber, cells: cells.slice(0, MAX_COLUMNS) };
   } catch (err) {
     if (err instanceof ImportFileError) throw err;
-    if (err instanceof CsvFormatError) throw new ImportFileError(`The CSV file is broken: ${err.message.charAt(0).toLowerCase()}${err.message.slice(1)}`);
-    throw new ImportFileError(format === "xlsx" ? "The workbook could not be read; it may be damaged or not an Excel file" : "The CSV file could not be read");
+    if (err instanceof CsvFormatError)
+      throw new ImportFileError(`The CSV file is broken: ${err.message.charAt(0).toLowerCase()}${err.message.slice(1)}`);
+    throw new ImportFileError(
+      format === "xlsx" ? "The workbook could not be read; it may be damaged or not an Excel file" : "The CSV file could not be read",
+    );
   }
 }
 
 const isBlank = (cells: string[]) => cells.every((c) => c.trim() === "");
 
 /** The headings (the first row that holds anything) and the first rows after them, read at upload. */
-export async function readHeadings(format: SpreadsheetFormat, bytes: Uint8Array): Promise<{ headings: string[]; headingRow: number; sample: string[][] }> {
+export async function readHeadings(
+  format: SpreadsheetFormat,
+  bytes: Uint8Array,
+): Promise<{ headings: string[]; headingRow: number; sample: string[][] }> {
   let headings: string[] | null = null;
   let headingRow = 0;
   const sample: string[][] = [];

@@ -12,7 +12,11 @@ export const GET = route({ can: ["create", "Import"], query: importTemplateQuery
   const book = new ExcelJS.Workbook();
   book.creator = "Coldtrail";
   const sheet = book.addWorksheet(IMPORT_KIND_LABELS[query.kind]);
-  sheet.columns = fields.map((f) => ({ header: f.required ? `${f.label} *` : f.label, key: f.key, width: Math.max(14, f.label.length + 4) }));
+  sheet.columns = fields.map((f) => ({
+    header: f.required ? `${f.label} *` : f.label,
+    key: f.key,
+    width: Math.max(14, f.label.length + 4),
+  }));
   sheet.getRow(1).font = { bold: true };
   sheet.views = [{ state: "frozen", ySplit: 1 }];
 
@@ -26,7 +30,10 @@ export const GET = route({ can: ["create", "Import"], query: importTemplateQuery
   help.getRow(1).font = { bold: true };
   for (const f of fields) help.addRow({ label: f.label, required: f.required ? "yes" : "", hint: f.hint, example: f.example });
   help.addRow({});
-  help.addRow({ label: "Only the first worksheet is imported. Keep the headings in its first row; other column orders and headings can be matched on the import page." });
+  help.addRow({
+    label:
+      "Only the first worksheet is imported. Keep the headings in its first row; other column orders and headings can be matched on the import page.",
+  });
 
   const buffer = Buffer.from(await book.xlsx.writeBuffer());
   return new Response(buffer, {

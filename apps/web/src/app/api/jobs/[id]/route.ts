@@ -24,7 +24,12 @@ export const PATCH = route<undefined, typeof jobAmendmentInput, { id: string }>(
     if (!job) throw new DomainError("not_found", "No such job");
     ForbiddenError.from(ability).throwUnlessCan(
       "update",
-      subject("Job", { organisationId: job.organisationId, branchId: job.branchId, technicianId: job.technicianId, performedOn: job.performedOn }),
+      subject("Job", {
+        organisationId: job.organisationId,
+        branchId: job.branchId,
+        technicianId: job.technicianId,
+        performedOn: job.performedOn,
+      }),
     );
     const amendmentId = await amendJob(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id, input: body });
     return { id, amendmentId };

@@ -11,8 +11,16 @@ export const POST = route({ can: ["create", "Job"], body: jobDraftInput }, async
   if (body.applianceId !== undefined) {
     const appliance = await getApplianceRef(db, { organisationId: actor.organisationId, id: body.applianceId });
     if (!appliance) throw new DomainError("invalid", "That appliance is not in your organisation's register", "applianceId");
-    ForbiddenError.from(ability).throwUnlessCan("create", subject("Job", { organisationId: actor.organisationId, branchId: appliance.branchId, technicianId: actor.userId }));
+    ForbiddenError.from(ability).throwUnlessCan(
+      "create",
+      subject("Job", { organisationId: actor.organisationId, branchId: appliance.branchId, technicianId: actor.userId }),
+    );
   }
   const result = await checkJobDraftForActor(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, draft: body });
-  return { warnings: result.warnings, evacuationRequired: result.evacuationRequired, cylinderAfter: result.cylinderAfter, leakRate: result.leakRate };
+  return {
+    warnings: result.warnings,
+    evacuationRequired: result.evacuationRequired,
+    cylinderAfter: result.cylinderAfter,
+    leakRate: result.leakRate,
+  };
 });

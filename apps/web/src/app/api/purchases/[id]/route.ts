@@ -17,7 +17,10 @@ export const PATCH = route<undefined, typeof purchaseAmendmentInput, { id: strin
     const id = recordId(params.id, "No such purchase");
     const purchase = await getPurchase(db, { scope: scopeByAbility(ability, "read", "Purchase", "p"), id });
     if (!purchase) throw new DomainError("not_found", "No such purchase");
-    ForbiddenError.from(ability).throwUnlessCan("update", subject("Purchase", { organisationId: purchase.organisationId, branchId: purchase.branchId }));
+    ForbiddenError.from(ability).throwUnlessCan(
+      "update",
+      subject("Purchase", { organisationId: purchase.organisationId, branchId: purchase.branchId }),
+    );
     const amendmentId = await amendPurchase(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id, input: body });
     return { id, amendmentId };
   },

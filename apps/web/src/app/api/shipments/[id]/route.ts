@@ -17,7 +17,10 @@ export const PATCH = route<undefined, typeof shipmentAmendmentInput, { id: strin
     const id = recordId(params.id, "No such shipment");
     const shipment = await getShipment(db, { scope: scopeByAbility(ability, "read", "ReclaimShipment", "s"), id });
     if (!shipment) throw new DomainError("not_found", "No such shipment");
-    ForbiddenError.from(ability).throwUnlessCan("update", subject("ReclaimShipment", { organisationId: shipment.organisationId, branchId: shipment.branchId }));
+    ForbiddenError.from(ability).throwUnlessCan(
+      "update",
+      subject("ReclaimShipment", { organisationId: shipment.organisationId, branchId: shipment.branchId }),
+    );
     const amendmentId = await amendShipment(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id, input: body });
     return { id, amendmentId };
   },

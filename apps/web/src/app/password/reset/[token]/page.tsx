@@ -11,7 +11,8 @@ export default async function ResetPasswordPage({ params }: { params: Promise<{ 
   const { token } = await params;
   const view = /^[A-Za-z0-9_-]{20,200}$/.test(token) ? await describePasswordReset(db(), { token }) : { state: "unknown" as const };
   if (view.state !== "valid") {
-    const message = view.state === "expired" ? "This password link has expired: links work for one hour. Ask for a new one." : LINK_REFUSALS[view.state];
+    const message =
+      view.state === "expired" ? "This password link has expired: links work for one hour. Ask for a new one." : LINK_REFUSALS[view.state];
     return (
       <PublicShell title="This password link cannot be used">
         <LinkRefused

@@ -11,11 +11,16 @@ import { BranchForm } from "../branch-form";
 
 export function BranchEditor({ id, created }: { id: string; created: boolean }) {
   const queryClient = useQueryClient();
-  const branch = useQuery({ queryKey: ["admin-branch", id], queryFn: () => fetchJson<AdminBranchRow>(`/api/admin/branches/${encodeURIComponent(id)}`), retry: false });
+  const branch = useQuery({
+    queryKey: ["admin-branch", id],
+    queryFn: () => fetchJson<AdminBranchRow>(`/api/admin/branches/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   const [confirming, setConfirming] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const archive = useMutation({
-    mutationFn: (archived: boolean) => fetchJson<AdminBranchRow>(`/api/admin/branches/${encodeURIComponent(id)}`, { method: "PATCH", body: JSON.stringify({ archived }) }),
+    mutationFn: (archived: boolean) =>
+      fetchJson<AdminBranchRow>(`/api/admin/branches/${encodeURIComponent(id)}`, { method: "PATCH", body: JSON.stringify({ archived }) }),
     onSuccess: async () => {
       setConfirming(false);
       setError(null);

@@ -7,7 +7,13 @@ import { BranchEditor } from "./branch-editor";
 
 export const metadata: Metadata = { title: "Branch" };
 
-export default async function BranchPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ created?: string }> }) {
+export default async function BranchPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<{ created?: string }>;
+}) {
   const signedIn = await currentActor();
   if (!signedIn) redirect("/sign-in");
   if (!signedIn.ability.can("update", "Branch")) return <NoAccess what="managing branches" />;

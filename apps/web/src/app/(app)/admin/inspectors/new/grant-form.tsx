@@ -44,7 +44,11 @@ export function GrantForm() {
   const errors = formState.errors;
 
   const grant = useMutation({
-    mutationFn: (input: FormOut) => fetchJson<{ id: number; kind: "invited" | "notified"; mailSent: boolean }>("/api/admin/inspector-grants", { method: "POST", body: JSON.stringify(input) }),
+    mutationFn: (input: FormOut) =>
+      fetchJson<{ id: number; kind: "invited" | "notified"; mailSent: boolean }>("/api/admin/inspector-grants", {
+        method: "POST",
+        body: JSON.stringify(input),
+      }),
     onSuccess: async (res) => {
       await queryClient.invalidateQueries({ queryKey: ["inspector-grants"] });
       await queryClient.invalidateQueries({ queryKey: ["people"] });
@@ -54,7 +58,11 @@ export function GrantForm() {
       setFormError(saveErrorMessage(err, setError, "The access could not be given. Check your connection; nothing was saved."));
     },
   });
-  const onSubmit = submitOrExplain(handleSubmit, { save: grant.mutate, setFormError, invalid: "Some fields need attention before access can be given." });
+  const onSubmit = submitOrExplain(handleSubmit, {
+    save: grant.mutate,
+    setFormError,
+    invalid: "Some fields need attention before access can be given.",
+  });
   const field = (name: keyof FormIn, label: string, type = "text", hint?: string) => (
     <div>
       <label htmlFor={`${uid}-${name}`} className={labelClass}>
@@ -67,7 +75,9 @@ export function GrantForm() {
         {...register(name)}
         className={inputClass}
         aria-invalid={errors[name] ? true : undefined}
-        aria-describedby={[hint ? `${uid}-${name}-hint` : null, errors[name] ? `${uid}-${name}-error` : null].filter(Boolean).join(" ") || undefined}
+        aria-describedby={
+          [hint ? `${uid}-${name}-hint` : null, errors[name] ? `${uid}-${name}-error` : null].filter(Boolean).join(" ") || undefined
+        }
       />
       {hint && (
         <p id={`${uid}-${name}-hint`} className={hintClass}>
@@ -97,7 +107,10 @@ export function GrantForm() {
                 {(branches.data?.rows ?? []).map((b) => {
                   const checked = value.includes(b.id);
                   return (
-                    <label key={b.id} className={`flex items-center gap-2 rounded-md border px-3 py-2 ${checked ? "border-fjord-600 bg-fjord-50" : "border-ink-200"}`}>
+                    <label
+                      key={b.id}
+                      className={`flex items-center gap-2 rounded-md border px-3 py-2 ${checked ? "border-fjord-600 bg-fjord-50" : "border-ink-200"}`}
+                    >
                       <input
                         type="checkbox"
                         checked={checked}
@@ -122,7 +135,12 @@ export function GrantForm() {
         {field("recordsTo", "To", "date")}
       </fieldset>
       <div className="grid gap-5 sm:grid-cols-2">
-        {field("expiresOn", "Access ends after", "date", "After this day (end of day, UTC) the inspector can no longer read these records.")}
+        {field(
+          "expiresOn",
+          "Access ends after",
+          "date",
+          "After this day (end of day, UTC) the inspector can no longer read these records.",
+        )}
         {field("note", "Note (optional)", "text", "Why the access is given, e.g. “State review of 2025 records”.")}
       </div>
       <button type="submit" disabled={grant.isPending} className={primaryButton}>

@@ -7,7 +7,13 @@ import { PersonDetail } from "./person-detail";
 
 export const metadata: Metadata = { title: "Person" };
 
-export default async function PersonPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ mail?: string }> }) {
+export default async function PersonPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<{ mail?: string }>;
+}) {
   const signedIn = await currentActor();
   if (!signedIn) redirect("/sign-in");
   const { ability, actor } = signedIn;

@@ -40,7 +40,11 @@ function Section({ title, children, id }: { title: string; children: React.React
 }
 
 export function PersonDetail({ id, selfId, can, mailFailed }: { id: string; selfId: number; can: PersonPermissions; mailFailed: boolean }) {
-  const person = useQuery({ queryKey: ["person", id], queryFn: () => fetchJson<Person>(`/api/admin/people/${encodeURIComponent(id)}`), retry: false });
+  const person = useQuery({
+    queryKey: ["person", id],
+    queryFn: () => fetchJson<Person>(`/api/admin/people/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   if (person.isLoading) return <p className="text-ink-600">Loading…</p>;
   if (person.isError) {
     const notFound = person.error instanceof ApiError && person.error.status === 404;
@@ -97,7 +101,11 @@ function InvitationPanel({ person }: { person: Person }) {
     mutationFn: () => fetchJson<{ mailSent: boolean; expiresAt: string }>(`/api/admin/people/${person.id}/invitation`, { method: "POST" }),
     onSuccess: async (res) => {
       setError(res.mailSent ? null : "A new link was made but the e-mail could not be sent. Try again in a moment.");
-      setNotice(res.mailSent ? `A new link is on its way to ${person.email}; it expires ${when(res.expiresAt)}. Earlier links no longer work.` : null);
+      setNotice(
+        res.mailSent
+          ? `A new link is on its way to ${person.email}; it expires ${when(res.expiresAt)}. Earlier links no longer work.`
+          : null,
+      );
       await refresh();
     },
     onError: (err) => setError(errorMessage(err, "The link could not be sent.")),
@@ -117,11 +125,13 @@ function InvitationPanel({ person }: { person: Person }) {
         {inv ? (
           inv.expired ? (
             <>
-              <span aria-hidden="true">◷ </span>The link sent by {inv.invitedByName} on {when(inv.createdAt)} expired on {when(inv.expiresAt)}.
+              <span aria-hidden="true">◷ </span>The link sent by {inv.invitedByName} on {when(inv.createdAt)} expired on{" "}
+              {when(inv.expiresAt)}.
             </>
           ) : (
             <>
-              <span aria-hidden="true">✉ </span>Sent by {inv.invitedByName} on {when(inv.createdAt)}; the link works until {when(inv.expiresAt)}.
+              <span aria-hidden="true">✉ </span>Sent by {inv.invitedByName} on {when(inv.createdAt)}; the link works until{" "}
+              {when(inv.expiresAt)}.
             </>
           )
         ) : (
@@ -234,7 +244,12 @@ function ActivationPanel({ person }: { person: Person }) {
           </button>
         </div>
       ) : (
-        <button type="button" className={active ? dangerButton : primaryButton} disabled={change.isPending} onClick={() => (active ? setConfirming(true) : change.mutate())}>
+        <button
+          type="button"
+          className={active ? dangerButton : primaryButton}
+          disabled={change.isPending}
+          onClick={() => (active ? setConfirming(true) : change.mutate())}
+        >
           {active ? "Deactivate…" : "Let them sign in again"}
         </button>
       )}
@@ -288,7 +303,8 @@ function Jobs({ technicianId }: { technicianId: number }) {
   const pageSize = 10;
   const jobs = useQuery({
     queryKey: ["jobs", `technician-${technicianId}-${page}`],
-    queryFn: () => fetchJson<JobListPage>(`/api/jobs?technicianId=${technicianId}&page=${page}&pageSize=${pageSize}&sort=performedOn&dir=desc`),
+    queryFn: () =>
+      fetchJson<JobListPage>(`/api/jobs?technicianId=${technicianId}&page=${page}&pageSize=${pageSize}&sort=performedOn&dir=desc`),
     placeholderData: keepPreviousData,
   });
   const rows = jobs.data?.rows ?? [];
@@ -299,12 +315,24 @@ function Jobs({ technicianId }: { technicianId: number }) {
         <table className="min-w-full text-sm" aria-labelledby="jobs-h" aria-busy={jobs.isFetching}>
           <thead className="bg-ink-100 text-left text-xs uppercase tracking-wide text-ink-600">
             <tr>
-              <th scope="col" className="px-3 py-2">Date</th>
-              <th scope="col" className="px-3 py-2">Job</th>
-              <th scope="col" className="px-3 py-2">Appliance</th>
-              <th scope="col" className="px-3 py-2">Branch</th>
-              <th scope="col" className="px-3 py-2">Refrigerant</th>
-              <th scope="col" className="px-3 py-2">Amount</th>
+              <th scope="col" className="px-3 py-2">
+                Date
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Job
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Appliance
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Branch
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Refrigerant
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Amount
+              </th>
             </tr>
           </thead>
           <tbody className="divide-y divide-ink-100">
@@ -348,7 +376,10 @@ function InspectorGrants({ userId }: { userId: number }) {
   return (
     <Section title="Inspector access" id="grants-h">
       <p className="text-sm text-ink-600">
-        Inspectors read only the branches and dates they are given. <Link href="/admin/inspectors" className="text-fjord-700 underline">Manage inspector access</Link>
+        Inspectors read only the branches and dates they are given.{" "}
+        <Link href="/admin/inspectors" className="text-fjord-700 underline">
+          Manage inspector access
+        </Link>
       </p>
       <ul className="divide-y divide-ink-100">
         {(grants.data?.rows ?? []).map((g) => (
@@ -378,7 +409,8 @@ function History({ personId }: { personId: number }) {
       <ol className="space-y-2" aria-label="Changes, newest first">
         {rows.map((a) => (
           <li key={a.id} className="text-sm" data-testid="history-entry">
-            <span className="tabular text-ink-600">{when(a.at)}</span> · <span className="font-medium">{a.actorName ?? "Coldtrail"}</span>: {a.summary}
+            <span className="tabular text-ink-600">{when(a.at)}</span> · <span className="font-medium">{a.actorName ?? "Coldtrail"}</span>:{" "}
+            {a.summary}
           </li>
         ))}
       </ol>

@@ -34,7 +34,11 @@ export function InviteForm() {
   const errors = formState.errors;
 
   const invite = useMutation({
-    mutationFn: (input: FormOut) => fetchJson<{ userId: number; mailSent: boolean }>("/api/admin/invitations", { method: "POST", body: JSON.stringify({ ...input, ...accessPayload(input) }) }),
+    mutationFn: (input: FormOut) =>
+      fetchJson<{ userId: number; mailSent: boolean }>("/api/admin/invitations", {
+        method: "POST",
+        body: JSON.stringify({ ...input, ...accessPayload(input) }),
+      }),
     onSuccess: async (res, input) => {
       await queryClient.invalidateQueries({ queryKey: ["people"] });
       if (!res.mailSent) {
@@ -48,7 +52,11 @@ export function InviteForm() {
     },
   });
 
-  const onSubmit = submitOrExplain(handleSubmit, { save: invite.mutate, setFormError, invalid: "Some fields need attention before the invitation can be sent." });
+  const onSubmit = submitOrExplain(handleSubmit, {
+    save: invite.mutate,
+    setFormError,
+    invalid: "Some fields need attention before the invitation can be sent.",
+  });
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-6 rounded-lg border border-ink-200 bg-white p-5">
@@ -58,14 +66,29 @@ export function InviteForm() {
           <label htmlFor={`${uid}-name`} className={labelClass}>
             Full name
           </label>
-          <input id={`${uid}-name`} autoComplete="off" {...register("name")} className={inputClass} aria-invalid={errors.name ? true : undefined} aria-describedby={errors.name ? `${uid}-name-error` : undefined} />
+          <input
+            id={`${uid}-name`}
+            autoComplete="off"
+            {...register("name")}
+            className={inputClass}
+            aria-invalid={errors.name ? true : undefined}
+            aria-describedby={errors.name ? `${uid}-name-error` : undefined}
+          />
           <FieldError id={`${uid}-name-error`} message={errors.name?.message} />
         </div>
         <div>
           <label htmlFor={`${uid}-email`} className={labelClass}>
             E-mail address
           </label>
-          <input id={`${uid}-email`} type="email" autoComplete="off" {...register("email")} className={inputClass} aria-invalid={errors.email ? true : undefined} aria-describedby={errors.email ? `${uid}-email-error` : undefined} />
+          <input
+            id={`${uid}-email`}
+            type="email"
+            autoComplete="off"
+            {...register("email")}
+            className={inputClass}
+            aria-invalid={errors.email ? true : undefined}
+            aria-describedby={errors.email ? `${uid}-email-error` : undefined}
+          />
           <FieldError id={`${uid}-email-error`} message={errors.email?.message} />
         </div>
       </div>
@@ -78,7 +101,10 @@ export function InviteForm() {
             name="branchIds"
             render={({ field: branchesField }) => (
               <AccessFields
-                value={{ roles: (rolesField.value ?? []) as FormOut["roles"], branchIds: ((branchesField.value ?? []) as unknown[]).map(Number) }}
+                value={{
+                  roles: (rolesField.value ?? []) as FormOut["roles"],
+                  branchIds: ((branchesField.value ?? []) as unknown[]).map(Number),
+                }}
                 onChange={(next) => {
                   rolesField.onChange(next.roles);
                   branchesField.onChange(next.branchIds);

@@ -17,7 +17,8 @@ export default async function EditAppliancePage({ params }: { params: Promise<{ 
   if (!Number.isInteger(numeric) || numeric <= 0) notFound();
   const appliance = await getAppliance(db(), { scope: scopeByAbility(signedIn.ability, "read", "Appliance", "appliances"), id: numeric });
   if (!appliance) notFound();
-  if (signedIn.ability.cannot("update", subject("Appliance", { organisationId: appliance.organisationId, branchId: appliance.branchId }))) redirect(`/appliances/${numeric}`);
+  if (signedIn.ability.cannot("update", subject("Appliance", { organisationId: appliance.organisationId, branchId: appliance.branchId })))
+    redirect(`/appliances/${numeric}`);
   const branch = { id: appliance.branchId, name: appliance.branchName, massUnit: appliance.massUnit, timeZone: appliance.timeZone };
   return (
     <div className="mx-auto max-w-2xl">
@@ -25,7 +26,9 @@ export default async function EditAppliancePage({ params }: { params: Promise<{ 
         ← {appliance.tag}
       </Link>
       <h1 className="text-2xl font-semibold text-ink-950">Edit {appliance.tag}</h1>
-      <p className="mb-5 text-ink-600">Corrections of the refrigerant, full charge or kind are kept with their previous values and your reason.</p>
+      <p className="mb-5 text-ink-600">
+        Corrections of the refrigerant, full charge or kind are kept with their previous values and your reason.
+      </p>
       <ApplianceForm mode="edit" branches={[branch]} appliance={appliance} />
     </div>
   );

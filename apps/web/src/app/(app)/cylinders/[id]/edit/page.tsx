@@ -16,7 +16,8 @@ export default async function EditCylinderPage({ params }: { params: Promise<{ i
   if (!Number.isInteger(numeric) || numeric <= 0) notFound();
   const cylinder = await getCylinder(db(), { scope: scopeByAbility(signedIn.ability, "read", "Cylinder", "cylinders"), id: numeric });
   if (!cylinder) notFound();
-  if (signedIn.ability.cannot("update", subject("Cylinder", { organisationId: cylinder.organisationId, branchId: cylinder.branchId }))) redirect(`/cylinders/${numeric}`);
+  if (signedIn.ability.cannot("update", subject("Cylinder", { organisationId: cylinder.organisationId, branchId: cylinder.branchId })))
+    redirect(`/cylinders/${numeric}`);
   const branch = { id: cylinder.branchId, name: cylinder.branchName, massUnit: cylinder.massUnit, timeZone: cylinder.timeZone };
   return (
     <div className="mx-auto max-w-2xl">
@@ -24,7 +25,10 @@ export default async function EditCylinderPage({ params }: { params: Promise<{ i
         ← {cylinder.serial}
       </Link>
       <h1 className="text-2xl font-semibold text-ink-950">Edit {cylinder.serial}</h1>
-      <p className="mb-5 text-ink-600">A new water capacity, tare weight or requalification date is kept with its previous value and your reason. Cylinders are retired, never deleted.</p>
+      <p className="mb-5 text-ink-600">
+        A new water capacity, tare weight or requalification date is kept with its previous value and your reason. Cylinders are retired,
+        never deleted.
+      </p>
       <CylinderForm mode="edit" branches={[branch]} cylinder={cylinder} />
     </div>
   );

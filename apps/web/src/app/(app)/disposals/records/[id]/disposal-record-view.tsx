@@ -23,14 +23,26 @@ const FIELD_WORDS: Record<string, string> = {
 
 export function DisposalRecordView({ id, saved }: { id: string; saved: boolean }) {
   const ability = useAbility();
-  const q = useQuery({ queryKey: ["disposal-record", id], queryFn: () => fetchJson<DisposalRecordDetail>(`/api/disposals/records/${encodeURIComponent(id)}`), retry: false });
+  const q = useQuery({
+    queryKey: ["disposal-record", id],
+    queryFn: () => fetchJson<DisposalRecordDetail>(`/api/disposals/records/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   if (q.isLoading) return <p className="text-ink-600">Loading the disposal record…</p>;
   if (q.isError || !q.data) {
     return <LoadError error={q.error} noun="disposal record" />;
   }
   const r = q.data;
   const where = subject("Disposal", { organisationId: r.organisationId, branchId: r.branchId });
-  const complete = disposalRecordCompleteness({ id: r.id, applianceId: r.applianceId, companyName: r.companyName, applianceLocation: r.applianceLocation, recoveredOn: r.recoveredOn, refrigerant: r.refrigerant, recoveredG: r.recoveredG });
+  const complete = disposalRecordCompleteness({
+    id: r.id,
+    applianceId: r.applianceId,
+    companyName: r.companyName,
+    applianceLocation: r.applianceLocation,
+    recoveredOn: r.recoveredOn,
+    refrigerant: r.refrigerant,
+    recoveredG: r.recoveredG,
+  });
   const invalidate = [["disposal-record", id], ["disposals"]];
   return (
     <article className="mx-auto max-w-2xl space-y-4">
@@ -45,7 +57,12 @@ export function DisposalRecordView({ id, saved }: { id: string; saved: boolean }
         </h1>
       </header>
       <VoidedBanner at={r.voidedAt} reason={r.voidReason} />
-      <CompletenessLine complete={complete.complete} missing={complete.missing} completeText="Every field the rule asks for is on the record." testId="record-completeness" />
+      <CompletenessLine
+        complete={complete.complete}
+        missing={complete.missing}
+        completeText="Every field the rule asks for is on the record."
+        testId="record-completeness"
+      />
       <dl className="divide-y divide-ink-100 rounded-lg border border-ink-200 bg-white px-4">
         <DetailRow layout="stacked" label="Appliance">
           {r.applianceTag} — {r.applianceDescription}
@@ -53,17 +70,33 @@ export function DisposalRecordView({ id, saved }: { id: string; saved: boolean }
             {APPLIANCE_CATEGORY_LABELS[r.applianceCategory]} · full charge {formatMass(r.applianceFullChargeG, r.branchMassUnit)}
           </span>
         </DetailRow>
-        <DetailRow layout="stacked" label="Company name">{r.companyName ?? "—"}</DetailRow>
-        <DetailRow layout="stacked" label="Location">{r.applianceLocation ?? "—"}</DetailRow>
-        <DetailRow layout="stacked" label="Date of recovery">{r.recoveredOn ?? "—"}</DetailRow>
-        <DetailRow layout="stacked" label="Refrigerant">{r.refrigerant ?? "—"}</DetailRow>
+        <DetailRow layout="stacked" label="Company name">
+          {r.companyName ?? "—"}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Location">
+          {r.applianceLocation ?? "—"}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Date of recovery">
+          {r.recoveredOn ?? "—"}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Refrigerant">
+          {r.refrigerant ?? "—"}
+        </DetailRow>
         <DetailRow layout="stacked" label="Quantity recovered">
           <span className="tabular">{r.recoveredG === null ? "—" : formatMass(r.recoveredG, r.branchMassUnit)}</span>
         </DetailRow>
-        <DetailRow layout="stacked" label="Recovered by">{r.recoveredByName ?? "—"}</DetailRow>
-        <DetailRow layout="stacked" label="Taken apart">{DISPOSAL_PATH_LABELS[r.disposalPath] ?? r.disposalPath}</DetailRow>
-        <DetailRow layout="stacked" label="Sent to">{r.sentTo ?? "—"}</DetailRow>
-        <DetailRow layout="stacked" label="Branch">{r.branchName}</DetailRow>
+        <DetailRow layout="stacked" label="Recovered by">
+          {r.recoveredByName ?? "—"}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Taken apart">
+          {DISPOSAL_PATH_LABELS[r.disposalPath] ?? r.disposalPath}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Sent to">
+          {r.sentTo ?? "—"}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Branch">
+          {r.branchName}
+        </DetailRow>
         {r.jobId && (
           <DetailRow layout="stacked" label="Disposal job">
             <Link href={`/jobs/${r.jobId}`} className="text-fjord-700 underline">
@@ -87,7 +120,14 @@ export function DisposalRecordView({ id, saved }: { id: string; saved: boolean }
                 { name: "recoveredOn", label: "Date of recovery", type: "date", value: r.recoveredOn },
                 { name: "disposedOn", label: "Date of disposal", type: "date", value: r.disposedOn },
                 { name: "refrigerant", label: "Refrigerant", type: "text", value: r.refrigerant },
-                { name: "recoveredAmount", label: "Quantity recovered", type: "mass", value: r.recoveredG, unitField: "recoveredUnit", massUnit: r.branchMassUnit },
+                {
+                  name: "recoveredAmount",
+                  label: "Quantity recovered",
+                  type: "mass",
+                  value: r.recoveredG,
+                  unitField: "recoveredUnit",
+                  massUnit: r.branchMassUnit,
+                },
                 { name: "sentTo", label: "Sent to", type: "text", value: r.sentTo },
               ]}
             />

@@ -36,7 +36,11 @@ function AttachDocument({ id, invalidate }: { id: number; invalidate: string[][]
       const body = new FormData();
       body.set("reason", reason);
       if (file) body.set("document", file);
-      const res = await fetch(`/api/disposals/statements/${id}/document`, { method: "POST", body, headers: { accept: "application/json" } });
+      const res = await fetch(`/api/disposals/statements/${id}/document`, {
+        method: "POST",
+        body,
+        headers: { accept: "application/json" },
+      });
       const json = await res.json().catch(() => null);
       if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? "Upload failed", json?.error?.fieldErrors ?? {});
     },
@@ -44,7 +48,12 @@ function AttachDocument({ id, invalidate }: { id: number; invalidate: string[][]
       await Promise.all(invalidate.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
       setOpen(false);
     },
-    onError: (err) => setErrors(err instanceof ApiError ? Object.fromEntries(Object.entries(err.fieldErrors).map(([k, m]) => [k, m[0] ?? ""])) : { document: "The file could not be sent." }),
+    onError: (err) =>
+      setErrors(
+        err instanceof ApiError
+          ? Object.fromEntries(Object.entries(err.fieldErrors).map(([k, m]) => [k, m[0] ?? ""]))
+          : { document: "The file could not be sent." },
+      ),
   });
   if (!open)
     return (
@@ -81,11 +90,21 @@ function AttachDocument({ id, invalidate }: { id: number; invalidate: string[][]
         <label htmlFor={`${uid}-reason`} className={labelClass}>
           Why is it being added?
         </label>
-        <input id={`${uid}-reason`} value={reason} onChange={(e) => setReason(e.target.value)} className={inputClass} aria-invalid={errors.reason ? true : undefined} />
+        <input
+          id={`${uid}-reason`}
+          value={reason}
+          onChange={(e) => setReason(e.target.value)}
+          className={inputClass}
+          aria-invalid={errors.reason ? true : undefined}
+        />
         <FieldError id={`${uid}-reason-error`} message={errors.reason} />
       </div>
       <div className="flex gap-2">
-        <button type="submit" disabled={upload.isPending} className="rounded-lg bg-fjord-600 px-5 py-3 font-semibold text-white disabled:opacity-60">
+        <button
+          type="submit"
+          disabled={upload.isPending}
+          className="rounded-lg bg-fjord-600 px-5 py-3 font-semibold text-white disabled:opacity-60"
+        >
           {upload.isPending ? "Uploading…" : "Upload"}
         </button>
         <button type="button" className={secondaryButton} onClick={() => setOpen(false)}>
@@ -98,7 +117,11 @@ function AttachDocument({ id, invalidate }: { id: number; invalidate: string[][]
 
 export function DisposalStatementView({ id, saved }: { id: string; saved: boolean }) {
   const ability = useAbility();
-  const q = useQuery({ queryKey: ["disposal-statement", id], queryFn: () => fetchJson<DisposalStatementDetail>(`/api/disposals/statements/${encodeURIComponent(id)}`), retry: false });
+  const q = useQuery({
+    queryKey: ["disposal-statement", id],
+    queryFn: () => fetchJson<DisposalStatementDetail>(`/api/disposals/statements/${encodeURIComponent(id)}`),
+    retry: false,
+  });
   if (q.isLoading) return <p className="text-ink-600">Loading the signed statement…</p>;
   if (q.isError || !q.data) {
     return <LoadError error={q.error} noun="signed statement" />;
@@ -127,7 +150,11 @@ export function DisposalStatementView({ id, saved }: { id: string; saved: boolea
         <h1 className="text-2xl font-semibold text-ink-950">Refrigerant recovered from {s.applianceTag}</h1>
       </header>
       <VoidedBanner at={s.voidedAt} reason={s.voidReason} />
-      <CompletenessLine complete={complete.complete} missing={complete.missing} completeText="The statement has everything the rule asks for." />
+      <CompletenessLine
+        complete={complete.complete}
+        missing={complete.missing}
+        completeText="The statement has everything the rule asks for."
+      />
       <section aria-labelledby="doc-h" className="rounded-lg border border-ink-200 bg-white p-4" data-testid="statement-document">
         <h2 id="doc-h" className="text-lg font-semibold text-ink-950">
           Signed document
@@ -135,7 +162,12 @@ export function DisposalStatementView({ id, saved }: { id: string; saved: boolea
         {s.hasDocument ? (
           <p className="mt-1 flex flex-wrap items-center gap-2 text-ok">
             <span aria-hidden="true">✓</span> On file ({s.documentMime === "application/pdf" ? "PDF" : "photo"}).
-            <a href={`/api/disposals/statements/${s.id}/document`} target="_blank" rel="noopener" className="font-medium text-fjord-700 underline">
+            <a
+              href={`/api/disposals/statements/${s.id}/document`}
+              target="_blank"
+              rel="noopener"
+              className="font-medium text-fjord-700 underline"
+            >
               Open the signed document
             </a>
           </p>
@@ -155,13 +187,29 @@ export function DisposalStatementView({ id, saved }: { id: string; saved: boolea
           {s.applianceTag} — {s.applianceDescription}
           <span className="block text-sm text-ink-600">{APPLIANCE_CATEGORY_LABELS[s.applianceCategory]}</span>
         </DetailRow>
-        <DetailRow layout="stacked" label="Recovered by">{s.recoveredByName}</DetailRow>
-        <DetailRow layout="stacked" label="Their address">{s.recoveredByAddress}</DetailRow>
-        <DetailRow layout="stacked" label="Date of recovery">{s.recoveredOn}</DetailRow>
-        <DetailRow layout="stacked" label="Signed by">{s.signedByName ?? "—"}</DetailRow>
-        <DetailRow layout="stacked" label="Date signed">{s.signedOn ?? "—"}</DetailRow>
-        {s.contractReference && <DetailRow layout="stacked" label="Contract">{s.contractReference}</DetailRow>}
-        <DetailRow layout="stacked" label="Branch">{s.branchName}</DetailRow>
+        <DetailRow layout="stacked" label="Recovered by">
+          {s.recoveredByName}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Their address">
+          {s.recoveredByAddress}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Date of recovery">
+          {s.recoveredOn}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Signed by">
+          {s.signedByName ?? "—"}
+        </DetailRow>
+        <DetailRow layout="stacked" label="Date signed">
+          {s.signedOn ?? "—"}
+        </DetailRow>
+        {s.contractReference && (
+          <DetailRow layout="stacked" label="Contract">
+            {s.contractReference}
+          </DetailRow>
+        )}
+        <DetailRow layout="stacked" label="Branch">
+          {s.branchName}
+        </DetailRow>
         {s.jobId && (
           <DetailRow layout="stacked" label="Disposal job">
             <Link href={`/jobs/${s.jobId}`} className="text-fjord-700 underline">
@@ -180,7 +228,12 @@ export function DisposalStatementView({ id, saved }: { id: string; saved: boolea
               url={`/api/disposals/statements/${s.id}`}
               invalidate={invalidate}
               fields={[
-                { name: "recoveredByName", label: "Name of the person who recovered the refrigerant", type: "text", value: s.recoveredByName },
+                {
+                  name: "recoveredByName",
+                  label: "Name of the person who recovered the refrigerant",
+                  type: "text",
+                  value: s.recoveredByName,
+                },
                 { name: "recoveredByAddress", label: "Their address", type: "textarea", value: s.recoveredByAddress },
                 { name: "recoveredOn", label: "Date of recovery", type: "date", value: s.recoveredOn },
                 { name: "signedByName", label: "Signed by", type: "text", value: s.signedByName },
@@ -189,7 +242,9 @@ export function DisposalStatementView({ id, saved }: { id: string; saved: boolea
               ]}
             />
           )}
-          {ability.can("void", where) && <VoidPanel url={`/api/disposals/statements/${s.id}/void`} invalidate={invalidate} what="statement" />}
+          {ability.can("void", where) && (
+            <VoidPanel url={`/api/disposals/statements/${s.id}/void`} invalidate={invalidate} what="statement" />
+          )}
         </div>
       )}
       <AmendmentHistory amendments={s.amendments} fieldWords={FIELD_WORDS} massUnit={s.branchMassUnit} />

@@ -14,9 +14,18 @@ export default async function EditEquipmentPage({ params }: { params: Promise<{ 
   if (!signedIn) redirect("/sign-in");
   const numeric = Number((await params).id);
   if (!Number.isInteger(numeric) || numeric <= 0) notFound();
-  const equipment = await getEquipment(db(), { scope: scopeByAbility(signedIn.ability, "read", "RecoveryEquipment", "recovery_equipment"), id: numeric });
+  const equipment = await getEquipment(db(), {
+    scope: scopeByAbility(signedIn.ability, "read", "RecoveryEquipment", "recovery_equipment"),
+    id: numeric,
+  });
   if (!equipment) notFound();
-  if (signedIn.ability.cannot("update", subject("RecoveryEquipment", { organisationId: equipment.organisationId, branchId: equipment.branchId }))) redirect(`/equipment/${numeric}`);
+  if (
+    signedIn.ability.cannot(
+      "update",
+      subject("RecoveryEquipment", { organisationId: equipment.organisationId, branchId: equipment.branchId }),
+    )
+  )
+    redirect(`/equipment/${numeric}`);
   const branch = { id: equipment.branchId, name: equipment.branchName, massUnit: equipment.massUnit, timeZone: equipment.timeZone };
   return (
     <div className="mx-auto max-w-2xl">

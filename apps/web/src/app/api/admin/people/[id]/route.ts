@@ -16,7 +16,10 @@ export const PATCH = route<undefined, typeof personAccessInput, Params>(
   { can: ["update", "Membership"], body: personAccessInput },
   async ({ actor, ability, db, body, params }) => {
     const person = await visiblePerson(db, ability, params.id);
-    ForbiddenError.from(ability).throwUnlessCan("update", subject("Membership", { organisationId: person.organisationId, userId: person.id }));
+    ForbiddenError.from(ability).throwUnlessCan(
+      "update",
+      subject("Membership", { organisationId: person.organisationId, userId: person.id }),
+    );
     await updatePersonAccess(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id: person.id, input: body });
     return visiblePerson(db, ability, params.id);
   },

@@ -8,7 +8,11 @@ export const POST = route<undefined, typeof applianceStatusInput, { id: string }
   { can: ["update", "Appliance"], body: applianceStatusInput },
   async ({ actor, ability, db, body, params }) => {
     const ref = await authorizeRegisterRecord({ actor, ability, db }, "appliance", params.id, "update");
-    const amendmentId = await changeApplianceStatus(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id: ref.id, input: body });
+    const amendmentId = await changeApplianceStatus(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      id: ref.id,
+      input: body,
+    });
     return { amendmentId };
   },
 );

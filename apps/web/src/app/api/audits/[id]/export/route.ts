@@ -35,6 +35,10 @@ export const GET = route<undefined, undefined, { id: string }>({ can: ["export",
       cylinders: scopeByAbility(ability, "read", "Cylinder", "cylinders"),
       disposals: scopeByAbility(ability, "read", "Disposal", "d"),
     },
-    jobVisible: (job) => ability.can("read", subject("Job", { organisationId: org, branchId: job.branchId, technicianId: job.technicianId, performedOn: job.performedOn })),
+    jobVisible: (job) =>
+      ability.can(
+        "read",
+        subject("Job", { organisationId: org, branchId: job.branchId, technicianId: job.technicianId, performedOn: job.performedOn }),
+      ),
   });
 });

@@ -8,7 +8,11 @@ export const POST = route<undefined, typeof certificationCorrectionInput, { id: 
   { can: ["update", "Certification"], body: certificationCorrectionInput },
   async ({ actor, ability, db, params, body }) => {
     const ref = await cardFor(db, actor, ability, params.id, "update");
-    const amendmentId = await correctCertification(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id: ref.id, input: body });
+    const amendmentId = await correctCertification(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      id: ref.id,
+      input: body,
+    });
     return { id: ref.id, amendmentId };
   },
 );

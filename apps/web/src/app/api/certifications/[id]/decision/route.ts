@@ -13,7 +13,11 @@ export const POST = route<undefined, typeof certificationDecisionInput, { id: st
   { can: ["verify", "Certification"], body: certificationDecisionInput },
   async ({ actor, ability, db, params, body }) => {
     const ref = await cardFor(db, actor, ability, params.id, "verify");
-    const result = await decideCertification(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id: ref.id, input: body });
+    const result = await decideCertification(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      id: ref.id,
+      input: body,
+    });
     const words = describeCertificationDecision(result);
     let emailed = false;
     try {
@@ -22,7 +26,11 @@ export const POST = route<undefined, typeof certificationDecisionInput, { id: st
         to: result.holder.email,
         subject: words.subject,
         text: [`Hello ${result.holder.name},`, "", ...words.paragraphs, "", `Open the card in Coldtrail: ${link}`].join("\n"),
-        html: mailHtml({ heading: words.heading, paragraphs: [`Hello ${result.holder.name},`, ...words.paragraphs], action: { label: "Open the card", href: link } }),
+        html: mailHtml({
+          heading: words.heading,
+          paragraphs: [`Hello ${result.holder.name},`, ...words.paragraphs],
+          action: { label: "Open the card", href: link },
+        }),
       });
       await markNotificationEmailed(db, { id: result.notificationId });
       emailed = true;

@@ -8,7 +8,11 @@ export const POST = route<undefined, typeof certificationWithdrawInput, { id: st
   { can: ["void", "Certification"], body: certificationWithdrawInput },
   async ({ actor, ability, db, params, body }) => {
     const ref = await cardFor(db, actor, ability, params.id, "void");
-    await withdrawCertification(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id: ref.id, reason: body.reason });
+    await withdrawCertification(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      id: ref.id,
+      reason: body.reason,
+    });
     return { id: ref.id, withdrawn: true };
   },
 );

@@ -20,7 +20,11 @@ export const POST = route<undefined, typeof cylinderWeighingInput, Params>(
   { can: ["update", "Cylinder"], body: cylinderWeighingInput },
   async ({ actor, ability, db, body, params }) => {
     const ref = await authorizeRegisterRecord({ actor, ability, db }, "cylinder", params.id, "update");
-    const result = await recordCylinderWeighing(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, cylinderId: ref.id, input: body });
+    const result = await recordCylinderWeighing(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      cylinderId: ref.id,
+      input: body,
+    });
     return NextResponse.json(result, { status: 201 });
   },
 );

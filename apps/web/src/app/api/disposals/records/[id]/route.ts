@@ -18,8 +18,15 @@ export const PATCH = route<undefined, typeof disposalRecordAmendmentInput, { id:
     const id = recordId(params.id, "No such disposal record");
     const record = await getDisposalRecord(db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), id });
     if (!record) throw new DomainError("not_found", "No such disposal record");
-    ForbiddenError.from(ability).throwUnlessCan("update", subject("Disposal", { organisationId: record.organisationId, branchId: record.branchId }));
-    const amendmentId = await amendDisposalRecord(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id, input: body });
+    ForbiddenError.from(ability).throwUnlessCan(
+      "update",
+      subject("Disposal", { organisationId: record.organisationId, branchId: record.branchId }),
+    );
+    const amendmentId = await amendDisposalRecord(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      id,
+      input: body,
+    });
     return { id, amendmentId };
   },
 );

@@ -18,8 +18,15 @@ export const PATCH = route<undefined, typeof disposalStatementAmendmentInput, { 
     const id = recordId(params.id, "No such signed statement");
     const statement = await getDisposalStatement(db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), id });
     if (!statement) throw new DomainError("not_found", "No such signed statement");
-    ForbiddenError.from(ability).throwUnlessCan("update", subject("Disposal", { organisationId: statement.organisationId, branchId: statement.branchId }));
-    const amendmentId = await amendDisposalStatement(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id, input: body });
+    ForbiddenError.from(ability).throwUnlessCan(
+      "update",
+      subject("Disposal", { organisationId: statement.organisationId, branchId: statement.branchId }),
+    );
+    const amendmentId = await amendDisposalStatement(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      id,
+      input: body,
+    });
     return { id, amendmentId };
   },
 );

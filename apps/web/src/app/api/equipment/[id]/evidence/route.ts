@@ -6,7 +6,13 @@ import { authorizeRegisterRecord } from "../../../appliances/_shared/register-ac
 
 type Params = { id: string };
 
-const EXTENSIONS: Record<string, string> = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp", "image/heic": "heic", "application/pdf": "pdf" };
+const EXTENSIONS: Record<string, string> = {
+  "image/jpeg": "jpg",
+  "image/png": "png",
+  "image/webp": "webp",
+  "image/heic": "heic",
+  "application/pdf": "pdf",
+};
 
 /** The certification evidence of a unit (label photo or certificate), for those who may read the unit. */
 export const GET = route<undefined, undefined, Params>({ can: ["read", "RecoveryEquipment"] }, async ({ actor, ability, db, params }) => {
@@ -40,28 +46,39 @@ export const GET = route<undefined, undefined, Params>({ can: ["read", "Recovery
  * Uploads the evidence of a unit's certification: a photo of its label or the certificate as PDF.
  * The type is checked by the file's bytes and its size limited; the client's file name is ignored.
  */
-export const POST = route<undefined, undefined, Params>({ can: ["update", "RecoveryEquipment"] }, async ({ req, actor, ability, db, params }) => {
-  const ref = await authorizeRegisterRecord({ actor, ability, db }, "equipment", params.id, "update");
-  const declared = Number(req.headers.get("content-length") ?? "0");
-  if (declared > MAX_UPLOAD_BYTES + 64 * 1024) throw new DomainError("invalid", `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, "file");
-  let form: FormData;
-  try {
-    form = await req.formData();
-  } catch {
-    throw new DomainError("invalid", "Send the file as a form upload", "file");
-  }
-  const file = form.get("file");
-  if (!(file instanceof Blob)) throw new DomainError("invalid", "Choose a photo or PDF to upload", "file");
-  if (file.size > MAX_UPLOAD_BYTES) throw new DomainError("invalid", `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, "file");
-  const bytes = new Uint8Array(await file.arrayBuffer());
-  let type: { mime: string; ext: string };
-  try {
-    type = await checkUpload(bytes);
-  } catch (err) {
-    if (err instanceof UploadRejected) throw new DomainError("invalid", err.message, "file");
-    throw err;
-  }
-  const key = await putFile({ prefix: `equipment/${ref.organisationId}/${ref.id}`, bytes, mime: type.mime, ext: type.ext });
-  await attachEquipmentEvidence(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id: ref.id, fileKey: key, mime: type.mime, bytes: bytes.byteLength });
-  return NextResponse.json({ ok: true, mime: type.mime }, { status: 201 });
-});
+export const POST = route<undefined, undefined, Params>(
+  { can: ["update", "RecoveryEquipment"] },
+  async ({ req, actor, ability, db, params }) => {
+    const ref = await authorizeRegisterRecord({ actor, ability, db }, "equipment", params.id, "update");
+    const declared = Number(req.headers.get("content-length") ?? "0");
+    if (declared > MAX_UPLOAD_BYTES + 64 * 1024)
+      throw new DomainError("invalid", `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, "file");
+    let form: FormData;
+    try {
+      form = await req.formData();
+    } catch {
+      throw new DomainError("invalid", "Send the file as a form upload", "file");
+    }
+    const file = form.get("file");
+    if (!(file instanceof Blob)) throw new DomainError("invalid", "Choose a photo or PDF to upload", "file");
+    if (file.size > MAX_UPLOAD_BYTES)
+      throw new DomainError("invalid", `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, "file");
+    const bytes = new Uint8Array(await file.arrayBuffer());
+    let type: { mime: string; ext: string };
+    try {
+      type = await checkUpload(bytes);
+    } catch (err) {
+      if (err instanceof UploadRejected) throw new DomainError("invalid", err.message, "file");
+      throw err;
+    }
+    const key = await putFile({ prefix: `equipment/${ref.organisationId}/${ref.id}`, bytes, mime: type.mime, ext: type.ext });
+    await attachEquipmentEvidence(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      id: ref.id,
+      fileKey: key,
+      mime: type.mime,
+      bytes: bytes.byteLength,
+    });
+    return NextResponse.json({ ok: true, mime: type.mime }, { status: 201 });
+  },
+);

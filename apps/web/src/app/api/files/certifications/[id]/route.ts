@@ -5,7 +5,13 @@ import { getFile } from "@/lib/server/storage";
 import { cardFor } from "../../../certifications/_lib/card-access";
 
 const variantQuery = z.object({ variant: z.enum(["card", "thumbnail"]).default("card") });
-const EXTENSIONS: Record<string, string> = { "image/jpeg": "jpg", "image/png": "png", "image/webp": "webp", "image/heic": "heic", "application/pdf": "pdf" };
+const EXTENSIONS: Record<string, string> = {
+  "image/jpeg": "jpg",
+  "image/png": "png",
+  "image/webp": "webp",
+  "image/heic": "heic",
+  "application/pdf": "pdf",
+};
 
 /**
  * A card's stored file (or its thumbnail), served only after the same permission check as the card

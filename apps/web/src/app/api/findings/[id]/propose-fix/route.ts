@@ -10,25 +10,41 @@ import { checkEvidenceFile, readForm, refuseWith, storeEvidence } from "../../_l
  * JSON `{ note }`, or multipart with `note` and `file`. Note and file are checked together; nothing is
  * stored unless both pass.
  */
-export const POST = route<undefined, undefined, { id: string }>({ can: ["propose_fix", "Finding"] }, async ({ req, actor, ability, db, params }) => {
-  const id = pathId(params.id, "finding");
-  const multipart = (req.headers.get("content-type") ?? "").includes("multipart/form-data");
-  let note: unknown;
-  let filePart: FormDataEntryValue | null = null;
-  if (multipart) {
-    const form = await readForm(req, "file");
-    note = form.get("note");
-    filePart = form.get("file");
-  } else {
-    note = ((await req.json().catch(() => ({}))) as { note?: unknown }).note;
-  }
-  const parsed = proposeFixInput.safeParse({ note });
-  const checked = await checkEvidenceFile(filePart);
-  const issues = [...(parsed.success ? [] : parsed.error.issues.map((i) => ({ code: "custom" as const, path: i.path.map(String), message: i.message }))), ...checked.issues];
-  if (issues.length > 0 || !parsed.success) refuseWith(issues);
-  const scope = scopeByAbility(ability, "propose_fix", "Finding", "findings");
-  const evidence = checked.file ? await storeEvidence(checked.file, { organisationId: actor.organisationId, findingId: id }, "Evidence of the fix") : null;
-  const res = await proposeFindingFix(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, scope, id, note: parsed.data.note, evidence });
-  deliverFindingMailLater(db, res.notificationIds);
-  return { id: res.id, state: res.state };
-});
+export const POST = route<undefined, undefined, { id: string }>(
+  { can: ["propose_fix", "Finding"] },
+  async ({ req, actor, ability, db, params }) => {
+    const id = pathId(params.id, "finding");
+    const multipart = (req.headers.get("content-type") ?? "").includes("multipart/form-data");
+    let note: unknown;
+    let filePart: FormDataEntryValue | null = null;
+    if (multipart) {
+      const form = await readForm(req, "file");
+      note = form.get("note");
+      filePart = form.get("file");
+    } else {
+      note = ((await req.json().catch(() => ({}))) as { note?: unknown }).note;
+    }
+    const parsed = proposeFixInput.safeParse({ note });
+    const checked = await checkEvidenceFile(filePart);
+    const issues = [
+      ...(parsed.success
+        ? []
+        : parsed.error.issues.map((i) => ({ code: "custom" as const, path: i.path.map(String), message: i.message }))),
+      ...checked.issues,
+    ];
+    if (issues.length > 0 || !parsed.success) refuseWith(issues);
+    const scope = scopeByAbility(ability, "propose_fix", "Finding", "findings");
+    const evidence = checked.file
+      ? await storeEvidence(checked.file, { organisationId: actor.organisationId, findingId: id }, "Evidence of the fix")
+      : null;
+    const res = await proposeFindingFix(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      scope,
+      id,
+      note: parsed.data.note,
+      evidence,
+    });
+    deliverFindingMailLater(db, res.notificationIds);
+    return { id: res.id, state: res.state };
+  },
+);

@@ -8,6 +8,11 @@ export const GET = route<typeof activityListQuery, undefined, { id: string }>(
   { can: ["read", "Activity"], query: activityListQuery },
   async ({ ability, db, params, query }) => {
     const person = await visiblePerson(db, ability, params.id);
-    return listRecordActivity(db, { scope: scopeByAbility(ability, "read", "Activity", "activity"), subjectType: "User", subjectId: person.id, query });
+    return listRecordActivity(db, {
+      scope: scopeByAbility(ability, "read", "Activity", "activity"),
+      subjectType: "User",
+      subjectId: person.id,
+      query,
+    });
   },
 );

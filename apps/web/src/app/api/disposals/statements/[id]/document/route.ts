@@ -11,7 +11,7 @@ export const GET = route<undefined, undefined, { id: string }>({ can: ["read", "
   const doc = await getStatementDocument(db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), id });
   if (!doc) throw new DomainError("not_found", "No such signed document");
   const file = await getFile(doc.key);
-  const ext = doc.mime === "application/pdf" ? "pdf" : doc.mime.split("/")[1] ?? "bin";
+  const ext = doc.mime === "application/pdf" ? "pdf" : (doc.mime.split("/")[1] ?? "bin");
   return new Response(Buffer.from(file.bytes), {
     headers: {
       "content-type": doc.mime,
@@ -23,15 +23,26 @@ export const GET = route<undefined, undefined, { id: string }>({ can: ["read", "
 });
 
 /** Attach (or replace) the signed document of a statement on record: an amendment with a reason. */
-export const POST = route<undefined, undefined, { id: string }>({ can: ["update", "Disposal"] }, async ({ req, actor, ability, db, params }) => {
-  const id = recordId(params.id, "No such signed statement");
-  const statement = await getDisposalStatement(db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), id });
-  if (!statement) throw new DomainError("not_found", "No such signed statement");
-  ForbiddenError.from(ability).throwUnlessCan("update", subject("Disposal", { organisationId: statement.organisationId, branchId: statement.branchId }));
-  const { fields, file } = await readMultipart(req);
-  const { reason } = statementDocumentInput.parse(fields);
-  if (!file) throw new DomainError("invalid", "Choose the signed document to upload", "document");
-  const document = await storeSignedDocument(file.bytes, actor.organisationId);
-  const amendmentId = await amendDisposalStatement(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, id, input: { reason, changes: {} }, document });
-  return { id, amendmentId };
-});
+export const POST = route<undefined, undefined, { id: string }>(
+  { can: ["update", "Disposal"] },
+  async ({ req, actor, ability, db, params }) => {
+    const id = recordId(params.id, "No such signed statement");
+    const statement = await getDisposalStatement(db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), id });
+    if (!statement) throw new DomainError("not_found", "No such signed statement");
+    ForbiddenError.from(ability).throwUnlessCan(
+      "update",
+      subject("Disposal", { organisationId: statement.organisationId, branchId: statement.branchId }),
+    );
+    const { fields, file } = await readMultipart(req);
+    const { reason } = statementDocumentInput.parse(fields);
+    if (!file) throw new DomainError("invalid", "Choose the signed document to upload", "document");
+    const document = await storeSignedDocument(file.bytes, actor.organisationId);
+    const amendmentId = await amendDisposalStatement(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      id,
+      input: { reason, changes: {} },
+      document,
+    });
+    return { id, amendmentId };
+  },
+);

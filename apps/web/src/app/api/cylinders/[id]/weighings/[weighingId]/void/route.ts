@@ -9,7 +9,12 @@ export const POST = route<undefined, typeof registerVoidInput, { id: string; wei
   async ({ actor, ability, db, body, params }) => {
     const ref = await authorizeRegisterRecord({ actor, ability, db }, "cylinder", params.id, "update");
     const weighingId = parseId(params.weighingId, "weighing");
-    await voidCylinderWeighing(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, cylinderId: ref.id, weighingId, reason: body.reason });
+    await voidCylinderWeighing(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      cylinderId: ref.id,
+      weighingId,
+      reason: body.reason,
+    });
     return { ok: true };
   },
 );
