@@ -80,6 +80,8 @@ export function ensureChromium(path = process.env.CHROMIUM_PATH ?? "/usr/bin/chr
     }
     if (existsSync(path)) return path;
   }
-  console.error(`✗ Chromium not found at ${path}. Install Debian's package with:\n    sudo apt-get install -y chromium\n  (or set CHROMIUM_PATH to another Chromium), then run npm test again.`);
+  console.error(
+    `✗ Chromium not found at ${path}. Install Debian's package with:\n    sudo apt-get install -y chromium\n  (or set CHROMIUM_PATH to another Chromium), then run npm test again.`,
+  );
   process.exit(1);
 }
