@@ -30,7 +30,16 @@ export async function branchesAllowed(
 export function canOnFinding(
   ability: AppAbility,
   action: Action,
-  f: { organisationId: number; branchId: number; technicianId: number | null },
+  f: { organisationId: number; branchId: number; technicianId: number | null; occurredOn?: string | null; openedAt?: string },
 ): boolean {
-  return ability.can(action, subject("Finding", { organisationId: f.organisationId, branchId: f.branchId, technicianId: f.technicianId }));
+  return ability.can(
+    action,
+    subject("Finding", {
+      organisationId: f.organisationId,
+      branchId: f.branchId,
+      technicianId: f.technicianId,
+      occurredOn: f.occurredOn ?? null,
+      openedAt: f.openedAt,
+    }),
+  );
 }
