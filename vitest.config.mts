@@ -10,6 +10,7 @@ export default defineConfig({
       "tests/reference/**/*.test.ts",
       "tests/db/**/*.test.ts",
       "tests/authz/**/*.test.ts",
+      "tests/routes/**/*.test.ts",
       "tests/unit/**/*.test.ts",
     ],
     environment: "node",
