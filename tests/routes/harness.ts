@@ -76,6 +76,7 @@ export async function createHarness(): Promise<Harness> {
   vi.doMock(web("lib/db.ts"), () => ({ db: () => t.db }));
   vi.doMock(web("lib/server/storage.ts"), async () => {
     const { RequestRefused } = await import(web("lib/api/errors.ts"));
+    const { DomainError } = await import("@coldtrail/db");
     const down = () => new RequestRefused(503, "unavailable", "file storage is unavailable, nothing was saved");
     return {
       storageUnavailable: down,
@@ -91,11 +92,29 @@ export async function createHarness(): Promise<Harness> {
       getFile: async (key: string) => {
         if (storage.down) throw down();
         const f = storage.files.get(key);
-        if (!f) throw Object.assign(new Error("NoSuchKey"), { name: "NoSuchKey", $metadata: { httpStatusCode: 404 } });
+        // As the real module answers a missing object.
+        if (!f)
+          throw Object.assign(new DomainError("not_found", "The file is not in storage"), {
+            name: "NoSuchKey",
+            $metadata: { httpStatusCode: 404 },
+          });
         return f;
       },
     };
   });
+  // Work the routes start in the background (re-checks, audit runs, import workers, mail) is left out:
+  // it is not part of answering the request, and a refused request must find the database still.
+  vi.doMock(web("lib/server/continuous-audit.ts"), () => ({ reevaluateAfterWrite: async () => undefined }));
+  vi.doMock(web("lib/server/audit-runner.ts"), () => ({ kickAuditRunner: () => undefined }));
+  vi.doMock(web("app/api/imports/_lib/import-worker.ts"), async (original) => ({
+    ...(await original<object>()),
+    startCommit: () => undefined,
+    startCheck: () => undefined,
+  }));
+  vi.doMock(web("lib/server/finding-mail.ts"), async (original) => ({
+    ...(await original<object>()),
+    deliverFindingMailLater: () => undefined,
+  }));
   // Mail is sent after answering; keep it from trying a server.
   vi.doMock(web("lib/server/mail.ts"), async (original) => ({ ...(await original<object>()), sendMail: async () => undefined }));
 

@@ -2,6 +2,7 @@ import "server-only";
 import { randomUUID } from "node:crypto";
 import { GetObjectCommand, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
 import { env } from "../env";
+import { DomainError } from "@coldtrail/db";
 import { RequestRefused } from "../api/errors";
 
 /**
@@ -28,6 +29,14 @@ export function storageUnavailable(): RequestRefused {
   return new RequestRefused(503, "unavailable", "file storage is unavailable, nothing was saved");
 }
 
+/** A stored file that is not there: 404, with the status S3 gives it so callers can tell. */
+export function fileMissing(): DomainError {
+  return Object.assign(new DomainError("not_found", "The file is not in storage"), {
+    name: "NoSuchKey",
+    $metadata: { httpStatusCode: 404 },
+  });
+}
+
 function isMissing(err: unknown): boolean {
   const e = err as { $metadata?: { httpStatusCode?: number }; name?: string } | null;
   return e?.name === "NoSuchKey" || e?.$metadata?.httpStatusCode === 404;
@@ -48,14 +57,17 @@ export async function putFile(opts: { prefix: string; bytes: Uint8Array; mime: s
   return key;
 }
 
-/** Reads a stored file; a missing object is rethrown as is (callers answer 404), anything else is 503. */
+/**
+ * Reads a stored file. A missing object is "not found" (404, still recognisable by its 404 status for
+ * callers with their own words); storage that cannot be reached is 503.
+ */
 export async function getFile(key: string): Promise<{ bytes: Uint8Array; mime: string }> {
   try {
     const res = await s3().send(new GetObjectCommand({ Bucket: env.S3_BUCKET, Key: key }));
     const bytes = await res.Body!.transformToByteArray();
     return { bytes, mime: res.ContentType ?? "application/octet-stream" };
   } catch (err) {
-    if (isMissing(err)) throw err;
+    if (isMissing(err)) throw fileMissing();
     console.error("file storage:", err);
     throw new RequestRefused(503, "unavailable", "file storage is unavailable; try again in a few minutes");
   }
