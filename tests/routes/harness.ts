@@ -67,6 +67,11 @@ export interface CallOptions {
 
 export const NOW = new Date("2026-12-01T12:00:00Z");
 
+async function firstRow(t: TestDb, sql: string): Promise<{ f: unknown }> {
+  const rows = (await t.db.raw(sql)) as Array<{ f: unknown }>;
+  return rows[0]!;
+}
+
 export async function createHarness(): Promise<Harness> {
   const t = await createSeededTestDb();
   const session: Harness["session"] = { signedIn: null };
@@ -170,11 +175,8 @@ export async function createHarness(): Promise<Harness> {
       .whereNot("name", "like", "knex_%")
       .select("name")
   ).map((r) => String(r.name));
-  const fingerprint = async () => {
-    const counts: string[] = [];
-    for (const table of tables) counts.push(`${table}=${(await t.db(table).count({ n: "*" }).first())!.n}`);
-    const updated = await t.db("activity").max({ id: "id" }).first();
-    return `${counts.join(",")};activity#${updated?.id}`;
-  };
+  // One query: the row count of every table and the newest activity id (every write appends to activity).
+  const fingerprintSql = `select ${tables.map((name) => `(select count(*) from "${name}")`).join(" || ',' || ")} || ';' || coalesce((select max(id) from activity), 0) as f`;
+  const fingerprint = async () => String((await firstRow(t, fingerprintSql)).f);
   return { t, actors, session, storage, load, signInAs, call, fingerprint };
 }

@@ -203,20 +203,18 @@ beforeAll(async () => {
     await h.t.db("findings").insert({ ...copy, identity_key: `matrix:${key}`, occurred_on: on, state: "open", technician_id: null });
   }
   // An open finding in the other organisation's branch (its audit may find nothing open there).
-  await h.t
-    .db("findings")
-    .insert({
-      ...copy,
-      organisation_id: 2,
-      branch_id: branch.otherOrg,
-      audit_id: null,
-      first_audit_id: null,
-      identity_key: "matrix:boise",
-      state: "open",
-      technician_id: null,
-      appliance_id: null,
-      assignee_id: null,
-    });
+  await h.t.db("findings").insert({
+    ...copy,
+    organisation_id: 2,
+    branch_id: branch.otherOrg,
+    audit_id: null,
+    first_audit_id: null,
+    identity_key: "matrix:boise",
+    state: "open",
+    technician_id: null,
+    appliance_id: null,
+    assignee_id: null,
+  });
   rec.finding = {} as Record<Place, { id: number; fields: Record<string, unknown> }>;
   for (const place of PLACES_DATED) {
     const q = h.t.db("findings").where({ branch_id: branch[place], state: "open" }).orderBy("id");

@@ -17,7 +17,7 @@ export function publicRoute<B extends z.ZodType>(
   spec: { body: B; maxBody?: number },
   handler: (ctx: { req: NextRequest; db: ReturnType<typeof db>; body: z.output<B> }) => Promise<unknown>,
 ) {
-  return async (req: NextRequest): Promise<Response> => {
+  const handle = async (req: NextRequest): Promise<Response> => {
     try {
       checkRequestOrigin(req, "json");
       const json = parseJsonBody(await readBodyLimited(req, spec.maxBody ?? DEFAULT_JSON_LIMIT));
@@ -32,4 +32,5 @@ export function publicRoute<B extends z.ZodType>(
       return toErrorResponse(err);
     }
   };
+  return Object.assign(handle, { spec });
 }

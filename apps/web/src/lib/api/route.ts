@@ -70,7 +70,7 @@ export function route<
   P extends Record<string, string> = Record<string, string>,
   PS extends z.ZodType | undefined = undefined,
 >(spec: RouteSpec<Q, B, PS>, handler: (ctx: RouteContext<Out<Q>, Out<B>, ParamsOut<PS, P>>) => Promise<unknown>) {
-  return async (incoming: NextRequest, context: { params: Promise<Record<string, string>> }): Promise<Response> => {
+  const handle = async (incoming: NextRequest, context: { params: Promise<Record<string, string>> }): Promise<Response> => {
     try {
       const signedIn = await currentActor();
       if (!signedIn) return errorResponse(401, { code: "unauthenticated", message: "Sign in to continue" });
@@ -123,4 +123,6 @@ export function route<
       return toErrorResponse(err);
     }
   };
+  // The spec travels with the handler, so tests can reach every route's schemas (the fuzz suite).
+  return Object.assign(handle, { spec });
 }

@@ -23,7 +23,8 @@ export const POST = route<undefined, undefined, { id: string }>(
       note = form.get("note");
       filePart = form.get("file");
     } else {
-      note = ((await req.json().catch(() => ({}))) as { note?: unknown }).note;
+      const json: unknown = await req.json().catch(() => null);
+      note = json !== null && typeof json === "object" ? (json as { note?: unknown }).note : undefined;
     }
     const parsed = proposeFixInput.safeParse({ note });
     const checked = await checkEvidenceFile(filePart);
