@@ -20,9 +20,9 @@ import { loadBranchRecords } from "./load-branch-records";
 
 const BATCH = 1000;
 
-const scoped = (qb: Knex.QueryBuilder, scope: ScopeFn) =>
+const scoped = (qb: Knex.QueryBuilder, scope: ScopeFn, columns?: Partial<Record<string, string>>) =>
   qb.where(function inScope(this: Knex.QueryBuilder) {
-    scope(this);
+    scope(this, columns);
   });
 
 export interface FindingExportRow {
@@ -508,6 +508,7 @@ export async function* disposalExportRows(
         .whereNull("d.voided_at")
         .whereBetween(`d.${dateColumn}`, [opts.from, opts.to]),
       opts.scope,
+      { recordedOn: `d.${dateColumn}` },
     ).orderBy("d.id");
   for (const r of await base("disposal_records", "disposed_on").select(
     "d.*",

@@ -13,10 +13,10 @@ export interface RecordPage<T> {
 
 export type Db = Knex | Knex.Transaction;
 
-/** ANDs the caller's permission scope into a query as one parenthesised block. */
-export function scoped(qb: Knex.QueryBuilder, scope: ScopeFn): Knex.QueryBuilder {
+/** ANDs the caller's permission scope into a query as one parenthesised block; `columns` as in ScopeFn. */
+export function scoped(qb: Knex.QueryBuilder, scope: ScopeFn, columns?: Partial<Record<string, string>>): Knex.QueryBuilder {
   return qb.where(function inScope(this: Knex.QueryBuilder) {
-    scope(this);
+    scope(this, columns);
   });
 }
 

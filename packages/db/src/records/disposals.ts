@@ -23,7 +23,8 @@ import { countRows, whereContains } from "../paging";
 /**
  * Disposal records (82.155(c), appliances of more than 5 and less than 50 lb) and signed statements
  * for small appliances (82.155(b)). Both are regulated records: corrected by amendment, voided with a
- * reason, never deleted. List scopes see the tables aliased `d` (`d.branch_id`, `d.organisation_id`).
+ * reason, never deleted. List scopes see the tables aliased `d` (`d.branch_id`, `d.organisation_id`),
+ * and the record's date as `recordedOn` (`d.disposed_on` for records, `d.recovered_on` for statements).
  */
 
 export interface DisposalListRow {
@@ -71,7 +72,7 @@ export async function listDisposals(db: Knex, opts: { scope: ScopeFn; query: Dis
   const table = isRecord ? "disposal_records" : "disposal_statements";
   const dateColumn = isRecord ? "d.disposed_on" : "d.recovered_on";
   const filtered = (qb: Knex.QueryBuilder) => {
-    scoped(qb, opts.scope);
+    scoped(qb, opts.scope, { recordedOn: dateColumn });
     applyVoided(qb, "d.voided_at", query.voided);
     if (query.branchId) qb.where("d.branch_id", query.branchId);
     if (query.from) qb.where(dateColumn, ">=", query.from);
@@ -224,7 +225,7 @@ function detailQuery(db: Knex, table: string, id: number, scope: ScopeFn) {
       "appliance.full_charge_g as appliance_full_charge_g",
       "creator.name as created_by_name",
     );
-  scoped(q, scope);
+  scoped(q, scope, { recordedOn: table === "disposal_records" ? "d.disposed_on" : "d.recovered_on" });
   return q.first();
 }
 
@@ -269,7 +270,7 @@ export async function getStatementDocument(
   opts: { scope: ScopeFn; id: number },
 ): Promise<{ key: string; mime: string } | undefined> {
   const q = db("disposal_statements as d").where("d.id", opts.id).whereNotNull("d.document_file_key");
-  scoped(q, opts.scope);
+  scoped(q, opts.scope, { recordedOn: "d.recovered_on" });
   const r = await q.first("d.document_file_key", "d.document_mime");
   return r ? { key: r.document_file_key, mime: r.document_mime ?? "application/octet-stream" } : undefined;
 }

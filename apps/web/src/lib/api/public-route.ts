@@ -4,24 +4,23 @@ import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { db } from "../db";
 import { errorResponse, fieldErrorsOf, toErrorResponse } from "./errors";
+import { DEFAULT_JSON_LIMIT, parseJsonBody, readBodyLimited } from "./body";
+import { checkRequestOrigin } from "./origin";
 
 /**
  * The few routes a person uses before they can sign in (accepting an invitation, asking for and using
  * a password-reset link). No session and no ability: what they may do is decided by the single-use
- * token in the body. Same zod validation (400 with field errors) and the same error mapping as `route()`.
+ * token in the body. The same request checks as `route()` (own origin, JSON, body read as a stream up to
+ * `maxBody`, default 64 KB, 413 past it), zod validation (400 with field errors) and error mapping.
  */
 export function publicRoute<B extends z.ZodType>(
-  spec: { body: B },
+  spec: { body: B; maxBody?: number },
   handler: (ctx: { req: NextRequest; db: ReturnType<typeof db>; body: z.output<B> }) => Promise<unknown>,
 ) {
-  return async (req: NextRequest): Promise<Response> => {
+  const handle = async (req: NextRequest): Promise<Response> => {
     try {
-      let json: unknown;
-      try {
-        json = await req.json();
-      } catch {
-        return errorResponse(400, { code: "invalid", message: "The request body must be JSON" });
-      }
+      checkRequestOrigin(req, "json");
+      const json = parseJsonBody(await readBodyLimited(req, spec.maxBody ?? DEFAULT_JSON_LIMIT));
       const parsed = spec.body.safeParse(json);
       if (!parsed.success) {
         return errorResponse(400, { code: "invalid", message: "Some fields need attention", fieldErrors: fieldErrorsOf(parsed.error) });
@@ -33,4 +32,5 @@ export function publicRoute<B extends z.ZodType>(
       return toErrorResponse(err);
     }
   };
+  return Object.assign(handle, { spec });
 }
