@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { text } from "./text";
 import { ACCESS_METHODS, EVACUATION_UNITS } from "../vocabulary";
 import { amendmentReason, DISPOSAL_PATHS } from "./jobs";
 import {
@@ -12,6 +13,7 @@ import {
   optionalTextField,
   refineEvacuationReading,
   refineTemporaryAccess,
+  refineRecordableMass,
   refuseFutureDate,
   requiredTextField,
 } from "./recovery-job";
@@ -38,6 +40,7 @@ export const disposalRecordInput = z
   .superRefine((v, ctx) => {
     refuseFutureDate(ctx, v.disposedOn, "disposedOn", "The disposal date cannot be in the future");
     refuseFutureDate(ctx, v.recoveredOn, "recoveredOn", "The date of recovery cannot be in the future");
+    refineRecordableMass(ctx, v.recoveredAmount, v.recoveredUnit, "recoveredAmount");
   });
 export type DisposalRecordInput = z.infer<typeof disposalRecordInput>;
 
@@ -75,7 +78,10 @@ export const shopDisposalItem = z
     evacuationUnit: z.enum(EVACUATION_UNITS, { error: "Choose the unit of the evacuation level" }),
     compressorOperating: z.boolean().nullable().optional(),
   })
-  .superRefine((v, ctx) => refineEvacuationReading(ctx, v.evacuationValue, v.evacuationUnit));
+  .superRefine((v, ctx) => {
+    refineRecordableMass(ctx, v.recoveredAmount, v.recoveredUnit, "recoveredAmount");
+    refineEvacuationReading(ctx, v.evacuationValue, v.evacuationUnit);
+  });
 
 /**
  * The quick path for retired units waiting at the shop: several appliances recovered into one
@@ -117,7 +123,7 @@ export const disposalListQuery = z.object({
   branchId: z.coerce.number().int().positive().optional(),
   from: isoDateField.optional(),
   to: isoDateField.optional(),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
   voided: z.enum(VOIDED_FILTERS).optional(),
 });
 export type DisposalListQuery = z.infer<typeof disposalListQuery>;
@@ -147,7 +153,8 @@ export const disposalRecordAmendmentInput = z.object({
     .refine((c) => c.recoveredAmount === undefined || c.recoveredUnit !== undefined, {
       path: ["recoveredUnit"],
       message: "Choose the unit of the quantity",
-    }),
+    })
+    .superRefine((c, ctx) => refineRecordableMass(ctx, c.recoveredAmount, c.recoveredUnit, "recoveredAmount")),
 });
 export type DisposalRecordAmendmentInput = z.infer<typeof disposalRecordAmendmentInput>;
 
