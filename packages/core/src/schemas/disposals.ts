@@ -13,6 +13,7 @@ import {
   optionalTextField,
   refineEvacuationReading,
   refineTemporaryAccess,
+  confirmOverFillField,
   refineRecordableMass,
   refuseFutureDate,
   requiredTextField,
@@ -96,6 +97,7 @@ export const shopDisposalBatchInput = z
     temporaryAccessRemoved: z.boolean().nullable().optional(),
     sentTo: optionalTextField(200, "Where they go"),
     confirmStatement: z.literal(true, { error: "Confirm that you recovered the refrigerant before saving" }),
+    confirmOverFill: confirmOverFillField,
     items: z.array(shopDisposalItem).min(1, "Pick at least one appliance").max(50, "At most 50 appliances at a time"),
   })
   .superRefine((v, ctx) => {

@@ -3,6 +3,7 @@ import { text } from "./text";
 import { ACCESS_METHODS, EVACUATION_UNITS, JOB_KINDS } from "../vocabulary";
 import {
   MASS_INPUT_UNITS,
+  confirmOverFillField,
   enteredValue,
   idField,
   isoDateField,
@@ -195,6 +196,7 @@ export const amendmentReason = text({ error: "Say why the record is being correc
 export const jobAmendmentInput = z
   .object({
     reason: amendmentReason,
+    confirmOverFill: confirmOverFillField,
     changes: z
       .object({
         performedOn: isoDateField.optional(),

@@ -115,6 +115,15 @@ export function refineTemporaryAccess(
   }
 }
 
+/**
+ * The tick that confirms saving a cylinder above its safe fill. The server asks for it (a field error
+ * on `confirmOverFill`) only when the amount would put the cylinder over; the form then shows it.
+ */
+export const confirmOverFillField = z.preprocess(
+  (v) => (v === "true" || v === "on" ? true : v === "false" || v === "" || v === null ? undefined : v),
+  z.boolean().optional(),
+);
+
 /** What a recovery takes out of an appliance; shared by recovery and disposal jobs. */
 export const recoveryShape = {
   applianceId: id("the appliance"),
@@ -140,6 +149,7 @@ export const recoveryShape = {
   temporaryAccessRemoved: z.boolean().nullable().optional(),
   compressorOperating: z.boolean().nullable().optional(),
   notes: text().trim().max(2000, "Notes are limited to 2,000 characters").optional(),
+  confirmOverFill: confirmOverFillField,
 };
 
 export function refineRecovery(

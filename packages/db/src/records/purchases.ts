@@ -5,7 +5,7 @@ import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from ".
 import { RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
 import { toNumOrNull, type ActorRef, type ScopeFn } from "../types";
-import { applyVoided, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
+import { applyVoided, assertRecordDate, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
 import { countRows, whereContains } from "../paging";
 
 /** Refrigerant bought by a branch; each purchase has one `purchased` movement. List scopes see the table as `p`. */
@@ -130,6 +130,14 @@ export async function createPurchase(db: Knex, opts: { actor: ActorRef; input: P
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const branch = await writableBranch(trx, actor.organisationId, input.branchId);
+    await assertRecordDate(trx, {
+      organisationId: actor.organisationId,
+      timeZone: branch.timeZone,
+      date: input.purchasedOn,
+      field: "purchasedOn",
+      what: "The purchase date",
+      now: opts.now,
+    });
     const grams = toGrams(input.amount, input.unit);
     const [row] = await trx("purchases")
       .insert({
@@ -139,6 +147,8 @@ export async function createPurchase(db: Knex, opts: { actor: ActorRef; input: P
         supplier_name: input.supplierName,
         refrigerant: input.refrigerant,
         mass_g: grams,
+        amount_entered: input.amount,
+        amount_unit: input.unit,
         container_count: input.containerCount ?? null,
         invoice_reference: textOrNull(input.invoiceReference),
         created_by: actor.userId,
@@ -184,9 +194,24 @@ export async function amendPurchase(
     if (!p) throw new RecordNotFoundError("No such purchase");
     const c = input.changes;
     const changes: Record<string, unknown> = {};
-    if (c.purchasedOn !== undefined) changes.purchased_on = c.purchasedOn;
+    if (c.purchasedOn !== undefined) {
+      const branch = await trx("branches").where({ id: p.branch_id }).first("time_zone");
+      await assertRecordDate(trx, {
+        organisationId: actor.organisationId,
+        timeZone: String(branch?.time_zone ?? "UTC"),
+        date: c.purchasedOn,
+        field: "changes.purchasedOn",
+        what: "The purchase date",
+        now: opts.now,
+      });
+      changes.purchased_on = c.purchasedOn;
+    }
     if (c.supplierName !== undefined) changes.supplier_name = c.supplierName;
-    if (c.amount !== undefined && c.unit !== undefined) changes.mass_g = toGrams(c.amount, c.unit);
+    if (c.amount !== undefined && c.unit !== undefined) {
+      changes.mass_g = toGrams(c.amount, c.unit);
+      changes.amount_entered = c.amount;
+      changes.amount_unit = c.unit;
+    }
     if (c.containerCount !== undefined) changes.container_count = c.containerCount;
     if (c.invoiceReference !== undefined) changes.invoice_reference = c.invoiceReference;
     const amendmentId = await amendRecord(trx, {
