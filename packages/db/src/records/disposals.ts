@@ -13,6 +13,7 @@ import {
 } from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
 import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from "../amendments";
+import { enteredAmount, type MassUnit } from "@coldtrail/core";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { insertJob } from "../jobs/write-job";
 import { describeMass } from "../mass";
@@ -167,6 +168,8 @@ export interface DisposalRecordDetail extends DisposalBase {
   recoveredByName: string | null;
   refrigerant: string | null;
   recoveredG: number | null;
+  /** The quantity as it was typed, while it still matches the grams. */
+  recoveredEntered: { amount: number; unit: MassUnit } | null;
   sentTo: string | null;
 }
 
@@ -242,6 +245,8 @@ export async function getDisposalRecord(db: Knex, opts: { scope: ScopeFn; id: nu
     recoveredByName: r.recovered_by_name ?? null,
     refrigerant: r.refrigerant ?? null,
     recoveredG: toNumOrNull(r.recovered_g),
+    recoveredEntered:
+      r.recovered_g === null ? null : enteredAmount(Number(r.recovered_g), toNumOrNull(r.recovered_entered), r.recovered_unit),
     sentTo: r.sent_to ?? null,
   };
 }

@@ -5,6 +5,7 @@ import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from ".
 import { RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
 import { toNumOrNull, type ActorRef, type ScopeFn } from "../types";
+import { enteredAmount, type MassUnit } from "@coldtrail/core";
 import { applyVoided, assertRecordDate, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
 import { countRows, whereContains } from "../paging";
 
@@ -30,6 +31,8 @@ export interface PurchaseRow {
 
 export interface PurchaseDetail extends PurchaseRow {
   amendments: AmendmentRecord[];
+  /** The quantity as it was typed, while it still matches the grams. */
+  enteredAmount: { amount: number; unit: MassUnit } | null;
 }
 
 const SORT: Record<PurchaseListQuery["sort"], string> = {
@@ -108,11 +111,12 @@ export async function listPurchases(db: Knex, opts: { scope: ScopeFn; query: Pur
 export async function getPurchase(db: Knex, opts: { scope: ScopeFn; id: number }): Promise<PurchaseDetail | undefined> {
   const q = joined(db).where("p.id", opts.id);
   scoped(q, opts.scope);
-  const r = await q.first(COLUMNS);
+  const r = await q.first([...COLUMNS, "p.amount_entered", "p.amount_unit"]);
   if (!r) return undefined;
   const row = toRow(r);
   return {
     ...row,
+    enteredAmount: enteredAmount(row.massG, r.amount_entered === null ? null : Number(r.amount_entered), r.amount_unit),
     amendments: await listAmendments(db, { organisationId: row.organisationId, subjectType: "Purchase", subjectId: row.id }),
   };
 }

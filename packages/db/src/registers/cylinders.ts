@@ -1,6 +1,8 @@
 import type { Knex } from "knex";
 import {
   checkCylinderFill,
+  enteredAmount,
+  type MassUnit,
   REGISTER_LABELS,
   addDays,
   fahrenheitToCelsius,
@@ -512,6 +514,8 @@ export interface CylinderWeighingRow {
   id: number;
   weighedOn: string;
   grossG: number;
+  /** The scale reading as it was typed, while it still matches the grams. */
+  grossEntered: { amount: number; unit: MassUnit } | null;
   netG: number;
   refrigerant: string | null;
   pressurePsig: number | null;
@@ -551,6 +555,7 @@ export async function listCylinderWeighings(
       id: Number(w.id),
       weighedOn: w.weighed_on,
       grossG: Number(w.gross_g),
+      grossEntered: enteredAmount(Number(w.gross_g), toNumOrNull(w.gross_entered), w.gross_unit),
       netG: Number(w.net_g),
       refrigerant: w.refrigerant ?? null,
       pressurePsig: toNumOrNull(w.pressure_psig),

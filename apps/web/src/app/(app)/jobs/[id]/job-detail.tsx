@@ -150,6 +150,7 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
     value: g,
     unitField: "amountUnit",
     massUnit: j.branchMassUnit,
+    entered: j.enteredAmount,
   };
 
   const fields: AmendField[] = [{ name: "performedOn", label: "Date of the work", type: "date", value: j.performedOn }];
