@@ -1,5 +1,5 @@
 import { NextResponse } from "next/server";
-import { importListQuery, importUploadInput, suggestImportMapping } from "@coldtrail/core";
+import { fileNameText, importListQuery, importUploadInput, suggestImportMapping } from "@coldtrail/core";
 import { DomainError, createImport, listImports, scopeByAbility } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
 import { putFile } from "@/lib/server/storage";
@@ -11,9 +11,11 @@ export const GET = route({ can: ["read", "Import"], query: importListQuery }, as
   return listImports(db, { scope: scopeByAbility(ability, "read", "Import", "imports"), query });
 });
 
-/** A display name with nothing path-like in it (never used as a storage key). */
+/** A display name with nothing path-like in it (never used as a storage key), cleaned like every text field. */
 function displayName(name: string): string {
-  const base = name.split(/[\\/]/).pop() ?? "";
+  const named = fileNameText.safeParse(name.split(/[\\/]/).pop() ?? "");
+  if (!named.success) throw new DomainError("invalid", `That file name is not accepted: ${named.error.issues[0]?.message ?? "rename the file"}`, "file");
+  const base = named.data;
   // eslint-disable-next-line no-control-regex
   const clean = base.replace(/[\u0000-\u001f\u007f]/g, "").trim();
   return (clean || "spreadsheet").slice(0, 200);
@@ -36,6 +38,7 @@ export const POST = route({ can: ["create", "Import"] }, async ({ req, actor, ab
 
   const part = form.get("file");
   if (!(part instanceof File) || part.size === 0) throw new DomainError("invalid", "Choose the spreadsheet to import", "file");
+  const label = displayName(part.name);
   let format: "xlsx" | "csv";
   let bytes: Uint8Array;
   let read: Awaited<ReturnType<typeof readHeadings>>;
@@ -56,7 +59,7 @@ export const POST = route({ can: ["create", "Import"] }, async ({ req, actor, ab
     actor: { userId: actor.userId, organisationId: actor.organisationId },
     branchId: fields.branchId,
     kind: fields.kind,
-    file: { key, format, label: displayName(part.name), size: bytes.byteLength },
+    file: { key, format, label, size: bytes.byteLength },
     headings: read.headings,
     sample: read.sample,
     mapping: suggestImportMapping(fields.kind, read.headings),

@@ -1,6 +1,6 @@
 import "server-only";
 import { z } from "zod";
-import { isPathLikeFileName } from "@coldtrail/core";
+import { fileNameText, isPathLikeFileName } from "@coldtrail/core";
 import { MAX_UPLOAD_BYTES, UploadRejected, checkUpload, putFile } from "@/lib/server/storage";
 
 /**
@@ -29,6 +29,8 @@ export async function checkCardFile(part: FormDataEntryValue | null): Promise<{ 
   if (part.size === 0) return refuse("The file is empty");
   if (isPathLikeFileName(part.name))
     return refuse("That file name is not accepted (it looks like a folder path); rename the file and try again");
+  const named = fileNameText.safeParse(part.name);
+  if (!named.success) return refuse(`That file name is not accepted: ${named.error.issues[0]?.message ?? "rename the file"}`);
   if (part.size > MAX_UPLOAD_BYTES)
     return refuse(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB; take a smaller photo or scan`);
   const bytes = new Uint8Array(await part.arrayBuffer());
