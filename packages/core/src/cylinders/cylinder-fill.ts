@@ -106,7 +106,12 @@ export function checkCylinderFill(input: {
 }): CylinderFillVerdict {
   let max: MaxFill;
   try {
-    max = maxCylinderFill({ waterCapacityG: input.waterCapacityG, tareG: input.tareG, refrigerant: input.refrigerant, strict130F: input.strict130F });
+    max = maxCylinderFill({
+      waterCapacityG: input.waterCapacityG,
+      tareG: input.tareG,
+      refrigerant: input.refrigerant,
+      strict130F: input.strict130F,
+    });
   } catch (err) {
     if (!(err instanceof UnknownRefrigerantError)) throw err;
     max = maxCylinderFill({ waterCapacityG: input.waterCapacityG, tareG: input.tareG, refrigerant: input.refrigerant, specificGravity: 1 });

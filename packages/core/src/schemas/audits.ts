@@ -3,8 +3,7 @@ import { text } from "./text";
 import { calendarDate } from "./calendar-date";
 import { FINDING_STATES, RULE_PACKS, SEVERITIES } from "../vocabulary";
 
-const isoDate = (what: string) =>
-  calendarDate(`Use a date like 2026-03-14 for ${what}`, { error: `Enter ${what}` });
+const isoDate = (what: string) => calendarDate(`Use a date like 2026-03-14 for ${what}`, { error: `Enter ${what}` });
 const positiveId = (what: string) =>
   z.coerce
     .number({ error: `Choose ${what}` })

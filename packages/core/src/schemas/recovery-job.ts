@@ -55,7 +55,11 @@ export function refineRecordableMass(ctx: z.RefinementCtx, amount: number | unde
   if (amount === undefined || unit === undefined || !Number.isFinite(amount) || amount === 0) return;
   if (!(MASS_INPUT_UNITS as readonly string[]).includes(unit)) return;
   if (toGrams(amount, unit as MassInputUnit) === 0)
-    ctx.addIssue({ code: "custom", path: [path], message: `${amount} ${unit} is less than half a gram: too small to record; check the amount and unit` });
+    ctx.addIssue({
+      code: "custom",
+      path: [path],
+      message: `${amount} ${unit} is less than half a gram: too small to record; check the amount and unit`,
+    });
 }
 
 /** Optional free text: trimmed, empty becomes undefined. */

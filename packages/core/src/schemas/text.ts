@@ -49,4 +49,7 @@ export const text = (params?: Parameters<typeof z.string>[0]) =>
     });
 
 /** An uploaded file's name, as shown back to people: the same cleaning, and at most 255 characters. */
-export const fileNameText = text({ error: "The file has no name" }).trim().min(1, "The file has no name").max(255, "The file name is too long");
+export const fileNameText = text({ error: "The file has no name" })
+  .trim()
+  .min(1, "The file has no name")
+  .max(255, "The file name is too long");

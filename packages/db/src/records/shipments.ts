@@ -268,7 +268,10 @@ export async function amendShipment(
     const c = input.changes;
     const changes: Record<string, unknown> = {};
     if (c.shippedOn !== undefined) {
-      const row = await trx("reclaim_shipments as s").join("branches as b", "b.id", "s.branch_id").where("s.id", opts.id).first("b.time_zone");
+      const row = await trx("reclaim_shipments as s")
+        .join("branches as b", "b.id", "s.branch_id")
+        .where("s.id", opts.id)
+        .first("b.time_zone");
       await assertRecordDate(trx, {
         organisationId: actor.organisationId,
         timeZone: String(row?.time_zone ?? "UTC"),

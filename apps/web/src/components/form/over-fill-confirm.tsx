@@ -27,8 +27,8 @@ export function OverFillConfirm({
         {message}
       </p>
       <p className="text-sm text-ink-700">
-        Do not move or heat an overfilled cylinder; transfer the excess with recovery equipment. Local codes and licensed
-        practice take precedence.
+        Do not move or heat an overfilled cylinder; transfer the excess with recovery equipment. Local codes and licensed practice take
+        precedence.
       </p>
       <label htmlFor={id} className="flex min-h-12 cursor-pointer items-start gap-3">
         <input

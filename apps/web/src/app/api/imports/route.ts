@@ -14,7 +14,8 @@ export const GET = route({ can: ["read", "Import"], query: importListQuery }, as
 /** A display name with nothing path-like in it (never used as a storage key), cleaned like every text field. */
 function displayName(name: string): string {
   const named = fileNameText.safeParse(name.split(/[\\/]/).pop() ?? "");
-  if (!named.success) throw new DomainError("invalid", `That file name is not accepted: ${named.error.issues[0]?.message ?? "rename the file"}`, "file");
+  if (!named.success)
+    throw new DomainError("invalid", `That file name is not accepted: ${named.error.issues[0]?.message ?? "rename the file"}`, "file");
   const base = named.data;
   // eslint-disable-next-line no-control-regex
   const clean = base.replace(/[\u0000-\u001f\u007f]/g, "").trim();
