@@ -9,6 +9,7 @@ import type {
   MassDisplayUnit,
   RecoveryJobInput,
 } from "@coldtrail/core";
+import { enteredAmount, type MassUnit } from "@coldtrail/core";
 import { listAmendments, type AmendmentRecord } from "./amendments";
 import { InvalidInputError } from "./errors";
 import { leakRateOfJob } from "./jobs/check-draft";
@@ -227,6 +228,8 @@ export interface JobDetail extends JobListRow {
   /** Disposals: the record or signed statement kept for it, if any. */
   disposalRecordId: number | null;
   disposalStatementId: number | null;
+  /** Recovery, disposal and charge jobs: the amount as it was typed, while it still matches the grams. */
+  enteredAmount: { amount: number; unit: MassUnit } | null;
 }
 
 /** One job the scope allows (voided ones included), with its refrigerant movements; undefined otherwise. */
@@ -265,6 +268,8 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     "voider.name as voided_by_name",
     "branch.time_zone as branch_time_zone",
     "appliance.status as appliance_status",
+    "jobs.amount_entered",
+    "jobs.amount_unit",
   ]);
   if (!r) return undefined;
   const movements = await db("refrigerant_movements as mv")
@@ -319,6 +324,11 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     amendments,
     disposalRecordId: record ? Number(record.id) : null,
     disposalStatementId: statement ? Number(statement.id) : null,
+    enteredAmount: enteredAmount(
+      kind === "charge" ? Number(r.charged_g) : Number(r.recovered_g),
+      toNumOrNull(r.amount_entered),
+      r.amount_unit,
+    ),
     movements: movements.map((m) => ({
       id: Number(m.id),
       direction: m.direction,

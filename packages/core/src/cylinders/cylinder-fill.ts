@@ -81,3 +81,45 @@ export function cylinderAcceptsRefrigerant(contents: { refrigerant: string | nul
   if (!contents || contents.refrigerant === null || contents.netG <= 0) return true;
   return normaliseDesignation(contents.refrigerant) === normaliseDesignation(incoming);
 }
+
+/** What adding refrigerant to a cylinder would make of it. */
+export type CylinderFillVerdict =
+  | { kind: "ok"; maxNetG: number; liquidFullG: number }
+  | { kind: "over_safe_fill"; maxNetG: number; liquidFullG: number }
+  | { kind: "impossible"; maxNetG: number; liquidFullG: number };
+
+/**
+ * Checks contents against the cylinder. Above the safe fill (80 % of WC × SG, AHRI Guideline K) is
+ * possible but dangerous: it needs an explicit confirmation. Above WC × SG at 77 °F the liquid alone
+ * would fill the whole cylinder, which no real cylinder holds, so such a record is refused as a
+ * typing or unit error. The bound is the water capacity times the liquid's specific gravity, not the
+ * water capacity alone: a dense refrigerant (R-134a, SG about 1.2) weighs more than the same volume
+ * of water, a light one (R-290, SG about 0.5) much less. Without a catalogued SG the label rule
+ * SG = 1 is used (the bound is then the water capacity).
+ */
+export function checkCylinderFill(input: {
+  contentsG: number;
+  waterCapacityG: number;
+  tareG: number;
+  refrigerant: string;
+  strict130F?: boolean;
+}): CylinderFillVerdict {
+  let max: MaxFill;
+  try {
+    max = maxCylinderFill({
+      waterCapacityG: input.waterCapacityG,
+      tareG: input.tareG,
+      refrigerant: input.refrigerant,
+      strict130F: input.strict130F,
+    });
+  } catch (err) {
+    if (!(err instanceof UnknownRefrigerantError)) throw err;
+    max = maxCylinderFill({ waterCapacityG: input.waterCapacityG, tareG: input.tareG, refrigerant: input.refrigerant, specificGravity: 1 });
+  }
+  const sg77 = getRefrigerant(input.refrigerant)?.sg77F ?? 1;
+  const liquidFullG = Math.floor(input.waterCapacityG * sg77);
+  const out = { maxNetG: max.maxNetG, liquidFullG };
+  if (input.contentsG > liquidFullG) return { kind: "impossible", ...out };
+  if (input.contentsG > max.maxNetG) return { kind: "over_safe_fill", ...out };
+  return { kind: "ok", ...out };
+}

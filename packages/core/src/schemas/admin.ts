@@ -1,4 +1,6 @@
 import { z } from "zod";
+import { text } from "./text";
+import { calendarDate } from "./calendar-date";
 import { MASS_DISPLAY_UNITS, RULE_PACKS, type MassDisplayUnit, type Role, type RulePack } from "../vocabulary";
 
 /**
@@ -70,12 +72,7 @@ export const PASSWORD_RESET_VALID_MINUTES = 60;
 
 // ------------------------------------------------------------------------------------------- helpers
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date like 2026-03-14");
-const isRealDate = (s: string) => {
-  const d = new Date(`${s}T00:00:00Z`);
-  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
-};
-const calendarDate = (what: string) => isoDate.refine(isRealDate, `${what} is not a real calendar date`);
+const grantDate = (what: string) => calendarDate(`${what}: use a date like 2026-03-14`);
 
 /** A number typed into a form: an empty box means "not entered", never zero. */
 const entered = <T extends z.ZodType>(schema: T) =>
@@ -95,16 +92,14 @@ export function isValidTimeZone(value: string): boolean {
   }
 }
 
-const email = z
-  .string({ error: "Enter an e-mail address" })
+const email = text({ error: "Enter an e-mail address" })
   .trim()
   .toLowerCase()
   .min(1, "Enter an e-mail address")
   .max(320, "That e-mail address is too long")
   .pipe(z.email("Enter a valid e-mail address, like name@company.example"));
 
-const personName = z
-  .string({ error: "Enter the person's name" })
+const personName = text({ error: "Enter the person's name" })
   .trim()
   .min(2, "Enter the person's full name")
   .max(200, "Names are limited to 200 characters");
@@ -123,23 +118,20 @@ const paging = {
 
 // ------------------------------------------------------------------------------------------ branches
 
-const branchName = z
-  .string({ error: "Enter the branch name" })
+const branchName = text({ error: "Enter the branch name" })
   .trim()
   .min(2, "Enter the branch name")
   .max(200, "Branch names are limited to 200 characters");
-const timeZone = z
-  .string({ error: "Choose the branch's time zone" })
+const timeZone = text({ error: "Choose the branch's time zone" })
   .trim()
   .min(1, "Choose the branch's time zone")
   .refine(isValidTimeZone, "Choose a time zone from the list (a region name like America/Chicago)");
-const address = z.string().trim().max(500, "Addresses are limited to 500 characters").optional();
+const address = text().trim().max(500, "Addresses are limited to 500 characters").optional();
 const massUnit = z.enum(MASS_DISPLAY_UNITS, { error: "Choose how the branch shows amounts" });
 
 export const branchInput = z.object({
   name: branchName,
-  code: z
-    .string({ error: "Enter a short code for the branch" })
+  code: text({ error: "Enter a short code for the branch" })
     .trim()
     .toUpperCase()
     .regex(/^[A-Z0-9]{2,8}$/, "Use 2 to 8 letters or digits, like DEN"),
@@ -164,7 +156,7 @@ export type BranchUpdate = z.infer<typeof branchUpdate>;
 export const branchListQuery = z.object({
   ...paging,
   archived: z.enum(["exclude", "include", "only"]).default("include"),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
 });
 export type BranchListQuery = z.infer<typeof branchListQuery>;
 
@@ -199,7 +191,7 @@ export const peopleListQuery = z.object({
   ...paging,
   sort: z.enum(PEOPLE_SORT_FIELDS).default("name"),
   dir: z.enum(["asc", "desc"]).default("asc"),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
   role: z.enum(["owner", "compliance_officer", "branch_manager", "technician", "inspector"]).optional(),
   branchId: id.optional(),
   status: z.enum(PERSON_STATUSES).optional(),
@@ -240,10 +232,10 @@ export const inspectorGrantInput = z
     email,
     name: personName,
     branchIds: z.array(id, { error: "Choose the branches" }).min(1, "Choose at least one branch"),
-    recordsFrom: calendarDate("The first date"),
-    recordsTo: calendarDate("The last date"),
-    expiresOn: calendarDate("The end of access"),
-    note: z.string().trim().max(500, "Notes are limited to 500 characters").optional(),
+    recordsFrom: grantDate("The first date"),
+    recordsTo: grantDate("The last date"),
+    expiresOn: grantDate("The end of access"),
+    note: text().trim().max(500, "Notes are limited to 500 characters").optional(),
   })
   .superRefine((value, ctx) => {
     if (value.recordsFrom > value.recordsTo) {
@@ -279,8 +271,7 @@ export const LEAK_RATE_METHOD_LABELS: Readonly<Record<(typeof LEAK_RATE_METHODS)
 
 /** The organisation's name, its rule packs, and the tolerances the rules leave to the company. */
 export const organisationSettingsInput = z.object({
-  name: z
-    .string({ error: "Enter the organisation's name" })
+  name: text({ error: "Enter the organisation's name" })
     .trim()
     .min(2, "Enter the organisation's name")
     .max(200, "Names are limited to 200 characters"),

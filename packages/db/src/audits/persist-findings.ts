@@ -71,8 +71,11 @@ export async function auditBranchFindings(
     now: Date;
     /** Person whose write triggered a continuous re-evaluation (activity only). */
     triggeredBy?: number | null;
+    /** The writes a continuous re-evaluation answers (activity ids after `afterActivityId` up to `toActivityId`). */
+    cause?: { afterActivityId: number; toActivityId: number } | null;
   },
 ): Promise<BranchAuditSummary> {
+  const cause = opts.cause ? { cause_after_activity_id: opts.cause.afterActivityId, cause_to_activity_id: opts.cause.toActivityId } : {};
   const loaded = await loadBranchRecords(db, {
     organisationId: opts.organisationId,
     branchId: opts.branchId,
@@ -156,6 +159,7 @@ export async function auditBranchFindings(
           to_state: "open",
           note: opts.auditId ? `Found by audit #${opts.auditId}` : "Found when the branch's records were re-checked after a change",
           data: JSON.stringify({ auditId: opts.auditId, dueOn: c.dueOn }),
+          ...cause,
         })),
       );
       for (const c of batch) linked.push({ findingId: idOf.get(c.finding.identityKey)!, severity: c.finding.severity });
@@ -193,6 +197,7 @@ export async function auditBranchFindings(
             ? `Found again by audit #${opts.auditId}`
             : "Found again when the branch's records were re-checked after a change",
           data: JSON.stringify({ auditId: opts.auditId }),
+          ...cause,
         });
       }
       await trx("findings").where({ id: u.id }).update(update);
@@ -219,6 +224,7 @@ export async function auditBranchFindings(
           ? `Audit #${opts.auditId} no longer finds this gap in the records`
           : "The records no longer show this gap after a change",
         data: JSON.stringify({ auditId: opts.auditId }),
+        ...cause,
       });
     }
 

@@ -3,7 +3,7 @@ import { normaliseDesignation, toGrams, type JobInput, type MassDisplayUnit } fr
 import { appendActivity, rowId } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
-import { moveCylinderContents, writableBranch, type WritableBranch } from "../records/common";
+import { assertRecordDate, moveCylinderContents, writableBranch, type WritableBranch } from "../records/common";
 import { toBool, type ActorRef } from "../types";
 
 /**
@@ -100,9 +100,17 @@ export interface InsertedJob {
  */
 export async function insertJob(
   trx: Knex.Transaction,
-  opts: { actor: ActorRef; branch: WritableBranch; input: JobInput; at: string; source?: "field" | "office" },
+  opts: { actor: ActorRef; branch: WritableBranch; input: JobInput; at: string; source?: "field" | "office"; now?: Date },
 ): Promise<InsertedJob> {
   const { actor, branch, input, at } = opts;
+  await assertRecordDate(trx, {
+    organisationId: actor.organisationId,
+    timeZone: branch.timeZone,
+    date: input.performedOn,
+    field: "performedOn",
+    what: "The date of the work",
+    now: opts.now ?? new Date(at),
+  });
   const appliance = await jobAppliance(trx, actor.organisationId, branch.id, input.applianceId);
   const mass = (g: number) => describeMass(g, branch.massUnit as MassDisplayUnit);
   const base = {
@@ -155,6 +163,8 @@ export async function insertJob(
           refrigerant: input.refrigerant,
           recovered_g: grams,
           charged_g: 0,
+          amount_entered: input.recoveredAmount,
+          amount_unit: input.recoveredUnit,
           equipment_id: equipment.id,
           cylinder_id: cylinder.id,
           access_method: input.accessMethod,
@@ -175,6 +185,7 @@ export async function insertJob(
           at,
           field: "recoveredAmount",
           describe: mass,
+          confirmedOverFill: input.confirmOverFill,
         });
       }
       let previousStatus: string | null = null;
@@ -228,6 +239,8 @@ export async function insertJob(
           refrigerant: input.refrigerant,
           recovered_g: 0,
           charged_g: grams,
+          amount_entered: input.chargedAmount,
+          amount_unit: input.chargedUnit,
           cylinder_id: cylinder?.id ?? null,
           access_method: input.accessMethod ?? null,
           temporary_access_removed: input.temporaryAccessRemoved ?? null,
@@ -326,7 +339,7 @@ export async function createJob(db: Knex, opts: { actor: ActorRef; branchId: num
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const branch = await writableBranch(trx, opts.actor.organisationId, opts.branchId);
-    const job = await insertJob(trx, { actor: opts.actor, branch, input: opts.input, at });
+    const job = await insertJob(trx, { actor: opts.actor, branch, input: opts.input, at, now: opts.now });
     return job.id;
   });
 }

@@ -13,11 +13,12 @@ import {
 } from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
 import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from "../amendments";
-import { RecordConflictError, RecordNotFoundError } from "../errors";
+import { enteredAmount, type MassUnit } from "@coldtrail/core";
+import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { insertJob } from "../jobs/write-job";
 import { describeMass } from "../mass";
 import { orderByNullable, toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
-import { applyVoided, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
+import { applyVoided, assertRecordDate, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
 import { countRows, whereContains } from "../paging";
 
 /**
@@ -168,6 +169,8 @@ export interface DisposalRecordDetail extends DisposalBase {
   recoveredByName: string | null;
   refrigerant: string | null;
   recoveredG: number | null;
+  /** The quantity as it was typed, while it still matches the grams. */
+  recoveredEntered: { amount: number; unit: MassUnit } | null;
   sentTo: string | null;
 }
 
@@ -243,6 +246,8 @@ export async function getDisposalRecord(db: Knex, opts: { scope: ScopeFn; id: nu
     recoveredByName: r.recovered_by_name ?? null,
     refrigerant: r.refrigerant ?? null,
     recoveredG: toNumOrNull(r.recovered_g),
+    recoveredEntered:
+      r.recovered_g === null ? null : enteredAmount(Number(r.recovered_g), toNumOrNull(r.recovered_entered), r.recovered_unit),
     sentTo: r.sent_to ?? null,
   };
 }
@@ -334,6 +339,11 @@ export async function createDisposalRecord(db: Knex, opts: { actor: ActorRef; in
   return db.transaction(async (trx) => {
     const appliance = await disposalAppliance(trx, actor.organisationId, input.applianceId);
     const branch = await writableBranch(trx, actor.organisationId, Number(appliance.branch_id));
+    for (const [field, date, what] of [
+      ["disposedOn", input.disposedOn, "The disposal date"],
+      ["recoveredOn", input.recoveredOn, "The date of recovery"],
+    ] as const)
+      await assertRecordDate(trx, { organisationId: actor.organisationId, timeZone: branch.timeZone, date, field, what, now: opts.now });
     requireDisposed(appliance);
     const existing = await trx("disposal_records").where({ appliance_id: appliance.id }).whereNull("voided_at").first("id");
     if (existing)
@@ -359,6 +369,8 @@ export async function createDisposalRecord(db: Knex, opts: { actor: ActorRef; in
         recovered_by_name: user?.name ?? null,
         refrigerant: input.refrigerant,
         recovered_g: grams,
+        recovered_entered: input.recoveredAmount,
+        recovered_unit: input.recoveredUnit,
         sent_to: textOrNull(input.sentTo),
         created_by: actor.userId,
         created_at: at,
@@ -391,6 +403,11 @@ export async function createDisposalStatement(
   return db.transaction(async (trx) => {
     const appliance = await disposalAppliance(trx, actor.organisationId, input.applianceId);
     const branch = await writableBranch(trx, actor.organisationId, Number(appliance.branch_id));
+    for (const [field, date, what] of [
+      ["recoveredOn", input.recoveredOn, "The date of recovery"],
+      ["signedOn", input.signedOn, "The date signed"],
+    ] as const)
+      await assertRecordDate(trx, { organisationId: actor.organisationId, timeZone: branch.timeZone, date, field, what, now: opts.now });
     requireDisposed(appliance);
     const existing = await trx("disposal_statements").where({ appliance_id: appliance.id }).whereNull("voided_at").first("id");
     if (existing)
@@ -465,12 +482,31 @@ export async function amendDisposalRecord(
   return db.transaction(async (trx) => {
     const row = await trx("disposal_records as d")
       .join("appliances as a", "a.id", "d.appliance_id")
+      .join("branches as b", "b.id", "d.branch_id")
       .where({ "d.id": opts.id, "d.organisation_id": actor.organisationId })
-      .first("a.tag");
+      .first("a.tag", "b.time_zone");
     if (!row) throw new RecordNotFoundError("No such disposal record");
+    for (const [field, what] of [
+      ["disposedOn", "The disposal date"],
+      ["recoveredOn", "The date of recovery"],
+    ] as const) {
+      const date = input.changes[field];
+      if (date !== undefined)
+        await assertRecordDate(trx, {
+          organisationId: actor.organisationId,
+          timeZone: String(row.time_zone),
+          date,
+          field: `changes.${field}`,
+          what,
+          now: opts.now,
+        });
+    }
     const changes = columns(input.changes, RECORD_COLUMNS);
-    if (input.changes.recoveredAmount !== undefined && input.changes.recoveredUnit)
+    if (input.changes.recoveredAmount !== undefined && input.changes.recoveredUnit) {
       changes.recovered_g = toGrams(input.changes.recoveredAmount, input.changes.recoveredUnit);
+      changes.recovered_entered = input.changes.recoveredAmount;
+      changes.recovered_unit = input.changes.recoveredUnit;
+    }
     return amendRecord(trx, {
       table: "disposal_records",
       subjectType: "DisposalRecord",
@@ -500,9 +536,25 @@ export async function amendDisposalStatement(
   return db.transaction(async (trx) => {
     const row = await trx("disposal_statements as d")
       .join("appliances as a", "a.id", "d.appliance_id")
+      .join("branches as b", "b.id", "d.branch_id")
       .where({ "d.id": opts.id, "d.organisation_id": actor.organisationId })
-      .first("a.tag", "d.recovered_on", "d.signed_on");
+      .first("a.tag", "d.recovered_on", "d.signed_on", "b.time_zone");
     if (!row) throw new RecordNotFoundError("No such signed statement");
+    for (const [field, what] of [
+      ["recoveredOn", "The date of recovery"],
+      ["signedOn", "The date signed"],
+    ] as const) {
+      const date = input.changes[field];
+      if (date !== undefined)
+        await assertRecordDate(trx, {
+          organisationId: actor.organisationId,
+          timeZone: String(row.time_zone),
+          date,
+          field: `changes.${field}`,
+          what,
+          now: opts.now,
+        });
+    }
     const changes = columns(input.changes, STATEMENT_COLUMNS);
     if (opts.document) {
       changes.document_file_key = opts.document.key;
@@ -754,12 +806,16 @@ export async function recordShopDisposals(
             compressorOperating: item.compressorOperating ?? null,
             notes: "Scrapped at the shop",
             disposalPath: "shop",
+            confirmOverFill: input.confirmOverFill,
           },
+          now: opts.now,
         });
       } catch (err) {
         // Name the row whose amount overflowed a cylinder, rather than the whole batch.
         if (err instanceof RecordConflictError && err.field === "recoveredAmount")
           throw new RecordConflictError(`${a.tag}: ${err.message}`, field("recoveredAmount"));
+        if (err instanceof InvalidInputError && err.field === "recoveredAmount")
+          throw new InvalidInputError(`${a.tag}: ${err.message}`, field("recoveredAmount"));
         throw err;
       }
       result.jobIds.push(job.id);

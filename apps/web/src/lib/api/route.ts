@@ -114,7 +114,12 @@ export function route<
         // Continuous audit: every write appends to the activity history, so the branches whose records
         // this request changed are known; their rules run again in the background.
         for (const branchId of await branchesTouchedSince(db(), { afterId: before, actorId: actor.userId })) {
-          void reevaluateAfterWrite(db(), { organisationId: actor.organisationId, branchId, actorId: actor.userId });
+          void reevaluateAfterWrite(db(), {
+            organisationId: actor.organisationId,
+            branchId,
+            actorId: actor.userId,
+            afterActivityId: before,
+          });
         }
       }
       if (result instanceof Response) return result;

@@ -2,7 +2,7 @@ import "server-only";
 import { z } from "zod";
 import { fileTypeFromBuffer } from "file-type";
 import { imageSize } from "image-size";
-import { isPathLikeFileName } from "@coldtrail/core";
+import { fileNameText, isPathLikeFileName } from "@coldtrail/core";
 import { MAX_FILE_BYTES } from "../api/body";
 
 /**
@@ -146,6 +146,10 @@ export async function checkUploadPart(
     return refuse(
       "That file name is not accepted (it looks like a folder path or holds control characters); rename the file and try again",
     );
+  if (name) {
+    const named = fileNameText.safeParse(name);
+    if (!named.success) return refuse(`That file name is not accepted: ${named.error.issues[0]?.message ?? "rename the file"}`);
+  }
   if (part.size > maxBytes) return refuse(`The file is larger than ${Math.round(maxBytes / 1024 / 1024)} MB; choose a smaller one`);
   const bytes = new Uint8Array(await part.arrayBuffer());
   try {

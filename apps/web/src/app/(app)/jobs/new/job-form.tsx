@@ -34,12 +34,12 @@ import {
   type DraftField,
   type JobKind,
 } from "@coldtrail/core";
-import { fetchJson } from "@/lib/client/fetch-json";
+import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import type { ApplianceOption, CylinderOption, EquipmentOption, JobListPage } from "@/lib/client/types";
 import { SafetyCautions } from "@/components/safety-cautions";
 import { optionsOf } from "@/lib/client/options";
-import { RadioCards } from "@/components/form";
+import { OverFillConfirm, RadioCards } from "@/components/form";
 import {
   AmountField,
   DraftWarningLine,
@@ -278,6 +278,8 @@ function KindForm({
   const queryClient = useQueryClient();
   const uid = useId();
   const [formError, setFormError] = useState<string | null>(null);
+  // The server's question when the amount would put the cylinder above its safe fill.
+  const [overFillAsk, setOverFillAsk] = useState<string | null>(null);
   const recovering = kind === "recovery" || kind === "disposal";
 
   const form = useForm<FieldValues>({
@@ -341,6 +343,8 @@ function KindForm({
       router.push(`/jobs/${id}?saved=1`);
     },
     onError: (err) => {
+      const ask = err instanceof ApiError ? err.fieldErrors.confirmOverFill?.[0] : undefined;
+      if (ask) setOverFillAsk(ask);
       setFormError(saveErrorMessage(err, setError, "The job could not be sent. Check your connection; nothing was saved."));
     },
   });
@@ -411,6 +415,9 @@ function KindForm({
           />
           {fieldWarnings(kind === "charge" ? "chargedAmount" : "recoveredAmount")}
         </div>
+      )}
+      {recovering && overFillAsk && (
+        <OverFillConfirm id={`${uid}-confirm-over-fill`} message={overFillAsk} registration={register("confirmOverFill")} />
       )}
 
       {kind === "charge" && (
