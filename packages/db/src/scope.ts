@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import { rulesToAST } from "@casl/ability/extra";
 import type { Action, AppAbility, SubjectName } from "@coldtrail/core";
+import { whereFindingShowsIn } from "./audits/finding-branches";
 
 /** A restriction a caller applies to a list query (`qb.where(...)` calls). */
 export type QueryScope = (qb: Knex.QueryBuilder) => void;
@@ -13,19 +14,33 @@ interface AstNode {
 
 const snake = (field: string) => field.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
 
-function apply(qb: Knex.QueryBuilder, node: AstNode, table: string): void {
+/**
+ * Conditions that do not map to one column. A finding's `branchId` means "shows in that branch":
+ * a person-level finding (a technician's card) is one finding shown in every branch whose audit
+ * finds it (packages/db audits/finding-branches.ts).
+ */
+function special(qb: Knex.QueryBuilder, node: AstNode, table: string, subject: SubjectName): boolean {
+  if (subject !== "Finding" || node.field !== "branchId") return false;
+  if (node.operator === "in") whereFindingShowsIn(qb, node.value as number[], table);
+  else if (node.operator === "eq") whereFindingShowsIn(qb, [node.value as number], table);
+  else return false;
+  return true;
+}
+
+function apply(qb: Knex.QueryBuilder, node: AstNode, table: string, subject: SubjectName): void {
   const column = node.field ? `${table}.${snake(node.field)}` : "";
+  if (special(qb, node, table, subject)) return;
   switch (node.operator) {
     case "and":
-      for (const child of node.value as AstNode[]) qb.where((sub) => apply(sub, child, table));
+      for (const child of node.value as AstNode[]) qb.where((sub) => apply(sub, child, table, subject));
       return;
     case "or":
       qb.where((outer) => {
-        for (const child of node.value as AstNode[]) outer.orWhere((sub) => apply(sub, child, table));
+        for (const child of node.value as AstNode[]) outer.orWhere((sub) => apply(sub, child, table, subject));
       });
       return;
     case "not":
-      qb.whereNot((sub) => apply(sub, node.value as AstNode, table));
+      qb.whereNot((sub) => apply(sub, node.value as AstNode, table, subject));
       return;
     case "eq":
       if (node.value === null) qb.whereNull(column);
@@ -66,6 +81,6 @@ export function scopeByAbility(ability: AppAbility, action: Action, subject: Sub
       qb.whereRaw("1 = 0");
       return;
     }
-    qb.where((sub) => apply(sub, ast, table));
+    qb.where((sub) => apply(sub, ast, table, subject));
   };
 }

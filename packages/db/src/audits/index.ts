@@ -1,6 +1,8 @@
 export { loadBranchRecords, type LoadedBranch, type LoadedBranchRecords } from "./load-branch-records";
 export { getOrganisationAuditSettings, type OrganisationAuditSettings } from "./organisation-settings";
 export { auditBranchFindings, type BranchAuditSummary } from "./persist-findings";
+export { describeAuditFailure, failAuditWithReference, failureReference, type AuditFailure } from "./audit-failure";
+export { whereFindingShowsIn, findingBranchIds } from "./finding-branches";
 export {
   createAudit,
   getAuditRun,
