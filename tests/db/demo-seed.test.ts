@@ -97,12 +97,11 @@ describe("the demo seed", () => {
     expect(branches.filter((r) => r.mass_unit === "kg").map((r) => r.code)).toEqual(["DEN", "RTM"]);
     const eu = branches.filter((r) => r.country !== "US");
     expect(eu).toEqual([expect.objectContaining({ code: "RTM", country: "NL", time_zone: "Europe/Amsterdam", mass_unit: "kg" })]);
-    expect(
-      await db("appliances")
-        .where({ branch_id: db("branches").where({ code: "RTM" }).select("id") })
-        .count({ n: "*" })
-        .first(),
-    ).toEqual({ n: 3 });
+    const euAppliances = await db("appliances")
+      .where({ branch_id: db("branches").where({ code: "RTM" }).select("id") })
+      .count({ n: "*" })
+      .first();
+    expect(Number(euAppliances?.n)).toBe(3);
     expect(await db("branches").where({ organisation_id: 2 }).pluck("code")).toEqual(["BOI"]);
     expect(await db("branches").where({ organisation_id: 2 }).pluck("country")).toEqual(["US"]);
   });
