@@ -270,6 +270,14 @@ describe("a correction of a finding's record goes to review", () => {
       expect.objectContaining({ id: amendmentId, subjectType: "Job", reason: "The technician confirmed the line tap was taken off" }),
     ]);
     expect(await t.db("finding_events").where({ finding_id: finding.id, action: "no_longer_found" })).toEqual([]);
+
+    // Later audits of the unchanged records leave the proposed fix waiting for the officer, once.
+    const events = await t.db("finding_events").where({ finding_id: finding.id }).count({ n: "*" }).first();
+    await audit(["TUC"], ["us_federal"], new Date("2026-12-01T16:00:00Z"));
+    await reevaluateBranch(t.db, { organisationId: 1, branchId: branch.TUC!, now: new Date("2026-12-01T16:05:00Z") });
+    expect((await t.db("findings").where({ id: finding.id }).first("state")).state).toBe("fix_proposed");
+    const after = await t.db("finding_events").where({ finding_id: finding.id }).count({ n: "*" }).first();
+    expect(Number(after!.n)).toBe(Number(events!.n));
   });
 
   it("lets a new record close its gap as no longer found", async () => {

@@ -18,7 +18,7 @@ export type GapAmendments =
   | { kind: "none" }
   /** Someone who cannot accept fixes corrected them: the fix goes to review. */
   | { kind: "amended"; amendments: GapAmendment[] }
-  /** The officer reopened the finding after those corrections: it stays as they left it. */
+  /** Those corrections were already offered as the fix, or the officer reopened the finding after them: it stays as it is. */
   | { kind: "reviewed" };
 
 /** Who may accept a fix; their own corrections need no review. */
@@ -86,13 +86,29 @@ export async function amendmentsBehindGap(
     .orderBy([{ column: "a.at" }, { column: "a.id" }])
     .select("a.id", "a.subject_type", "a.subject_id", "a.actor_id", "u.name as actor_name", "a.at", "a.reason", "a.next");
   if (rows.length === 0) return { kind: "none" };
+  // Corrections already offered as this finding's fix are not offered again: the fix waits for the
+  // officer, or the officer reopened the finding after seeing them.
+  const cited = new Set<number>();
+  for (const e of await trx("finding_events")
+    .where({ finding_id: f.id })
+    .whereIn("action", ["fix_proposed", "correction_added"])
+    .select("data")) {
+    try {
+      const data = JSON.parse(e.data ?? "null") as { amendments?: { id: number }[] } | null;
+      for (const a of data?.amendments ?? []) cited.add(Number(a.id));
+    } catch {
+      // an event without readable data cites nothing
+    }
+  }
+  const fresh = rows.filter((r) => !cited.has(Number(r.id)));
+  if (fresh.length === 0) return { kind: "reviewed" };
   // An open finding changed state after the rules last saw it only by being reopened; corrections
   // older than that reopening were already reviewed.
-  if (f.state === "open" && f.state_changed_at > f.last_seen_at && rows.every((r) => r.at < f.state_changed_at))
+  if (f.state === "open" && f.state_changed_at > f.last_seen_at && fresh.every((r) => r.at < f.state_changed_at))
     return { kind: "reviewed" };
   return {
     kind: "amended",
-    amendments: rows.map((r) => {
+    amendments: fresh.map((r) => {
       let fields: string[] = [];
       try {
         fields = Object.keys(JSON.parse(r.next ?? "{}") as object);
