@@ -61,13 +61,13 @@ export interface RulePackCoverage {
 export const RULE_PACK_COVERAGE: Readonly<Record<RulePack, RulePackCoverage>> = {
   us_federal: {
     pack: "us_federal",
-    where: "Branches in the United States and its territories",
+    where: "branches in the United States and its territories",
     mandatory: true,
     covers: (p) => US_PLACES.includes(p.country.toUpperCase()),
   },
   eu: {
     pack: "eu",
-    where: "Branches in a member state of the European Union",
+    where: "branches in a member state of the European Union",
     mandatory: true,
     covers: (p) => EU_MEMBER_STATES.includes(p.country.toUpperCase()),
   },

@@ -35,7 +35,7 @@ export function PackCoverage({ branches, canEditBranches }: { branches: BranchSu
             <li key={pack} className="rounded-md border border-ink-200 p-3" data-testid={`pack-coverage-${pack}`}>
               <p className="font-medium text-ink-950">{RULE_PACK_LABELS[pack]}</p>
               <p className="text-sm text-ink-600">{RULE_PACK_DESCRIPTIONS[pack]}</p>
-              <p className="mt-1 text-sm text-ink-600">Applies to: {RULE_PACK_COVERAGE[pack].where.toLowerCase()}.</p>
+              <p className="mt-1 text-sm text-ink-600">Applies to {RULE_PACK_COVERAGE[pack].where}.</p>
               <p className="mt-2 text-sm">
                 <span className="font-medium text-ink-800">
                   Covers {covered.length} {covered.length === 1 ? "branch" : "branches"}
