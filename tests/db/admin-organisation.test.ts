@@ -25,7 +25,15 @@ afterEach(async () => {
   await t.destroy();
 });
 
-const NEW_BRANCH = { name: "Lansing", code: "lan", address: "1 Frost Lane, Lansing", timeZone: "America/Detroit", massUnit: "kg" };
+const NEW_BRANCH = {
+  name: "Lansing",
+  code: "lan",
+  address: "1 Frost Lane, Lansing",
+  timeZone: "America/Detroit",
+  massUnit: "kg",
+  country: "us",
+  region: "mi",
+};
 
 describe("branch input", () => {
   it("accepts IANA zones the runtime knows and refuses offsets, abbreviations and made-up names", () => {
@@ -36,6 +44,22 @@ describe("branch input", () => {
     expect(bad.error!.issues.map((i) => i.path.join("."))).toEqual(["timeZone", "massUnit"]);
     expect(branchInput.parse(NEW_BRANCH).code).toBe("LAN");
   });
+
+  it("needs a country from ISO 3166-1, and the state of a US branch by its two-letter code", () => {
+    expect(branchInput.parse(NEW_BRANCH)).toMatchObject({ country: "US", region: "mi" });
+    const fields = (input: object) => {
+      const r = branchInput.safeParse({ ...NEW_BRANCH, ...input });
+      return r.success ? [] : r.error.issues.map((i) => i.path.join("."));
+    };
+    expect(fields({ country: undefined })).toEqual(["country"]);
+    expect(fields({ country: "XX" })).toEqual(["country"]);
+    expect(fields({ country: "EU" })).toEqual(["country"]);
+    expect(fields({ region: "" })).toEqual(["region"]);
+    expect(fields({ region: "Michigan" })).toEqual(["region"]);
+    // Outside the US the region is optional words.
+    expect(fields({ country: "NL", region: "" })).toEqual([]);
+    expect(fields({ country: "de", region: "Bavaria" })).toEqual([]);
+  });
 });
 
 describe("branches", () => {
@@ -43,7 +67,15 @@ describe("branches", () => {
     const { actor } = await signedIn(t.db, OWNER);
     const id = await createBranch(t.db, { actor, input: branchInput.parse(NEW_BRANCH) });
     const row = await t.db("branches").where({ id }).first();
-    expect(row).toMatchObject({ organisation_id: 1, code: "LAN", time_zone: "America/Detroit", mass_unit: "kg", archived_at: null });
+    expect(row).toMatchObject({
+      organisation_id: 1,
+      code: "LAN",
+      time_zone: "America/Detroit",
+      mass_unit: "kg",
+      country: "US",
+      region: "MI",
+      archived_at: null,
+    });
     expect(await lastActivity(t.db)).toMatchObject({ action: "branch.created", actor_id: actor.userId, branch_id: id, subject_id: id });
 
     await expect(createBranch(t.db, { actor, input: branchInput.parse({ ...NEW_BRANCH, name: "Elsewhere" }) })).rejects.toMatchObject({
@@ -65,6 +97,16 @@ describe("branches", () => {
     const act = await lastActivity(t.db);
     expect(act.action).toBe("branch.updated");
     expect(act.summary).toBe("Changed the branch Denver: name from Denver to Denver Metro; unit from kg to lb_oz");
+
+    // Moving a branch to another country changes its place (and so its rule packs); a US place needs its state.
+    await expect(updateBranch(t.db, { actor, id: den, input: { region: null } })).rejects.toMatchObject({ field: "region" });
+    await updateBranch(t.db, { actor, id: den, input: { country: "DE", region: "Bavaria" } });
+    expect(await t.db("branches").where({ id: den }).first("country", "region")).toEqual({ country: "DE", region: "Bavaria" });
+    expect((await lastActivity(t.db)).summary).toBe(
+      "Changed the branch Denver Metro: country from US to DE; state or region from CO to Bavaria",
+    );
+    await updateBranch(t.db, { actor, id: den, input: { country: "US", region: "co" } });
+    expect(await t.db("branches").where({ id: den }).first("country", "region")).toEqual({ country: "US", region: "CO" });
 
     const jobs = await count(t.db, "jobs", { branch_id: den });
     await updateBranch(t.db, { actor, id: den, input: { archived: true } });

@@ -78,7 +78,7 @@ describe("an audit of every demo branch", () => {
     expect(run.state).toBe("done");
     expect(run.progress).toBe(100);
     expect(run.branchesDone.sort()).toEqual([...branchIds].sort());
-    expect(run.summary!.branches.map((b) => b.branchName).sort()).toEqual(["Columbus", "Denver", "Peoria", "Tucson"]);
+    expect(run.summary!.branches.map((b) => b.branchName).sort()).toEqual(["Columbus", "Denver", "Peoria", "Rotterdam", "Tucson"]);
     expect(run.summary!.totals.found).toBe(firstFindings.length);
   });
 

@@ -82,14 +82,43 @@ describe("the demo seed", () => {
     await expect(loadDemoData(a.db)).rejects.toThrow(/already holds data/);
   });
 
-  it("has one company with four branches in different states and time zones, and a second company", async () => {
+  it("has one company with four US branches in different states and time zones, one branch in the EU, and a second company", async () => {
     const orgs = await db("organisations").orderBy("id").pluck("name");
     expect(orgs).toEqual(["Kestrelmoor Climate Services", "Quillfield Refrigeration"]);
-    const branches = await db("branches").where({ organisation_id: 1 }).orderBy("id").select("code", "time_zone", "mass_unit", "address");
-    expect(branches.map((r) => r.time_zone)).toEqual(["America/New_York", "America/Phoenix", "America/Denver", "America/Chicago"]);
-    expect(new Set(branches.map((r) => r.address.match(/, ([A-Z]{2}) \d{5}$/)?.[1])).size).toBe(4);
-    expect(branches.filter((r) => r.mass_unit === "kg").map((r) => r.code)).toEqual(["DEN"]);
+    const branches = await db("branches")
+      .where({ organisation_id: 1 })
+      .orderBy("id")
+      .select("code", "time_zone", "mass_unit", "address", "country", "region");
+    const us = branches.filter((r) => r.country === "US");
+    expect(us.map((r) => r.time_zone)).toEqual(["America/New_York", "America/Phoenix", "America/Denver", "America/Chicago"]);
+    expect(new Set(us.map((r) => r.address.match(/, ([A-Z]{2}) \d{5}$/)?.[1])).size).toBe(4);
+    // The region of a US branch is its state, the one in its address.
+    for (const r of us) expect(r.address).toMatch(new RegExp(`, ${r.region} \\d{5}$`));
+    expect(branches.filter((r) => r.mass_unit === "kg").map((r) => r.code)).toEqual(["DEN", "RTM"]);
+    const eu = branches.filter((r) => r.country !== "US");
+    expect(eu).toEqual([expect.objectContaining({ code: "RTM", country: "NL", time_zone: "Europe/Amsterdam", mass_unit: "kg" })]);
+    const euAppliances = await db("appliances")
+      .where({ branch_id: db("branches").where({ code: "RTM" }).select("id") })
+      .count({ n: "*" })
+      .first();
+    expect(Number(euAppliances?.n)).toBe(3);
     expect(await db("branches").where({ organisation_id: 2 }).pluck("code")).toEqual(["BOI"]);
+    expect(await db("branches").where({ organisation_id: 2 }).pluck("country")).toEqual(["US"]);
+  });
+
+  it("has a technician who works in two branches, with a card awaiting verification", async () => {
+    const rows = await db("memberships as m")
+      .join("users as u", "u.id", "m.user_id")
+      .join("branches as b", "b.id", "m.branch_id")
+      .where({ "m.role": "technician", "u.name": "Diego Castellanos-Reyes" })
+      .orderBy("b.code")
+      .pluck("b.code");
+    expect(rows).toEqual(["PIA", "TUC"]);
+    const cards = await db("certifications as c")
+      .join("users as u", "u.id", "c.user_id")
+      .where("u.name", "Diego Castellanos-Reyes")
+      .pluck("c.state");
+    expect(cards).toEqual(["pending"]);
   });
 
   it("has people in all five roles, on .example addresses, all with the demo password", async () => {
@@ -101,11 +130,11 @@ describe("the demo seed", () => {
     const byRole = Object.fromEntries(roles.map((r) => [r.role, Number(r.n)]));
     expect(byRole.owner).toBe(1);
     expect(byRole.compliance_officer).toBe(2);
-    expect(byRole.branch_manager).toBe(4);
+    expect(byRole.branch_manager).toBe(5);
     expect(byRole.inspector).toBe(1);
     expect(byRole.technician).toBeGreaterThanOrEqual(12);
     const people = await db("users").where({ organisation_id: 1 }).count({ n: "*" }).first();
-    expect(Number(people?.n)).toBe(25);
+    expect(Number(people?.n)).toBe(27);
     const emails = await db("users").pluck("email");
     expect(emails.every((e: string) => e.endsWith(".example") && e === e.toLowerCase())).toBe(true);
     const hashes = new Set(await db("users").pluck("password_hash"));
@@ -302,9 +331,11 @@ describe("planted gaps (packages/db/README.md, Demo data)", () => {
     for (const code of ["COL", "TUC", "DEN", "BOI"]) expect(Math.abs(await balance(code))).toBeLessThanOrEqual(3_000);
   });
 
-  it("plants no uncovered technician besides G01 and G02", async () => {
+  it("plants no uncovered technician besides G01 and G02 in the US branches", async () => {
     const rows = await db("jobs as j")
       .join("appliances as a", "a.id", "j.appliance_id")
+      .join("branches as b", "b.id", "j.branch_id")
+      .where("b.country", "US")
       .whereNotExists(
         db("certifications as c")
           .join("certification_types as t", "t.certification_id", "c.id")

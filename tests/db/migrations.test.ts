@@ -31,6 +31,7 @@ const TABLES = [
   "findings",
   "audit_findings",
   "finding_events",
+  "finding_branches",
   "comments",
   "evidence",
   "saved_views",

@@ -269,7 +269,14 @@ test("branches: read by scope, opened and changed only by the owner of the organ
     otherOwner: 404,
   });
 
-  const newBranch = { name: `Nampa ${stamp}`, code: `N${stamp.slice(-5)}`.toUpperCase(), timeZone: "America/Boise", massUnit: "lb_oz" };
+  const newBranch = {
+    name: `Nampa ${stamp}`,
+    code: `N${stamp.slice(-5)}`.toUpperCase(),
+    timeZone: "America/Boise",
+    massUnit: "lb_oz",
+    country: "US",
+    region: "ID",
+  };
   await expectStatuses((a) => a.post("/api/admin/branches", { data: newBranch }), {
     anonymous: 401,
     officer: 403,

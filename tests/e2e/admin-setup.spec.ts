@@ -26,6 +26,8 @@ test("the owner opens a branch, corrects it and archives it", async ({ browser }
   await page.getByLabel("Name").fill(name);
   await page.getByLabel("Code").fill(`tf${stamp.slice(-4)}`);
   await page.getByLabel("Address (optional)").fill("400 Canal Street, Twin Falls");
+  await page.getByLabel("Country").selectOption("US");
+  await page.getByLabel("State").fill("ID");
   await page.getByLabel("Time zone").fill("Mars/Olympus_Mons");
   await page.getByRole("radio", { name: "Kilograms (kg)" }).check();
   await page.getByRole("button", { name: "Open the branch" }).click();

@@ -9,8 +9,9 @@ import { allFindings, TINY_PNG, todayIn, todayUtc, waitForAudit, type FindingRow
 /**
  * The compliance officer's main job, end to end on the demo data: run an audit of every branch, see
  * every planted gap, assign one, the branch manager proposes a fix with evidence, the officer accepts;
- * e-mails arrive; a record saved after the audit raises a finding at once; fixing it and running the
- * audit again closes it as "no longer found"; the audit downloads as a spreadsheet that reads back.
+ * e-mails arrive; a record saved after the audit raises a finding at once; correcting the record
+ * turns it into a proposed fix with the correction as evidence, which a re-run leaves for the
+ * officer to review; the audit downloads as a spreadsheet that reads back.
  */
 
 const SEVERITY_WORDS = { critical: "Critical", major: "Major", minor: "Minor" } as const;
@@ -181,7 +182,7 @@ test.describe.serial("audits end to end", () => {
     await Promise.all([officer.close(), manager.close(), other.close()]);
   });
 
-  test("a job saved after the audit raises its finding at once; fixing the record and running the audit again closes it as no longer found", async ({
+  test("a job saved after the audit raises its finding at once; correcting the record makes it a proposed fix that a re-run leaves for review", async ({
     browser,
   }) => {
     const tech = await contextAs(browser, DEMO.technicianColumbus);
@@ -248,8 +249,11 @@ test.describe.serial("audits end to end", () => {
       state: string;
       events: { action: string }[];
     };
-    expect(after.state).toBe("no_longer_found");
-    expect(after.events.map((e) => e.action)).toContain("no_longer_found");
+    // The gap vanished because the technician corrected the job: a fix for the officer to review,
+    // with the correction as its evidence, never closed on its own.
+    expect(after.state).toBe("fix_proposed");
+    expect(after.events.map((e) => e.action)).toContain("fix_proposed");
+    expect(after.events.map((e) => e.action)).not.toContain("no_longer_found");
     // Findings that still hold kept their identity across the re-run.
     const rerunFindings = await allFindings(officer.request, { auditId: rerunId });
     const g01 = findings.find(matches(PLANTED_GAPS[0]!))!;
@@ -258,8 +262,11 @@ test.describe.serial("audits end to end", () => {
     expect(rerunFindings.find((f) => f.id === assigned.id)?.state).toBe("closed");
 
     await page.goto(`/findings/${raised!.id}`);
-    await expect(page.getByTestId("finding-status")).toContainText("No longer found");
-    await snap(page, "finding-no-longer-found");
+    await expect(page.getByTestId("finding-status")).toContainText("Fix proposed");
+    await expect(page.getByRole("heading", { name: "Corrections waiting for review" })).toBeVisible();
+    await expect(page.getByTestId("amendment-evidence")).toContainText("The piercing pliers were removed before leaving the site");
+    await expect(page.getByTestId("amendment-evidence")).toContainText("Marcus Delacroix-Byrd");
+    await snap(page, "finding-fix-proposed-by-correction");
     auditId = rerunId;
     await Promise.all([tech.close(), officer.close()]);
   });

@@ -10,3 +10,5 @@ export * from "./feedback/check-job-draft";
 export * from "./findings";
 // Spreadsheet import: fields, column suggestions, row parsing, CSV reading (pure).
 export * from "./imports";
+// Where each rule pack applies (branch country and region → packs).
+export * from "./places/rule-pack-places";

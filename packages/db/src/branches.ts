@@ -8,6 +8,8 @@ export interface BranchSummary {
   address: string | null;
   timeZone: string;
   massUnit: MassDisplayUnit;
+  country: string;
+  region: string | null;
   archivedAt: string | null;
 }
 
@@ -23,6 +25,8 @@ export async function listBranches(db: Knex, opts: { organisationId: number; inc
     address: r.address ?? null,
     timeZone: r.time_zone,
     massUnit: r.mass_unit as MassDisplayUnit,
+    country: r.country,
+    region: r.region ?? null,
     archivedAt: r.archived_at ?? null,
   }));
 }

@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import { rulesToAST } from "@casl/ability/extra";
 import type { Action, AppAbility, SubjectName } from "@coldtrail/core";
+import { whereFindingShowsIn } from "./audits/finding-branches";
 
 /**
  * A restriction a caller applies to a list query (`qb.where(...)` calls). `columns` names the column of a
@@ -28,19 +29,33 @@ function columnOf(field: string, table: string, columns: ScopeColumns): string {
   return `${table}.${snake(field)}`;
 }
 
-function apply(qb: Knex.QueryBuilder, node: AstNode, table: string, columns: ScopeColumns = {}): void {
+/**
+ * Conditions that do not map to one column. A finding's `branchId` means "shows in that branch":
+ * a person-level finding (a technician's card) is one finding shown in every branch whose audit
+ * finds it (packages/db audits/finding-branches.ts).
+ */
+function special(qb: Knex.QueryBuilder, node: AstNode, table: string, subject: SubjectName): boolean {
+  if (subject !== "Finding" || node.field !== "branchId") return false;
+  if (node.operator === "in") whereFindingShowsIn(qb, node.value as number[], table);
+  else if (node.operator === "eq") whereFindingShowsIn(qb, [node.value as number], table);
+  else return false;
+  return true;
+}
+
+function apply(qb: Knex.QueryBuilder, node: AstNode, table: string, subject: SubjectName, columns: ScopeColumns = {}): void {
+  if (special(qb, node, table, subject)) return;
   const column = node.field ? columnOf(node.field, table, columns) : "";
   switch (node.operator) {
     case "and":
-      for (const child of node.value as AstNode[]) qb.where((sub) => apply(sub, child, table, columns));
+      for (const child of node.value as AstNode[]) qb.where((sub) => apply(sub, child, table, subject, columns));
       return;
     case "or":
       qb.where((outer) => {
-        for (const child of node.value as AstNode[]) outer.orWhere((sub) => apply(sub, child, table, columns));
+        for (const child of node.value as AstNode[]) outer.orWhere((sub) => apply(sub, child, table, subject, columns));
       });
       return;
     case "not":
-      qb.whereNot((sub) => apply(sub, node.value as AstNode, table, columns));
+      qb.whereNot((sub) => apply(sub, node.value as AstNode, table, subject, columns));
       return;
     case "eq":
       if (node.value === null) qb.whereNull(column);
@@ -81,6 +96,6 @@ export function scopeByAbility(ability: AppAbility, action: Action, subject: Sub
       qb.whereRaw("1 = 0");
       return;
     }
-    qb.where((sub) => apply(sub, ast, table, columns));
+    qb.where((sub) => apply(sub, ast, table, subject, columns));
   };
 }

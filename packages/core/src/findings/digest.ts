@@ -4,6 +4,8 @@ import type { FindingState, Severity } from "../vocabulary";
 export interface DigestFinding {
   id: number;
   branchId: number;
+  /** Every branch the finding shows in, when it shows in more than its own (a person-level finding). */
+  branchIds?: readonly number[];
   branchName: string;
   ruleId: string;
   title: string;
@@ -48,7 +50,10 @@ export function buildDigests(
   const out = new Map<number, DigestLine[]>();
   for (const r of recipients) {
     const mine = due.filter(
-      (f) => r.wholeOrganisation || f.assigneeId === r.userId || (f.assigneeId === null && r.managedBranchIds.includes(f.branchId)),
+      (f) =>
+        r.wholeOrganisation ||
+        f.assigneeId === r.userId ||
+        (f.assigneeId === null && (f.branchIds ?? [f.branchId]).some((b) => r.managedBranchIds.includes(b))),
     );
     if (mine.length) out.set(r.userId, mine);
   }

@@ -4,3 +4,4 @@ export * from "./reconcile-findings";
 export * from "./finding-refs";
 export * from "./record-health";
 export * from "./digest";
+export * from "./person-findings";

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { text } from "./text";
 import { calendarDate } from "./calendar-date";
+import { ISO_COUNTRY_CODES, US_REGION_CODES } from "../places/rule-pack-places";
 import { MASS_DISPLAY_UNITS, RULE_PACKS, type MassDisplayUnit, type Role, type RulePack } from "../vocabulary";
 
 /**
@@ -128,17 +129,45 @@ const timeZone = text({ error: "Choose the branch's time zone" })
   .refine(isValidTimeZone, "Choose a time zone from the list (a region name like America/Chicago)");
 const address = text().trim().max(500, "Addresses are limited to 500 characters").optional();
 const massUnit = z.enum(MASS_DISPLAY_UNITS, { error: "Choose how the branch shows amounts" });
+/** Where the branch is: decides which rule packs its audits apply. */
+const country = z
+  .string({ error: "Choose the country the branch is in" })
+  .trim()
+  .toUpperCase()
+  .refine((c) => ISO_COUNTRY_CODES.includes(c), "Choose a country from the list (a two-letter code like US or DE)");
+const region = z.preprocess(
+  (v) => (typeof v === "string" && v.trim() === "" ? null : v),
+  text().trim().max(64, "Regions are limited to 64 characters").nullable().optional(),
+);
+/** A US branch names its state (the two-letter postal code); elsewhere the region is optional words. */
+function refinePlace(v: { country?: string; region?: string | null }, ctx: z.RefinementCtx): void {
+  if (v.country !== "US") return;
+  const code = v.region?.trim().toUpperCase() ?? "";
+  if (!code) ctx.addIssue({ code: "custom", path: ["region"], message: "Choose the state the branch is in" });
+  else if (!US_REGION_CODES.includes(code))
+    ctx.addIssue({ code: "custom", path: ["region"], message: "Use the state's two-letter code, like TX or CO" });
+}
+/** Stores a US state as its upper-case code; other regions as typed. */
+export function normalRegion(countryCode: string, value: string | null | undefined): string | null {
+  const v = value?.trim() ?? "";
+  if (!v) return null;
+  return countryCode.toUpperCase() === "US" ? v.toUpperCase() : v;
+}
 
-export const branchInput = z.object({
-  name: branchName,
-  code: text({ error: "Enter a short code for the branch" })
-    .trim()
-    .toUpperCase()
-    .regex(/^[A-Z0-9]{2,8}$/, "Use 2 to 8 letters or digits, like DEN"),
-  address,
-  timeZone,
-  massUnit,
-});
+export const branchInput = z
+  .object({
+    name: branchName,
+    code: text({ error: "Enter a short code for the branch" })
+      .trim()
+      .toUpperCase()
+      .regex(/^[A-Z0-9]{2,8}$/, "Use 2 to 8 letters or digits, like DEN"),
+    address,
+    timeZone,
+    massUnit,
+    country,
+    region,
+  })
+  .superRefine(refinePlace);
 export type BranchInput = z.infer<typeof branchInput>;
 
 /** Rename, move, change the unit, or archive / bring back a branch. The code stays: record tags carry it. */
@@ -148,8 +177,11 @@ export const branchUpdate = z
     address,
     timeZone: timeZone.optional(),
     massUnit: massUnit.optional(),
+    country: country.optional(),
+    region,
     archived: z.boolean().optional(),
   })
+  .superRefine(refinePlace)
   .refine((v) => Object.values(v).some((x) => x !== undefined), { message: "Nothing to change", path: ["_"] });
 export type BranchUpdate = z.infer<typeof branchUpdate>;
 

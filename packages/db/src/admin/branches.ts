@@ -1,7 +1,16 @@
 import type { Knex } from "knex";
-import { MASS_DISPLAY_UNIT_LABELS, type BranchInput, type BranchListQuery, type BranchUpdate, type MassDisplayUnit } from "@coldtrail/core";
+import {
+  MASS_DISPLAY_UNIT_LABELS,
+  US_REGION_CODES,
+  normalRegion,
+  placeWords,
+  type BranchInput,
+  type BranchListQuery,
+  type BranchUpdate,
+  type MassDisplayUnit,
+} from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
-import { RecordConflictError, RecordNotFoundError } from "../errors";
+import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { type ActorRef, type ScopeFn } from "../types";
 import { countRows, whereContains } from "../paging";
 
@@ -13,6 +22,9 @@ export interface AdminBranchRow {
   address: string | null;
   timeZone: string;
   massUnit: MassDisplayUnit;
+  /** ISO 3166-1 alpha-2 country and state/region: decide the rule packs the branch is audited against. */
+  country: string;
+  region: string | null;
   createdAt: string;
   archivedAt: string | null;
   /** Active people with a role in the branch. */
@@ -36,6 +48,8 @@ function toRow(r: any): AdminBranchRow {
     address: r.address ?? null,
     timeZone: r.time_zone,
     massUnit: r.mass_unit as MassDisplayUnit,
+    country: r.country,
+    region: r.region ?? null,
     createdAt: r.created_at,
     archivedAt: r.archived_at ?? null,
     peopleCount: Number(r.people_count ?? 0),
@@ -113,6 +127,8 @@ export async function createBranch(db: Knex, opts: { actor: ActorRef; input: Bra
         address: input.address || null,
         time_zone: input.timeZone,
         mass_unit: input.massUnit,
+        country: input.country,
+        region: normalRegion(input.country, input.region),
         created_at: at,
         archived_at: null,
       })
@@ -125,7 +141,7 @@ export async function createBranch(db: Knex, opts: { actor: ActorRef; input: Bra
       action: "branch.created",
       subjectType: "Branch",
       subjectId: id,
-      summary: `Opened the branch ${input.name} (${input.code}), time zone ${input.timeZone}, amounts in ${MASS_DISPLAY_UNIT_LABELS[input.massUnit]}`,
+      summary: `Opened the branch ${input.name} (${input.code}), in ${placeWords({ country: input.country, region: normalRegion(input.country, input.region) })}, time zone ${input.timeZone}, amounts in ${MASS_DISPLAY_UNIT_LABELS[input.massUnit]}`,
       data: { after: input },
       at,
     });
@@ -138,6 +154,8 @@ const FIELD_WORDS: Record<string, string> = {
   address: "address",
   time_zone: "time zone",
   mass_unit: "unit",
+  country: "country",
+  region: "state or region",
 };
 
 /** Renames, moves, changes the unit of, archives or brings back a branch of the actor's organisation. */
@@ -155,6 +173,14 @@ export async function updateBranch(db: Knex, opts: { actor: ActorRef; id: number
     if (input.address !== undefined && (input.address || null) !== (current.address ?? null)) next.address = input.address || null;
     if (input.timeZone !== undefined && input.timeZone !== current.time_zone) next.time_zone = input.timeZone;
     if (input.massUnit !== undefined && input.massUnit !== current.mass_unit) next.mass_unit = input.massUnit;
+    const country = input.country ?? current.country;
+    if (input.country !== undefined && input.country !== current.country) next.country = input.country;
+    if (input.region !== undefined || next.country !== undefined) {
+      const region = normalRegion(country, input.region === undefined ? current.region : input.region);
+      if (country === "US" && (region === null || !US_REGION_CODES.includes(region)))
+        throw new InvalidInputError("Choose the state the branch is in", "region");
+      if (region !== (current.region ?? null)) next.region = region;
+    }
     const archiving = input.archived === true && !current.archived_at;
     const restoring = input.archived === false && Boolean(current.archived_at);
     if (archiving) next.archived_at = at;

@@ -288,6 +288,18 @@ function combine(branches: BranchAuditSummary[]): AuditSummary {
 }
 
 /**
+ * The audit's totals count each finding once: a person-level finding found in two branches shows in
+ * both branch summaries but is one finding of the audit.
+ */
+async function withDistinctTotals(db: Knex, auditId: number, summary: AuditSummary): Promise<AuditSummary> {
+  const rows = await db("audit_findings").where({ audit_id: auditId }).groupBy("severity").select("severity").count({ n: "*" });
+  const bySeverity: Record<Severity, number> = { critical: 0, major: 0, minor: 0 };
+  for (const r of rows as { severity: string; n: unknown }[]) bySeverity[r.severity as Severity] = Number(r.n);
+  const found = bySeverity.critical + bySeverity.major + bySeverity.minor;
+  return { ...summary, totals: { ...summary.totals, found, bySeverity } };
+}
+
+/**
  * Runs a claimed audit to the end: each branch not done yet is read once, audited and reconciled in
  * its own transaction, then recorded as done with the progress (so a restart resumes after it).
  * `pause` lets the caller yield between branches (the web server stays responsive).
@@ -338,7 +350,7 @@ export async function runAuditBranches(
   }
 
   const at = clock().toISOString();
-  const summary = combine(branchSummaries);
+  const summary = await withDistinctTotals(db, audit.id, combine(branchSummaries));
   await db.transaction(async (trx) => {
     await trx("audits")
       .where({ id: audit.id })

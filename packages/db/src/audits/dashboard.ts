@@ -23,6 +23,7 @@ import { RecordNotFoundError } from "../errors";
 import type { ScopeFn } from "../types";
 import { toBool } from "../types";
 import type { AuditSummary } from "./audit-runs";
+import { whereFindingShowsIn } from "./finding-branches";
 import { loadBranchRecords } from "./load-branch-records";
 import { getOrganisationAuditSettings } from "./organisation-settings";
 
@@ -85,12 +86,33 @@ export async function getOrganisationOverview(
     .whereIn("id", opts.branchIds.length ? opts.branchIds : [-1])
     .orderBy("name")
     .select("id", "name", "code", "mass_unit");
-  const counts = await scoped(
-    db("findings as findings").where("findings.organisation_id", opts.organisationId).whereIn("findings.state", ["open", "fix_proposed"]),
-    opts.findingScope,
-  )
-    .groupBy("findings.branch_id", "findings.severity", "findings.state")
-    .select("findings.branch_id", "findings.severity", "findings.state")
+  // Per branch, a finding counts in every branch it shows in (a person-level finding in each branch of
+  // the person); the totals count each finding once.
+  const activeFindings = () =>
+    scoped(
+      db("findings as findings").where("findings.organisation_id", opts.organisationId).whereIn("findings.state", ["open", "fix_proposed"]),
+      opts.findingScope,
+    );
+  const shownIn = db("findings")
+    .where("organisation_id", opts.organisationId)
+    .whereIn("state", ["open", "fix_proposed"])
+    .select("id as finding_id", "branch_id")
+    .union((u) => u.from("finding_branches").where("organisation_id", opts.organisationId).select("finding_id", "branch_id"));
+  const counts = await activeFindings()
+    .join(shownIn.as("shown"), "shown.finding_id", "findings.id")
+    .groupBy("shown.branch_id", "findings.severity", "findings.state")
+    .select("shown.branch_id", "findings.severity", "findings.state")
+    .count({ n: "*" })
+    .sum({ overdue: db.raw("CASE WHEN findings.due_on < ? THEN 1 ELSE 0 END", [opts.today]) });
+  const distinctCounts = await activeFindings()
+    .where((w) =>
+      whereFindingShowsIn(
+        w,
+        branches.map((b) => Number(b.id)),
+      ),
+    )
+    .groupBy("findings.severity", "findings.state")
+    .select("findings.severity", "findings.state")
     .count({ n: "*" })
     .sum({ overdue: db.raw("CASE WHEN findings.due_on < ? THEN 1 ELSE 0 END", [opts.today]) });
   const audits = await db("audits")
@@ -113,9 +135,6 @@ export async function getOrganisationOverview(
       if (c.state === "fix_proposed") fixProposed += Number(c.n);
       overdue += Number(c.overdue ?? 0);
     }
-    for (const s of Object.keys(active) as Severity[]) totals[s] += active[s];
-    totals.overdue += overdue;
-    totals.fixProposed += fixProposed;
     const history: AuditSnapshot[] = [];
     let recordsAudited: number | null = null;
     for (const a of audits) {
@@ -151,6 +170,11 @@ export async function getOrganisationOverview(
       lastAudit,
     };
   });
+  for (const c of distinctCounts) {
+    totals[c.severity as Severity] += Number(c.n);
+    if (c.state === "fix_proposed") totals.fixProposed += Number(c.n);
+    totals.overdue += Number(c.overdue ?? 0);
+  }
   return { branches: out, totals };
 }
 
@@ -268,7 +292,9 @@ export async function getBranchDashboard(
 
   const findingsBase = () =>
     scoped(
-      db("findings as findings").where({ "findings.organisation_id": opts.organisationId, "findings.branch_id": branch.id }),
+      db("findings as findings")
+        .where({ "findings.organisation_id": opts.organisationId })
+        .where((w) => whereFindingShowsIn(w, [branch.id])),
       opts.findingScope,
     );
 
@@ -296,7 +322,8 @@ export async function getBranchDashboard(
   // Opened (first raised or found again) and closed (accepted, waived, no longer found) per month.
   const eventRows = await db("finding_events as e")
     .join("findings as findings", "findings.id", "e.finding_id")
-    .where({ "findings.organisation_id": opts.organisationId, "findings.branch_id": branch.id })
+    .where({ "findings.organisation_id": opts.organisationId })
+    .where((w) => whereFindingShowsIn(w, [branch.id]))
     .where(function inScope(this: Knex.QueryBuilder) {
       opts.findingScope(this);
     })

@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import { addDays, buildDigests, DIGEST_WINDOW_DAYS, type DigestLine } from "@coldtrail/core";
 import { toNumOrNull } from "../types";
+import { findingBranchIds } from "./finding-branches";
 
 export interface DigestForPerson {
   userId: number;
@@ -22,6 +23,10 @@ export async function collectDigests(db: Knex, opts: { organisationId: number; t
     .where("f.due_on", "<=", addDays(opts.today, DIGEST_WINDOW_DAYS))
     .select("f.id", "f.branch_id", "b.name as branch_name", "f.rule_id", "f.title", "f.severity", "f.state", "f.due_on", "f.assignee_id");
   if (findings.length === 0) return [];
+  const shownIn = await findingBranchIds(
+    db,
+    findings.map((f) => ({ id: Number(f.id), branchId: Number(f.branch_id) })),
+  );
   const people = await db("memberships as m")
     .join("users as u", "u.id", "m.user_id")
     .where({ "m.organisation_id": opts.organisationId, "u.active": true })
@@ -66,6 +71,7 @@ export async function collectDigests(db: Knex, opts: { organisationId: number; t
     findings.map((f) => ({
       id: Number(f.id),
       branchId: Number(f.branch_id),
+      branchIds: shownIn.get(Number(f.id)) ?? [Number(f.branch_id)],
       branchName: f.branch_name,
       ruleId: f.rule_id,
       title: f.title,

@@ -16,6 +16,7 @@ import { appendActivity, rowId } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { toNumOrNull, type ActorRef, type ScopeFn } from "../types";
 import { whereContains } from "../paging";
+import { findingBranchIds, whereFindingShowsIn } from "./finding-branches";
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
@@ -188,7 +189,7 @@ function applyFilters(qb: Knex.QueryBuilder, query: FindingViewQuery, today: str
   if (query.state === "active") qb.whereIn("findings.state", ["open", "fix_proposed"]);
   else if (query.state && query.state !== "all") qb.where("findings.state", query.state);
   if (query.severity) qb.where("findings.severity", query.severity);
-  if (query.branchId) qb.where("findings.branch_id", query.branchId);
+  if (query.branchId) whereFindingShowsIn(qb, [query.branchId]);
   if (query.ruleId) qb.where("findings.rule_id", query.ruleId);
   if (query.assignee === "none") qb.whereNull("findings.assignee_id");
   else if (typeof query.assignee === "number") qb.where("findings.assignee_id", query.assignee);
@@ -378,6 +379,8 @@ export interface FindingEvidenceRow {
 
 export interface FindingDetail extends FindingListRow {
   organisationId: number;
+  /** Every branch the finding shows in (a person-level finding shows in each branch whose audit finds it). */
+  branches: { id: number; name: string }[];
   identityKey: string;
   fix: string;
   citation: string;
@@ -457,9 +460,17 @@ export async function getFinding(
     .orderBy("a.id", "desc")
     .limit(20)
     .select("a.id", "a.created_at", "a.period_from", "a.period_to");
+  const shownIn = (await findingBranchIds(db, [{ id: opts.id, branchId: Number(r.branch_id) }])).get(opts.id) ?? [Number(r.branch_id)];
+  const branchNames = new Map(
+    (await db("branches").where({ organisation_id: opts.organisationId }).whereIn("id", shownIn).select("id", "name")).map((b) => [
+      Number(b.id),
+      b.name as string,
+    ]),
+  );
   return {
     ...toListRow(r),
     organisationId: Number(r.organisation_id),
+    branches: shownIn.map((id) => ({ id, name: branchNames.get(id) ?? `#${id}` })),
     identityKey: r.identity_key,
     fix: r.fix,
     citation: r.citation,
@@ -708,7 +719,11 @@ export async function assignFindings(
         .select("role", "branch_id");
       const owner = memberships.some((m) => m.role === "owner");
       const managed = new Set(memberships.filter((m) => m.role === "branch_manager").map((m) => Number(m.branch_id)));
-      const outside = findings.find((f) => !owner && !managed.has(f.branch_id));
+      const shownIn = await findingBranchIds(
+        trx,
+        findings.map((f) => ({ id: f.id, branchId: f.branch_id })),
+      );
+      const outside = findings.find((f) => !owner && !(shownIn.get(f.id) ?? [f.branch_id]).some((b) => managed.has(b)));
       if (outside)
         throw new InvalidInputError(
           `${assignee.name} does not manage ${outside.branch_name}, so cannot fix finding #${outside.id}`,
@@ -1101,14 +1116,12 @@ export async function getFindingEvidence(
   db: Knex,
   opts: { organisationId: number; scope: ScopeFn; findingId: number; evidenceId: number },
 ): Promise<{ fileKey: string; fileName: string; mime: string } | undefined> {
-  const q = db("evidence as ev")
-    .join("findings as findings", "findings.id", "ev.subject_id")
-    .where({
-      "ev.id": opts.evidenceId,
-      "ev.subject_type": "finding",
-      "ev.subject_id": opts.findingId,
-      "ev.organisation_id": opts.organisationId,
-    });
+  const q = db("evidence as ev").join("findings as findings", "findings.id", "ev.subject_id").where({
+    "ev.id": opts.evidenceId,
+    "ev.subject_type": "finding",
+    "ev.subject_id": opts.findingId,
+    "ev.organisation_id": opts.organisationId,
+  });
   applyScope(q, opts.scope);
   const r = await q.first("ev.file_key", "ev.file_name", "ev.mime");
   return r ? { fileKey: r.file_key, fileName: r.file_name, mime: r.mime } : undefined;

@@ -2,6 +2,8 @@ export { loadBranchRecords, type LoadedBranch, type LoadedBranchRecords } from "
 export { getOrganisationAuditSettings, type OrganisationAuditSettings } from "./organisation-settings";
 export { auditBranchFindings, type BranchAuditSummary } from "./persist-findings";
 export { listFindingsOfRecord, type RecordFindingRow, type RecordFindingEffect } from "./record-findings";
+export { describeAuditFailure, failAuditWithReference, failureReference, type AuditFailure } from "./audit-failure";
+export { whereFindingShowsIn, findingBranchIds } from "./finding-branches";
 export {
   createAudit,
   getAuditRun,

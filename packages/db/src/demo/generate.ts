@@ -7,7 +7,17 @@ import bcrypt from "bcryptjs";
 import type { AccessMethod, CertificationType, EvacuationUnit, JobKind } from "@coldtrail/core";
 import { describeMass } from "../mass";
 import { Prng, addDays, dayOf, isoOf, stamp } from "./prng";
-import { DEMO_HISTORY_FROM, DEMO_PASSWORD, DEMO_TODAY, MAIN_ORG, SECOND_ORG, type BranchSpec, type OrganisationSpec } from "./scenario";
+import {
+  DEMO_HISTORY_FROM,
+  DEMO_PASSWORD,
+  DEMO_TODAY,
+  EU_BRANCH,
+  FLOATING_TECHNICIAN,
+  MAIN_ORG,
+  SECOND_ORG,
+  type BranchSpec,
+  type OrganisationSpec,
+} from "./scenario";
 
 export type Row = Record<string, unknown>;
 
@@ -183,6 +193,8 @@ export function buildDemoData(): DemoData {
   g.plantGaps();
   g.organisation(SECOND_ORG, 777);
   g.materialise();
+  g.floatingTechnician();
+  g.europeanBranch();
   return { tables: g.t, facts: g.facts };
 }
 
@@ -224,6 +236,8 @@ class Generator {
         address: b.address,
         time_zone: b.timeZone,
         mass_unit: b.massUnit,
+        country: b.country,
+        region: b.region,
         created_at: created,
         archived_at: null,
       });
@@ -1351,6 +1365,152 @@ class Generator {
       c.row.contents_g = c.contentsG;
       c.row.refrigerant = c.refrigerant;
       c.row.updated_at = stamp(DEMO_TODAY, 6);
+    }
+  }
+
+  /** Gives the floating technician a second branch (after the history, so nothing else changes). */
+  floatingTechnician(): void {
+    const userId = this.usersByKey.get(`${MAIN_ORG.key}:${FLOATING_TECHNICIAN.key}`)!;
+    const branch = this.byCode.get(FLOATING_TECHNICIAN.alsoIn)!;
+    this.t.add("memberships", {
+      organisation_id: branch.orgId,
+      user_id: userId,
+      branch_id: branch.id,
+      role: "technician",
+      created_at: stamp("2026-02-02", 15),
+    });
+  }
+
+  /** The main organisation's branch in the EU: its people, a site, appliances and a few charges. */
+  europeanBranch(): void {
+    this.rng = new Prng(2024573);
+    const orgId = this.byCode.get("COL")!.orgId;
+    const created = stamp("2025-02-03", 9);
+    const row = this.t.add("branches", {
+      organisation_id: orgId,
+      name: EU_BRANCH.name,
+      code: EU_BRANCH.code,
+      address: EU_BRANCH.address,
+      time_zone: EU_BRANCH.timeZone,
+      mass_unit: EU_BRANCH.massUnit,
+      country: EU_BRANCH.country,
+      region: EU_BRANCH.region,
+      created_at: created,
+      archived_at: null,
+    });
+    const person = (p: { key: string; name: string; email: string }, role: "branch_manager" | "technician") => {
+      const user = this.t.add("users", {
+        organisation_id: orgId,
+        email: p.email,
+        name: p.name,
+        password_hash: this.passwordHash,
+        active: true,
+        created_at: created,
+        deactivated_at: null,
+      });
+      this.usersByKey.set(`${MAIN_ORG.key}:${p.key}`, user.id);
+      this.t.add("memberships", { organisation_id: orgId, user_id: user.id, branch_id: row.id, role, created_at: created });
+      return user.id;
+    };
+    const managerId = person(EU_BRANCH.manager, "branch_manager");
+    const techId = person(EU_BRANCH.technician, "technician");
+    const tech: TechModel = {
+      id: techId,
+      key: `${MAIN_ORG.key}:${EU_BRANCH.technician.key}`,
+      name: EU_BRANCH.technician.name,
+      verifiedTypes: new Set(),
+      plantedOnly: false,
+    };
+    const spec: BranchSpec = {
+      code: EU_BRANCH.code,
+      name: EU_BRANCH.name,
+      address: EU_BRANCH.address,
+      timeZone: EU_BRANCH.timeZone,
+      massUnit: EU_BRANCH.massUnit,
+      country: EU_BRANCH.country,
+      region: EU_BRANCH.region,
+      counts: { sa: 0, res: 0, rtu: 0, wic: 0, rack: 0 },
+      specials: [],
+    };
+    const model: BranchModel = {
+      id: row.id,
+      orgId,
+      spec,
+      managerId,
+      techs: [tech],
+      shopSiteId: 0,
+      sites: [],
+      cylinders: [],
+      equipment: { general: [], small: [] },
+      reclaimer: RECLAIMERS[0]!,
+    };
+    this.byCode.set(spec.code, model);
+    const shop = this.t.add("sites", {
+      organisation_id: orgId,
+      branch_id: row.id,
+      customer_id: null,
+      name: `${spec.name} shop`,
+      address: spec.address,
+      created_at: created,
+      archived_at: null,
+    });
+    model.shopSiteId = shop.id;
+    const customer = this.t.add("customers", {
+      organisation_id: orgId,
+      branch_id: row.id,
+      name: "Havenkade Retail Group",
+      contact_name: "M. Brouwer",
+      phone: "555-0188",
+      email: "facilities@havenkade.example",
+      address: "Havenkade 5, 3089 Rotterdam, Netherlands",
+      created_at: created,
+      archived_at: null,
+    });
+    const site = this.t.add("sites", {
+      organisation_id: orgId,
+      branch_id: row.id,
+      customer_id: customer.id,
+      name: "Havenkade Retail Group — Waalhaven",
+      address: "Waalhaven Oostzijde 40, 3087 Rotterdam, Netherlands",
+      created_at: created,
+      archived_at: null,
+    });
+    model.sites.push({
+      id: site.id,
+      kind: "commercial",
+      address: "Waalhaven Oostzijde 40, 3087 Rotterdam, Netherlands",
+      contact: "M. Brouwer",
+    });
+    const appliances = new Map<string, ApplianceModel>();
+    for (const a of EU_BRANCH.appliances) {
+      appliances.set(
+        a.tag,
+        this.appliance(model, {
+          tag: a.tag,
+          category: a.category,
+          refrigerant: a.refrigerant,
+          chargeG: a.chargeKg * 1000,
+          description: a.description,
+          method: "nameplate",
+          installedOn: a.installedOn,
+        }),
+      );
+    }
+    let minute = 5;
+    for (const c of EU_BRANCH.charges) {
+      const appliance = appliances.get(c.tag)!;
+      const d: Draft = {
+        seq: this.seq++,
+        date: c.on,
+        kind: "charge",
+        appliance,
+        branch: model,
+        tech,
+        chargeG: Math.round(c.kg * 1000),
+        access: "service_valve",
+        notes: "Topped up after a low-charge alarm",
+      };
+      this.materialiseJob(d, stamp(c.on, 10, (minute += 11)));
     }
   }
 

@@ -17,6 +17,9 @@ export interface BranchSpec {
   address: string;
   timeZone: string;
   massUnit: MassDisplayUnit;
+  /** ISO 3166-1 alpha-2 country and state/region: the rule packs that apply follow from them. */
+  country: string;
+  region: string | null;
   /** How many appliances of each generated kind the branch serves. */
   counts: { sa: number; res: number; rtu: number; wic: number; rack: number };
   /** Large one-off systems: chillers and industrial process refrigeration. */
@@ -81,6 +84,8 @@ export const MAIN_ORG: OrganisationSpec = {
       address: "2150 Tinplate Way, Columbus, OH 43219",
       timeZone: "America/New_York",
       massUnit: "lb_oz",
+      country: "US",
+      region: "OH",
       counts: { sa: 16, res: 50, rtu: 14, wic: 8, rack: 2 },
       specials: [
         { prefix: "CH", category: "chiller", refrigerant: "R-134a", chargeKg: 410, description: "Centrifugal chiller, office tower" },
@@ -99,6 +104,8 @@ export const MAIN_ORG: OrganisationSpec = {
       address: "880 W Saguaro Mill Rd, Tucson, AZ 85705",
       timeZone: "America/Phoenix",
       massUnit: "lb_oz",
+      country: "US",
+      region: "AZ",
       counts: { sa: 16, res: 52, rtu: 16, wic: 7, rack: 2 },
       specials: [
         {
@@ -116,6 +123,8 @@ export const MAIN_ORG: OrganisationSpec = {
       address: "4410 Larkfield St, Denver, CO 80216",
       timeZone: "America/Denver",
       massUnit: "kg",
+      country: "US",
+      region: "CO",
       counts: { sa: 16, res: 48, rtu: 14, wic: 8, rack: 2 },
       specials: [
         {
@@ -133,6 +142,8 @@ export const MAIN_ORG: OrganisationSpec = {
       address: "317 Foundry Hollow Dr, Peoria, IL 61602",
       timeZone: "America/Chicago",
       massUnit: "lb_oz",
+      country: "US",
+      region: "IL",
       counts: { sa: 16, res: 48, rtu: 14, wic: 8, rack: 2 },
       specials: [
         { prefix: "CH", category: "chiller", refrigerant: "R-134a", chargeKg: 330, description: "Screw chiller, county courthouse" },
@@ -213,6 +224,8 @@ export const SECOND_ORG: OrganisationSpec = {
       address: "95 Sagebrush Ct, Boise, ID 83702",
       timeZone: "America/Boise",
       massUnit: "lb_oz",
+      country: "US",
+      region: "ID",
       counts: { sa: 2, res: 6, rtu: 2, wic: 1, rack: 0 },
       specials: [],
     },
@@ -223,6 +236,64 @@ export const SECOND_ORG: OrganisationSpec = {
     tech("tech-BOI-1", "Paloma Quintero-Dahl", QF, "BOI"),
   ],
 };
+
+/**
+ * The company's branch in the European Union, added after the US history is generated: a few
+ * appliances with fluorinated gases and their jobs, so the EU rules have something to say. US rules
+ * never apply to it, and EU rules never apply to the US branches.
+ */
+export const EU_BRANCH = {
+  code: "RTM",
+  name: "Rotterdam",
+  address: "Koelvakweg 27, 3089 KN Rotterdam, Netherlands",
+  timeZone: "Europe/Amsterdam",
+  massUnit: "kg" as MassDisplayUnit,
+  country: "NL",
+  region: "South Holland",
+  manager: { key: "mgr-RTM", name: "Femke Oudendijk", email: `femke.oudendijk@${KM}` },
+  technician: { key: "tech-RTM-1", name: "Joost van Lieshout", email: `joost.vanlieshout@${KM}` },
+  appliances: [
+    // 45 kg R-404A ≈ 176 t CO2e: leak checks every 6 months; none on record.
+    {
+      tag: "RTM-RACK-101",
+      category: "commercial_refrigeration",
+      refrigerant: "R-404A",
+      chargeKg: 45,
+      installedOn: "2019-04-08",
+      description: "Supermarket rack, chilled aisles",
+    },
+    // 380 kg R-134a ≈ 543 t CO2e: a leak-detection system is required and none is recorded.
+    {
+      tag: "RTM-CH-101",
+      category: "chiller",
+      refrigerant: "R-134a",
+      chargeKg: 380,
+      installedOn: "2017-09-19",
+      description: "Screw chiller, port office building",
+    },
+    // 12 kg R-410A ≈ 25 t CO2e: a check every 12 months.
+    {
+      tag: "RTM-RTU-101",
+      category: "packaged_rooftop",
+      refrigerant: "R-410A",
+      chargeKg: 12,
+      installedOn: "2021-06-02",
+      description: "Rooftop unit, furniture showroom",
+    },
+  ],
+  /** Charges logged at the branch (date, tag, kg). */
+  charges: [
+    { on: "2026-03-17", tag: "RTM-RACK-101", kg: 3.5 },
+    { on: "2026-08-04", tag: "RTM-RTU-101", kg: 0.8 },
+  ],
+} as const;
+
+/**
+ * A technician who works in two branches (normal in the trade): Diego Castellanos-Reyes of Tucson
+ * also covers Peoria. His card is awaiting verification, a finding about him, not about a branch:
+ * it is one finding, shown in both branches.
+ */
+export const FLOATING_TECHNICIAN = { key: "tech-TUC-4", alsoIn: "PIA" } as const;
 
 /** One sign-in per role, for the README, demos and end-to-end tests. */
 export const DEMO_SIGN_INS: Record<Role | "other_org_manager" | "other_org_technician", string> = {

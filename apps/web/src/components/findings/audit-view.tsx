@@ -119,7 +119,8 @@ export function AuditDetail({
           {a.state !== "done" && a.state !== "failed" && " — you can leave this page; the audit keeps running."}
         </p>
         <p className="mt-1 text-sm text-ink-600">
-          Branches: {a.branchIds.length} ({a.branchesDone.length} checked){a.partial && " · you see the branches you may read"}
+          <span data-testid="audit-branches">Branches: {a.branchNames?.length ? a.branchNames.join(", ") : a.branchIds.length}</span> (
+          {a.branchesDone.length} of {a.branchIds.length} checked){a.partial && " · you see the branches you may read"}
         </p>
       </section>
 

@@ -19,7 +19,38 @@ const ACTION_WORDS: Record<string, string> = {
   reopened: "Reopened",
   waived: "Waived",
   evidence_added: "Evidence attached",
+  correction_added: "Another correction added to the proposed fix",
 };
+
+interface CorrectionEvidence {
+  id: number;
+  subjectType: string;
+  subjectId: number;
+  subjectLabel: string;
+  actorName: string;
+  at: string;
+  reason: string;
+  fields: string[];
+}
+
+const SUBJECT_RECORD_TYPES: Record<string, string> = {
+  Job: "job",
+  Appliance: "appliance",
+  appliance: "appliance",
+  Cylinder: "cylinder",
+  RecoveryEquipment: "equipment",
+  Certification: "certification",
+};
+
+/** The corrections that made the gap disappear, from the events that proposed the fix through them. */
+function correctionsOf(f: FindingView): CorrectionEvidence[] {
+  const out: CorrectionEvidence[] = [];
+  for (const e of f.events) {
+    if (e.data?.via !== "amendment" || !Array.isArray(e.data.amendments)) continue;
+    for (const a of e.data.amendments as CorrectionEvidence[]) if (!out.some((x) => x.id === a.id)) out.push(a);
+  }
+  return out;
+}
 
 const when = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
 
@@ -96,7 +127,7 @@ export function FindingDetailView({ id, today }: { id: number; today: string }) 
           <Link href="/findings" className="text-fjord-700 underline">
             Findings
           </Link>{" "}
-          › Finding #{f.id} · {f.branchName}
+          › Finding #{f.id} · {f.branches.length > 1 ? f.branches.map((b) => b.name).join(", ") : f.branchName}
         </p>
         <h1 className="text-2xl font-semibold text-ink-950">
           <span className="tabular text-ink-600">{f.ruleId}</span> {f.title}
@@ -110,6 +141,11 @@ export function FindingDetailView({ id, today }: { id: number; today: string }) 
           <span className="text-ink-700">· Assignee: {f.assigneeName ?? "not assigned"}</span>
           {f.technicianName && <span className="text-ink-700">· Names {f.technicianName}</span>}
         </div>
+        {f.branches.length > 1 && (
+          <p className="text-sm text-ink-700" data-testid="finding-branches">
+            About a person who works in several branches: one finding, shown in {f.branches.map((b) => b.name).join(" and ")}.
+          </p>
+        )}
       </header>
 
       {notice && (
@@ -142,6 +178,8 @@ export function FindingDetailView({ id, today }: { id: number; today: string }) 
               </p>
             )}
           </Section>
+
+          <Corrections finding={f} />
 
           <Section title="The rule" id="rule-h">
             <p className="text-ink-900">{f.rule?.explanation ?? "This rule is no longer in the rule set."}</p>
@@ -573,6 +611,50 @@ function Comments({ finding: f, onDone }: { finding: FindingView; onDone: (t: st
   );
 }
 
+/** A fix proposed through corrections of the finding's records: what was changed, by whom and why. */
+function Corrections({ finding: f }: { finding: FindingView }) {
+  const corrections = correctionsOf(f);
+  if (corrections.length === 0) return null;
+  const waiting = f.state === "fix_proposed";
+  return (
+    <Section title={waiting ? "Corrections waiting for review" : "Corrections behind the proposed fix"} id="corrections-h">
+      <p className="text-sm text-ink-700">
+        {waiting
+          ? "The records no longer show this gap because they were corrected. The corrections are the evidence of the fix; accept it if they are right, or reopen the finding."
+          : "These corrections were offered as the fix."}
+      </p>
+      <ul className="mt-2 space-y-2" data-testid="amendment-evidence">
+        {corrections.map((a) => {
+          const href = recordHref(SUBJECT_RECORD_TYPES[a.subjectType] ?? "", a.subjectId, f.branchId);
+          return (
+            <li key={a.id} className="rounded-md border border-ink-200 bg-ink-50 px-3 py-2 text-sm">
+              <p className="text-ink-900">
+                <strong>{a.actorName}</strong> corrected{" "}
+                {href ? (
+                  <Link href={href} className="font-medium text-fjord-700 underline">
+                    {a.subjectLabel}
+                  </Link>
+                ) : (
+                  a.subjectLabel
+                )}{" "}
+                <span className="text-ink-600">· {when(a.at)}</span>
+              </p>
+              <p className="text-ink-800">
+                <span className="text-ink-600">Reason:</span> {a.reason}
+              </p>
+              {a.fields.length > 0 && (
+                <p className="text-ink-700">
+                  <span className="text-ink-600">Changed:</span> {a.fields.map((x) => x.replace(/_/g, " ")).join(", ")}
+                </p>
+              )}
+            </li>
+          );
+        })}
+      </ul>
+    </Section>
+  );
+}
+
 function History({ finding: f }: { finding: FindingView }) {
   return (
     <Section title="History" id="history-h">
@@ -586,7 +668,11 @@ function History({ finding: f }: { finding: FindingView }) {
             )}
             <div>
               <p className="text-ink-900">
-                <strong>{ACTION_WORDS[e.action] ?? e.action}</strong>
+                <strong>
+                  {e.action === "fix_proposed" && e.data?.via === "amendment"
+                    ? "Fix proposed by correcting the records"
+                    : (ACTION_WORDS[e.action] ?? e.action)}
+                </strong>
                 {e.fromState && e.toState && e.fromState !== e.toState && (
                   <span className="text-ink-700">
                     {" "}

@@ -1,9 +1,9 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useState } from "react";
+import { useEffect, useState } from "react";
 import { useMutation } from "@tanstack/react-query";
-import type { RulePack } from "@coldtrail/core";
+import { packsForPlace, type RulePack } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 
 const PACKS: { id: RulePack; label: string; hint: string }[] = [
@@ -16,25 +16,39 @@ export function NewAuditForm({
   defaultPacks,
   today,
 }: {
-  branches: { id: number; name: string }[];
+  branches: { id: number; name: string; country: string; region: string | null }[];
   defaultPacks: RulePack[];
   today: string;
 }) {
   const router = useRouter();
+  // Choices are enabled once the page is interactive, so a click made before then is never lost.
+  const [ready, setReady] = useState(false);
+  useEffect(() => setReady(true), []);
   const threeYearsBack = `${Number(today.slice(0, 4)) - 3}${today.slice(4)}`;
   const [branchIds, setBranchIds] = useState<number[]>(branches.map((b) => b.id));
   const [periodFrom, setFrom] = useState(threeYearsBack);
   const [periodTo, setTo] = useState(today);
   const [packs, setPacks] = useState<RulePack[]>(defaultPacks.length ? defaultPacks : ["us_federal"]);
   const start = useMutation({
-    mutationFn: () =>
-      fetchJson<{ id: number }>("/api/audits", { method: "POST", body: JSON.stringify({ branchIds, periodFrom, periodTo, packs }) }),
+    // The branches sent are the boxes ticked on the screen, read from the form itself.
+    mutationFn: (chosen: number[]) =>
+      fetchJson<{ id: number }>("/api/audits", {
+        method: "POST",
+        body: JSON.stringify({ branchIds: chosen, periodFrom, periodTo, packs }),
+      }),
     onSuccess: ({ id }) => router.push(`/audits/${id}`),
   });
   const fields = start.error instanceof ApiError ? start.error.fieldErrors : {};
   const message = start.error ? (start.error instanceof ApiError ? start.error.message : "The audit could not be started") : null;
   const all = branchIds.length === branches.length;
   const toggle = (id: number) => setBranchIds((ids) => (ids.includes(id) ? ids.filter((x) => x !== id) : [...ids, id]));
+  const chosenBranches = branches.filter((b) => branchIds.includes(b.id));
+  const coverage = (pack: RulePack) => {
+    const covered = chosenBranches.filter((b) => packsForPlace({ country: b.country, region: b.region }).includes(pack));
+    if (chosenBranches.length === 0) return "";
+    if (covered.length === 0) return "Applies to none of the chosen branches.";
+    return `Applies to ${covered.length === chosenBranches.length ? "every chosen branch" : covered.map((b) => b.name).join(", ")}.`;
+  };
   const error = (key: string) =>
     fields[key]?.length ? (
       <p id={`${key}-error`} className="mt-1 text-sm text-sev-critical">
@@ -45,26 +59,53 @@ export function NewAuditForm({
 
   return (
     <form
+      aria-busy={!ready}
       className="max-w-2xl space-y-5 rounded-lg border border-ink-200 bg-white p-5"
       onSubmit={(e) => {
         e.preventDefault();
-        start.mutate();
+        const ticked = new FormData(e.currentTarget).getAll("branchId").map(Number);
+        setBranchIds(ticked);
+        start.mutate(ticked);
       }}
     >
       <fieldset aria-describedby="branchIds-error">
         <legend className="font-semibold text-ink-950">Branches</legend>
         <label className="mt-2 flex items-center gap-2 text-sm font-medium">
-          <input type="checkbox" className="h-4 w-4" checked={all} onChange={() => setBranchIds(all ? [] : branches.map((b) => b.id))} />
+          <input
+            type="checkbox"
+            className="h-4 w-4"
+            disabled={!ready}
+            checked={all}
+            onChange={() => setBranchIds(all ? [] : branches.map((b) => b.id))}
+          />
           All branches ({branches.length})
         </label>
         <div className="mt-2 grid gap-2 sm:grid-cols-2">
           {branches.map((b) => (
             <label key={b.id} className="flex items-center gap-2 text-sm">
-              <input type="checkbox" className="h-4 w-4" checked={branchIds.includes(b.id)} onChange={() => toggle(b.id)} />
+              <input
+                type="checkbox"
+                name="branchId"
+                value={b.id}
+                className="h-4 w-4"
+                disabled={!ready}
+                checked={branchIds.includes(b.id)}
+                onChange={() => toggle(b.id)}
+              />
               {b.name}
             </label>
           ))}
         </div>
+        <p className="mt-2 text-sm text-ink-700" aria-live="polite" data-testid="audit-scope">
+          {branchIds.length === 0
+            ? "No branch chosen."
+            : all
+              ? `Audits all ${branches.length} branches.`
+              : `Audits ${branchIds.length} of ${branches.length} branches: ${branches
+                  .filter((b) => branchIds.includes(b.id))
+                  .map((b) => b.name)
+                  .join(", ")}.`}
+        </p>
         {error("branchIds")}
       </fieldset>
 
@@ -103,6 +144,7 @@ export function NewAuditForm({
 
       <fieldset aria-describedby="packs-error">
         <legend className="font-semibold text-ink-950">Rule packs</legend>
+        <p className="text-sm text-ink-600">Each branch is checked only against the packs that apply where it is.</p>
         <div className="mt-2 space-y-2">
           {PACKS.map((p) => (
             <label key={p.id} className="flex items-start gap-2 text-sm">
@@ -114,6 +156,7 @@ export function NewAuditForm({
               />
               <span>
                 <span className="font-medium">{p.label}</span> <span className="text-ink-600">— {p.hint}</span>
+                <span className="block text-ink-600">{coverage(p.id)}</span>
               </span>
             </label>
           ))}
@@ -128,7 +171,7 @@ export function NewAuditForm({
       )}
       <button
         type="submit"
-        disabled={start.isPending}
+        disabled={start.isPending || !ready || branchIds.length === 0}
         className="rounded-md bg-fjord-600 px-5 py-2.5 font-semibold text-white hover:bg-fjord-700 disabled:opacity-40"
       >
         {start.isPending ? "Starting…" : "Start the audit"}

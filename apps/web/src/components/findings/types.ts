@@ -13,7 +13,7 @@ export interface FindingPage {
   groups: FindingGroup[];
 }
 
-export type AuditView = AuditRun & { partial: boolean };
+export type AuditView = AuditRun & { partial: boolean; branchNames?: string[] };
 
 export interface AuditPage {
   rows: (AuditView & { branchNames: string[] })[];

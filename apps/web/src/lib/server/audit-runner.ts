@@ -1,6 +1,7 @@
 import {
   claimAudit,
-  failAudit,
+  describeAuditFailure,
+  failAuditWithReference,
   getDb,
   listQueuedAuditIds,
   requeueInterruptedAudits,
@@ -33,11 +34,6 @@ const state: RunnerState = (globalForRunner.__coldtrailAuditRunner ??= { busy: f
 
 const pause = () => new Promise<void>((resolve) => setImmediate(resolve));
 
-function plainMessage(err: unknown): string {
-  if (err && typeof err === "object" && "code" in err && "message" in err && typeof err.message === "string") return err.message;
-  return "Something went wrong while the records were checked; start the audit again";
-}
-
 async function runOne(db: Knex, id: number): Promise<void> {
   if (!(await claimAudit(db, { id }))) return;
   const beat = setInterval(() => {
@@ -47,8 +43,9 @@ async function runOne(db: Knex, id: number): Promise<void> {
   try {
     await runAuditBranches(db, { id, pause });
   } catch (err) {
-    console.error(`[audits] audit #${id} failed`, err);
-    await failAudit(db, { id, message: plainMessage(err) }).catch((e: unknown) => console.error(e));
+    await failAuditWithReference(db, { id, error: err }).catch((e: unknown) =>
+      console.error(describeAuditFailure(e, `recording the failure of audit #${id}`).logLine),
+    );
   } finally {
     clearInterval(beat);
   }

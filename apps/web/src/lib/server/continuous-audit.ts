@@ -1,4 +1,4 @@
-import { reevaluateBranch, type Knex } from "@coldtrail/db";
+import { describeAuditFailure, reevaluateBranch, type Knex } from "@coldtrail/db";
 
 /**
  * Continuous audit. Call after a write that changes a branch's records (a job, a disposal, a cylinder
@@ -33,7 +33,7 @@ async function recheck(db: Knex, opts: RecheckOptions): Promise<void> {
       afterActivityId: opts.afterActivityId ?? null,
     });
   } catch (err) {
-    console.error(`[continuous audit] branch #${opts.branchId} could not be re-checked`, err);
+    console.error(describeAuditFailure(err, `continuous re-check of branch #${opts.branchId}`).logLine);
   }
 }
 

@@ -10,6 +10,10 @@ import { branchesAllowed } from "../findings/_lib/access";
 export function visibleAudit<T extends AuditRun>(run: T, readableBranchIds: Set<number>): T & { partial: boolean } {
   if (!run.summary) return { ...run, partial: run.branchIds.some((b) => !readableBranchIds.has(b)) };
   const branches = run.summary.branches.filter((b) => readableBranchIds.has(b.branchId));
+  // Whoever reads every branch gets the stored totals, which count a finding shown in two branches
+  // (a technician's card) once.
+  if (branches.length === run.summary.branches.length && run.branchIds.every((b) => readableBranchIds.has(b)))
+    return { ...run, partial: false };
   const totals: AuditSummary["totals"] = {
     found: 0,
     created: 0,

@@ -6,7 +6,17 @@ import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
-import { MASS_DISPLAY_UNITS, MASS_DISPLAY_UNIT_LABELS, branchInput, isValidTimeZone } from "@coldtrail/core";
+import {
+  ISO_COUNTRY_CODES,
+  MASS_DISPLAY_UNITS,
+  MASS_DISPLAY_UNIT_LABELS,
+  RULE_PACK_LABELS,
+  US_REGION_CODES,
+  branchInput,
+  countryName,
+  isValidTimeZone,
+  packsForPlace,
+} from "@coldtrail/core";
 import type { AdminBranchRow } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { saveErrorMessage } from "@/lib/client/form-save";
@@ -40,11 +50,19 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
       address: branch?.address ?? "",
       timeZone: branch?.timeZone ?? "",
       massUnit: branch?.massUnit ?? "lb_oz",
+      country: branch?.country ?? "",
+      region: branch?.region ?? "",
     },
   });
   const { register, handleSubmit, formState, setError, watch } = form;
   const errors = formState.errors;
   const timeZone = watch("timeZone");
+  const country = (watch("country") ?? "").toUpperCase();
+  const countries = useMemo(
+    () => ISO_COUNTRY_CODES.map((code) => ({ code, name: countryName(code) })).sort((a, b) => a.name.localeCompare(b.name)),
+    [],
+  );
+  const packsHere = ISO_COUNTRY_CODES.includes(country) ? packsForPlace({ country, region: null }) : null;
   const [clock, setClock] = useState<string | null>(null);
   useEffect(() => setClock(localTimeIn(timeZone ?? "")), [timeZone]);
 
@@ -53,7 +71,14 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
       branch
         ? fetchJson<AdminBranchRow>(`/api/admin/branches/${branch.id}`, {
             method: "PATCH",
-            body: JSON.stringify({ name: input.name, address: input.address ?? "", timeZone: input.timeZone, massUnit: input.massUnit }),
+            body: JSON.stringify({
+              name: input.name,
+              address: input.address ?? "",
+              timeZone: input.timeZone,
+              massUnit: input.massUnit,
+              country: input.country,
+              region: input.region ?? "",
+            }),
           })
         : fetchJson<{ id: number }>("/api/admin/branches", { method: "POST", body: JSON.stringify(input) }),
     onSuccess: async (res) => {
@@ -132,6 +157,62 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
           aria-describedby={describedBy("address")}
         />
         <FieldError id={`${uid}-address-error`} message={errors.address?.message} />
+      </div>
+      <div className="grid gap-5 sm:grid-cols-2">
+        <div>
+          <label htmlFor={`${uid}-country`} className={labelClass}>
+            Country
+          </label>
+          <select
+            id={`${uid}-country`}
+            {...register("country")}
+            className={inputClass}
+            aria-invalid={invalid("country")}
+            aria-describedby={describedBy("country", true)}
+          >
+            <option value="">Choose the country…</option>
+            {countries.map((c) => (
+              <option key={c.code} value={c.code}>
+                {c.name} ({c.code})
+              </option>
+            ))}
+          </select>
+          <p id={`${uid}-country-hint`} className={hintClass}>
+            {packsHere === null
+              ? "Decides which rules the branch is audited against."
+              : packsHere.length
+                ? `Audited against: ${packsHere.map((p) => RULE_PACK_LABELS[p]).join(" and ")}.`
+                : "No rule pack covers this country yet, so audits find nothing here."}
+          </p>
+          <FieldError id={`${uid}-country-error`} message={errors.country?.message} />
+        </div>
+        <div>
+          <label htmlFor={`${uid}-region`} className={labelClass}>
+            {country === "US" ? "State" : "State or region"}
+            {country !== "US" && <span className="font-normal text-ink-600"> (optional)</span>}
+          </label>
+          <input
+            id={`${uid}-region`}
+            list={country === "US" ? `${uid}-states` : undefined}
+            autoComplete="off"
+            placeholder={country === "US" ? "e.g. TX" : "e.g. South Holland"}
+            {...register("region")}
+            className={inputClass}
+            aria-invalid={invalid("region")}
+            aria-describedby={describedBy("region", true)}
+          />
+          <datalist id={`${uid}-states`}>
+            {US_REGION_CODES.map((code) => (
+              <option key={code} value={code} />
+            ))}
+          </datalist>
+          <p id={`${uid}-region-hint`} className={hintClass}>
+            {country === "US"
+              ? "The state's two-letter code. Stricter state rules can be added for it later."
+              : "Where stricter local rules may apply."}
+          </p>
+          <FieldError id={`${uid}-region-error`} message={errors.region?.message} />
+        </div>
       </div>
       <div className="grid gap-5 sm:grid-cols-2">
         <div>

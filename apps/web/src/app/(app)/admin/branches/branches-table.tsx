@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { useState } from "react";
-import { MASS_DISPLAY_UNIT_LABELS } from "@coldtrail/core";
+import { MASS_DISPLAY_UNIT_LABELS, placeWords } from "@coldtrail/core";
 import type { AdminBranchRow } from "@coldtrail/db";
 import { DataTable, ShowFilter, serverColumnHelper } from "@/components/data-table";
 import { ArchivedBadge } from "../_components/badges";
@@ -20,6 +20,12 @@ const columns = helper.columns([
     ),
   }),
   helper.accessor((r) => r.address ?? "", { id: "address", header: "Address", cell: (info) => info.getValue() || "—" }),
+  helper.accessor("country", {
+    id: "country",
+    header: "Place",
+    enableSorting: false,
+    cell: (info) => placeWords({ country: info.getValue(), region: info.row.original.region }),
+  }),
   helper.accessor("timeZone", { id: "timeZone", header: "Time zone" }),
   helper.accessor("massUnit", { id: "massUnit", header: "Amounts in", cell: (info) => MASS_DISPLAY_UNIT_LABELS[info.getValue()] }),
   helper.accessor("peopleCount", { id: "people", header: "People", cell: (info) => <span className="tabular">{info.getValue()}</span> }),

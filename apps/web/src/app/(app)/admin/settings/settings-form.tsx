@@ -2,7 +2,7 @@
 
 import { useEffect, useId, useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { Controller, useForm } from "react-hook-form";
+import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import {
@@ -10,13 +10,9 @@ import {
   LEAK_RATE_METHODS,
   LEAK_RATE_METHOD_LABELS,
   REQUALIFICATION_YEARS,
-  RULE_PACKS,
-  RULE_PACK_DESCRIPTIONS,
-  RULE_PACK_LABELS,
   SETTING_EXPLANATIONS,
   organisationSettingsInput,
   type AuditSettings,
-  type RulePack,
 } from "@coldtrail/core";
 import type { OrganisationSettings } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
@@ -46,7 +42,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
   const [notice, setNotice] = useState<string | null>(null);
   const settings = useQuery({ queryKey: ["settings"], queryFn: () => fetchJson<OrganisationSettings>("/api/admin/settings") });
   const form = useForm<FormIn, unknown, FormOut>({ resolver: zodResolver(organisationSettingsInput), mode: "onTouched" });
-  const { register, handleSubmit, control, formState, setError, reset, setValue } = form;
+  const { register, handleSubmit, formState, setError, reset, setValue } = form;
   const errors = formState.errors;
   useEffect(() => {
     if (settings.data) reset(toForm(settings.data));
@@ -135,40 +131,6 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
           />
           <FieldError id={`${uid}-name-error`} message={errors.name?.message} />
         </div>
-        <Controller
-          control={control}
-          name="rulePacks"
-          render={({ field }) => {
-            const value = (field.value ?? []) as RulePack[];
-            return (
-              <fieldset aria-describedby={errors.rulePacks ? `${uid}-rulePacks-error` : undefined}>
-                <legend className={labelClass}>Rules the audits apply</legend>
-                <div className="mt-2 space-y-2">
-                  {RULE_PACKS.map((p) => (
-                    <label
-                      key={p}
-                      className={`flex gap-3 rounded-md border p-3 ${value.includes(p) ? "border-fjord-600 bg-fjord-50" : "border-ink-200"}`}
-                    >
-                      <input
-                        type="checkbox"
-                        checked={value.includes(p)}
-                        disabled={!canEdit}
-                        onChange={(e) => field.onChange(e.target.checked ? [...value, p] : value.filter((x) => x !== p))}
-                        onBlur={field.onBlur}
-                        className="mt-1 h-4 w-4 accent-fjord-600"
-                      />
-                      <span>
-                        <span className="block font-medium text-ink-950">{RULE_PACK_LABELS[p]}</span>
-                        <span className="block text-sm text-ink-600">{RULE_PACK_DESCRIPTIONS[p]}</span>
-                      </span>
-                    </label>
-                  ))}
-                </div>
-                <FieldError id={`${uid}-rulePacks-error`} message={errors.rulePacks?.message} />
-              </fieldset>
-            );
-          }}
-        />
       </section>
 
       <section aria-labelledby={`${uid}-tol-h`} className="space-y-4 rounded-lg border border-ink-200 bg-white p-5">

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { redirect } from "next/navigation";
-import { getOrganisationAuditSettings, listBranches } from "@coldtrail/db";
+import { RULE_PACKS } from "@coldtrail/core";
+import { listBranches } from "@coldtrail/db";
 import { currentActor } from "@/lib/auth/current-actor";
 import { db } from "@/lib/db";
 import { NewAuditForm } from "@/components/findings/new-audit-form";
@@ -13,7 +14,6 @@ export default async function NewAuditPage() {
   if (signedIn.ability.cannot("run", "Audit")) redirect("/audits");
   const { actor } = signedIn;
   const branches = await listBranches(db(), { organisationId: actor.organisationId });
-  const { packs } = await getOrganisationAuditSettings(db(), actor.organisationId);
   return (
     <div className="space-y-4">
       <div>
@@ -23,8 +23,8 @@ export default async function NewAuditPage() {
         </p>
       </div>
       <NewAuditForm
-        branches={branches.map((b) => ({ id: b.id, name: b.name }))}
-        defaultPacks={packs}
+        branches={branches.map((b) => ({ id: b.id, name: b.name, country: b.country, region: b.region }))}
+        defaultPacks={[...RULE_PACKS]}
         today={new Date().toISOString().slice(0, 10)}
       />
     </div>

@@ -26,20 +26,33 @@ export async function branchesAllowed(
     .map((b) => ({ id: b.id, name: b.name }));
 }
 
-/** Whether the person may do `action` to a finding, judged on the fields the ability conditions read. */
+/**
+ * Whether the person may do `action` to a finding, judged on the fields the ability conditions read.
+ * A finding shown in several branches (a person-level finding) allows what any of them allows.
+ */
 export function canOnFinding(
   ability: AppAbility,
   action: Action,
-  f: { organisationId: number; branchId: number; technicianId: number | null; occurredOn?: string | null; openedAt?: string },
+  f: {
+    organisationId: number;
+    branchId: number;
+    technicianId: number | null;
+    occurredOn?: string | null;
+    openedAt?: string;
+    branches?: { id: number }[];
+  },
 ): boolean {
-  return ability.can(
-    action,
-    subject("Finding", {
-      organisationId: f.organisationId,
-      branchId: f.branchId,
-      technicianId: f.technicianId,
-      occurredOn: f.occurredOn ?? null,
-      openedAt: f.openedAt,
-    }),
+  const branchIds = f.branches?.length ? f.branches.map((b) => b.id) : [f.branchId];
+  return branchIds.some((branchId) =>
+    ability.can(
+      action,
+      subject("Finding", {
+        organisationId: f.organisationId,
+        branchId,
+        technicianId: f.technicianId,
+        occurredOn: f.occurredOn ?? null,
+        openedAt: f.openedAt,
+      }),
+    ),
   );
 }

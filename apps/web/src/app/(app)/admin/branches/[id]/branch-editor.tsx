@@ -56,7 +56,7 @@ export function BranchEditor({ id, created }: { id: string; created: boolean }) 
         </Link>
       )}
       {/* Re-mounted after saving so it shows the stored values. */}
-      <BranchForm key={`${b.name}|${b.timeZone}|${b.massUnit}|${b.address}`} branch={b} />
+      <BranchForm key={`${b.name}|${b.timeZone}|${b.massUnit}|${b.address}|${b.country}|${b.region}`} branch={b} />
       <section aria-labelledby="archive-h" className="space-y-3 rounded-lg border border-ink-200 bg-white p-5">
         <h2 id="archive-h" className="text-lg font-semibold text-ink-950">
           {b.archivedAt ? "Archived" : "Archive"}
