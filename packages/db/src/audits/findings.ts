@@ -1101,14 +1101,12 @@ export async function getFindingEvidence(
   db: Knex,
   opts: { organisationId: number; scope: ScopeFn; findingId: number; evidenceId: number },
 ): Promise<{ fileKey: string; fileName: string; mime: string } | undefined> {
-  const q = db("evidence as ev")
-    .join("findings as findings", "findings.id", "ev.subject_id")
-    .where({
-      "ev.id": opts.evidenceId,
-      "ev.subject_type": "finding",
-      "ev.subject_id": opts.findingId,
-      "ev.organisation_id": opts.organisationId,
-    });
+  const q = db("evidence as ev").join("findings as findings", "findings.id", "ev.subject_id").where({
+    "ev.id": opts.evidenceId,
+    "ev.subject_type": "finding",
+    "ev.subject_id": opts.findingId,
+    "ev.organisation_id": opts.organisationId,
+  });
   applyScope(q, opts.scope);
   const r = await q.first("ev.file_key", "ev.file_name", "ev.mime");
   return r ? { fileKey: r.file_key, fileName: r.file_name, mime: r.mime } : undefined;

@@ -246,7 +246,9 @@ export async function insertJob(
         }
       }
       const sameLeak =
-        input.sameLeakAsJobId !== undefined ? await sameLeakJob(trx, actor.organisationId, appliance.id, input.sameLeakAsJobId, input.performedOn) : null;
+        input.sameLeakAsJobId !== undefined
+          ? await sameLeakJob(trx, actor.organisationId, appliance.id, input.sameLeakAsJobId, input.performedOn)
+          : null;
       const [row] = await trx("jobs")
         .insert({
           ...base,

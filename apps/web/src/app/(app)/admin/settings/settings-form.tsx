@@ -86,7 +86,8 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
   );
 
   const numberField = (
-    name: "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG" | "disposalRecordGraceDays" | "cardVerificationGraceDays",
+    name:
+      "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG" | "disposalRecordGraceDays" | "cardVerificationGraceDays",
     label: string,
     unit: string,
     step: string,
