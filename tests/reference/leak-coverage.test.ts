@@ -161,6 +161,22 @@ describe("additions for the same leak are summed (40 CFR 82.152 leak rate)", () 
     expect(e.percent).toBeCloseTo(22, 2); // Source: 82.152 step 1 "whether in one addition or multiple additions related to the same leak" (from memory); 22 lb / 100 lb over 365 days
     expect(e.sourceIds).toEqual([2, 3]);
   });
+  it("another addition in between keeps its own interval from the last addition before it", () => {
+    const events = leakRateHistory({
+      fullChargeG: lb(100),
+      method: "annualizing",
+      additions: [
+        { on: "2025-01-01", amountG: lb(5), sourceId: 1 },
+        { on: "2026-01-10", amountG: lb(4), sourceId: 2 },
+        { on: "2026-02-01", amountG: lb(1), sourceId: 3 },
+        { on: "2026-02-20", amountG: lb(4), sourceId: 4, sameLeakAsJobId: 2 },
+      ],
+    });
+    const byJob = (id: number) => events.find((e) => e.sourceIds.includes(id))!;
+    expect(byJob(3).daysSinceLastAddition).toBe(22); // refrigerant was last added on 2026-01-10
+    expect(byJob(4).daysSinceLastAddition).toBe(374); // the leak event began on 2026-01-10; capped at 365 in the rate
+    expect(byJob(4).percent).toBeCloseTo(8, 2); // Source: 82.152 annualizing (days capped at 365); 4 lb + 4 lb of 100 lb
+  });
   it("the audit dates the exceedance at the addition that completes it", () => {
     const rack = appliance({
       id: 1,

@@ -90,6 +90,18 @@ export interface LeakRateHistoryInput {
   installedOn?: IsoDate | null;
 }
 
+/** The latest date in a sorted list that is before `date`, or null. */
+function lastBefore(sorted: readonly IsoDate[], date: IsoDate): IsoDate | null {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if ((sorted[mid] as IsoDate) < date) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo > 0 ? (sorted[lo - 1] as IsoDate) : null;
+}
+
 interface EventGroup {
   firstOn: IsoDate;
   on: IsoDate;
@@ -150,7 +162,9 @@ export function leakRateHistory(input: LeakRateHistoryInput): LeakRateEvent[] {
   let windowTerms = 0;
   let resetIdx = -1;
   const counted: { on: IsoDate; g: number; terms: number }[] = [];
-  let previous: IsoDate | null = null;
+  // Dates on which refrigerant was added (any event, excluded or not), to find the last addition
+  // before each event began: an event that sums additions for one leak starts at its first addition.
+  const ends = [...new Set(input.additions.filter((a) => !(input.countFrom && a.on < input.countFrom)).map((a) => a.on))].sort();
   const installed = input.installedOn ?? null;
   // The first interval runs from the installation (its charge is the last addition before the first
   // counted one). An appliance installed before `countFrom` (AIM: 2026-01-01) takes 365 days for its
@@ -158,6 +172,7 @@ export function leakRateHistory(input: LeakRateHistoryInput): LeakRateEvent[] {
   const firstStart: { on: IsoDate; from: IntervalStart } | null =
     installed !== null && !(input.countFrom && installed < input.countFrom) ? { on: installed, from: "installation" } : null;
   for (const e of groups) {
+    const previous = lastBefore(ends, e.firstOn);
     let start: { on: IsoDate; from: IntervalStart } | null = previous !== null ? { on: previous, from: "addition" } : null;
     if (start === null && firstStart && firstStart.on < e.firstOn) start = firstStart;
     const days = start === null ? null : Math.max(1, daysBetween(start.on, e.firstOn));
@@ -198,7 +213,6 @@ export function leakRateHistory(input: LeakRateHistoryInput): LeakRateEvent[] {
       intervalStartOn: start?.on ?? null,
       sourceIds: e.sourceIds.sort((a, b) => a - b),
     });
-    previous = e.on;
   }
   return events;
 }

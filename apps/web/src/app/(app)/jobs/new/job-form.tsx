@@ -457,7 +457,7 @@ function KindForm({
                 .filter((r) => !values.performedOn || r.performedOn <= values.performedOn)
                 .map((r) => (
                   <option key={r.id} value={r.id}>
-                    {r.performedOn} — {formatMass(r.chargedG, massUnit)} added, job #{r.id}
+                    {r.performedOn} · {formatMass(r.chargedG, massUnit)} · job #{r.id}
                   </option>
                 ))}
             </select>
