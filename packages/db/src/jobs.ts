@@ -208,6 +208,8 @@ export interface JobDetail extends JobListRow {
   leakLocation: string | null;
   repairDescription: string | null;
   additionExclusion: string | null;
+  /** Charge: the earlier charge for the same leak (summed into one leak rate). */
+  sameLeakAsJobId: number | null;
   shutdownNeeded: boolean | null;
   notes: string | null;
   source: string;
@@ -258,6 +260,7 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     "jobs.leak_location",
     "jobs.repair_description",
     "jobs.addition_exclusion",
+    "jobs.same_leak_as_job_id",
     "jobs.shutdown_needed",
     "jobs.notes",
     "jobs.source",
@@ -309,6 +312,7 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     leakLocation: r.leak_location ?? null,
     repairDescription: r.repair_description ?? null,
     additionExclusion: r.addition_exclusion ?? null,
+    sameLeakAsJobId: toNumOrNull(r.same_leak_as_job_id),
     shutdownNeeded: toBoolOrNull(r.shutdown_needed),
     notes: r.notes ?? null,
     source: r.source,

@@ -2,6 +2,7 @@ import { CoreInputError, UnknownRefrigerantError } from "../errors";
 import { addYears, type IsoDate } from "../dates/local-date";
 import { getRefrigerant } from "../refrigerants/catalogue";
 import { normaliseDesignation } from "../refrigerants/normalise-designation";
+import { GRAM_ROUNDING } from "../units/rounded-ratio";
 
 /** AHRI Guideline K: fill to 80 % of the water capacity, corrected by specific gravity [S11]. */
 export const GUIDELINE_K_FILL_FACTOR = 0.8;
@@ -20,6 +21,8 @@ export interface MaxFillInput {
 
 export interface MaxFill {
   maxNetG: number;
+  /** WC × 0.8 × SG before rounding down to the gram. */
+  maxNetExactG: number;
   maxGrossG: number;
   specificGravity: number;
   basis: FillBasis;
@@ -46,8 +49,19 @@ export function maxCylinderFill(input: MaxFillInput): MaxFill {
     basis = catalogued === null ? "legacy_sg_1" : input.strict130F ? "sg_130f" : "sg_77f";
   }
   if (!(sg > 0)) throw new CoreInputError("The specific gravity must be greater than zero", "specificGravity");
-  const maxNetG = Math.floor(input.waterCapacityG * GUIDELINE_K_FILL_FACTOR * sg + 1e-9);
-  return { maxNetG, maxGrossG: maxNetG + input.tareG, specificGravity: sg, basis };
+  const maxNetExactG = input.waterCapacityG * GUIDELINE_K_FILL_FACTOR * sg;
+  const maxNetG = Math.floor(maxNetExactG + 1e-9);
+  return { maxNetG, maxNetExactG, maxGrossG: maxNetG + input.tareG, specificGravity: sg, basis };
+}
+
+/**
+ * Whether a net content is over the maximum fill for the amounts as entered. The contents and the
+ * water capacity are both stored rounded to the gram, so a fill of exactly 80 % × WC × SG (38.08 lb in
+ * a 47.6 lb WC cylinder) may come out a fraction of a gram above the formula; that is not over.
+ */
+export function exceedsMaxFill(netG: number, max: Pick<MaxFill, "maxNetExactG" | "specificGravity">): boolean {
+  const tolerance = GRAM_ROUNDING * (1 + GUIDELINE_K_FILL_FACTOR * max.specificGravity);
+  return netG - max.maxNetExactG > tolerance;
 }
 
 /** How full the cylinder is against its maximum net fill, in % (for a fill gauge; may exceed 100). */

@@ -336,5 +336,19 @@ export const organisationSettingsInput = z.object({
   ),
   strictFill130F: z.boolean({ error: "Say whether the stricter fill applies" }),
   leakRateMethod: z.enum(LEAK_RATE_METHODS, { error: "Choose the leak-rate method" }),
+  disposalRecordGraceDays: entered(
+    z.coerce
+      .number({ error: "Enter the days a disposal record may follow the disposal" })
+      .int("Use whole days")
+      .min(0, "The days cannot be negative")
+      .max(90, "Use at most 90 days"),
+  ),
+  cardVerificationGraceDays: entered(
+    z.coerce
+      .number({ error: "Enter the days a new card may wait for verification" })
+      .int("Use whole days")
+      .min(0, "The days cannot be negative")
+      .max(90, "Use at most 90 days"),
+  ),
 });
 export type OrganisationSettingsInput = z.infer<typeof organisationSettingsInput>;

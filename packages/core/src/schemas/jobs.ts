@@ -74,6 +74,8 @@ export const chargeJobInput = z
     chargeSource: z.enum(CHARGE_SOURCES, { error: "Say where the refrigerant came from" }),
     cylinderId: optionalIdField("the cylinder it came from"),
     additionExclusion: enteredValue(z.enum(ADDITION_EXCLUSIONS).nullable().optional()),
+    /** An earlier charge on the same appliance whose leak this addition also tops up (82.152). */
+    sameLeakAsJobId: optionalIdField("the earlier job for the same leak"),
     ...optionalAccess,
     notes,
   })
@@ -169,6 +171,7 @@ export const jobDraftInput = z.object({
   temporaryAccessRemoved: z.boolean().nullable().optional().catch(undefined),
   compressorOperating: z.boolean().nullable().optional().catch(undefined),
   additionExclusion: draftEnum(ADDITION_EXCLUSIONS),
+  sameLeakAsJobId: draftId,
   verificationStage: draftEnum(VERIFICATION_STAGES),
   verificationPassed: z.boolean().nullable().optional().catch(undefined),
 });

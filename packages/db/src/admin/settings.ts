@@ -74,6 +74,8 @@ const WORDS: Record<keyof AuditSettings, string> = {
   requalificationYears: "cylinder requalification period (years)",
   strictFill130F: "stricter cylinder fill at 130 °F",
   leakRateMethod: "leak-rate method",
+  disposalRecordGraceDays: "days a disposal record may follow the disposal",
+  cardVerificationGraceDays: "days a new card may wait for verification",
 };
 
 const show = (v: unknown) => (typeof v === "boolean" ? (v ? "on" : "off") : String(v));
@@ -97,6 +99,8 @@ export async function updateOrganisationSettings(
       requalificationYears: input.requalificationYears,
       strictFill130F: input.strictFill130F,
       leakRateMethod: input.leakRateMethod,
+      disposalRecordGraceDays: input.disposalRecordGraceDays,
+      cardVerificationGraceDays: input.cardVerificationGraceDays,
     };
     const rulePacks = RULE_PACKS.filter((p) => input.rulePacks.includes(p));
 

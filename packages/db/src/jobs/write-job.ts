@@ -87,6 +87,29 @@ export async function jobEquipment(
   return { id: Number(e.id), serial: String(e.serial) };
 }
 
+/**
+ * The earlier charge a new addition is marked as the same leak as: a charge on the same appliance,
+ * not voided, made on or before the new one (82.152 sums additions made for the same leak).
+ */
+export async function sameLeakJob(
+  trx: Knex.Transaction,
+  organisationId: number,
+  applianceId: number,
+  jobId: number,
+  performedOn: string,
+  field = "sameLeakAsJobId",
+): Promise<number> {
+  const j = await trx("jobs")
+    .where({ id: jobId, organisation_id: organisationId })
+    .first("id", "appliance_id", "kind", "performed_on", "voided_at");
+  if (!j) throw new RecordNotFoundError("That earlier job does not exist", field);
+  if (Number(j.appliance_id) !== applianceId) throw new RecordConflictError("That earlier job is on another appliance", field);
+  if (j.kind !== "charge") throw new RecordConflictError("Choose an earlier charge job: only additions are summed for a leak", field);
+  if (j.voided_at) throw new RecordConflictError("That earlier job was voided", field);
+  if (j.performed_on > performedOn) throw new RecordConflictError("The job for the same leak must be on or before this one", field);
+  return Number(j.id);
+}
+
 const blankToNull = (v: string | null | undefined) => (v && v.trim().length ? v.trim() : null);
 
 export interface InsertedJob {
@@ -233,9 +256,14 @@ export async function insertJob(
           );
         }
       }
+      const sameLeak =
+        input.sameLeakAsJobId !== undefined
+          ? await sameLeakJob(trx, actor.organisationId, appliance.id, input.sameLeakAsJobId, input.performedOn)
+          : null;
       const [row] = await trx("jobs")
         .insert({
           ...base,
+          same_leak_as_job_id: sameLeak,
           refrigerant: input.refrigerant,
           recovered_g: 0,
           charged_g: grams,
@@ -267,6 +295,7 @@ export async function insertJob(
         cylinderId: cylinder?.id ?? null,
         grams,
         additionExclusion: input.additionExclusion ?? null,
+        sameLeakAsJobId: sameLeak,
       });
       return { id: jobId, summary };
     }

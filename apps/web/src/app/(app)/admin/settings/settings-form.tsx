@@ -29,6 +29,8 @@ const DEFAULT_WORDS: Record<keyof AuditSettings, string> = {
   requalificationYears: `${DEFAULT_SETTINGS.requalificationYears} years`,
   strictFill130F: DEFAULT_SETTINGS.strictFill130F ? "on" : "off",
   leakRateMethod: LEAK_RATE_METHOD_LABELS[DEFAULT_SETTINGS.leakRateMethod],
+  disposalRecordGraceDays: `${DEFAULT_SETTINGS.disposalRecordGraceDays} days`,
+  cardVerificationGraceDays: `${DEFAULT_SETTINGS.cardVerificationGraceDays} days`,
 };
 
 function toForm(s: OrganisationSettings): FormIn {
@@ -80,7 +82,8 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
   );
 
   const numberField = (
-    name: "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG",
+    name:
+      "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG" | "disposalRecordGraceDays" | "cardVerificationGraceDays",
     label: string,
     unit: string,
     step: string,
@@ -190,6 +193,8 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
           <Why name="leakRateMethod" />
           <FieldError id={`${uid}-leakRateMethod-error`} message={errors.leakRateMethod?.message} />
         </fieldset>
+        {numberField("disposalRecordGraceDays", "Days a disposal record or signed statement may follow the disposal", "days", "1")}
+        {numberField("cardVerificationGraceDays", "Days a new certification card may wait for verification", "days", "1")}
       </section>
 
       {canEdit && (

@@ -337,6 +337,14 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
             Left out: {ADDITION_EXCLUSION_LABELS[j.additionExclusion as keyof typeof ADDITION_EXCLUSION_LABELS] ?? j.additionExclusion}
           </DetailRow>
         )}
+        {j.kind === "charge" && j.sameLeakAsJobId !== null && (
+          <DetailRow layout="stacked" label="Same leak as">
+            <Link href={`/jobs/${j.sameLeakAsJobId}`} className="underline">
+              Charge job #{j.sameLeakAsJobId}
+            </Link>{" "}
+            (added together for one leak rate)
+          </DetailRow>
+        )}
         {recovering && (
           <DetailRow layout="stacked" label="Cylinder">
             {j.cylinderSerial ?? "—"}

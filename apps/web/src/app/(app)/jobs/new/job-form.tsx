@@ -257,7 +257,7 @@ function defaultsFor(kind: JobKind): FieldValues {
     case "disposal":
       return { ...base, refrigerant: "", recoveredUnit: "lb", evacuationUnit: "in_hg_vacuum", disposalPath: "on_site" };
     case "charge":
-      return { ...base, refrigerant: "", chargedUnit: "lb", chargeSource: "stock", additionExclusion: "" };
+      return { ...base, refrigerant: "", chargedUnit: "lb", chargeSource: "stock", additionExclusion: "", sameLeakAsJobId: "" };
     case "leak_repair":
       return { ...base, leakLocation: "", repairDescription: "" };
     case "verification_test":
@@ -308,6 +308,11 @@ function KindForm({
     queryKey: ["jobs", "repairs-of", appliance?.id],
     queryFn: () => fetchJson<JobListPage>(`/api/jobs?kind=leak_repair&applianceId=${appliance!.id}&pageSize=10`),
     enabled: appliance !== null && kind === "verification_test",
+  });
+  const earlierCharges = useQuery({
+    queryKey: ["jobs", "charges-of", appliance?.id],
+    queryFn: () => fetchJson<JobListPage>(`/api/jobs?kind=charge&applianceId=${appliance!.id}&pageSize=10`),
+    enabled: appliance !== null && kind === "charge",
   });
 
   useEffect(() => {
@@ -440,6 +445,31 @@ function KindForm({
               options={[{ value: "", label: "No, it counts (usual)" }, ...optionsOf(ADDITION_EXCLUSIONS, ADDITION_EXCLUSION_LABELS)]}
             />
           </fieldset>
+          <div>
+            <label htmlFor={`${uid}-same-leak`} className={labelClass}>
+              Same leak as an earlier addition?
+            </label>
+            <p id={`${uid}-same-leak-hint`} className={hintClass}>
+              If this tops up the same leak as an earlier charge, choose it: the two are added together for one leak rate.
+            </p>
+            <select
+              id={`${uid}-same-leak`}
+              {...register("sameLeakAsJobId")}
+              className={`${inputClass} py-3`}
+              aria-describedby={[`${uid}-same-leak-hint`, describedBy("sameLeakAsJobId")].filter(Boolean).join(" ")}
+              aria-invalid={errors.sameLeakAsJobId ? true : undefined}
+            >
+              <option value="">No, a new leak or not known (usual)</option>
+              {(earlierCharges.data?.rows ?? [])
+                .filter((r) => !values.performedOn || r.performedOn <= values.performedOn)
+                .map((r) => (
+                  <option key={r.id} value={r.id}>
+                    {r.performedOn} · {formatMass(r.chargedG, massUnit)} · job #{r.id}
+                  </option>
+                ))}
+            </select>
+            <FieldError id={`${uid}-sameLeakAsJobId-error`} message={errorOf("sameLeakAsJobId")} />
+          </div>
         </>
       )}
 
