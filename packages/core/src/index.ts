@@ -10,3 +10,5 @@ export * from "./feedback/check-job-draft";
 export * from "./findings";
 // Spreadsheet import: fields, column suggestions, row parsing, CSV reading (pure).
 export * from "./imports";
+// Sign-in security (pure): password policy, safe redirects after sign-in, session idle timeouts.
+export * from "./security";

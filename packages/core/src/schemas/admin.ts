@@ -1,5 +1,7 @@
 import { z } from "zod";
 import { MASS_DISPLAY_UNITS, RULE_PACKS, type MassDisplayUnit, type Role, type RulePack } from "../vocabulary";
+import { PASSWORD_MAX_LENGTH, passwordProblem } from "../security/password-policy";
+import { SESSION_IDLE_LIMITS } from "../security/sessions";
 
 /**
  * Inputs of running the organisation: branches, people and their access, invitations, password
@@ -109,12 +111,14 @@ const personName = z
   .min(2, "Enter the person's full name")
   .max(200, "Names are limited to 200 characters");
 
-/** A new password: long enough to resist guessing; any characters. */
-export const newPassword = z
-  .string({ error: "Choose a password" })
-  .min(10, "Use at least 10 characters")
-  .max(200, "Use at most 200 characters")
-  .refine((p) => p.trim().length >= 10, "Use at least 10 characters that are not spaces");
+/**
+ * A new password, wherever one is set (invitation, reset link, change of password): at least 12
+ * characters, long pass phrases welcome, and not one of the most common passwords (core security).
+ */
+export const newPassword = z.string({ error: "Choose a password" }).superRefine((p, ctx) => {
+  const problem = passwordProblem(p);
+  if (problem) ctx.addIssue({ code: "custom", message: problem });
+});
 
 const paging = {
   page: z.coerce.number().int().min(1).default(1),
@@ -233,6 +237,16 @@ export type ForgotPasswordInput = z.infer<typeof forgotPasswordInput>;
 export const resetPasswordInput = z.object({ token, password: newPassword, confirmPassword: z.string() }).superRefine(refineConfirm);
 export type ResetPasswordInput = z.infer<typeof resetPasswordInput>;
 
+/** A signed-in person changing their own password: the current one proves it is them. */
+export const changePasswordInput = z
+  .object({
+    currentPassword: z.string({ error: "Enter your current password" }).min(1, "Enter your current password").max(PASSWORD_MAX_LENGTH),
+    password: newPassword,
+    confirmPassword: z.string(),
+  })
+  .superRefine(refineConfirm);
+export type ChangePasswordInput = z.infer<typeof changePasswordInput>;
+
 // ---------------------------------------------------------------------------------- inspector access
 
 export const inspectorGrantInput = z
@@ -313,5 +327,18 @@ export const organisationSettingsInput = z.object({
   ),
   strictFill130F: z.boolean({ error: "Say whether the stricter fill applies" }),
   leakRateMethod: z.enum(LEAK_RATE_METHODS, { error: "Choose the leak-rate method" }),
+  /** Idle timeouts of sessions, in minutes (core security/sessions.ts); left out = unchanged. */
+  sessionIdleMinutesOfficers: z.coerce
+    .number({ error: "Enter the idle time in minutes" })
+    .int("Use whole minutes")
+    .min(SESSION_IDLE_LIMITS.min, `Use at least ${SESSION_IDLE_LIMITS.min} minutes`)
+    .max(SESSION_IDLE_LIMITS.officersMax, `Use at most ${SESSION_IDLE_LIMITS.officersMax} minutes for owners and officers`)
+    .optional(),
+  sessionIdleMinutesOthers: z.coerce
+    .number({ error: "Enter the idle time in minutes" })
+    .int("Use whole minutes")
+    .min(SESSION_IDLE_LIMITS.min, `Use at least ${SESSION_IDLE_LIMITS.min} minutes`)
+    .max(SESSION_IDLE_LIMITS.othersMax, `Use at most ${SESSION_IDLE_LIMITS.othersMax} minutes`)
+    .optional(),
 });
 export type OrganisationSettingsInput = z.infer<typeof organisationSettingsInput>;
