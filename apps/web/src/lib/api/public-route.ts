@@ -4,18 +4,24 @@ import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { db } from "../db";
 import { errorResponse, fieldErrorsOf, toErrorResponse } from "./errors";
+import type { PublicRouteName } from "@coldtrail/db";
+import { throttlePublic } from "../server/throttle";
 
 /**
  * The few routes a person uses before they can sign in (accepting an invitation, asking for and using
  * a password-reset link). No session and no ability: what they may do is decided by the single-use
  * token in the body. Same zod validation (400 with field errors) and the same error mapping as `route()`.
+ * Every request is counted per client address first (`throttle`: the limit's name and what is being
+ * asked, for the 429 message; limits in @coldtrail/db throttle.ts).
  */
 export function publicRoute<B extends z.ZodType>(
-  spec: { body: B },
+  spec: { body: B; throttle: { route: PublicRouteName; what: string } },
   handler: (ctx: { req: NextRequest; db: ReturnType<typeof db>; body: z.output<B> }) => Promise<unknown>,
 ) {
   return async (req: NextRequest): Promise<Response> => {
     try {
+      const throttled = await throttlePublic(req, spec.throttle.route, spec.throttle.what);
+      if (throttled) return throttled;
       let json: unknown;
       try {
         json = await req.json();
