@@ -12,6 +12,7 @@ import * as m300100 from "../migrations/20261203000100_branch_places_and_person_
 import * as m300200 from "../migrations/20261203000200_same_leak_additions";
 import * as m300300 from "../migrations/20261203000300_entered_amounts_and_records_start";
 import * as m300310 from "../migrations/20261203000310_finding_event_causes";
+import * as s0500 from "../migrations/20261203000500_sessions_and_throttling";
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -38,6 +39,7 @@ const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
   ["20261203000200_same_leak_additions.ts", m300200],
   ["20261203000300_entered_amounts_and_records_start.ts", m300300],
   ["20261203000310_finding_event_causes.ts", m300310],
+  ["20261203000500_sessions_and_throttling.ts", s0500],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

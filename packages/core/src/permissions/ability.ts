@@ -31,6 +31,8 @@ export const SUBJECTS = [
   "Activity",
   // Spreadsheet imports (cards and imports):
   "Import",
+  // One's own account: password, sessions (every signed-in person, on themselves only).
+  "Account",
 ] as const;
 export type SubjectName = (typeof SUBJECTS)[number];
 
@@ -136,6 +138,9 @@ export function defineAbilityFor(actor: Actor, now: Date = new Date()): AppAbili
   const { can, build } = new AbilityBuilder<AppAbility>(createMongoAbility);
   const org = { organisationId: actor.organisationId };
   const roles = rolesOf(actor);
+
+  // Everyone signed in: their own password and sessions, nobody else's.
+  can(["read", "update"], "Account", { ...org, userId: actor.userId });
 
   if (roles.includes("owner")) {
     can("manage", "all", org);

@@ -3,6 +3,8 @@ import { text } from "./text";
 import { calendarDate } from "./calendar-date";
 import { ISO_COUNTRY_CODES, US_REGION_CODES } from "../places/rule-pack-places";
 import { MASS_DISPLAY_UNITS, RULE_PACKS, type MassDisplayUnit, type Role, type RulePack } from "../vocabulary";
+import { PASSWORD_MAX_LENGTH, passwordProblem } from "../security/password-policy";
+import { SESSION_IDLE_LIMITS } from "../security/sessions";
 
 /**
  * Inputs of running the organisation: branches, people and their access, invitations, password
@@ -105,12 +107,14 @@ const personName = text({ error: "Enter the person's name" })
   .min(2, "Enter the person's full name")
   .max(200, "Names are limited to 200 characters");
 
-/** A new password: long enough to resist guessing; any characters. */
-export const newPassword = z
-  .string({ error: "Choose a password" })
-  .min(10, "Use at least 10 characters")
-  .max(200, "Use at most 200 characters")
-  .refine((p) => p.trim().length >= 10, "Use at least 10 characters that are not spaces");
+/**
+ * A new password, wherever one is set (invitation, reset link, change of password): at least 12
+ * characters, long pass phrases welcome, and not one of the most common passwords (core security).
+ */
+export const newPassword = z.string({ error: "Choose a password" }).superRefine((p, ctx) => {
+  const problem = passwordProblem(p);
+  if (problem) ctx.addIssue({ code: "custom", message: problem });
+});
 
 const paging = {
   page: z.coerce.number().int().min(1).default(1),
@@ -257,6 +261,16 @@ export type ForgotPasswordInput = z.infer<typeof forgotPasswordInput>;
 export const resetPasswordInput = z.object({ token, password: newPassword, confirmPassword: z.string() }).superRefine(refineConfirm);
 export type ResetPasswordInput = z.infer<typeof resetPasswordInput>;
 
+/** A signed-in person changing their own password: the current one proves it is them. */
+export const changePasswordInput = z
+  .object({
+    currentPassword: z.string({ error: "Enter your current password" }).min(1, "Enter your current password").max(PASSWORD_MAX_LENGTH),
+    password: newPassword,
+    confirmPassword: z.string(),
+  })
+  .superRefine(refineConfirm);
+export type ChangePasswordInput = z.infer<typeof changePasswordInput>;
+
 // ---------------------------------------------------------------------------------- inspector access
 
 export const inspectorGrantInput = z
@@ -350,5 +364,18 @@ export const organisationSettingsInput = z.object({
       .min(0, "The days cannot be negative")
       .max(90, "Use at most 90 days"),
   ),
+  /** Idle timeouts of sessions, in minutes (core security/sessions.ts); left out = unchanged. */
+  sessionIdleMinutesOfficers: z.coerce
+    .number({ error: "Enter the idle time in minutes" })
+    .int("Use whole minutes")
+    .min(SESSION_IDLE_LIMITS.min, `Use at least ${SESSION_IDLE_LIMITS.min} minutes`)
+    .max(SESSION_IDLE_LIMITS.officersMax, `Use at most ${SESSION_IDLE_LIMITS.officersMax} minutes for owners and officers`)
+    .optional(),
+  sessionIdleMinutesOthers: z.coerce
+    .number({ error: "Enter the idle time in minutes" })
+    .int("Use whole minutes")
+    .min(SESSION_IDLE_LIMITS.min, `Use at least ${SESSION_IDLE_LIMITS.min} minutes`)
+    .max(SESSION_IDLE_LIMITS.othersMax, `Use at most ${SESSION_IDLE_LIMITS.othersMax} minutes`)
+    .optional(),
 });
 export type OrganisationSettingsInput = z.infer<typeof organisationSettingsInput>;
