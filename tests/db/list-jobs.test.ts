@@ -188,7 +188,7 @@ describe("people", () => {
 describe("branches and form options", () => {
   it("lists an organisation's branches only", async () => {
     const list = await listBranches(t.db, { organisationId: orgId });
-    expect(list.map((b) => b.code).sort()).toEqual(["COL", "DEN", "PIA", "TUC"]);
+    expect(list.map((b) => b.code).sort()).toEqual(["COL", "DEN", "PIA", "RTM", "TUC"]);
     expect(list.find((b) => b.code === "DEN")).toMatchObject({ massUnit: "kg", timeZone: "America/Denver" });
   });
 

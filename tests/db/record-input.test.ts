@@ -46,10 +46,11 @@ afterEach(async () => {
 
 async function post(route: string, body: unknown, params: Record<string, string> = {}) {
   const res = await routes[route]!.POST!(
-    new NextRequest("http://localhost/api/x", {
+    new NextRequest("http://127.0.0.1:3000/api/x", {
       method: "POST",
       body: JSON.stringify(body),
-      headers: { "content-type": "application/json" },
+      // The app's own origin (the env module's default NEXTAUTH_URL in tests), as its pages send it.
+      headers: { "content-type": "application/json", origin: "http://127.0.0.1:3000" },
     }),
     { params: Promise.resolve(params) },
   );

@@ -525,6 +525,21 @@ function defineEntries() {
       },
     },
     "admin/people": { GET: list("read", "User") },
+    "account/password": {
+      POST: {
+        // A wrong current password: allowed roles get a 400 naming it, nobody's password changes.
+        request: same({
+          body: {
+            currentPassword: "not the current password",
+            password: "a fresh and long pass phrase",
+            confirmPassword: "a fresh and long pass phrase",
+          },
+        }),
+        allowed: typeLevel("update", "Account"),
+        places: ["own"],
+      },
+    },
+    "account/sign-out-everywhere": { POST: { request: same(), allowed: typeLevel("update", "Account"), places: ["own"] } },
     "admin/people/[id]": {
       GET: person("read"),
       PATCH: {
@@ -862,6 +877,7 @@ function defineEntries() {
       PATCH: dated("job", "Job", "update", () => ({ ...reason, changes: { notes: "Permission matrix note" } })),
     },
     "jobs/[id]/void": { POST: dated("job", "Job", "void", () => reason) },
+    "jobs/[id]/findings": { GET: dated("job", "Job", "read") },
     "jobs/check": {
       POST: branchCreate(
         "Job",

@@ -1,13 +1,13 @@
 import { DomainError, listFindingsOfRecord, scopeByAbility, type Knex } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
-import { recordId } from "../../_lib/record-route-helpers";
+import { idParams } from "@/lib/api/params";
 
 /**
  * The findings a job raised or closed (its own, and those the re-checks after its writes opened or
  * closed), limited to the findings the signed-in person may read. 404 when the job cannot be read.
  */
-export const GET = route<undefined, undefined, { id: string }>({ can: ["read", "Job"] }, async ({ actor, ability, db, params }) => {
-  const id = recordId(params.id, "No such job");
+export const GET = route({ can: ["read", "Job"], params: idParams("id") }, async ({ actor, ability, db, params }) => {
+  const id = params.id;
   const jobScope = scopeByAbility(ability, "read", "Job", "jobs");
   const job = await db("jobs")
     .where("jobs.id", id)
