@@ -60,4 +60,5 @@ test("a technician marks a charge as the same leak as an earlier charge on a pho
   await expect(event).toHaveCount(1);
   await event.scrollIntoViewIfNeeded();
   await snap(page, "appliance-leak-table-same-leak-phone");
+  await page.getByRole("table", { name: "Leak-rate events" }).screenshot({ path: test.info().outputPath("leak-table.png") });
 });

@@ -238,3 +238,24 @@ describe("instant feedback on a job draft", () => {
     }
   });
 });
+
+describe("instant feedback on rule-edge cases", () => {
+  const charge = (over: Partial<JobDraft> = {}) =>
+    draft({ kind: "charge", recoveredG: null, chargedG: toGrams(5, "lb"), evacuation: null, ...over });
+
+  it("a charge on an appliance without a recorded full charge says the leak rate cannot be calculated", () => {
+    const result = checkJobDraft(charge(), ctx({ appliance: appliance({ fullChargeG: null }) }));
+    expect(result.warnings.map((w) => w.ruleId)).toContain("CT-LEAK-06");
+    expect(result.leakRate?.percent).toBeNull();
+  });
+
+  it("a charge marked as the same leak as an earlier charge is summed with it", () => {
+    const earlier: Job = { ...draftAsJob(charge({ performedOn: "2026-08-01" }), ctx()), id: 7 };
+    const previous: Job = { ...draftAsJob(charge({ performedOn: "2025-08-01" }), ctx()), id: 6 };
+    const alone = checkJobDraft(charge(), ctx({ applianceJobs: [previous, earlier] }));
+    const summed = checkJobDraft(charge({ sameLeakAsJobId: 7 }), ctx({ applianceJobs: [previous, earlier] }));
+    // 5 lb after 25 days alone; 10 lb over the 365 days before the first of the two when summed.
+    expect(alone.leakRate?.percent).toBeCloseTo((5 / 650) * (365 / 25) * 100, 1);
+    expect(summed.leakRate?.percent).toBeCloseTo((10 / 650) * 100, 1);
+  });
+});

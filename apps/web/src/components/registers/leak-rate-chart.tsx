@@ -42,9 +42,11 @@ const pct = (n: number | null) => (n === null ? "—" : `${n.toFixed(1)} %`);
  */
 /** The annualizing interval in words: days and what they run from. */
 function intervalWords(e: LeakChartEvent): string {
-  if (e.daysSinceLastAddition === null) return "first addition (365 days used)";
-  if (e.intervalStartsFrom === "installation") return `${e.daysSinceLastAddition} since installation on ${e.intervalStartOn}`;
-  return String(e.daysSinceLastAddition);
+  const days = e.daysSinceLastAddition;
+  if (days === null) return "none before (365 used)";
+  const capped = days > 365 ? " (365 used)" : "";
+  if (e.intervalStartsFrom === "installation") return `${days} since installation${capped}`;
+  return `${days}${capped}`;
 }
 
 export function LeakRateChart({
