@@ -137,3 +137,35 @@ describe("cylinder fill", () => {
     expect(checkCylinderFill({ ...cyl, refrigerant: "R-290", contentsG: 20000 }).kind).toBe("impossible");
   });
 });
+
+describe("spreadsheet imports apply the same checks", () => {
+  const ctx = { today: "2026-12-02", recordsBeginOn: "2023-01-01", defaultMassUnit: "lb" as const };
+  const job = {
+    performedOn: "2026-03-14",
+    kind: "charge",
+    applianceTag: "RTU-1",
+    technician: "tech@example.invalid",
+    charged: "10",
+    massUnit: "lb",
+  };
+  const fieldsOf = (r: { issues: { field: string | null }[] }) => r.issues.map((i) => i.field);
+
+  it("job rows: impossible and implausible dates, amounts below half a gram and invisible text are refused on their column", async () => {
+    const { parseJobImportRow } = await import("@coldtrail/core");
+    expect(parseJobImportRow(job, ctx).issues).toEqual([]);
+    for (const performedOn of ["2026-02-30", "2025-13-45", "0001-01-01", "2026-12-03", "2022-12-31"])
+      expect(fieldsOf(parseJobImportRow({ ...job, performedOn }, ctx)), performedOn).toContain("performedOn");
+    expect(fieldsOf(parseJobImportRow({ ...job, charged: "0.000000001" }, ctx))).toContain("charged");
+    expect(fieldsOf(parseJobImportRow({ ...job, technician: "\u200B" }, ctx))).toContain("technician");
+    expect(fieldsOf(parseJobImportRow({ ...job, notes: "a\u0000b" }, ctx))).toContain("notes");
+    expect(parseJobImportRow({ ...job, notes: "Valve\u202E cap" }, ctx).record?.notes).toBe("Valve cap");
+  });
+
+  it("cylinder rows: contents beyond liquid-full are refused on the contents column", async () => {
+    const { parseCylinderImportRow } = await import("@coldtrail/core");
+    const cyl = { serial: "C-1", waterCapacity: "50", tare: "17.5", refrigerant: "R-410A", massUnit: "lb" };
+    // 50 lb WC × SG 1.062 = 53.1 lb liquid-full (R-410A at 77 °F); 45 lb is over the safe fill but possible.
+    expect(parseCylinderImportRow({ ...cyl, contents: "45" }, ctx).issues).toEqual([]);
+    expect(fieldsOf(parseCylinderImportRow({ ...cyl, contents: "60" }, ctx))).toContain("contents");
+  });
+});

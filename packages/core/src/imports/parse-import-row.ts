@@ -1,4 +1,5 @@
 import { SMALL_APPLIANCE_MAX_CHARGE_G } from "../classification/appliance-classification";
+import { checkCylinderFill } from "../cylinders/cylinder-fill";
 import { getRefrigerant } from "../refrigerants/catalogue";
 import { normaliseDesignation } from "../refrigerants/normalise-designation";
 import { toGrams, type MassUnit } from "../units/mass";
@@ -376,6 +377,10 @@ export function parseCylinderImportRow(cells: ImportCells, ctx: ImportParseConte
     r.fail("contents", "Enter the net contents, or leave the refrigerant empty for an empty cylinder");
   }
 
+  if (refrigerant && contentsG && waterCapacityG && tareG !== undefined) {
+    const fill = checkCylinderFill({ contentsG, waterCapacityG, tareG, refrigerant });
+    if (fill.kind === "impossible") r.fail("contents", "More than liquid fills this cylinder completely; check the amount and the unit");
+  }
   if (r.issues.length > 0) return { record: null, issues: r.issues };
   const held = contentsG ?? 0;
   return {

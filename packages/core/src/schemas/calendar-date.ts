@@ -26,8 +26,8 @@ export const calendarDate = (format = "Use a date like 2026-03-14", params?: Par
 /**
  * When a company's records begin if nobody said otherwise: 1 January three years before it started
  * using Coldtrail. Section 608 records are kept for three years (40 CFR 82.156(a)(3), 82.157(l)), so
- * that covers every record a company must still hold when it joins; an owner who imports older
- * records sets an earlier start on the organisation's settings.
+ * that covers every record a company must still hold when it joins; a company with older records
+ * sets an earlier start in `organisations.records_begin_on`.
  */
 export function defaultRecordsBeginOn(organisationCreatedAt: string): IsoDate {
   const year = Number(organisationCreatedAt.slice(0, 4));

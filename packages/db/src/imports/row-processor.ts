@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import {
+  checkCylinderFill,
   APPLIANCE_CATEGORY_LABELS,
   JOB_KIND_LABELS,
   normaliseDesignation,
@@ -391,6 +392,8 @@ interface CylinderState {
   branchId: number;
   refrigerant: string | null;
   contentsG: number;
+  waterCapacityG: number;
+  tareG: number;
 }
 
 interface Technician {
@@ -435,6 +438,8 @@ class JobRows implements RowProcessor {
       "branch_id",
       "refrigerant",
       "contents_g",
+      "water_capacity_g",
+      "tare_g",
     ]);
     for (const key of missing) {
       const r = found.get(key)?.[0];
@@ -447,6 +452,8 @@ class JobRows implements RowProcessor {
               branchId: Number(r.branch_id),
               refrigerant: (r.refrigerant as string | null) ?? null,
               contentsG: Number(r.contents_g),
+              waterCapacityG: Number(r.water_capacity_g),
+              tareG: Number(r.tare_g),
             }
           : null,
       );
@@ -569,6 +576,18 @@ class JobRows implements RowProcessor {
         } else if (cylinder.contentsG < r.chargedG) {
           issues.push({ field: "charged", message: `Cylinder ${cylinder.serial} holds only ${mass(cylinder.contentsG)} on record` });
         }
+      }
+
+      // More than liquid fills the cylinder is a typing or unit error; above the safe fill is recorded
+      // as it happened (the audit raises the overfilled cylinder).
+      if (cylinder && refrigerant && (r.kind === "recovery" || r.kind === "disposal") && r.recoveredG > 0) {
+        const after = Math.max(0, cylinder.contentsG) + r.recoveredG;
+        const fill = checkCylinderFill({ contentsG: after, waterCapacityG: cylinder.waterCapacityG, tareG: cylinder.tareG, refrigerant });
+        if (fill.kind === "impossible")
+          issues.push({
+            field: "recovered",
+            message: `Cylinder ${cylinder.serial} cannot hold that: it would contain ${mass(after)}, more than the ${mass(fill.liquidFullG)} of liquid that fills it completely`,
+          });
       }
 
       if (appliance && technician) {

@@ -7,6 +7,9 @@ import type { UseFormRegisterReturn } from "react-hook-form";
  * message, a brief caution, and the box to tick. Ticking it records the fill as it happened; the
  * audit still raises the overfilled cylinder.
  */
+/** The line at the top of a form while the confirmation is asked (the full message is in the box). */
+export const OVER_FILL_FORM_MESSAGE = "The cylinder would be above its safe fill: confirm below, or change the amount or the cylinder.";
+
 export function OverFillConfirm({
   id,
   message,

@@ -5,7 +5,7 @@ import { useMutation, useQueryClient, type QueryKey } from "@tanstack/react-quer
 import { formatMass, shortestAmountFor, type MassDisplayUnit, type MassInputUnit } from "@coldtrail/core";
 import type { AmendmentRecord } from "@coldtrail/db";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { OverFillConfirm } from "@/components/form";
+import { OVER_FILL_FORM_MESSAGE, OverFillConfirm } from "@/components/form";
 import { FieldError, FormAlert, SavedNotice, inputClass, labelClass, secondaryButton } from "./form-bits";
 
 /** How a stored value reads in the history: grams in the branch's unit, yes/no, dates as they are. */
@@ -187,9 +187,9 @@ export function AmendPanel({
         const e: Record<string, string> = {};
         for (const [k, m] of Object.entries(err.fieldErrors)) e[k.replace(/^changes\./, "")] = m[0] ?? "";
         setErrors(e);
-        setFormError(err.message);
         const ask = err.fieldErrors.confirmOverFill?.[0];
         if (ask) setOverFillAsk(ask);
+        setFormError(ask ? OVER_FILL_FORM_MESSAGE : err.message);
       } else setFormError("The correction could not be sent; nothing was changed.");
     },
   });

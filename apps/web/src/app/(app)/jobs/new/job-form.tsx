@@ -39,7 +39,7 @@ import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import type { ApplianceOption, CylinderOption, EquipmentOption, JobListPage } from "@/lib/client/types";
 import { SafetyCautions } from "@/components/safety-cautions";
 import { optionsOf } from "@/lib/client/options";
-import { OverFillConfirm, RadioCards } from "@/components/form";
+import { OVER_FILL_FORM_MESSAGE, OverFillConfirm, RadioCards } from "@/components/form";
 import {
   AmountField,
   DraftWarningLine,
@@ -350,7 +350,8 @@ function KindForm({
     onError: (err) => {
       const ask = err instanceof ApiError ? err.fieldErrors.confirmOverFill?.[0] : undefined;
       if (ask) setOverFillAsk(ask);
-      setFormError(saveErrorMessage(err, setError, "The job could not be sent. Check your connection; nothing was saved."));
+      const message = saveErrorMessage(err, setError, "The job could not be sent. Check your connection; nothing was saved.");
+      setFormError(ask ? OVER_FILL_FORM_MESSAGE : message);
     },
   });
 
