@@ -300,7 +300,11 @@ test.describe("registers", () => {
     });
     await page.getByRole("button", { name: "Upload", exact: true }).click();
     await expect(page.getByText("Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded")).toBeVisible();
+    // A name that looks like a path is refused, as for every other upload.
     await upload.setInputFiles({ name: "../../label photo.png", mimeType: "image/png", buffer: labelPng() });
+    await page.getByRole("button", { name: "Upload", exact: true }).click();
+    await expect(page.getByText(/file name is not accepted/)).toBeVisible();
+    await upload.setInputFiles({ name: "label photo.png", mimeType: "image/png", buffer: labelPng() });
     await page.getByRole("button", { name: "Upload", exact: true }).click();
     await expect(page.getByText("Evidence uploaded.")).toBeVisible();
     const img = page.getByRole("img", { name: `Certification label of recovery equipment ${serial}` });
