@@ -105,3 +105,5 @@ export * from "./certifications";
 export * from "./imports";
 // Audits: runs, findings workflow, saved views, dashboards, export rows, digest, continuous audit (audits).
 export * from "./audits";
+// Durable writes: busy locks, idempotency keys, background tasks, mail outbox.
+export * from "./durable";

@@ -8,6 +8,7 @@ import * as m0700 from "../migrations/20261201000700_register_indexes";
 import * as m0800 from "../migrations/20261201000800_records_for_jobs";
 import * as m0900 from "../migrations/20261201000900_cards_and_imports";
 import * as m1000 from "../migrations/20261201001000_findings_workflow";
+import * as d0700 from "../migrations/20261203000700_durable_writes";
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -30,6 +31,7 @@ const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
   ["20261201000800_records_for_jobs.ts", m0800],
   ["20261201000900_cards_and_imports.ts", m0900],
   ["20261201001000_findings_workflow.ts", m1000],
+  ["20261203000700_durable_writes.ts", d0700],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -5,6 +5,7 @@ import { useState } from "react";
 import { useMutation } from "@tanstack/react-query";
 import type { RulePack } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 const PACKS: { id: RulePack; label: string; hint: string }[] = [
   { id: "us_federal", label: "US federal", hint: "Clean Air Act section 608 (40 CFR 82 Subpart F) and the AIM Act (40 CFR 84)" },
@@ -26,9 +27,14 @@ export function NewAuditForm({
   const [periodFrom, setFrom] = useState(threeYearsBack);
   const [periodTo, setTo] = useState(today);
   const [packs, setPacks] = useState<RulePack[]>(defaultPacks.length ? defaultPacks : ["us_federal"]);
+  const idem = useIdempotencyKey();
   const start = useMutation({
     mutationFn: () =>
-      fetchJson<{ id: number }>("/api/audits", { method: "POST", body: JSON.stringify({ branchIds, periodFrom, periodTo, packs }) }),
+      fetchJson<{ id: number }>("/api/audits", {
+        method: "POST",
+        headers: idem.headers,
+        body: JSON.stringify({ branchIds, periodFrom, periodTo, packs }),
+      }),
     onSuccess: ({ id }) => router.push(`/audits/${id}`),
   });
   const fields = start.error instanceof ApiError ? start.error.fieldErrors : {};

@@ -8,6 +8,7 @@ import { db } from "../db";
 import { errorResponse, fieldErrorsOf, toErrorResponse } from "./errors";
 import { branchesTouchedSince, latestActivityId } from "@coldtrail/db";
 import { reevaluateAfterWrite } from "../server/continuous-audit";
+import { idempotently } from "./idempotency";
 
 export interface RouteContext<Q, B, P> {
   req: NextRequest;
@@ -24,6 +25,8 @@ interface RouteSpec<Q extends z.ZodType | undefined, B extends z.ZodType | undef
   can: [Action, SubjectName];
   query?: Q;
   body?: B;
+  /** A creating route: honours `Idempotency-Key` (see ./idempotency.ts). */
+  idempotent?: boolean;
 }
 
 type Out<S> = S extends z.ZodType ? z.output<S> : undefined;
@@ -80,7 +83,18 @@ export function route<
       const params = (await context?.params) ?? ({} as P);
       const writes = req.method !== "GET" && req.method !== "HEAD";
       const before = writes ? await latestActivityId(db()) : 0;
-      const result = await handler({ req, actor, ability, db: db(), query: query as Out<Q>, body: body as Out<B>, params });
+      const call = (database: ReturnType<typeof db>) =>
+        handler({ req, actor, ability, db: database, query: query as Out<Q>, body: body as Out<B>, params });
+      const result = spec.idempotent
+        ? await idempotently({
+            req,
+            actor,
+            body,
+            database: db(),
+            call,
+            toResponse: (r) => (r instanceof Response ? r : NextResponse.json(r ?? null)),
+          })
+        : await call(db());
       if (writes && (!(result instanceof Response) || result.ok)) {
         // Continuous audit: every write appends to the activity history, so the branches whose records
         // this request changed are known; their rules run again in the background.

@@ -13,8 +13,8 @@ export const GET = route({ can: ["read", "Audit"], query: auditListQuery }, asyn
 });
 
 /** Start an audit: branches, period, rule packs. It runs in the background; poll GET /api/audits/:id. */
-export const POST = route({ can: ["run", "Audit"], body: auditInput }, async ({ actor, db, body }) => {
+export const POST = route({ idempotent: true, can: ["run", "Audit"], body: auditInput }, async ({ actor, db, body }) => {
   const id = await createAudit(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
-  kickAuditRunner(db);
+  kickAuditRunner();
   return NextResponse.json({ id }, { status: 201 });
 });

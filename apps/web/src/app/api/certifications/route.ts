@@ -18,7 +18,7 @@ export const GET = route({ can: ["read", "Certification"], query: certificationL
  * Upload one's own card (multipart: `card` = the photo or PDF, `types` (repeated), `certifyingOrganisation`,
  * `certificateNumber`, `issuedOn`). Fields and file are checked together; nothing is stored unless both pass.
  */
-export const POST = route({ can: ["create", "Certification"] }, async ({ req, actor, ability, db }) => {
+export const POST = route({ idempotent: true, can: ["create", "Certification"] }, async ({ req, actor, ability, db }) => {
   ForbiddenError.from(ability).throwUnlessCan(
     "create",
     subject("Certification", { organisationId: actor.organisationId, userId: actor.userId }),

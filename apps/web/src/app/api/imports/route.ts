@@ -24,7 +24,7 @@ function displayName(name: string): string {
  * (XLSX by its zip signature, CSV as text) and readable: its headings and first rows are read now,
  * and a broken file is refused before anything is stored. Returns the import, waiting for its mapping.
  */
-export const POST = route({ can: ["create", "Import"] }, async ({ req, actor, ability, db }) => {
+export const POST = route({ idempotent: true, can: ["create", "Import"] }, async ({ req, actor, ability, db }) => {
   let form: FormData;
   try {
     form = await req.formData();

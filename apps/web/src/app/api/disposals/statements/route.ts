@@ -9,7 +9,7 @@ import { readMultipart, storeSignedDocument } from "../../jobs/_lib/record-route
  * Keep a small appliance's signed statement (40 CFR 82.155(b)): the form fields, and optionally the
  * signed document (photo or PDF, checked by its bytes). Sent as multipart/form-data or JSON.
  */
-export const POST = route({ can: ["create", "Disposal"] }, async ({ req, actor, ability, db }) => {
+export const POST = route({ idempotent: true, can: ["create", "Disposal"] }, async ({ req, actor, ability, db }) => {
   const isJson = req.headers.get("content-type")?.includes("application/json");
   const { fields, file } = isJson ? { fields: await req.json().catch(() => ({})), file: null } : await readMultipart(req);
   const input = disposalStatementInput.parse(fields); // a ZodError becomes a 400 naming each field

@@ -5,13 +5,16 @@ import { kickAuditRunner } from "@/lib/server/audit-runner";
 import { pathId } from "../../../findings/_lib/access";
 
 /** Run an audit again with the same branches, period and rule packs; findings keep their identity. */
-export const POST = route<undefined, undefined, { id: string }>({ can: ["run", "Audit"] }, async ({ actor, db, params }) => {
-  const run = await getAuditRun(db, { organisationId: actor.organisationId, id: pathId(params.id, "audit") });
-  if (!run) throw new DomainError("not_found", "No such audit");
-  const id = await createAudit(db, {
-    actor: { userId: actor.userId, organisationId: actor.organisationId },
-    input: { branchIds: run.branchIds, periodFrom: run.periodFrom, periodTo: run.periodTo, packs: run.packs },
-  });
-  kickAuditRunner(db);
-  return NextResponse.json({ id }, { status: 201 });
-});
+export const POST = route<undefined, undefined, { id: string }>(
+  { idempotent: true, can: ["run", "Audit"] },
+  async ({ actor, db, params }) => {
+    const run = await getAuditRun(db, { organisationId: actor.organisationId, id: pathId(params.id, "audit") });
+    if (!run) throw new DomainError("not_found", "No such audit");
+    const id = await createAudit(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      input: { branchIds: run.branchIds, periodFrom: run.periodFrom, periodTo: run.periodTo, packs: run.packs },
+    });
+    kickAuditRunner();
+    return NextResponse.json({ id }, { status: 201 });
+  },
+);

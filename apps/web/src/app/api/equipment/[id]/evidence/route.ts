@@ -47,7 +47,7 @@ export const GET = route<undefined, undefined, Params>({ can: ["read", "Recovery
  * The type is checked by the file's bytes and its size limited; the client's file name is ignored.
  */
 export const POST = route<undefined, undefined, Params>(
-  { can: ["update", "RecoveryEquipment"] },
+  { idempotent: true, can: ["update", "RecoveryEquipment"] },
   async ({ req, actor, ability, db, params }) => {
     const ref = await authorizeRegisterRecord({ actor, ability, db }, "equipment", params.id, "update");
     const declared = Number(req.headers.get("content-length") ?? "0");

@@ -12,7 +12,7 @@ const note = z.preprocess(
 
 /** Attach a photo or PDF to a finding (multipart `file`, optional `note`), for anyone who may comment on it. */
 export const POST = route<undefined, undefined, { id: string }>(
-  { can: ["comment", "Finding"] },
+  { idempotent: true, can: ["comment", "Finding"] },
   async ({ req, actor, ability, db, params }) => {
     const id = pathId(params.id, "finding");
     const scope = scopeByAbility(ability, "comment", "Finding", "findings");
