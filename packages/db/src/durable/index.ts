@@ -7,3 +7,29 @@ export {
   IDEMPOTENCY_KEY_DAYS,
   type StoredAnswer,
 } from "./idempotency";
+export {
+  enqueueTask,
+  claimNextTask,
+  renewTaskLease,
+  completeTask,
+  failTaskAttempt,
+  retryFailedTask,
+  hasQueuedTask,
+  getTask,
+  listTasks,
+  taskCounts,
+  pruneFinishedTasks,
+  backoffMs,
+  type BackgroundTask,
+  type TaskState,
+} from "./tasks";
+export { TaskRunner, PermanentTaskError, type TaskContext, type TaskHandler, type RunnerOptions } from "./runner";
+export {
+  queueMail,
+  deliverOutboxMail,
+  markOutboxMailFailed,
+  listUndeliveredMail,
+  pruneSentMail,
+  MAIL_MAX_ATTEMPTS,
+  type OutboxMail,
+} from "./outbox";

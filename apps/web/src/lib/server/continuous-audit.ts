@@ -1,46 +1,51 @@
-import { reevaluateBranch, type Knex } from "@coldtrail/db";
+import { enqueueTask, reevaluateBranch, type Knex, type TaskHandler } from "@coldtrail/db";
+import { kickTaskRunner } from "./task-kick";
 
 /**
- * Continuous audit. Call after a write that changes a branch's records (a job, a disposal, a cylinder
- * weighing …): the rules run again over that branch in the background and its findings are reconciled
- * (packages/db `reevaluateBranch`), so open findings close or new ones appear without waiting for the
- * next audit. Calls for one branch are coalesced: while a re-check runs, at most one more is queued.
- * Never throws; the returned promise settles when the re-check is done (tests may await it).
+ * Continuous audit. After a write that changes a branch's records (a job, a disposal, a cylinder
+ * weighing …) a `recheck` task is queued for the branch; the runner (./task-runner.ts) runs the rules
+ * again over it and reconciles its findings (packages/db `reevaluateBranch`), so open findings close or
+ * new ones appear without waiting for the next audit. Repeats are coalesced: while a re-check of the
+ * branch is still queued, no second one is added. Being a task, a re-check survives a restart.
  */
 
-interface BranchQueue {
-  running: Promise<void> | null;
-  next: Promise<void> | null;
-}
+const payloadFor = (opts: { organisationId: number; branchId: number }) =>
+  JSON.stringify({ branchId: opts.branchId, organisationId: opts.organisationId });
 
-const globalForContinuous = globalThis as unknown as { __coldtrailContinuous?: Map<number, BranchQueue> };
-const queues: Map<number, BranchQueue> = (globalForContinuous.__coldtrailContinuous ??= new Map());
-
-async function recheck(db: Knex, opts: { organisationId: number; branchId: number; actorId?: number | null }): Promise<void> {
-  await new Promise<void>((resolve) => setImmediate(resolve));
-  try {
-    await reevaluateBranch(db, { organisationId: opts.organisationId, branchId: opts.branchId, triggeredBy: opts.actorId ?? null });
-  } catch (err) {
-    console.error(`[continuous audit] branch #${opts.branchId} could not be re-checked`, err);
-  }
-}
-
-export function reevaluateAfterWrite(db: Knex, opts: { organisationId: number; branchId: number; actorId?: number | null }): Promise<void> {
-  const q = queues.get(opts.branchId) ?? { running: null, next: null };
-  queues.set(opts.branchId, q);
-  if (q.next) return q.next;
-  if (!q.running) {
-    q.running = recheck(db, opts).finally(() => {
-      q.running = null;
-    });
-    return q.running;
-  }
-  q.next = q.running.then(() => {
-    q.next = null;
-    q.running = recheck(db, opts).finally(() => {
-      q.running = null;
-    });
-    return q.running;
+/** Queues a re-check of the branch unless one is already waiting. */
+export async function queueRecheck(db: Knex, opts: { organisationId: number; branchId: number; actorId?: number | null }): Promise<void> {
+  const waiting = await db("background_tasks")
+    .where({ kind: "recheck", state: "queued", organisation_id: opts.organisationId })
+    .where("payload", "like", `{"branchId":${opts.branchId},%`)
+    .first("id");
+  if (waiting) return;
+  await enqueueTask(db, {
+    kind: "recheck",
+    payload: { ...JSON.parse(payloadFor(opts)), actorId: opts.actorId ?? null },
+    organisationId: opts.organisationId,
+    maxAttempts: 3,
   });
-  return q.next;
 }
+
+/** Call after a write that changed the branch's records (the route wrapper does). Never throws. */
+export async function reevaluateAfterWrite(
+  db: Knex,
+  opts: { organisationId: number; branchId: number; actorId?: number | null },
+): Promise<void> {
+  try {
+    await queueRecheck(db, opts);
+    kickTaskRunner();
+  } catch (err) {
+    console.error(`[continuous audit] branch #${opts.branchId} could not be queued for a re-check`, err);
+  }
+}
+
+export const recheckTask: TaskHandler = {
+  async run({ task, db }) {
+    await reevaluateBranch(db, {
+      organisationId: Number(task.payload.organisationId),
+      branchId: Number(task.payload.branchId),
+      triggeredBy: task.payload.actorId === null || task.payload.actorId === undefined ? null : Number(task.payload.actorId),
+    });
+  },
+};

@@ -16,7 +16,7 @@ export const POST = route(
   async ({ actor, ability, db, body }) => {
     ForbiddenError.from(ability).throwUnlessCan("create", subject("InspectorGrant", { organisationId: actor.organisationId }));
     const created = await createInspectorGrant(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
-    const mailSent = await sendGrantMail(created);
+    const mailSent = await sendGrantMail(db, actor.organisationId, created);
     return NextResponse.json({ id: created.grantId, userId: created.userId, kind: created.kind, mailSent }, { status: 201 });
   },
 );

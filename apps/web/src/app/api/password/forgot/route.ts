@@ -9,6 +9,6 @@ import { FORGOT_PASSWORD_ANSWER, sendResetMail } from "../../admin/_lib/mail";
  */
 export const POST = publicRoute({ body: forgotPasswordInput }, async ({ db, body }) => {
   const issued = await requestPasswordReset(db, { email: body.email });
-  if (issued) void sendResetMail(issued);
+  if (issued) await sendResetMail(db, issued);
   return { message: FORGOT_PASSWORD_ANSWER };
 });
