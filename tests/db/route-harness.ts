@@ -34,6 +34,7 @@ export function routeHarness(db: () => Knex, extraMocks: (webPath: (p: string) =
   vi.doMock(web("lib/auth/current-actor.ts"), () => ({ currentActor: async () => session.signedIn }));
   vi.doMock(web("lib/db.ts"), () => ({ db: () => db() }));
   vi.doMock("@/lib/api/route", () => import(web("lib/api/route.ts")));
+  vi.doMock("@/lib/server/task-kick", () => import(web("lib/server/task-kick.ts")));
   extraMocks(web);
   return {
     signInAs: async (userId) => {

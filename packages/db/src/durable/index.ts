@@ -30,6 +30,7 @@ export {
   markOutboxMailFailed,
   listUndeliveredMail,
   pruneSentMail,
+  requeueOutboxMail,
   MAIL_MAX_ATTEMPTS,
   type OutboxMail,
 } from "./outbox";

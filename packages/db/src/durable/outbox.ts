@@ -140,3 +140,8 @@ export async function pruneSentMail(db: Knex, opts: { days?: number; now?: Date 
   const before = new Date((opts.now ?? new Date()).getTime() - (opts.days ?? 30) * 86_400_000).toISOString();
   return db("mail_outbox").where({ state: "sent" }).where("sent_at", "<", before).delete();
 }
+
+/** The owner's "try again" for a mail given up: back to queued (its task is re-queued separately). */
+export async function requeueOutboxMail(db: Knex, opts: { id: number }): Promise<void> {
+  await db("mail_outbox").where({ id: opts.id, state: "failed" }).update({ state: "queued" });
+}
