@@ -5,6 +5,7 @@
  * file or a bucket that holds objects unless `--force` is given. Point COLDTRAIL_DB and S3_BUCKET at
  * the restored copies to serve them.
  */
+import fs from "node:fs";
 import path from "node:path";
 import { storageFromEnv } from "./storage-env";
 
@@ -19,17 +20,20 @@ async function main(): Promise<void> {
   const dir = args.find((a, i) => !a.startsWith("--") && (i === 0 || !args[i - 1]!.startsWith("--")));
   const dbFile = arg(args, "--db");
   const bucket = arg(args, "--bucket");
-  if (!dir || !dbFile || !bucket) {
+  const hasDatabase = Boolean(dir && fs.existsSync(path.join(dir, "database.sqlite")));
+  if (!dir || !bucket || (hasDatabase && !dbFile)) {
     console.error("Usage: pnpm restore <backup folder> --db <new database file> --bucket <new bucket> [--force]");
+    console.error("(--db is not needed for a backup taken on PostgreSQL, which holds the bucket only)");
     process.exitCode = 2;
     return;
   }
   const storage = { ...storageFromEnv(), bucket };
-  const manifest = await restoreBackup({ dir: path.resolve(dir), dbFile: path.resolve(dbFile), storage, force: args.includes("--force") });
+  const target = dbFile ? path.resolve(dbFile) : null;
+  const manifest = await restoreBackup({ dir: path.resolve(dir), dbFile: target, storage, force: args.includes("--force") });
   console.log(`Restored the backup of ${manifest.createdAt}:`);
-  if (manifest.database) console.log(`  database → ${path.resolve(dbFile)} (${Object.keys(manifest.database.tables).length} tables)`);
+  if (manifest.database && target) console.log(`  database → ${target} (${Object.keys(manifest.database.tables).length} tables)`);
   console.log(`  ${manifest.objects.length} objects → bucket ${bucket}`);
-  console.log(`Serve it with COLDTRAIL_DB=${path.resolve(dbFile)} S3_BUCKET=${bucket}.`);
+  console.log(`Serve it with ${target ? `COLDTRAIL_DB=${target} ` : ""}S3_BUCKET=${bucket}.`);
 }
 
 main().catch((err: unknown) => {
