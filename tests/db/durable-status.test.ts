@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { DEMO_SIGN_INS, DatabaseBusyError, enqueueTask, getTask, claimNextTask, failTaskAttempt } from "@coldtrail/db";
 import { createSeededTestDb, type TestDb } from "@coldtrail/db/testing";
 import { routeHarness, type Harness, type RouteModule } from "./route-harness";
@@ -24,7 +24,13 @@ async function failedTask(organisationId: number): Promise<number> {
 
 beforeAll(async () => {
   t = await createSeededTestDb();
-  h = routeHarness(() => t.db);
+  h = routeHarness(
+    () => t.db,
+    (web) => {
+      vi.doMock("@/lib/env", () => import(web("lib/env.ts")));
+      vi.doMock("@/lib/server/storage", () => import(web("lib/server/storage.ts")));
+    },
+  );
   retry = await h.load("admin/background/[id]/retry");
 });
 afterAll(async () => {
@@ -57,5 +63,32 @@ describe("background work, owner only", () => {
     expect(((await busy.json()) as { error: { code: string } }).error.code).toBe("busy");
     const raw = toErrorResponse(Object.assign(new Error("database is locked"), { code: "SQLITE_BUSY" }));
     expect(raw.status).toBe(503);
+  });
+});
+
+describe("file storage down", () => {
+  it("an upload answers 503 'file storage is unavailable' and saves nothing", async () => {
+    const net = await import("node:net");
+    // A port with nothing listening: the S3 SDK's connection is refused.
+    const port = await new Promise<number>((resolve) => {
+      const s = net.createServer().listen(0, "127.0.0.1", () => {
+        const p = (s.address() as { port: number }).port;
+        s.close(() => resolve(p));
+      });
+    });
+    process.env.S3_ENDPOINT = `http://127.0.0.1:${port}`;
+    const imports = await h.load("imports");
+    await h.signInAs(await user(DEMO_SIGN_INS.owner));
+    const branch = await t.db("branches").where({ organisation_id: 1 }).orderBy("id").first("id");
+    const before = Number((await t.db("imports").count({ n: "*" }).first())!.n);
+    const form = new FormData();
+    form.set("kind", "appliances");
+    form.set("branchId", String(branch.id));
+    form.set("file", new File(["tag,description\nRTU-1,Rooftop unit\n"], "appliances.csv", { type: "text/csv" }));
+    const res = await h.call(imports, "POST", { form, headers: { "idempotency-key": "upload-while-storage-down-1" } });
+    expect(res.status).toBe(503);
+    expect((res.json.error as { message: string }).message).toMatch(/file storage is unavailable; nothing was saved/i);
+    expect(Number((await t.db("imports").count({ n: "*" }).first())!.n)).toBe(before);
+    expect(await t.db("idempotency_keys").where({ key: "upload-while-storage-down-1" }).first()).toBeUndefined();
   });
 });

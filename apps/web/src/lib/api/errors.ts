@@ -2,12 +2,13 @@ import { ForbiddenError } from "@casl/ability";
 import { NextResponse } from "next/server";
 import { z } from "zod";
 import { DomainError, isBusyError, DatabaseBusyError } from "@coldtrail/db";
+import { isStorageUnavailable } from "./storage-errors";
 
 export type FieldErrors = Record<string, string[]>;
 
 export interface ApiErrorBody {
   error: {
-    code: "unauthenticated" | "forbidden" | "invalid" | "not_found" | "conflict" | "busy" | "internal";
+    code: "unauthenticated" | "forbidden" | "invalid" | "not_found" | "conflict" | "busy" | "unavailable" | "internal";
     message: string;
     fieldErrors?: FieldErrors;
   };
@@ -47,6 +48,16 @@ export function toErrorResponse(err: unknown): NextResponse<ApiErrorBody> {
       case "invalid":
         return errorResponse(400, { code: "invalid", message: err.message, ...(fieldErrors && { fieldErrors }) });
     }
+  }
+  if (isStorageUnavailable(err)) {
+    // File storage did not answer (or answered with a server error); the upload comes before the row
+    // that names it, so nothing was saved.
+    const res = errorResponse(503, {
+      code: "unavailable",
+      message: "File storage is unavailable; nothing was saved. Try again in a moment.",
+    });
+    res.headers.set("Retry-After", "5");
+    return res;
   }
   if (isBusyError(err)) {
     // Another writer held the database lock past the wait (busy timeout and retries): nothing was
