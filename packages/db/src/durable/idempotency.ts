@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import { isPostgres } from "../connection";
 
 /**
  * Idempotency keys of creating requests. A client sends `Idempotency-Key` with a create (a form makes
@@ -35,6 +36,16 @@ export async function findIdempotentAnswer(
     body: r.response_body,
     contentType: r.content_type,
   };
+}
+
+/**
+ * Makes concurrent requests with the same key wait for each other inside their write transactions,
+ * so the second finds the first's answer instead of racing it. SQLite needs nothing: its write
+ * transactions begin IMMEDIATE and run one at a time. PostgreSQL: a transaction-scoped advisory lock
+ * on (person, hash of the key), released at commit or rollback.
+ */
+export async function lockIdempotencyKey(trx: Knex | Knex.Transaction, opts: { userId: number; key: string }): Promise<void> {
+  if (isPostgres(trx)) await trx.raw("SELECT pg_advisory_xact_lock(?::int, hashtext(?))", [opts.userId, opts.key]);
 }
 
 /** Stores the first answer to a key; call it inside the transaction that wrote the record. */

@@ -2,6 +2,7 @@ export { DatabaseBusyError, isBusyError, useImmediateTransactions, writeTransact
 export {
   findIdempotentAnswer,
   saveIdempotentAnswer,
+  lockIdempotencyKey,
   expireIdempotencyKeys,
   isUniqueViolation,
   IDEMPOTENCY_KEY_DAYS,

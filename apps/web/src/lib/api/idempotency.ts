@@ -6,6 +6,7 @@ import type { Actor } from "@coldtrail/core";
 import {
   findIdempotentAnswer,
   isUniqueViolation,
+  lockIdempotencyKey,
   saveIdempotentAnswer,
   writeTransaction,
   type Knex,
@@ -116,8 +117,9 @@ export async function idempotently(opts: {
 
   try {
     return await writeTransaction(database, async (trx) => {
-      // Looked up again inside the write transaction: on SQLite it holds the write lock, so a
-      // concurrent repeat waits here and then finds the first answer.
+      // Looked up again inside the write transaction, after taking the key's lock (SQLite: the write
+      // lock itself; PostgreSQL: an advisory lock), so a concurrent repeat waits and finds the first answer.
+      await lockIdempotencyKey(trx, { userId: actor.userId, key });
       const meanwhile = await findIdempotentAnswer(trx, { userId: actor.userId, key });
       if (meanwhile) throw new NotStored(matches(meanwhile) ? replay(meanwhile) : differentRequest());
       const res = opts.toResponse(await opts.call(trx));
