@@ -15,7 +15,6 @@ export {
   completeTask,
   failTaskAttempt,
   retryFailedTask,
-  hasQueuedTask,
   getTask,
   listTasks,
   taskCounts,

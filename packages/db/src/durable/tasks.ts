@@ -208,16 +208,9 @@ export async function failTaskAttempt(
 export async function retryFailedTask(db: Knex, opts: { id: number; organisationId: number; now?: Date }): Promise<boolean> {
   const at = iso(opts.now ?? new Date());
   const changed = await db("background_tasks")
-    .where({ id: opts.id, state: "failed" })
-    .where((q) => q.where("organisation_id", opts.organisationId))
+    .where({ id: opts.id, state: "failed", organisation_id: opts.organisationId })
     .update({ state: "queued", attempts: 0, run_after: at, finished_at: null, updated_at: at });
   return changed === 1;
-}
-
-/** A queued (not yet running) task of this kind and payload key, to coalesce repeats (e.g. re-checks of a branch). */
-export async function hasQueuedTask(db: Knex | Knex.Transaction, opts: { kind: string; payloadLike: string }): Promise<boolean> {
-  const r = await db("background_tasks").where({ kind: opts.kind, state: "queued", payload: opts.payloadLike }).first("id");
-  return Boolean(r);
 }
 
 export async function getTask(db: Knex, id: number): Promise<BackgroundTask | undefined> {
