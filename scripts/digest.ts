@@ -1,8 +1,9 @@
 /**
  * `pnpm digest`: sends today's digest e-mail — each person's findings that are overdue or due within
  * 7 days — for every organisation, once a day per person (a second run the same day sends nothing
- * new). The running server sends it by itself each morning (apps/web/src/instrumentation.ts); this
- * script is for cron or a manual send. It reads the same settings as the app: COLDTRAIL_DB, SMTP_HOST,
+ * new). The running server queues it by itself each morning (its background runner); this script is
+ * for cron or a manual send: it queues the digests in the mail outbox and delivers the outbox's mail
+ * before it exits (mail that SMTP refuses stays queued for the server's runner to retry). It reads the same settings as the app: COLDTRAIL_DB, SMTP_HOST,
  * SMTP_PORT, MAIL_FROM and NEXTAUTH_URL (defaults: the local database and the local SMTP fake).
  */
 // The app's mail and settings modules are marked `import "server-only"`; the package.json script runs
@@ -10,13 +11,15 @@
 // (a command-line script is a server too). They are imported dynamically, as ES modules, for that.
 
 async function main(): Promise<void> {
-  const { closeDb, getDb } = await import("../packages/db/src/index");
+  const { closeDb, getDb, TaskRunner } = await import("../packages/db/src/index");
   const { sendDailyDigests } = await import("../apps/web/src/lib/server/finding-mail");
+  const { mailTask } = await import("../apps/web/src/lib/server/mail");
   const started = performance.now();
   try {
     const { sent, people } = await sendDailyDigests(getDb());
+    const delivered = await new TaskRunner(getDb(), { handlers: { mail: mailTask }, owner: "pnpm-digest" }).drain({ kinds: ["mail"] });
     console.log(
-      `Digest: ${sent} e-mail(s) sent to ${people} person(s) with findings due within 7 days or overdue (${((performance.now() - started) / 1000).toFixed(1)} s)`,
+      `Digest: ${sent} e-mail(s) queued for ${people} person(s) with findings due within 7 days or overdue; ${delivered} outbox mail(s) handled (${((performance.now() - started) / 1000).toFixed(1)} s)`,
     );
   } finally {
     await closeDb();

@@ -43,6 +43,10 @@ const TABLES = [
   // Spreadsheet imports (cards and imports):
   "imports",
   "import_row_issues",
+  // Durable writes: idempotency keys, background tasks, mail outbox.
+  "idempotency_keys",
+  "background_tasks",
+  "mail_outbox",
 ];
 
 let t: TestDb;

@@ -37,6 +37,7 @@ test("the owner invites a branch manager for Tucson; the e-mail arrives with a s
     "Branches",
     "Inspector access",
     "Settings",
+    "Background work",
   ]);
   await expect(page.getByTestId("person-row").first()).toBeVisible();
   await snap(page, "admin-people-owner");

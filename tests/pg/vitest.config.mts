@@ -10,8 +10,9 @@ import { defineConfig } from "vitest/config";
  * With COLDTRAIL_PG_SUITE=1 as well, the database and authorization suites of the root config
  * (tests/db, tests/authz) also run on PostgreSQL: `@coldtrail/db/testing` is swapped for
  * on-postgres.ts. Left out there: tests/db/migrations.test.ts reads SQLite's own catalogue and pragmas
- * (tests/pg/migrations.test.ts is its PostgreSQL twin), and two files assert raw SQLite values
- * (a count as a number, a boolean column as 0).
+ * (tests/pg/migrations.test.ts is its PostgreSQL twin), two files assert raw SQLite values
+ * (a count as a number, a boolean column as 0), and the durable-writes files that open the SQLite
+ * file a second time (tests/pg/durable.test.ts covers the runner and keys on PostgreSQL).
  */
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
 const here = path.join(root, "tests/pg");
@@ -39,7 +40,17 @@ export default defineConfig({
                 ...common,
                 name: "db-suite-on-pg",
                 include: ["tests/db/**/*.test.ts", "tests/authz/**/*.test.ts"],
-                exclude: ["tests/db/migrations.test.ts", "tests/db/demo-seed.test.ts", "tests/db/jobs-amendments.test.ts"],
+                exclude: [
+                  "tests/db/migrations.test.ts",
+                  "tests/db/demo-seed.test.ts",
+                  "tests/db/jobs-amendments.test.ts",
+                  // SQLite's own file, lock and backup API (a second handle on the same file, another process):
+                  // tests/pg/durable.test.ts is their PostgreSQL twin.
+                  "tests/db/durable-busy.test.ts",
+                  "tests/db/durable-backup.test.ts",
+                  "tests/db/durable-runner.test.ts",
+                  "tests/db/durable-app-tasks.test.ts",
+                ],
               },
             },
           ]

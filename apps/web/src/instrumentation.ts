@@ -1,6 +1,7 @@
 /**
- * Runs once when the server starts (Next.js instrumentation): resumes audits a restart interrupted,
- * keeps the audit runner's watchdog going, and starts the daily digest of findings due soon.
+ * Runs once when the server starts (Next.js instrumentation): starts the background runner, which
+ * resumes tasks a restart interrupted (once their lease expires, within seconds), runs audits,
+ * imports, re-checks and mail, and queues the daily digest of findings due soon.
  */
 export async function register(): Promise<void> {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
@@ -11,8 +12,6 @@ export async function register(): Promise<void> {
     console.error(err instanceof Error ? err.message : err);
     process.exit(1);
   }
-  const { startAuditRunner } = await import("./lib/server/audit-runner");
-  const { startDigestScheduler } = await import("./lib/server/digest-scheduler");
-  startAuditRunner();
-  startDigestScheduler();
+  const { startTaskRunner } = await import("./lib/server/task-runner");
+  startTaskRunner();
 }

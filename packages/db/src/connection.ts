@@ -2,6 +2,7 @@ import fs from "node:fs";
 import path from "node:path";
 import knexFactory, { type Knex } from "knex";
 import { migrationSource } from "./migration-source";
+import { useImmediateTransactions } from "./durable/busy";
 
 /**
  * Pragmas applied to every pooled better-sqlite3 connection (SQLite only; PostgreSQL always enforces
@@ -9,25 +10,27 @@ import { migrationSource } from "./migration-source";
  * WAL lets readers work while one writer commits; synchronous=NORMAL is safe with WAL;
  * busy_timeout makes a second writer wait instead of failing at once.
  */
-function afterCreate(conn: { pragma: (sql: string) => unknown }, done: (err: Error | null, conn: unknown) => void) {
-  try {
-    conn.pragma("foreign_keys = ON");
-    conn.pragma("journal_mode = WAL");
-    conn.pragma("busy_timeout = 5000");
-    conn.pragma("synchronous = NORMAL");
-    done(null, conn);
-  } catch (err) {
-    done(err as Error, conn);
-  }
+function afterCreate(busyTimeoutMs: number) {
+  return (conn: { pragma: (sql: string) => unknown }, done: (err: Error | null, conn: unknown) => void) => {
+    try {
+      conn.pragma("foreign_keys = ON");
+      conn.pragma("journal_mode = WAL");
+      conn.pragma(`busy_timeout = ${Math.max(0, Math.floor(busyTimeoutMs))}`);
+      conn.pragma("synchronous = NORMAL");
+      done(null, conn);
+    } catch (err) {
+      done(err as Error, conn);
+    }
+  };
 }
 
 /** The Knex configuration for a SQLite file; shared by createDb and the knexfile. */
-export function sqliteConfig(filename: string): Knex.Config {
+export function sqliteConfig(filename: string, opts: { busyTimeoutMs?: number } = {}): Knex.Config {
   return {
     client: "better-sqlite3",
     connection: { filename },
     useNullAsDefault: true,
-    pool: { min: 1, max: 1, afterCreate },
+    pool: { min: 1, max: 1, afterCreate: afterCreate(opts.busyTimeoutMs ?? 5000) },
     migrations: { migrationSource, tableName: "knex_migrations" },
   };
 }
@@ -56,11 +59,13 @@ export function pgConfig(url: string): Knex.Config {
 /**
  * Opens a database: a `postgres://` URL opens PostgreSQL, anything else is a SQLite file, opened
  * (or created) with its folder created when missing. Both run the same migrations and queries.
+ * On SQLite every transaction begins IMMEDIATE, so a writer waits for the lock (`busyTimeoutMs`,
+ * default 5 s) instead of failing (see durable/busy.ts).
  */
-export function createDb(target: string): Knex {
+export function createDb(target: string, opts: { busyTimeoutMs?: number } = {}): Knex {
   if (isPostgresUrl(target)) return knexFactory(pgConfig(target));
   if (target !== ":memory:") fs.mkdirSync(path.dirname(path.resolve(/*turbopackIgnore: true*/ target)), { recursive: true });
-  return knexFactory(sqliteConfig(target));
+  return useImmediateTransactions(knexFactory(sqliteConfig(target, opts)));
 }
 
 /** The repository root: the nearest folder upwards holding pnpm-workspace.yaml. */

@@ -109,3 +109,5 @@ export * from "./audits";
 export * from "./sessions";
 export * from "./throttle";
 export * from "./account";
+// Durable writes: busy locks, idempotency keys, background tasks, mail outbox.
+export * from "./durable";

@@ -13,6 +13,7 @@ import * as m300200 from "../migrations/20261203000200_same_leak_additions";
 import * as m300300 from "../migrations/20261203000300_entered_amounts_and_records_start";
 import * as m300310 from "../migrations/20261203000310_finding_event_causes";
 import * as s0500 from "../migrations/20261203000500_sessions_and_throttling";
+import * as d0700 from "../migrations/20261203000700_durable_writes";
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -40,6 +41,7 @@ const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
   ["20261203000300_entered_amounts_and_records_start.ts", m300300],
   ["20261203000310_finding_event_causes.ts", m300310],
   ["20261203000500_sessions_and_throttling.ts", s0500],
+  ["20261203000700_durable_writes.ts", d0700],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -450,6 +450,14 @@ export async function failImport(db: Knex, opts: { id: number; message: string }
 }
 
 /**
+ * Before a check that was interrupted runs again: the problems its first attempt recorded are
+ * removed, so the rerun does not list them twice.
+ */
+export async function clearImportIssues(db: Knex, opts: { id: number }): Promise<void> {
+  await db("import_row_issues").where({ import_id: opts.id }).delete();
+}
+
+/**
  * Marks `checking`/`importing` imports whose work is no longer running (the server restarted) as
  * failed, so nobody waits forever. `running` holds the ids this process is working on.
  */

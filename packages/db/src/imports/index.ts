@@ -12,6 +12,7 @@ export {
   cancelImport,
   failImport,
   failAbandonedImports,
+  clearImportIssues,
   checkImportRows,
   startImportCommit,
   commitImportRows,

@@ -8,6 +8,7 @@ import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { SeverityIcon } from "./finding-badges";
 import { FindingsTable } from "./findings-table";
 import type { AuditView } from "./types";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 const STATE_WORDS = { queued: "Waiting to start", running: "Running", done: "Finished", failed: "Stopped" } as const;
 
@@ -32,8 +33,9 @@ export function AuditDetail({
     queryFn: () => fetchJson<AuditView>(`/api/audits/${id}`),
     refetchInterval: (q) => (q.state.data && (q.state.data.state === "done" || q.state.data.state === "failed") ? false : 1000),
   });
+  const idem = useIdempotencyKey();
   const rerun = useMutation({
-    mutationFn: () => fetchJson<{ id: number }>(`/api/audits/${id}/rerun`, { method: "POST" }),
+    mutationFn: () => fetchJson<{ id: number }>(`/api/audits/${id}/rerun`, { method: "POST", headers: idem.headers }),
     onSuccess: ({ id: next }) => {
       void queryClient.invalidateQueries({ queryKey: ["audits"] });
       router.push(`/audits/${next}`);

@@ -7,6 +7,7 @@ import { FINDING_STATE_LABELS, type FindingState } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { DueText, SeverityBadge, StateBadge, StateIcon } from "./finding-badges";
 import { recordHref, type Assignee, type FindingView } from "./types";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 const ACTION_WORDS: Record<string, string> = {
   opened: "Found by the rules",
@@ -473,14 +474,20 @@ function ReasonForm(props: {
 function Evidence({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
   const queryClient = useQueryClient();
   const [key, setKey] = useState(0);
+  const idem = useIdempotencyKey();
   const upload = useMutation({
     mutationFn: async (form: FormData) => {
-      const res = await fetch(`/api/findings/${f.id}/evidence`, { method: "POST", body: form, headers: { accept: "application/json" } });
+      const res = await fetch(`/api/findings/${f.id}/evidence`, {
+        method: "POST",
+        body: form,
+        headers: { accept: "application/json", ...idem.headers },
+      });
       const json = await res.json().catch(() => null);
       if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? "Upload failed", json?.error?.fieldErrors ?? {});
       return json;
     },
     onSuccess: () => {
+      idem.renew();
       onDone("Evidence attached.");
       setKey((k) => k + 1);
       void queryClient.invalidateQueries({ queryKey: ["finding", f.id] });
@@ -553,9 +560,12 @@ function Evidence({ finding: f, onDone }: { finding: FindingView; onDone: (t: st
 function Comments({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
   const queryClient = useQueryClient();
   const [body, setBody] = useState("");
+  const idem = useIdempotencyKey();
   const add = useMutation({
-    mutationFn: () => fetchJson(`/api/findings/${f.id}/comments`, { method: "POST", body: JSON.stringify({ body }) }),
+    mutationFn: () =>
+      fetchJson(`/api/findings/${f.id}/comments`, { method: "POST", headers: idem.headers, body: JSON.stringify({ body }) }),
     onSuccess: () => {
+      idem.renew();
       setBody("");
       onDone("Comment added.");
       void queryClient.invalidateQueries({ queryKey: ["finding", f.id] });

@@ -31,6 +31,7 @@ import { useBranchOptions } from "@/lib/client/use-branch-options";
 import { FilterBar, FilterField, TableView, serverTableFeatures } from "@/components/data-table";
 import { DueText, SeverityBadge, StateBadge } from "./finding-badges";
 import type { Assignee, FindingListRow, FindingPage, SavedView } from "./types";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 const features = tableFeatures({ ...serverTableFeatures, rowSelectionFeature });
 const helper = createColumnHelper<typeof features, FindingListRow>();
@@ -177,9 +178,14 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
       }),
   });
 
+  const idem = useIdempotencyKey();
   const saveViewMutation = useMutation({
     mutationFn: (name: string) =>
-      fetchJson<SavedView>("/api/saved-views", { method: "POST", body: JSON.stringify({ list: "findings", name, query: view }) }),
+      fetchJson<SavedView>("/api/saved-views", {
+        method: "POST",
+        headers: idem.headers,
+        body: JSON.stringify({ list: "findings", name, query: view }),
+      }),
     onSuccess: (saved) => {
       setNotice({ ok: true, text: `View "${saved.name}" saved.` });
       setViewName("");

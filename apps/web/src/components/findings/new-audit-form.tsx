@@ -5,6 +5,7 @@ import { useEffect, useState } from "react";
 import { useMutation } from "@tanstack/react-query";
 import { packsForPlace, type RulePack } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 const PACKS: { id: RulePack; label: string; hint: string }[] = [
   { id: "us_federal", label: "US federal", hint: "Clean Air Act section 608 (40 CFR 82 Subpart F) and the AIM Act (40 CFR 84)" },
@@ -29,11 +30,13 @@ export function NewAuditForm({
   const [periodFrom, setFrom] = useState(threeYearsBack);
   const [periodTo, setTo] = useState(today);
   const [packs, setPacks] = useState<RulePack[]>(defaultPacks.length ? defaultPacks : ["us_federal"]);
+  const idem = useIdempotencyKey();
   const start = useMutation({
     // The branches sent are the boxes ticked on the screen, read from the form itself.
     mutationFn: (chosen: number[]) =>
       fetchJson<{ id: number }>("/api/audits", {
         method: "POST",
+        headers: idem.headers,
         body: JSON.stringify({ branchIds: chosen, periodFrom, periodTo, packs }),
       }),
     onSuccess: ({ id }) => router.push(`/audits/${id}`),

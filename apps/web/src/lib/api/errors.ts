@@ -1,13 +1,14 @@
 import { ForbiddenError } from "@casl/ability";
 import { NextResponse } from "next/server";
 import { z } from "zod";
-import { DomainError } from "@coldtrail/db";
+import { DomainError, isBusyError, DatabaseBusyError } from "@coldtrail/db";
+import { isStorageUnavailable } from "./storage-errors";
 
 export type FieldErrors = Record<string, string[]>;
 
 export interface ApiErrorBody {
   error: {
-    code: "unauthenticated" | "forbidden" | "invalid" | "not_found" | "conflict" | "too_large" | "unavailable" | "internal";
+    code: "unauthenticated" | "forbidden" | "invalid" | "not_found" | "conflict" | "too_large" | "busy" | "unavailable" | "internal";
     message: string;
     fieldErrors?: FieldErrors;
   };
@@ -69,6 +70,24 @@ export function toErrorResponse(err: unknown): NextResponse<ApiErrorBody> {
       case "invalid":
         return errorResponse(400, { code: "invalid", message: err.message, ...(fieldErrors && { fieldErrors }) });
     }
+  }
+  if (isStorageUnavailable(err)) {
+    // File storage did not answer (or answered with a server error); the upload comes before the row
+    // that names it, so nothing was saved.
+    const res = errorResponse(503, {
+      code: "unavailable",
+      message: "File storage is unavailable; nothing was saved. Try again in a moment.",
+    });
+    res.headers.set("Retry-After", "5");
+    return res;
+  }
+  if (isBusyError(err)) {
+    // Another writer held the database lock past the wait (busy timeout and retries): nothing was
+    // written, and a retry in a moment succeeds — a 503 the client may retry, never a 500.
+    const seconds = err instanceof DatabaseBusyError ? err.retryAfterSeconds : 2;
+    const res = errorResponse(503, { code: "busy", message: new DatabaseBusyError().message });
+    res.headers.set("Retry-After", String(seconds));
+    return res;
   }
   console.error(err);
   return errorResponse(500, { code: "internal", message: "Something went wrong on our side; nothing was saved" });

@@ -11,6 +11,7 @@ import { checkRequestOrigin, isStateChanging, type BodyKind } from "./origin";
 import { parseParams } from "./params";
 import { branchesTouchedSince, latestActivityId } from "@coldtrail/db";
 import { reevaluateAfterWrite } from "../server/continuous-audit";
+import { idempotently } from "./idempotency";
 
 export interface RouteContext<Q, B, P> {
   req: NextRequest;
@@ -33,6 +34,8 @@ interface RouteSpec<Q extends z.ZodType | undefined, B extends z.ZodType | undef
   maxBody?: number;
   /** What a state-changing request may send: JSON (default), or a multipart form for routes that take files. */
   accepts?: BodyKind;
+  /** A creating route: honours `Idempotency-Key` (see ./idempotency.ts). */
+  idempotent?: boolean;
 }
 
 type Out<S> = S extends z.ZodType ? z.output<S> : undefined;
@@ -109,7 +112,18 @@ export function route<
 
       const writes = req.method !== "GET" && req.method !== "HEAD";
       const before = writes ? await latestActivityId(db()) : 0;
-      const result = await handler({ req, actor, ability, db: db(), query: query as Out<Q>, body: body as Out<B>, params });
+      const call = (database: ReturnType<typeof db>) =>
+        handler({ req, actor, ability, db: database, query: query as Out<Q>, body: body as Out<B>, params });
+      const result = spec.idempotent
+        ? await idempotently({
+            req,
+            actor,
+            body,
+            database: db(),
+            call,
+            toResponse: (r) => (r instanceof Response ? r : NextResponse.json(r ?? null)),
+          })
+        : await call(db());
       if (writes && (!(result instanceof Response) || result.ok)) {
         // Continuous audit: every write appends to the activity history, so the branches whose records
         // this request changed are known; their rules run again in the background.

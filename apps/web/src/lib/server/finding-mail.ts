@@ -2,71 +2,72 @@ import "server-only";
 import { SEVERITY_LABELS } from "@coldtrail/core";
 import {
   collectDigests,
+  enqueueTask,
   insertFindingNotifications,
   listOrganisationIds,
   listUnsentFindingMail,
-  markFindingMailSent,
+  writeTransaction,
   type Knex,
+  type TaskHandler,
 } from "@coldtrail/db";
-import { appLink, mailHtml, sendMail } from "./mail";
+import { appLink, mailHtml, queueOutgoingMail } from "./mail";
 
 /**
- * E-mail for the findings workflow. Writes create in-app notifications in the same transaction (the
- * outbox); after the commit these functions send each one as plain text + HTML with a link into the
- * app and mark it sent. A mail that cannot be sent stays unsent in the app and is logged.
+ * E-mail for the findings workflow. Writes create in-app notifications in their transaction; the route
+ * then queues one mail per notification in the outbox (in the same transaction, see
+ * `queueFindingMail`), and the background runner sends them — plain text + HTML with a link into the
+ * app — retrying while SMTP is down, and marks each notification e-mailed once sent.
  * In development and tests the mail goes to the local SMTP fake (caught mail: http://127.0.0.1:2580).
  */
 
 const FOOTER = "You receive this because of your role in Coldtrail. Open the app to see the whole history.";
 
-export async function deliverFindingMail(db: Knex, notificationIds: number[]): Promise<number> {
+/** Queues the mail of these (not yet e-mailed) notifications. Call it in the transaction that created them. */
+export async function queueFindingMail(db: Knex, notificationIds: number[]): Promise<number> {
   if (notificationIds.length === 0) return 0;
-  let sent = 0;
+  let queued = 0;
+  const orgs = new Map(
+    (await db("notifications").whereIn("id", notificationIds).select("id", "organisation_id")).map((r) => [
+      Number(r.id),
+      Number(r.organisation_id),
+    ]),
+  );
   for (const n of await listUnsentFindingMail(db, { ids: notificationIds })) {
     const href = appLink(n.link ?? "/findings");
     const paragraphs = n.body
       .split(/\n{2,}/)
       .map((p) => p.trim())
       .filter(Boolean);
-    try {
-      await sendMail({
-        to: n.email,
-        subject: n.title,
-        text: [`Hello ${n.name},`, ...paragraphs, `Open it in Coldtrail: ${href}`, FOOTER].join("\n\n"),
-        html: mailHtml({
-          heading: n.title,
-          paragraphs: [`Hello ${n.name},`, ...paragraphs, FOOTER],
-          action: { label: "Open in Coldtrail", href },
-        }),
-      });
-      await markFindingMailSent(db, { id: n.id });
-      sent += 1;
-    } catch (err) {
-      console.error(`[mail] notification #${n.id} to ${n.email} was not sent`, err);
-    }
+    await queueOutgoingMail(db, {
+      organisationId: orgs.get(n.id) ?? null,
+      notificationId: n.id,
+      to: n.email,
+      subject: n.title,
+      text: [`Hello ${n.name},`, ...paragraphs, `Open it in Coldtrail: ${href}`, FOOTER].join("\n\n"),
+      html: mailHtml({
+        heading: n.title,
+        paragraphs: [`Hello ${n.name},`, ...paragraphs, FOOTER],
+        action: { label: "Open in Coldtrail", href },
+      }),
+    });
+    queued += 1;
   }
-  return sent;
-}
-
-/** Sends after a write without holding up the response. */
-export function deliverFindingMailLater(db: Knex, notificationIds: number[]): void {
-  if (notificationIds.length === 0) return;
-  setImmediate(() => {
-    deliverFindingMail(db, notificationIds).catch((err: unknown) => console.error("[mail] findings mail failed", err));
-  });
+  return queued;
 }
 
 /**
  * The daily digest: to each person, the findings that are theirs and due within 7 days or overdue.
- * "Today" is the UTC calendar date; each person gets at most one digest a day. `onlyUserId` sends just
- * that person's digest (the "send me my digest now" button).
+ * "Today" is the UTC calendar date (or `today`); each person gets at most one digest a day: the
+ * digest notification and its outbox mail are written in one transaction, and people who already have
+ * today's notification are left out. `onlyUserId` sends just that person's digest (the "send me my
+ * digest now" button). `sent` counts the mails queued; the runner delivers them.
  */
 export async function sendDailyDigests(
   db: Knex,
-  opts: { now?: Date; onlyUserId?: number; organisationIds?: number[] } = {},
+  opts: { now?: Date; today?: string; onlyUserId?: number; organisationIds?: number[] } = {},
 ): Promise<{ sent: number; people: number }> {
   const now = opts.now ?? new Date();
-  const today = now.toISOString().slice(0, 10);
+  const today = opts.today ?? now.toISOString().slice(0, 10);
   let sent = 0;
   let people = 0;
   for (const organisationId of opts.organisationIds ?? (await listOrganisationIds(db))) {
@@ -83,17 +84,23 @@ export async function sendDailyDigests(
         );
       if (d.lines.length > 50) lines.push(`… and ${d.lines.length - 50} more: ${appLink("/findings?due=overdue")}`);
       const body = [`These findings are yours to see through and are overdue or due within 7 days.`, lines.join("\n")].join("\n\n");
-      const [id] = await db.transaction((trx) =>
-        insertFindingNotifications(
+      const queued = await writeTransaction(db, async (trx) => {
+        // Checked again inside the write transaction, so two senders never both send it.
+        const already = await trx("notifications")
+          .where({ user_id: d.userId, kind: "finding_digest" })
+          .where("created_at", ">=", `${today}T00:00:00.000Z`)
+          .first("id");
+        if (already) return false;
+        const [id] = await insertFindingNotifications(
           trx,
           organisationId,
           [{ userId: d.userId, kind: "finding_digest", title, body, link: "/findings?state=active&sort=due", subjectId: null }],
           now.toISOString(),
-        ),
-      );
-      if (id === undefined) continue;
-      try {
-        await sendMail({
+        );
+        if (id === undefined) return false;
+        await queueOutgoingMail(trx, {
+          organisationId,
+          notificationId: id,
           to: d.email,
           subject: title,
           text: [`Hello ${d.name},`, body, `All your findings: ${appLink("/findings?state=active&sort=due")}`, FOOTER].join("\n\n"),
@@ -113,12 +120,41 @@ export async function sendDailyDigests(
             action: { label: "Open your findings", href: appLink("/findings?state=active&sort=due") },
           }),
         });
-        await markFindingMailSent(db, { id });
-        sent += 1;
-      } catch (err) {
-        console.error(`[mail] digest to ${d.email} was not sent`, err);
-      }
+        return true;
+      });
+      if (queued) sent += 1;
     }
   }
   return { sent, people };
 }
+
+/** The hour (UTC) from which the day's digest is queued. */
+export const DIGEST_FROM_HOUR_UTC = 7;
+
+/**
+ * Queues today's digest task of every organisation once it is past 07:00 UTC. The task's unique key
+ * (`digest:<organisation>:<day>`) makes it one per organisation and day, however many server
+ * instances run this.
+ */
+export async function scheduleDailyDigests(db: Knex, now: Date = new Date()): Promise<number> {
+  if (now.getUTCHours() < DIGEST_FROM_HOUR_UTC) return 0;
+  const day = now.toISOString().slice(0, 10);
+  let queued = 0;
+  for (const organisationId of await listOrganisationIds(db)) {
+    const id = await enqueueTask(db, {
+      kind: "digest",
+      payload: { organisationId, day },
+      uniqueKey: `digest:${organisationId}:${day}`,
+      organisationId,
+    });
+    if (id !== null) queued += 1;
+  }
+  return queued;
+}
+
+/** The runner's `digest` task: one organisation's digests for one day. */
+export const digestTask: TaskHandler = {
+  async run({ task, db }) {
+    await sendDailyDigests(db, { today: String(task.payload.day), organisationIds: [Number(task.payload.organisationId)] });
+  },
+};

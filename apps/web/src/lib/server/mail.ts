@@ -1,5 +1,6 @@
 import "server-only";
 import nodemailer, { type Transporter } from "nodemailer";
+import { deliverOutboxMail, markOutboxMailFailed, queueMail, type Knex, type TaskHandler } from "@coldtrail/db";
 import { env } from "../env";
 
 /**
@@ -27,9 +28,42 @@ function transport(): Transporter {
   return globalForMail.coldtrailMail;
 }
 
+/** Sends at once through SMTP. App code queues mail instead (`queueOutgoingMail`); the runner calls this. */
 export async function sendMail(mail: OutgoingMail): Promise<void> {
   await transport().sendMail({ from: env.MAIL_FROM, ...mail });
 }
+
+/**
+ * Puts a mail in the outbox (packages/db durable/outbox.ts), to be sent by the background runner with
+ * retries while SMTP is down. Call it inside the transaction of the change the mail reports.
+ */
+export async function queueOutgoingMail(
+  db: Knex,
+  mail: OutgoingMail & { organisationId: number | null; notificationId?: number | null },
+): Promise<number> {
+  return queueMail(db, {
+    organisationId: mail.organisationId,
+    to: Array.isArray(mail.to) ? mail.to.join(", ") : mail.to,
+    subject: mail.subject,
+    text: mail.text,
+    html: mail.html,
+    notificationId: mail.notificationId ?? null,
+  });
+}
+
+/** The runner's `mail` task: one outbox mail through SMTP; a failure is retried with backoff. */
+export const mailTask: TaskHandler = {
+  async run({ task, db }) {
+    await deliverOutboxMail(db, {
+      id: Number(task.payload.outboxId),
+      send: (m) => sendMail({ to: m.to, subject: m.subject, text: m.text, html: m.html }),
+    });
+  },
+  async giveUp({ task, db, reason }) {
+    await markOutboxMailFailed(db, { id: Number(task.payload.outboxId), reason });
+  },
+  describeError: (err) => `The mail server did not take the message: ${err instanceof Error ? err.message : String(err)}`,
+};
 
 /** An absolute link into the app for e-mails. */
 export function appLink(path: string): string {

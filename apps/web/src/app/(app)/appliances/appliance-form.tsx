@@ -46,6 +46,7 @@ import {
   SelectField,
 } from "@/components/registers/form-fields";
 import { PRESSURE_CLASS_WORDS, todayIn } from "@/components/registers/words";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 export interface WritableBranch {
   id: number;
@@ -226,6 +227,7 @@ export function ApplianceForm(
     enabled: Boolean(branchId) && siteChoice === "new" && customerChoice === "existing",
   });
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
     mutationFn: async (values: FormOut) => {
       if (editing) {
@@ -240,7 +242,11 @@ export function ApplianceForm(
         return editing.id;
       }
       const { reason: _reason, ...body } = values;
-      const { id } = await fetchJson<{ id: number }>("/api/appliances", { method: "POST", body: JSON.stringify(body) });
+      const { id } = await fetchJson<{ id: number }>("/api/appliances", {
+        method: "POST",
+        headers: idem.headers,
+        body: JSON.stringify(body),
+      });
       return id;
     },
     onSuccess: async (id) => {

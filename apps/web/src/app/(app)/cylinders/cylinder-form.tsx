@@ -22,6 +22,7 @@ import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import { AmountField, FormAlert, TextField, StickyFormActions, SelectField, BranchField } from "@/components/registers/form-fields";
 import { CylinderCautions } from "@/components/registers/cylinder-cautions";
 import type { WritableBranch } from "../appliances/appliance-form";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 type FormIn = z.input<typeof cylinderInput> & { reason?: string };
 type FormOut = z.output<typeof cylinderInput> & { reason?: string };
@@ -72,6 +73,7 @@ export function CylinderForm(
   const regulatedDirty =
     editing && ["waterCapacityAmount", "waterCapacityUnit", "tareAmount", "tareUnit", "lastRequalifiedOn"].some((k) => dirty[k]);
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
     mutationFn: async (values: FormOut) => {
       if (editing) {
@@ -85,7 +87,7 @@ export function CylinderForm(
         return editing.id;
       }
       const { reason: _r, ...body } = values;
-      return (await fetchJson<{ id: number }>("/api/cylinders", { method: "POST", body: JSON.stringify(body) })).id;
+      return (await fetchJson<{ id: number }>("/api/cylinders", { method: "POST", headers: idem.headers, body: JSON.stringify(body) })).id;
     },
     onSuccess: async (id) => {
       await queryClient.invalidateQueries({ queryKey: ["cylinders"] });

@@ -30,6 +30,7 @@ import {
 } from "@/components/registers/form-fields";
 import { ERA_WORDS } from "@/components/registers/words";
 import type { WritableBranch } from "../appliances/appliance-form";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 type FormIn = z.input<typeof equipmentInput> & { reason?: string };
 type FormOut = z.output<typeof equipmentInput> & { reason?: string };
@@ -74,6 +75,7 @@ export function EquipmentForm(
   const regulatedDirty = editing && (dirty.manufacturedOn || dirty.certificationState);
   const manufacturedOn = watch("manufacturedOn");
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
     mutationFn: async (values: FormOut) => {
       if (editing) {
@@ -82,7 +84,7 @@ export function EquipmentForm(
         return editing.id;
       }
       const { reason: _r, ...body } = values;
-      return (await fetchJson<{ id: number }>("/api/equipment", { method: "POST", body: JSON.stringify(body) })).id;
+      return (await fetchJson<{ id: number }>("/api/equipment", { method: "POST", headers: idem.headers, body: JSON.stringify(body) })).id;
     },
     onSuccess: async (id) => {
       await queryClient.invalidateQueries({ queryKey: ["equipment"] });

@@ -10,11 +10,14 @@ export const GET = route({ can: ["read", "Appliance"], query: applianceListQuery
 });
 
 /** Adds an appliance (and, when asked, its new site and customer) to a branch's register. */
-export const POST = route({ can: ["create", "Appliance"], body: applianceInput }, async ({ actor, ability, db, body }) => {
-  authorizeCreateInBranch(ability, actor, "appliance", body.branchId);
-  const planned = plannedSiteRecords(body);
-  if (planned.site) authorizeCreateInBranch(ability, actor, "Site", body.branchId);
-  if (planned.customer) authorizeCreateInBranch(ability, actor, "Customer", body.branchId);
-  const id = await createAppliance(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
-  return NextResponse.json({ id }, { status: 201 });
-});
+export const POST = route(
+  { idempotent: true, can: ["create", "Appliance"], body: applianceInput },
+  async ({ actor, ability, db, body }) => {
+    authorizeCreateInBranch(ability, actor, "appliance", body.branchId);
+    const planned = plannedSiteRecords(body);
+    if (planned.site) authorizeCreateInBranch(ability, actor, "Site", body.branchId);
+    if (planned.customer) authorizeCreateInBranch(ability, actor, "Customer", body.branchId);
+    const id = await createAppliance(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
+    return NextResponse.json({ id }, { status: 201 });
+  },
+);

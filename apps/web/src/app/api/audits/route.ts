@@ -1,8 +1,8 @@
 import { NextResponse } from "next/server";
 import { auditInput, auditListQuery } from "@coldtrail/core";
-import { createAudit, listAudits } from "@coldtrail/db";
+import { createAudit, listAudits, writeTransaction } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
-import { kickAuditRunner } from "@/lib/server/audit-runner";
+import { kickAuditRunner, queueAudit } from "@/lib/server/audit-runner";
 import { readableFindingBranches, visibleAudit } from "./_visible";
 
 /** The organisation's audits, newest first, with the summary of the branches the person may read. */
@@ -13,8 +13,13 @@ export const GET = route({ can: ["read", "Audit"], query: auditListQuery }, asyn
 });
 
 /** Start an audit: branches, period, rule packs. It runs in the background; poll GET /api/audits/:id. */
-export const POST = route({ can: ["run", "Audit"], body: auditInput }, async ({ actor, db, body }) => {
-  const id = await createAudit(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
-  kickAuditRunner(db);
+export const POST = route({ idempotent: true, can: ["run", "Audit"], body: auditInput }, async ({ actor, db, body }) => {
+  // The audit and its background task commit together.
+  const id = await writeTransaction(db, async (trx) => {
+    const created = await createAudit(trx, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
+    await queueAudit(trx, { auditId: created, organisationId: actor.organisationId });
+    return created;
+  });
+  kickAuditRunner();
   return NextResponse.json({ id }, { status: 201 });
 });

@@ -20,7 +20,7 @@ export const GET = route({ can: ["read", "Certification"], query: certificationL
  * `certificateNumber`, `issuedOn`). Fields and file are checked together; nothing is stored unless both pass.
  */
 export const POST = route(
-  { can: ["create", "Certification"], accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
+  { idempotent: true, can: ["create", "Certification"], accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
   async ({ req, actor, ability, db }) => {
     ForbiddenError.from(ability).throwUnlessCan(
       "create",

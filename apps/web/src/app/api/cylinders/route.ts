@@ -14,7 +14,7 @@ export const GET = route({ can: ["read", "Cylinder"], query: cylinderListQuery }
 });
 
 /** Adds an empty cylinder to a branch's register. */
-export const POST = route({ can: ["create", "Cylinder"], body: cylinderInput }, async ({ actor, ability, db, body }) => {
+export const POST = route({ idempotent: true, can: ["create", "Cylinder"], body: cylinderInput }, async ({ actor, ability, db, body }) => {
   authorizeCreateInBranch(ability, actor, "cylinder", body.branchId);
   const id = await createCylinder(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
   return NextResponse.json({ id }, { status: 201 });

@@ -10,8 +10,11 @@ export const GET = route({ can: ["read", "RecoveryEquipment"], query: equipmentL
 });
 
 /** Adds a recovery unit to a branch's register. */
-export const POST = route({ can: ["create", "RecoveryEquipment"], body: equipmentInput }, async ({ actor, ability, db, body }) => {
-  authorizeCreateInBranch(ability, actor, "equipment", body.branchId);
-  const id = await createEquipment(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
-  return NextResponse.json({ id }, { status: 201 });
-});
+export const POST = route(
+  { idempotent: true, can: ["create", "RecoveryEquipment"], body: equipmentInput },
+  async ({ actor, ability, db, body }) => {
+    authorizeCreateInBranch(ability, actor, "equipment", body.branchId);
+    const id = await createEquipment(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
+    return NextResponse.json({ id }, { status: 201 });
+  },
+);

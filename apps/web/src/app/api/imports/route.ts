@@ -20,7 +20,7 @@ const XLSX_MIME = "application/vnd.openxmlformats-officedocument.spreadsheetml.s
  * and a broken file is refused before anything is stored. Returns the import, waiting for its mapping.
  */
 export const POST = route(
-  { can: ["create", "Import"], accepts: "multipart", maxBody: IMPORT_MAX_BYTES + 256 * 1024 },
+  { idempotent: true, can: ["create", "Import"], accepts: "multipart", maxBody: IMPORT_MAX_BYTES + 256 * 1024 },
   async ({ req, actor, ability, db }) => {
     const form = await readUploadForm(req, "file");
     const fields = importUploadInput.parse({ kind: form.get("kind") ?? undefined, branchId: form.get("branchId") ?? undefined });

@@ -10,7 +10,7 @@ export const GET = route({ can: ["read", "Job"], query: jobListQuery }, async ({
 });
 
 /** Log a job of any kind (recovery, charge, leak repair, verification test, disposal). The technician on the job is the person signed in. */
-export const POST = route({ can: ["create", "Job"], body: jobInput }, async ({ actor, ability, db, body }) => {
+export const POST = route({ idempotent: true, can: ["create", "Job"], body: jobInput }, async ({ actor, ability, db, body }) => {
   const appliance = await getApplianceRef(db, { organisationId: actor.organisationId, id: body.applianceId });
   if (!appliance) {
     throw new DomainError("invalid", "That appliance is not in your organisation's register", "applianceId");

@@ -10,7 +10,7 @@ export const GET = route({ can: ["read", "Purchase"], query: purchaseListQuery }
 });
 
 /** Record refrigerant bought by a branch. */
-export const POST = route({ can: ["create", "Purchase"], body: purchaseInput }, async ({ actor, ability, db, body }) => {
+export const POST = route({ idempotent: true, can: ["create", "Purchase"], body: purchaseInput }, async ({ actor, ability, db, body }) => {
   ForbiddenError.from(ability).throwUnlessCan(
     "create",
     subject("Purchase", { organisationId: actor.organisationId, branchId: body.branchId }),

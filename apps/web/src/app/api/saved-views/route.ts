@@ -9,7 +9,7 @@ export const GET = route({ can: ["read", "Finding"] }, async ({ actor, db }) => 
 });
 
 /** Save the current filters, sort and grouping under a name (the same name replaces the view). */
-export const POST = route({ can: ["read", "Finding"], body: savedViewInput }, async ({ actor, db, body }) => {
+export const POST = route({ idempotent: true, can: ["read", "Finding"], body: savedViewInput }, async ({ actor, db, body }) => {
   const view = await saveView(db, {
     actor: { userId: actor.userId, organisationId: actor.organisationId },
     list: body.list,

@@ -10,11 +10,14 @@ export const GET = route({ can: ["read", "ReclaimShipment"], query: shipmentList
 });
 
 /** Record cylinders sent to a reclaimer; each ships its recorded contents and is emptied. */
-export const POST = route({ can: ["create", "ReclaimShipment"], body: reclaimShipmentInput }, async ({ actor, ability, db, body }) => {
-  ForbiddenError.from(ability).throwUnlessCan(
-    "create",
-    subject("ReclaimShipment", { organisationId: actor.organisationId, branchId: body.branchId }),
-  );
-  const id = await createShipment(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
-  return NextResponse.json({ id }, { status: 201 });
-});
+export const POST = route(
+  { idempotent: true, can: ["create", "ReclaimShipment"], body: reclaimShipmentInput },
+  async ({ actor, ability, db, body }) => {
+    ForbiddenError.from(ability).throwUnlessCan(
+      "create",
+      subject("ReclaimShipment", { organisationId: actor.organisationId, branchId: body.branchId }),
+    );
+    const id = await createShipment(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
+    return NextResponse.json({ id }, { status: 201 });
+  },
+);

@@ -21,6 +21,7 @@ import type { AdminBranchRow } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { saveErrorMessage } from "@/lib/client/form-save";
 import { FieldError, FormAlert, Notice, hintClass, inputClass, labelClass, primaryButton } from "../_components/form-bits";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 type FormIn = z.input<typeof branchInput>;
 type FormOut = z.output<typeof branchInput>;
@@ -66,6 +67,7 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
   const [clock, setClock] = useState<string | null>(null);
   useEffect(() => setClock(localTimeIn(timeZone ?? "")), [timeZone]);
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
     mutationFn: (input: FormOut) =>
       branch
@@ -80,7 +82,7 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
               region: input.region ?? "",
             }),
           })
-        : fetchJson<{ id: number }>("/api/admin/branches", { method: "POST", body: JSON.stringify(input) }),
+        : fetchJson<{ id: number }>("/api/admin/branches", { method: "POST", headers: idem.headers, body: JSON.stringify(input) }),
     onSuccess: async (res) => {
       await queryClient.invalidateQueries({ queryKey: ["admin-branches"] });
       await queryClient.invalidateQueries({ queryKey: ["branches"] });

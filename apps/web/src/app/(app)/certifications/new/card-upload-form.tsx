@@ -3,6 +3,7 @@
 import { useEffect, useId, useState } from "react";
 import { useRouter } from "next/navigation";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 import { useForm, type FieldPath } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
@@ -27,14 +28,14 @@ const labelClass = "block text-base font-semibold text-ink-900";
 const pickerClass =
   "flex min-h-14 cursor-pointer items-center justify-center gap-2 rounded-lg border-2 px-4 py-3 text-center text-base font-semibold has-[:focus-visible]:outline has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-fjord-500";
 
-async function postCard(values: FormOut, file: File): Promise<{ id: number }> {
+async function postCard(values: FormOut, file: File, idempotency: Record<string, string>): Promise<{ id: number }> {
   const data = new FormData();
   for (const t of values.types) data.append("types", t);
   data.set("certifyingOrganisation", values.certifyingOrganisation);
   data.set("certificateNumber", values.certificateNumber);
   if (values.issuedOn) data.set("issuedOn", values.issuedOn);
   data.set("card", file, file.name);
-  const res = await fetch("/api/certifications", { method: "POST", body: data, headers: { accept: "application/json" } });
+  const res = await fetch("/api/certifications", { method: "POST", body: data, headers: { accept: "application/json", ...idempotency } });
   const body = res.headers.get("content-type")?.includes("application/json") ? await res.json() : null;
   if (!res.ok) throw new ApiError(res.status, body?.error?.message ?? `Upload failed (${res.status})`, body?.error?.fieldErrors ?? {});
   return body as { id: number };
@@ -80,8 +81,9 @@ export function CardUploadForm() {
     setFile(chosen);
   };
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
-    mutationFn: ({ values, card }: { values: FormOut; card: File }) => postCard(values, card),
+    mutationFn: ({ values, card }: { values: FormOut; card: File }) => postCard(values, card, idem.headers),
     onSuccess: async () => {
       await queryClient.invalidateQueries({ queryKey: ["certifications"] });
       router.push("/certifications?uploaded=1");

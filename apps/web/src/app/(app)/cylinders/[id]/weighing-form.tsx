@@ -24,6 +24,7 @@ import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import { RefrigerantList } from "@/components/form";
 import { AmountField, FormAlert, TextField, buttonPrimary, buttonSecondary, inputClass } from "@/components/registers/form-fields";
 import { todayIn } from "@/components/registers/words";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 type FormIn = z.input<typeof cylinderWeighingAmendInput>;
 
@@ -125,6 +126,7 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
   const errors = formState.errors as Record<string, { message?: string } | undefined>;
   const err = (n: string) => errors[n]?.message;
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
     mutationFn: (values: FormOut) => {
       const dirty = formState.dirtyFields as Record<string, unknown>;
@@ -135,6 +137,7 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
         ? fetchJson(`/api/cylinders/${cylinder.id}/weighings/${amend.id}`, { method: "PATCH", body: JSON.stringify(body) })
         : fetchJson<{ id: number; netG: number }>(`/api/cylinders/${cylinder.id}/weighings`, {
             method: "POST",
+            headers: idem.headers,
             body: JSON.stringify(body),
           });
     },
@@ -145,6 +148,7 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
         queryClient.invalidateQueries({ queryKey: ["cylinders"] }),
       ]);
       setSaved(amend ? "Weighing corrected." : "Weighing recorded.");
+      if (!amend) idem.renew();
       if (!amend) reset({ ...defaults, weighedOn: watch("weighedOn"), refrigerant: watch("refrigerant") });
       onDone?.();
     },

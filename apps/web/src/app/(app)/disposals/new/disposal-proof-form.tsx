@@ -12,6 +12,7 @@ import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import type { JobDetail, JobListPage } from "@/lib/client/types";
 import { RadioCards, fieldAria } from "@/components/form";
 import { AmountField, Field, FormAlert, TextField, labelClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 const MAX_DOCUMENT_BYTES = 10 * 1024 * 1024;
 const DISPOSAL_PATH_OPTIONS = DISPOSAL_PATHS.map((p) => ({ value: p, label: DISPOSAL_PATH_LABELS[p] }));
@@ -155,8 +156,10 @@ function RecordForm({ job }: { job: JobDetail }) {
   });
   const { register, handleSubmit, formState, setError } = form;
   const errors = formState.errors;
+  const idem = useIdempotencyKey();
   const save = useMutation({
-    mutationFn: (v: FieldValues) => fetchJson<{ id: number }>("/api/disposals/records", { method: "POST", body: JSON.stringify(v) }),
+    mutationFn: (v: FieldValues) =>
+      fetchJson<{ id: number }>("/api/disposals/records", { method: "POST", headers: idem.headers, body: JSON.stringify(v) }),
     onSuccess: async ({ id }) => {
       await queryClient.invalidateQueries({ queryKey: ["disposals"] });
       await queryClient.invalidateQueries({ queryKey: ["job", String(job.id)] });
@@ -228,12 +231,17 @@ function StatementForm({ job }: { job: JobDetail }) {
     },
   });
   const { handleSubmit, setError } = form;
+  const idem = useIdempotencyKey();
   const save = useMutation({
     mutationFn: async (v: FieldValues) => {
       const body = new FormData();
       for (const [k, value] of Object.entries(v)) if (value !== undefined && value !== null) body.set(k, String(value));
       if (file) body.set("document", file);
-      const res = await fetch("/api/disposals/statements", { method: "POST", body, headers: { accept: "application/json" } });
+      const res = await fetch("/api/disposals/statements", {
+        method: "POST",
+        body,
+        headers: { accept: "application/json", ...idem.headers },
+      });
       const json = await res.json().catch(() => null);
       if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? `Request failed (${res.status})`, json?.error?.fieldErrors ?? {});
       return json as { id: number };

@@ -30,6 +30,7 @@ import {
   primaryButton,
   todayIn,
 } from "../../jobs/_components/form-bits";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 interface ItemState {
   amount: string;
@@ -87,8 +88,10 @@ export function ShopRunForm() {
     [picked, unit],
   );
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
-    mutationFn: (body: unknown) => fetchJson<ShopBatchResult>("/api/disposals/shop", { method: "POST", body: JSON.stringify(body) }),
+    mutationFn: (body: unknown) =>
+      fetchJson<ShopBatchResult>("/api/disposals/shop", { method: "POST", headers: idem.headers, body: JSON.stringify(body) }),
     onSuccess: async (result) => {
       setDone(result);
       setPicked({});

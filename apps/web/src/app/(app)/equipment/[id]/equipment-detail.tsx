@@ -12,6 +12,7 @@ import { CertificationBadge, StatusBadge } from "@/components/registers/badges";
 import { ActivityPanel, AmendmentsPanel } from "@/components/registers/history-panels";
 import { FieldError, buttonPrimary, buttonSecondary, labelClass } from "@/components/registers/form-fields";
 import { ERA_WORDS, PRESSURE_CLASS_WORDS, equipmentKind } from "@/components/registers/words";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 interface EquipmentResponse {
   equipment: EquipmentRow;
@@ -92,15 +93,17 @@ function EvidenceUpload({ e }: { e: EquipmentRow }) {
   const input = useRef<HTMLInputElement>(null);
   const [error, setError] = useState<string | undefined>();
   const [done, setDone] = useState(false);
+  const idem = useIdempotencyKey();
   const upload = useMutation({
     mutationFn: async (file: File) => {
       const body = new FormData();
       body.set("file", file);
-      const res = await fetch(`/api/equipment/${e.id}/evidence`, { method: "POST", body });
+      const res = await fetch(`/api/equipment/${e.id}/evidence`, { method: "POST", body, headers: idem.headers });
       const json = await res.json().catch(() => null);
       if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? `Upload failed (${res.status})`, json?.error?.fieldErrors ?? {});
     },
     onSuccess: async () => {
+      idem.renew();
       setDone(true);
       setError(undefined);
       if (input.current) input.current.value = "";

@@ -10,6 +10,7 @@ import { IMPORT_FIELDS, IMPORT_KIND_LABELS, IMPORT_KINDS, IMPORT_MAX_BYTES, impo
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import type { BranchOption } from "@/lib/client/types";
 import { FieldError } from "@/components/form";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 type FormIn = z.input<typeof importUploadInput>;
 type FormOut = z.output<typeof importUploadInput>;
@@ -34,13 +35,14 @@ export function ImportUploadForm() {
   const kind = watch("kind") as FormOut["kind"];
   const branchRows = branches.data?.rows ?? [];
 
+  const idem = useIdempotencyKey();
   const upload = useMutation({
     mutationFn: async ({ values, chosen }: { values: FormOut; chosen: File }) => {
       const data = new FormData();
       data.set("kind", values.kind);
       data.set("branchId", String(values.branchId));
       data.set("file", chosen, chosen.name);
-      const res = await fetch("/api/imports", { method: "POST", body: data, headers: { accept: "application/json" } });
+      const res = await fetch("/api/imports", { method: "POST", body: data, headers: { accept: "application/json", ...idem.headers } });
       const body = res.headers.get("content-type")?.includes("application/json") ? await res.json() : null;
       if (!res.ok) throw new ApiError(res.status, body?.error?.message ?? `Upload failed (${res.status})`, body?.error?.fieldErrors ?? {});
       return body as { id: number };

@@ -55,6 +55,7 @@ import {
   secondaryButton,
   todayIn,
 } from "../_components/form-bits";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 const SCHEMAS = {
   recovery: recoveryJobInput,
@@ -341,8 +342,10 @@ function KindForm({
   const fieldWarnings = (field: DraftField) =>
     warnings.filter((w) => w.field === field).map((w) => <DraftWarningLine key={w.ruleId + w.message} warning={w} compact />);
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
-    mutationFn: (input: FieldValues) => fetchJson<{ id: number }>("/api/jobs", { method: "POST", body: JSON.stringify(input) }),
+    mutationFn: (input: FieldValues) =>
+      fetchJson<{ id: number }>("/api/jobs", { method: "POST", headers: idem.headers, body: JSON.stringify(input) }),
     onSuccess: async ({ id }) => {
       await queryClient.invalidateQueries({ queryKey: ["jobs"] });
       router.push(`/jobs/${id}?saved=1`);

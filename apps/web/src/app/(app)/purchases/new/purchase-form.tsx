@@ -13,6 +13,7 @@ import { useBranchOptions } from "@/lib/client/use-branch-options";
 import { useAbility } from "@/components/providers";
 import { fieldAria, RefrigerantList } from "@/components/form";
 import { AmountField, Field, FormAlert, TextField, inputClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 /** Refrigerant bought by a branch. */
 export function PurchaseForm({ organisationId }: { organisationId: number }) {
@@ -49,8 +50,10 @@ export function PurchaseForm({ organisationId }: { organisationId: number }) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [branchId, writable.length]);
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
-    mutationFn: (v: FieldValues) => fetchJson<{ id: number }>("/api/purchases", { method: "POST", body: JSON.stringify(v) }),
+    mutationFn: (v: FieldValues) =>
+      fetchJson<{ id: number }>("/api/purchases", { method: "POST", headers: idem.headers, body: JSON.stringify(v) }),
     onSuccess: async ({ id }) => {
       await queryClient.invalidateQueries({ queryKey: ["purchases"] });
       router.push(`/purchases/${id}?saved=1`);

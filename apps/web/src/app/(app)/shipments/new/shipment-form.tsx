@@ -9,6 +9,7 @@ import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import type { BranchOption, CylinderOption } from "@/lib/client/types";
 import { useAbility } from "@/components/providers";
 import { FieldError, FormAlert, hintClass, inputClass, labelClass, primaryButton, todayIn } from "../../jobs/_components/form-bits";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 /** Cylinders sent to a reclaimer: each ships its recorded contents and comes back empty on record. */
 export function ShipmentForm({ organisationId }: { organisationId: number }) {
@@ -41,8 +42,10 @@ export function ShipmentForm({ organisationId }: { organisationId: number }) {
   const totals = new Map<string, number>();
   for (const c of full.filter((x) => picked.includes(x.id))) totals.set(c.refrigerant!, (totals.get(c.refrigerant!) ?? 0) + c.contentsG);
 
+  const idem = useIdempotencyKey();
   const save = useMutation({
-    mutationFn: (body: unknown) => fetchJson<{ id: number }>("/api/shipments", { method: "POST", body: JSON.stringify(body) }),
+    mutationFn: (body: unknown) =>
+      fetchJson<{ id: number }>("/api/shipments", { method: "POST", headers: idem.headers, body: JSON.stringify(body) }),
     onSuccess: async ({ id }) => {
       await queryClient.invalidateQueries({ queryKey: ["shipments"] });
       await queryClient.invalidateQueries({ queryKey: ["lookup-cylinders"] });

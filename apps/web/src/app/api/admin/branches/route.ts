@@ -9,7 +9,7 @@ export const GET = route({ can: ["read", "Branch"], query: branchListQuery }, as
 });
 
 /** Open a branch in the signed-in person's organisation. */
-export const POST = route({ can: ["create", "Branch"], body: branchInput }, async ({ actor, db, body }) => {
+export const POST = route({ idempotent: true, can: ["create", "Branch"], body: branchInput }, async ({ actor, db, body }) => {
   const id = await createBranch(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
   return NextResponse.json({ id }, { status: 201 });
 });

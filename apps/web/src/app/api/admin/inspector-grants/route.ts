@@ -11,9 +11,12 @@ export const GET = route({ can: ["read", "InspectorGrant"], query: grantListQuer
 });
 
 /** Let an inspector read chosen branches' records for a window of dates, until an expiry. */
-export const POST = route({ can: ["create", "InspectorGrant"], body: inspectorGrantInput }, async ({ actor, ability, db, body }) => {
-  ForbiddenError.from(ability).throwUnlessCan("create", subject("InspectorGrant", { organisationId: actor.organisationId }));
-  const created = await createInspectorGrant(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
-  const mailSent = await sendGrantMail(created);
-  return NextResponse.json({ id: created.grantId, userId: created.userId, kind: created.kind, mailSent }, { status: 201 });
-});
+export const POST = route(
+  { idempotent: true, can: ["create", "InspectorGrant"], body: inspectorGrantInput },
+  async ({ actor, ability, db, body }) => {
+    ForbiddenError.from(ability).throwUnlessCan("create", subject("InspectorGrant", { organisationId: actor.organisationId }));
+    const created = await createInspectorGrant(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
+    const mailSent = await sendGrantMail(db, actor.organisationId, created);
+    return NextResponse.json({ id: created.grantId, userId: created.userId, kind: created.kind, mailSent }, { status: 201 });
+  },
+);

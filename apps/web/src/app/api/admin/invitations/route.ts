@@ -6,9 +6,9 @@ import { route } from "@/lib/api/route";
 import { sendInvitationMail } from "../_lib/mail";
 
 /** Invite a person by e-mail with their roles and branches; the link is sent, never returned. */
-export const POST = route({ can: ["invite", "User"], body: invitationInput }, async ({ actor, ability, db, body }) => {
+export const POST = route({ idempotent: true, can: ["invite", "User"], body: invitationInput }, async ({ actor, ability, db, body }) => {
   ForbiddenError.from(ability).throwUnlessCan("invite", subject("User", { organisationId: actor.organisationId }));
   const issued = await createInvitation(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, input: body });
-  const mailSent = await sendInvitationMail(issued);
+  const mailSent = await sendInvitationMail(db, actor.organisationId, issued);
   return NextResponse.json({ userId: issued.userId, expiresAt: issued.expiresAt, mailSent }, { status: 201 });
 });

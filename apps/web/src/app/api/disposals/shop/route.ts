@@ -16,16 +16,19 @@ export const GET = route({ can: ["create", "Job"], query: queueQuery }, async ({
 });
 
 /** The shop's scrap run: a disposal job and its record or signed statement for each unit picked, all or nothing. */
-export const POST = route({ can: ["create", "Job"], body: shopDisposalBatchInput }, async ({ actor, ability, db, body }) => {
-  const first = await getApplianceRef(db, { organisationId: actor.organisationId, id: body.items[0]!.applianceId });
-  if (!first) throw new DomainError("invalid", "That appliance is not in your organisation's register", "items.0.applianceId");
-  const where = { organisationId: actor.organisationId, branchId: first.branchId };
-  ForbiddenError.from(ability).throwUnlessCan("create", subject("Job", { ...where, technicianId: actor.userId }));
-  ForbiddenError.from(ability).throwUnlessCan("create", subject("Disposal", where));
-  const result = await recordShopDisposals(db, {
-    actor: { userId: actor.userId, organisationId: actor.organisationId },
-    branchId: first.branchId,
-    input: body,
-  });
-  return NextResponse.json(result, { status: 201 });
-});
+export const POST = route(
+  { idempotent: true, can: ["create", "Job"], body: shopDisposalBatchInput },
+  async ({ actor, ability, db, body }) => {
+    const first = await getApplianceRef(db, { organisationId: actor.organisationId, id: body.items[0]!.applianceId });
+    if (!first) throw new DomainError("invalid", "That appliance is not in your organisation's register", "items.0.applianceId");
+    const where = { organisationId: actor.organisationId, branchId: first.branchId };
+    ForbiddenError.from(ability).throwUnlessCan("create", subject("Job", { ...where, technicianId: actor.userId }));
+    ForbiddenError.from(ability).throwUnlessCan("create", subject("Disposal", where));
+    const result = await recordShopDisposals(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      branchId: first.branchId,
+      input: body,
+    });
+    return NextResponse.json(result, { status: 201 });
+  },
+);

@@ -11,7 +11,7 @@ import { readMultipart, storeSignedDocument } from "../../jobs/_lib/record-route
  * signed document (photo or PDF, checked by its bytes). Sent as multipart/form-data or JSON.
  */
 export const POST = route(
-  { can: ["create", "Disposal"], accepts: "json-or-multipart", maxBody: UPLOAD_BODY_LIMIT },
+  { idempotent: true, can: ["create", "Disposal"], accepts: "json-or-multipart", maxBody: UPLOAD_BODY_LIMIT },
   async ({ req, actor, ability, db }) => {
     const isJson = req.headers.get("content-type")?.includes("application/json");
     const { fields, file } = isJson ? { fields: await req.json().catch(() => ({})), file: null } : await readMultipart(req);

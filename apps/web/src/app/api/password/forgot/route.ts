@@ -14,7 +14,7 @@ export const POST = publicRoute(
     // Also limited per address asked about (mail to one person cannot be flooded); same answer either way.
     if (await throttle().publicRequest("password-forgot-email", body.email)) return { message: FORGOT_PASSWORD_ANSWER };
     const issued = await requestPasswordReset(db, { email: body.email });
-    if (issued) void sendResetMail(issued);
+    if (issued) await sendResetMail(db, issued);
     return { message: FORGOT_PASSWORD_ANSWER };
   },
 );

@@ -11,6 +11,7 @@ import type { AdminBranchPage } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import { FieldError, FormAlert, hintClass, inputClass, labelClass, primaryButton } from "../../_components/form-bits";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 type FormIn = z.input<typeof inspectorGrantInput>;
 type FormOut = z.output<typeof inspectorGrantInput>;
@@ -43,10 +44,12 @@ export function GrantForm() {
   const { register, handleSubmit, control, formState, setError } = form;
   const errors = formState.errors;
 
+  const idem = useIdempotencyKey();
   const grant = useMutation({
     mutationFn: (input: FormOut) =>
       fetchJson<{ id: number; kind: "invited" | "notified"; mailSent: boolean }>("/api/admin/inspector-grants", {
         method: "POST",
+        headers: idem.headers,
         body: JSON.stringify(input),
       }),
     onSuccess: async (res) => {

@@ -12,6 +12,7 @@ import { fetchJson } from "@/lib/client/fetch-json";
 import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import { AccessFields, accessPayload } from "../../_components/access-fields";
 import { FieldError, FormAlert, inputClass, labelClass, primaryButton } from "../../_components/form-bits";
+import { useIdempotencyKey } from "@/lib/client/idempotency";
 
 type FormIn = z.input<typeof invitationInput>;
 type FormOut = z.output<typeof invitationInput>;
@@ -33,10 +34,12 @@ export function InviteForm() {
   const { register, handleSubmit, control, formState, setError } = form;
   const errors = formState.errors;
 
+  const idem = useIdempotencyKey();
   const invite = useMutation({
     mutationFn: (input: FormOut) =>
       fetchJson<{ userId: number; mailSent: boolean }>("/api/admin/invitations", {
         method: "POST",
+        headers: idem.headers,
         body: JSON.stringify({ ...input, ...accessPayload(input) }),
       }),
     onSuccess: async (res, input) => {

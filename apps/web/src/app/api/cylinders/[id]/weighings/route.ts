@@ -17,7 +17,7 @@ export const GET = route<typeof registerHistoryQuery, undefined, Params>(
 
 /** Records a scale reading: net contents = reading − tare. */
 export const POST = route<undefined, typeof cylinderWeighingInput, Params>(
-  { can: ["update", "Cylinder"], body: cylinderWeighingInput },
+  { idempotent: true, can: ["update", "Cylinder"], body: cylinderWeighingInput },
   async ({ actor, ability, db, body, params }) => {
     const ref = await authorizeRegisterRecord({ actor, ability, db }, "cylinder", params.id, "update");
     const result = await recordCylinderWeighing(db, {

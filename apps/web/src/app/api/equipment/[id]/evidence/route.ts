@@ -50,7 +50,7 @@ export const GET = route<undefined, undefined, Params>({ can: ["read", "Recovery
  * through the one upload module (type by bytes, size, pixels, decodable, name).
  */
 export const POST = route(
-  { can: ["update", "RecoveryEquipment"], params: idParams("id"), accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
+  { idempotent: true, can: ["update", "RecoveryEquipment"], params: idParams("id"), accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
   async ({ req, actor, ability, db, params }) => {
     const ref = await authorizeRegisterRecord({ actor, ability, db }, "equipment", String(params.id), "update");
     const form = await readUploadForm(req, "file");

@@ -6,7 +6,7 @@ import { pathId } from "../../_lib/access";
 
 /** A comment on a finding, by anyone who may comment on it (officer, the branch's manager, the technician it names). */
 export const POST = route<undefined, typeof findingCommentInput, { id: string }>(
-  { can: ["comment", "Finding"], body: findingCommentInput },
+  { idempotent: true, can: ["comment", "Finding"], body: findingCommentInput },
   async ({ actor, ability, db, params, body }) => {
     const id = await addFindingComment(db, {
       actor: { userId: actor.userId, organisationId: actor.organisationId },

@@ -13,7 +13,7 @@ const note = z.preprocess(
 
 /** Attach a photo or PDF to a finding (multipart `file`, optional `note`), for anyone who may comment on it. */
 export const POST = route<undefined, undefined, { id: string }>(
-  { can: ["comment", "Finding"], accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
+  { idempotent: true, can: ["comment", "Finding"], accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
   async ({ req, actor, ability, db, params }) => {
     const id = pathId(params.id, "finding");
     const scope = scopeByAbility(ability, "comment", "Finding", "findings");

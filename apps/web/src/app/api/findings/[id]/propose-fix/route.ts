@@ -1,8 +1,9 @@
 import { proposeFixInput } from "@coldtrail/core";
-import { proposeFindingFix, scopeByAbility } from "@coldtrail/db";
+import { proposeFindingFix, scopeByAbility, writeTransaction } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
 import { UPLOAD_BODY_LIMIT } from "@/lib/api/body";
-import { deliverFindingMailLater } from "@/lib/server/finding-mail";
+import { queueFindingMail } from "@/lib/server/finding-mail";
+import { kickTaskRunner } from "@/lib/server/task-kick";
 import { pathId } from "../../_lib/access";
 import { checkEvidenceFile, readForm, refuseWith, storeEvidence } from "../../_lib/evidence-files";
 
@@ -39,14 +40,18 @@ export const POST = route<undefined, undefined, { id: string }>(
     const evidence = checked.file
       ? await storeEvidence(checked.file, { organisationId: actor.organisationId, findingId: id }, "Evidence of the fix")
       : null;
-    const res = await proposeFindingFix(db, {
-      actor: { userId: actor.userId, organisationId: actor.organisationId },
-      scope,
-      id,
-      note: parsed.data.note,
-      evidence,
+    const res = await writeTransaction(db, async (trx) => {
+      const r = await proposeFindingFix(trx, {
+        actor: { userId: actor.userId, organisationId: actor.organisationId },
+        scope,
+        id,
+        note: parsed.data.note,
+        evidence,
+      });
+      await queueFindingMail(trx, r.notificationIds);
+      return r;
     });
-    deliverFindingMailLater(db, res.notificationIds);
+    kickTaskRunner();
     return { id: res.id, state: res.state };
   },
 );

@@ -1,8 +1,8 @@
 import { importMappingInput } from "@coldtrail/core";
-import { setImportMapping } from "@coldtrail/db";
+import { setImportMapping, writeTransaction } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
 import { importFor } from "../../_lib/import-access";
-import { startCheck } from "../../_lib/import-worker";
+import { queueCheck } from "../../_lib/import-worker";
 
 /** Confirms which column holds which field and starts checking every row in the background. */
 export const PUT = route<undefined, typeof importMappingInput, { id: string }>(
@@ -10,8 +10,10 @@ export const PUT = route<undefined, typeof importMappingInput, { id: string }>(
   async ({ actor, ability, db, params, body }) => {
     const detail = await importFor(db, actor, ability, params.id, "create");
     const ref = { userId: actor.userId, organisationId: actor.organisationId };
-    await setImportMapping(db, { actor: ref, id: detail.id, mapping: body.mapping });
-    startCheck(detail.id, ref);
+    await writeTransaction(db, async (trx) => {
+      await setImportMapping(trx, { actor: ref, id: detail.id, mapping: body.mapping });
+      await queueCheck(trx, detail.id, ref);
+    });
     return { id: detail.id, state: "checking" };
   },
 );

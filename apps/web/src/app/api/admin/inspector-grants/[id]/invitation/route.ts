@@ -16,7 +16,7 @@ export const POST = route<undefined, undefined, { id: string }>(
       actor: { userId: actor.userId, organisationId: actor.organisationId },
       userId: grant.userId,
     });
-    const mailSent = await sendInvitationMail(issued);
+    const mailSent = await sendInvitationMail(db, actor.organisationId, issued);
     return { userId: issued.userId, expiresAt: issued.expiresAt, mailSent };
   },
 );

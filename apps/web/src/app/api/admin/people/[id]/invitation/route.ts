@@ -11,7 +11,7 @@ export const POST = route<undefined, undefined, Params>({ can: ["invite", "User"
   const person = await visiblePerson(db, ability, params.id);
   ForbiddenError.from(ability).throwUnlessCan("invite", subject("User", { organisationId: person.organisationId, id: person.id }));
   const issued = await resendInvitation(db, { actor: { userId: actor.userId, organisationId: actor.organisationId }, userId: person.id });
-  const mailSent = await sendInvitationMail(issued);
+  const mailSent = await sendInvitationMail(db, actor.organisationId, issued);
   return { userId: issued.userId, expiresAt: issued.expiresAt, mailSent };
 });
 
