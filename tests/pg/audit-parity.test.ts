@@ -213,6 +213,7 @@ describePg("an audit of every branch", () => {
             branchIds,
             scope: scopeByAbility(ability, "read", "Cylinder", "cylinders"),
             settings,
+            asOf: range.to,
           }),
         ),
         certifications: await collect(certificationExportRows(db, { organisationId: ORG, branchIds })),

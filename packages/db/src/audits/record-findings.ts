@@ -71,7 +71,8 @@ export async function listFindingsOfRecord(
       "findings.state",
       "findings.due_on",
     )
-    .orderBy("fe.id")
+    // By the selected alias: PostgreSQL wants a DISTINCT query's order among its output columns.
+    .orderBy("event_id")
     .limit(limit * 4);
 
   const out = new Map<number, RecordFindingRow>();
