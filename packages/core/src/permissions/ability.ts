@@ -220,7 +220,7 @@ export function canInBranchAnyDate(
   ability: AppAbility,
   action: Action,
   subjectName: SubjectName,
-  where: { organisationId: number; branchId: number },
+  where: { organisationId: number; branchId: number; id?: number },
 ): boolean {
   const dateFields = new Set<string>(RECORD_DATE_FIELDS);
   const rules = ability

@@ -1,6 +1,6 @@
 import "server-only";
 import { subject } from "@casl/ability";
-import type { Action, Actor, AppAbility, SubjectName } from "@coldtrail/core";
+import { canInBranchAnyDate, type Action, type Actor, type AppAbility, type SubjectName } from "@coldtrail/core";
 import { DomainError, listBranches, type Knex } from "@coldtrail/db";
 import { recordId } from "@/lib/api/params";
 
@@ -21,9 +21,12 @@ export async function branchesAllowed(
   subjectName: SubjectName,
 ): Promise<{ id: number; name: string }[]> {
   const branches = await listBranches(db, { organisationId: actor.organisationId, includeArchived: true });
-  return branches
-    .filter((b) => ability.can(action, subject(subjectName, { organisationId: actor.organisationId, branchId: b.id, id: b.id })))
-    .map((b) => ({ id: b.id, name: b.name }));
+  return (
+    branches
+      // A branch-level question: an inspector's date window applies to the records, not to the branch.
+      .filter((b) => canInBranchAnyDate(ability, action, subjectName, { organisationId: actor.organisationId, branchId: b.id, id: b.id }))
+      .map((b) => ({ id: b.id, name: b.name }))
+  );
 }
 
 /**
