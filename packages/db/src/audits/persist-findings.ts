@@ -79,6 +79,8 @@ export async function auditBranchFindings(
     branchId: number;
     period: AuditPeriod;
     packs: readonly RulePack[];
+    /** Packs the organisation switched on beyond those the law imposes (e.g. a stricter local pack). */
+    chosenPacks?: readonly RulePack[];
     settings: AuditSettings;
     auditId: number | null;
     now: Date;
@@ -93,7 +95,11 @@ export async function auditBranchFindings(
     asOf: opts.now,
   });
   const place = await db("branches").where({ id: opts.branchId }).first("country", "region");
-  const applied = packsForBranchAudit({ country: place?.country ?? "US", region: place?.region ?? null }, opts.packs);
+  const applied = packsForBranchAudit(
+    { country: place?.country ?? "US", region: place?.region ?? null },
+    opts.packs,
+    opts.chosenPacks ?? [],
+  );
   const found = runAudit(loaded.records, { packs: applied, period: opts.period, asOf: opts.now, settings: opts.settings });
   const refsOf = findingRefResolver(loaded.records);
   const applianceIds = new Set(loaded.records.appliances.map((a) => a.id));
