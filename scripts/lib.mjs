@@ -56,3 +56,32 @@ export function e2ePorts(appPort = Number(process.env.E2E_PORT ?? 3100)) {
   const offset = appPort - 3100;
   return { app: appPort, smtp: 2600 + offset, mailUi: 2700 + offset, s3: 4600 + offset };
 }
+
+/**
+ * Debian's Chromium for the browser tests. When it is missing and this user may install packages
+ * (root, or sudo without a password), it is installed; otherwise the one command to run is printed.
+ */
+export function ensureChromium(path = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium") {
+  if (existsSync(path)) return path;
+  const isRoot = typeof process.getuid === "function" && process.getuid() === 0;
+  const sudo = !isRoot && spawnSync("sudo", ["-n", "true"], { stdio: "ignore" }).status === 0;
+  const hasApt = spawnSync("apt-get", ["--version"], { stdio: "ignore" }).status === 0;
+  if (path === "/usr/bin/chromium" && hasApt && (isRoot || sudo)) {
+    console.log("\n› Chromium is missing: installing Debian's package for the browser tests");
+    const pre = isRoot ? [] : ["sudo", "-n"];
+    const env = { DEBIAN_FRONTEND: "noninteractive" };
+    const apt = (args) => {
+      const [cmd, ...rest] = [...pre, "apt-get", ...args];
+      return spawnSync(cmd, rest, { stdio: "inherit", env: { ...process.env, ...env } }).status === 0;
+    };
+    if (!apt(["install", "-y", "--no-install-recommends", "chromium"])) {
+      apt(["update", "-y"]);
+      apt(["install", "-y", "--no-install-recommends", "chromium"]);
+    }
+    if (existsSync(path)) return path;
+  }
+  console.error(
+    `✗ Chromium not found at ${path}. Install Debian's package with:\n    sudo apt-get install -y chromium\n  (or set CHROMIUM_PATH to another Chromium), then run npm test again.`,
+  );
+  process.exit(1);
+}

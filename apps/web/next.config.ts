@@ -1,4 +1,5 @@
 import type { NextConfig } from "next";
+import { COMMON_SECURITY_HEADERS } from "./src/lib/security-headers";
 
 const nextConfig: NextConfig = {
   // knex loads optional drivers dynamically and better-sqlite3 is native: keep both out of the bundle.
@@ -10,6 +11,9 @@ const nextConfig: NextConfig = {
   typedRoutes: false,
   // `npm test` type-checks the whole workspace before building; parallel local builds may skip it.
   typescript: { ignoreBuildErrors: process.env.NEXT_SKIP_TYPECHECK === "1" },
+  // nosniff, framing, referrer and permissions on every answer: pages, API and static files
+  // (the Content Security Policy and HSTS are set per request in src/proxy.ts).
+  headers: async () => [{ source: "/:path*", headers: [...COMMON_SECURITY_HEADERS] }],
 };
 
 export default nextConfig;

@@ -21,7 +21,16 @@ import { createSeededTestDb, type TestDb } from "@coldtrail/db/testing";
 
 const NOW = new Date("2026-12-01T12:00:00Z");
 let t: TestDb;
-let all: Array<{ id: number; organisationId: number; branchId: number; technicianId: number | null }>;
+let all: Array<{
+  id: number;
+  organisationId: number;
+  branchId: number;
+  technicianId: number | null;
+  occurredOn: string | null;
+  openedAt: string;
+}>;
+/** Findings of the inspector's granted branch (Denver) about events inside and outside the granted 2025 window. */
+const windowed = { inside: 0, outside: 0, standingInside: 0 };
 
 async function abilityOf(email: string): Promise<AppAbility> {
   const user = await t.db("users").where({ email }).first("id");
@@ -56,11 +65,29 @@ beforeAll(async () => {
     await claimAudit(t.db, { id, now: NOW });
     await runAuditBranches(t.db, { id, now: () => NOW });
   }
-  all = (await t.db("findings").select("id", "organisation_id", "branch_id", "technician_id")).map((r) => ({
+  // The audit above finds nothing in Denver dated 2025 (the inspector's window): add findings about events
+  // inside and outside the window, and a standing one opened inside it, copied from a Denver finding.
+  const den = Number((await t.db("branches").where({ code: "DEN" }).first("id")).id);
+  const { id: _id, ...model } = await t.db("findings").where({ branch_id: den }).first();
+  const add = async (key: string, occurredOn: string | null, openedAt: string) =>
+    Number(
+      (
+        await t
+          .db("findings")
+          .insert({ ...model, identity_key: `window-test:${key}`, occurred_on: occurredOn, opened_at: openedAt })
+          .returning("id")
+      )[0].id,
+    );
+  windowed.inside = await add("inside", "2025-06-15", "2026-11-30T10:00:00.000Z");
+  windowed.outside = await add("outside", "2026-01-02", "2026-11-30T10:00:00.000Z");
+  windowed.standingInside = await add("standing", null, "2025-12-31T23:00:00.000Z");
+  all = (await t.db("findings").select("id", "organisation_id", "branch_id", "technician_id", "occurred_on", "opened_at")).map((r) => ({
     id: Number(r.id),
     organisationId: Number(r.organisation_id),
     branchId: Number(r.branch_id),
     technicianId: r.technician_id === null ? null : Number(r.technician_id),
+    occurredOn: r.occurred_on ?? null,
+    openedAt: r.opened_at,
   }));
   expect(all.length).toBeGreaterThan(20);
 }, 120_000);
@@ -108,12 +135,19 @@ describe("who sees which findings", () => {
     expect(await idsInScope(ability, "propose_fix")).toEqual([]);
   });
 
-  it("the inspector reads the granted branch only and can change nothing", async () => {
+  it("the inspector reads the granted branch only, inside the granted dates, and can change nothing", async () => {
     const ability = await abilityOf(DEMO_SIGN_INS.inspector);
     const den = await branchOf("DEN");
     const ids = await idsInScope(ability, "read");
-    expect(ids.length).toBeGreaterThan(0);
+    // Source of the window: the demo grant covers records of 2025-01-01 … 2025-12-31 for Denver.
+    expect(ids).toContain(windowed.inside);
+    expect(ids).toContain(windowed.standingInside);
+    expect(ids).not.toContain(windowed.outside);
     expect(all.filter((f) => ids.includes(f.id)).every((f) => f.branchId === den)).toBe(true);
+    for (const f of all.filter((x) => ids.includes(x.id))) {
+      const on = f.occurredOn ?? f.openedAt.slice(0, 10);
+      expect(on >= "2025-01-01" && on <= "2025-12-31", `finding ${f.id} dated ${on}`).toBe(true);
+    }
     for (const action of ["assign", "propose_fix", "accept", "waive", "reopen", "comment"] as Action[])
       expect(await idsInScope(ability, action)).toEqual([]);
   });

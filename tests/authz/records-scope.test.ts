@@ -10,7 +10,7 @@ import { createSeededTestDb, type TestDb } from "@coldtrail/db/testing";
  */
 
 let t: TestDb;
-type Row = { id: number; organisationId: number; branchId: number };
+type Row = { id: number; organisationId: number; branchId: number } & Record<string, unknown>;
 const all: Record<"record" | "statement" | "shipment" | "purchase", Row[]> = { record: [], statement: [], shipment: [], purchase: [] };
 
 async function abilityOf(email: string): Promise<{ ability: AppAbility; userId: number; organisationId: number }> {
@@ -30,19 +30,21 @@ async function pages(fetch: (page: number) => Promise<{ rows: { id: number }[] }
   return ids.sort((a, b) => a - b);
 }
 
-const rowsOf = async (table: string): Promise<Row[]> =>
-  (await t.db(table).whereNull("voided_at").select("id", "organisation_id", "branch_id")).map((r) => ({
+/** Rows with the fields the permission conditions read, the record's date included (an inspector's window). */
+const rowsOf = async (table: string, dateColumn: string, dateField: string): Promise<Row[]> =>
+  (await t.db(table).whereNull("voided_at").select("id", "organisation_id", "branch_id", dateColumn)).map((r) => ({
     id: Number(r.id),
     organisationId: Number(r.organisation_id),
     branchId: Number(r.branch_id),
+    [dateField]: r[dateColumn],
   }));
 
 beforeAll(async () => {
   t = await createSeededTestDb();
-  all.record = await rowsOf("disposal_records");
-  all.statement = await rowsOf("disposal_statements");
-  all.shipment = await rowsOf("reclaim_shipments");
-  all.purchase = await rowsOf("purchases");
+  all.record = await rowsOf("disposal_records", "disposed_on", "recordedOn");
+  all.statement = await rowsOf("disposal_statements", "recovered_on", "recordedOn");
+  all.shipment = await rowsOf("reclaim_shipments", "shipped_on", "shippedOn");
+  all.purchase = await rowsOf("purchases", "purchased_on", "purchasedOn");
 }, 120_000);
 afterAll(async () => {
   await t?.destroy();
@@ -115,6 +117,42 @@ describe("record lists agree with the record-level permission", () => {
         }),
       ),
     ).toEqual([]);
+  });
+});
+
+describe("the inspector's date window covers every dated record", () => {
+  it("disposal records, statements, shipments and purchases of the granted branch: inside the window listed, outside absent", async () => {
+    const { ability } = await abilityOf(DEMO_SIGN_INS.inspector);
+    const den = Number((await t.db("branches").where({ code: "DEN" }).first("id")).id);
+    // Source of the window: the demo grant covers records of 2025-01-01 … 2025-12-31 for Denver.
+    const inWindow = (d: unknown) => typeof d === "string" && d >= "2025-01-01" && d <= "2025-12-31";
+    const base = { pageSize: 200, dir: "desc" as const, sort: "date" as const };
+    const lists = {
+      record: (page: number) =>
+        listDisposals(t.db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), query: { ...base, page, type: "record" } }),
+      statement: (page: number) =>
+        listDisposals(t.db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), query: { ...base, page, type: "statement" } }),
+      shipment: (page: number) =>
+        listShipments(t.db, { scope: scopeByAbility(ability, "read", "ReclaimShipment", "s"), query: { ...base, page } }),
+      purchase: (page: number) =>
+        listPurchases(t.db, { scope: scopeByAbility(ability, "read", "Purchase", "p"), query: { ...base, page } }),
+    };
+    const dateField = { record: "recordedOn", statement: "recordedOn", shipment: "shippedOn", purchase: "purchasedOn" } as const;
+    let inside = 0;
+    let outside = 0;
+    for (const kind of Object.keys(lists) as (keyof typeof lists)[]) {
+      const listed = await pages(lists[kind]);
+      const denRows = all[kind].filter((r) => r.branchId === den);
+      for (const r of denRows) {
+        const visible = inWindow(r[dateField[kind]]);
+        expect(listed.includes(r.id), `${kind} #${r.id} dated ${String(r[dateField[kind]])}`).toBe(visible);
+        if (visible) inside++;
+        else outside++;
+      }
+      expect(listed.every((id) => denRows.some((r) => r.id === id))).toBe(true);
+    }
+    expect(inside, "some Denver records lie inside the window").toBeGreaterThan(0);
+    expect(outside, "some Denver records lie outside the window").toBeGreaterThan(0);
   });
 });
 

@@ -1,6 +1,7 @@
 import { createHash } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_PASSWORD, DEMO_SIGN_INS, loadDemoData, verifyPassword, type Knex } from "@coldtrail/db";
+import { runAudit } from "@coldtrail/core";
+import { DEMO_PASSWORD, DEMO_SIGN_INS, loadBranchRecords, loadDemoData, verifyPassword, type Knex } from "@coldtrail/db";
 import { createTestDb, type TestDb } from "@coldtrail/db/testing";
 
 let a: TestDb;
@@ -336,6 +337,8 @@ describe("planted gaps (packages/db/README.md, Demo data)", () => {
       .join("appliances as a", "a.id", "j.appliance_id")
       .join("branches as b", "b.id", "j.branch_id")
       .where("b.country", "US")
+      // Carbon dioxide is exempt from section 608 (40 CFR 82.154(a)(1)): the CO2 rack is checked below.
+      .whereNot("a.refrigerant", "R-744")
       .whereNotExists(
         db("certifications as c")
           .join("certification_types as t", "t.certification_id", "c.id")
@@ -357,5 +360,28 @@ describe("planted gaps (packages/db/README.md, Demo data)", () => {
       .distinct("a.tag")
       .pluck("a.tag");
     expect(rows.sort()).toEqual(["COL-RTU-901", "TUC-RES-902"]);
+  });
+
+  it("has a CO2 rack repaired by a technician without Type II, which raises no finding", async () => {
+    const rack = await db("appliances").where({ tag: "COL-RACK-930" }).first("id", "branch_id", "refrigerant");
+    expect(rack.refrigerant).toBe("R-744");
+    const repair = await db("jobs as j")
+      .join("users as u", "u.id", "j.technician_id")
+      .where({ "j.appliance_id": rack.id })
+      .first("j.id", "j.kind", "u.email");
+    expect(repair).toMatchObject({ kind: "leak_repair", email: "caleb.runyon@kestrelmoor.example" });
+    const period = { from: "2024-12-01", to: "2026-11-30" };
+    const loaded = await loadBranchRecords(db, {
+      organisationId: 1,
+      branchId: Number(rack.branch_id),
+      period,
+      asOf: "2026-11-30T17:00:00Z",
+    });
+    const findings = runAudit(loaded.records, { packs: ["us_federal"], period, asOf: "2026-11-30T17:00:00Z" });
+    const about = findings.filter(
+      (f) =>
+        (f.recordType === "appliance" && f.recordId === Number(rack.id)) || (f.recordType === "job" && f.recordId === Number(repair.id)),
+    );
+    expect(about).toEqual([]); // Source: 40 CFR 82.154(a)(1) (CO2 exempt in any application; REFERENCE.md §6.1 [S30])
   });
 });

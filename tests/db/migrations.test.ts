@@ -11,6 +11,8 @@ const TABLES = [
   "inspector_grant_branches",
   "invitations",
   "password_reset_tokens",
+  "user_sessions",
+  "rate_limits",
   "customers",
   "sites",
   "appliances",

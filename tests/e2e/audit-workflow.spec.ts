@@ -294,7 +294,9 @@ test.describe.serial("audits end to end", () => {
       "Disposals",
     ]);
 
-    const header = (name: string) => (wb.getWorksheet(name)!.getRow(1).values as unknown[]).slice(1);
+    // Row 1 says which date the sheet's figures are as of; the column headers are row 2.
+    const header = (name: string) => (wb.getWorksheet(name)!.getRow(2).values as unknown[]).slice(1);
+    for (const ws of wb.worksheets) expect(String(ws.getRow(1).getCell(1).value)).toMatch(/as of \d{4}-\d{2}-\d{2}/);
     expect(header("Findings")).toEqual([
       "Finding id",
       "Branch",
@@ -330,14 +332,14 @@ test.describe.serial("audits end to end", () => {
     expect(header("Disposals")).toEqual(expect.arrayContaining(["Kind", "Appliance", "Recovered (kg)", "Signed by"]));
 
     const findingsSheet = wb.getWorksheet("Findings")!;
-    expect(findingsSheet.views[0]).toMatchObject({ state: "frozen", ySplit: 1 });
+    expect(findingsSheet.views[0]).toMatchObject({ state: "frozen", ySplit: 2 });
     expect(findingsSheet.autoFilter).toBeTruthy();
 
     const fromDb = await allFindings(officer.request, { auditId });
     const byId = new Map(fromDb.map((f) => [f.id, f]));
     const rows: ExcelJS.Row[] = [];
     findingsSheet.eachRow((row, n) => {
-      if (n > 1) rows.push(row);
+      if (n > 2) rows.push(row);
     });
     expect(rows.length).toBe(fromDb.length);
     const seen = new Set<number>();
@@ -372,7 +374,7 @@ test.describe.serial("audits end to end", () => {
     expect(summaryText).toContain("Findings by rule");
     const jobs = wb.getWorksheet("Jobs")!;
     expect(jobs.rowCount).toBeGreaterThan(1000);
-    expect(jobs.getRow(2).getCell(2).value).toBeInstanceOf(Date);
+    expect(jobs.getRow(3).getCell(2).value).toBeInstanceOf(Date);
     await officer.close();
   });
 

@@ -18,6 +18,9 @@ export default defineConfig({
   ],
   use: {
     baseURL: `http://127.0.0.1:${port}`,
+    // API calls made by the tests (request contexts) come "from the app's own pages", as a browser's
+    // would: state-changing routes refuse requests without the app's origin.
+    extraHTTPHeaders: { origin: `http://127.0.0.1:${port}` },
     screenshot: "on",
     trace: "retain-on-failure",
     launchOptions: {

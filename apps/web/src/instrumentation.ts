@@ -4,6 +4,13 @@
  */
 export async function register(): Promise<void> {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
+  try {
+    // Refuses development defaults in production (lib/env-check.ts): the server stops here instead.
+    await import("./lib/env");
+  } catch (err) {
+    console.error(err instanceof Error ? err.message : err);
+    process.exit(1);
+  }
   const { startAuditRunner } = await import("./lib/server/audit-runner");
   const { startDigestScheduler } = await import("./lib/server/digest-scheduler");
   startAuditRunner();

@@ -12,3 +12,5 @@ export * from "./findings";
 export * from "./imports";
 // Where each rule pack applies (branch country and region → packs).
 export * from "./places/rule-pack-places";
+// Sign-in security (pure): password policy, safe redirects after sign-in, session idle timeouts.
+export * from "./security";

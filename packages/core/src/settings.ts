@@ -8,6 +8,10 @@ export interface AuditSettings {
   requalificationYears: number;
   strictFill130F: boolean;
   leakRateMethod: LeakRateMethod;
+  /** Days after a disposal before a missing or incomplete disposal record or statement is a finding. */
+  disposalRecordGraceDays: number;
+  /** Days after a certification card is added before "awaiting verification" is a finding. */
+  cardVerificationGraceDays: number;
 }
 
 export const DEFAULT_SETTINGS: Readonly<AuditSettings> = Object.freeze({
@@ -17,6 +21,8 @@ export const DEFAULT_SETTINGS: Readonly<AuditSettings> = Object.freeze({
   requalificationYears: 5,
   strictFill130F: false,
   leakRateMethod: "annualizing",
+  disposalRecordGraceDays: 14,
+  cardVerificationGraceDays: 10,
 });
 
 /** One sentence per setting, for the settings screen and the README. */
@@ -33,6 +39,10 @@ export const SETTING_EXPLANATIONS: Readonly<Record<keyof AuditSettings, string>>
     "When on, cylinder maximum fill uses the liquid density at 130 °F instead of 77 °F, which keeps blends such as R-410A well short of liquid-full on a hot day.",
   leakRateMethod:
     "The leak-rate method the company uses for all appliances (annualizing or rolling average); the rule requires one method applied consistently.",
+  disposalRecordGraceDays:
+    "Days a disposal record (appliances of more than 5 and less than 50 lb) or a small appliance's signed statement may follow the disposal before it is reported missing; 40 CFR 82.155 sets no deadline for writing them, so this is the company's own.",
+  cardVerificationGraceDays:
+    "Days a newly added certification card may wait for the check with its issuing program before it is reported as unverified; no regulation sets this, it is the time the company allows itself.",
 };
 
 export function resolveSettings(partial?: Partial<AuditSettings>): AuditSettings {

@@ -49,7 +49,7 @@ export {
 export { describeMass } from "./mass";
 export { DEMO_PASSWORD, DEMO_SIGN_INS, DEMO_TODAY } from "./demo/scenario";
 export { loadDemoData } from "./demo/load";
-export { hashPassword, verifyPassword } from "./passwords";
+export { hashPassword, verifyPassword, DUMMY_PASSWORD_HASH } from "./passwords";
 export type { Knex } from "knex";
 export { scopeByAbility, type QueryScope } from "./scope";
 export { getApplianceRef, type ApplianceRef } from "./appliances";
@@ -105,3 +105,7 @@ export * from "./certifications";
 export * from "./imports";
 // Audits: runs, findings workflow, saved views, dashboards, export rows, digest, continuous audit (audits).
 export * from "./audits";
+// Sign-in security: server-side sessions, throttling, changing one's own password.
+export * from "./sessions";
+export * from "./throttle";
+export * from "./account";

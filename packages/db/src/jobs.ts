@@ -9,6 +9,7 @@ import type {
   MassDisplayUnit,
   RecoveryJobInput,
 } from "@coldtrail/core";
+import { enteredAmount, type MassUnit } from "@coldtrail/core";
 import { listAmendments, type AmendmentRecord } from "./amendments";
 import { InvalidInputError } from "./errors";
 import { leakRateOfJob } from "./jobs/check-draft";
@@ -207,6 +208,8 @@ export interface JobDetail extends JobListRow {
   leakLocation: string | null;
   repairDescription: string | null;
   additionExclusion: string | null;
+  /** Charge: the earlier charge for the same leak (summed into one leak rate). */
+  sameLeakAsJobId: number | null;
   shutdownNeeded: boolean | null;
   notes: string | null;
   source: string;
@@ -227,6 +230,8 @@ export interface JobDetail extends JobListRow {
   /** Disposals: the record or signed statement kept for it, if any. */
   disposalRecordId: number | null;
   disposalStatementId: number | null;
+  /** Recovery, disposal and charge jobs: the amount as it was typed, while it still matches the grams. */
+  enteredAmount: { amount: number; unit: MassUnit } | null;
 }
 
 /** One job the scope allows (voided ones included), with its refrigerant movements; undefined otherwise. */
@@ -255,6 +260,7 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     "jobs.leak_location",
     "jobs.repair_description",
     "jobs.addition_exclusion",
+    "jobs.same_leak_as_job_id",
     "jobs.shutdown_needed",
     "jobs.notes",
     "jobs.source",
@@ -265,6 +271,8 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     "voider.name as voided_by_name",
     "branch.time_zone as branch_time_zone",
     "appliance.status as appliance_status",
+    "jobs.amount_entered",
+    "jobs.amount_unit",
   ]);
   if (!r) return undefined;
   const movements = await db("refrigerant_movements as mv")
@@ -304,6 +312,7 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     leakLocation: r.leak_location ?? null,
     repairDescription: r.repair_description ?? null,
     additionExclusion: r.addition_exclusion ?? null,
+    sameLeakAsJobId: toNumOrNull(r.same_leak_as_job_id),
     shutdownNeeded: toBoolOrNull(r.shutdown_needed),
     notes: r.notes ?? null,
     source: r.source,
@@ -319,6 +328,11 @@ export async function getJob(db: Knex, opts: { scope: ScopeFn; id: number }): Pr
     amendments,
     disposalRecordId: record ? Number(record.id) : null,
     disposalStatementId: statement ? Number(statement.id) : null,
+    enteredAmount: enteredAmount(
+      kind === "charge" ? Number(r.charged_g) : Number(r.recovered_g),
+      toNumOrNull(r.amount_entered),
+      r.amount_unit,
+    ),
     movements: movements.map((m) => ({
       id: Number(m.id),
       direction: m.direction,

@@ -8,7 +8,11 @@ import * as m0700 from "../migrations/20261201000700_register_indexes";
 import * as m0800 from "../migrations/20261201000800_records_for_jobs";
 import * as m0900 from "../migrations/20261201000900_cards_and_imports";
 import * as m1000 from "../migrations/20261201001000_findings_workflow";
-import * as m3_0100 from "../migrations/20261203000100_branch_places_and_person_findings";
+import * as m300100 from "../migrations/20261203000100_branch_places_and_person_findings";
+import * as m300200 from "../migrations/20261203000200_same_leak_additions";
+import * as m300300 from "../migrations/20261203000300_entered_amounts_and_records_start";
+import * as m300310 from "../migrations/20261203000310_finding_event_causes";
+import * as s0500 from "../migrations/20261203000500_sessions_and_throttling";
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -31,7 +35,11 @@ const MIGRATIONS: ReadonlyArray<readonly [string, Migration]> = [
   ["20261201000800_records_for_jobs.ts", m0800],
   ["20261201000900_cards_and_imports.ts", m0900],
   ["20261201001000_findings_workflow.ts", m1000],
-  ["20261203000100_branch_places_and_person_findings.ts", m3_0100],
+  ["20261203000100_branch_places_and_person_findings.ts", m300100],
+  ["20261203000200_same_leak_additions.ts", m300200],
+  ["20261203000300_entered_amounts_and_records_start.ts", m300300],
+  ["20261203000310_finding_event_causes.ts", m300310],
+  ["20261203000500_sessions_and_throttling.ts", s0500],
 ];
 
 export const migrationSource: Knex.MigrationSource<string> = {

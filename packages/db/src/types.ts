@@ -5,7 +5,8 @@ import type { Knex } from "knex";
  * conditions are ANDed with the query's own filters as one parenthesised block (an `orWhere` inside
  * cannot widen the result). Qualify columns with the table alias the query documents (e.g. `jobs.branch_id`).
  */
-export type ScopeFn = (qb: Knex.QueryBuilder) => void;
+/** A permission scope (see scope.ts); `columns` names columns of condition fields such as `recordedOn`. */
+export type ScopeFn = (qb: Knex.QueryBuilder, columns?: Partial<Record<string, string>>) => void;
 
 export interface ActorRef {
   userId: number;

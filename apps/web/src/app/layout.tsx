@@ -1,4 +1,5 @@
 import type { Metadata, Viewport } from "next";
+import { connection } from "next/server";
 import localFont from "next/font/local";
 import "./globals.css";
 
@@ -16,7 +17,9 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { width: "device-width", initialScale: 1, themeColor: "#17212b" };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // Every page is rendered per request, so Next.js can put this request's CSP nonce on its scripts (src/proxy.ts).
+  await connection();
   return (
     <html lang="en" className={inter.variable}>
       <body className="min-h-dvh font-sans">{children}</body>

@@ -35,7 +35,8 @@ export function NotificationsBell() {
 
   const inbox = useQuery({
     queryKey: ["notifications", pageSize],
-    queryFn: () => fetchJson<NotificationPage>(`/api/notifications?pageSize=${pageSize}`),
+    // Polling is not the person's activity: it must not keep an idle session open (lib/auth/sessions.ts).
+    queryFn: () => fetchJson<NotificationPage>(`/api/notifications?pageSize=${pageSize}`, { headers: { "x-coldtrail-background": "1" } }),
     refetchInterval: 60_000,
     staleTime: 10_000,
   });

@@ -3,7 +3,7 @@ import { leakDeadlines, followUpVerificationDueOn, type LeakDeadlines } from "..
 import { leakRateHistory, type LeakRateEvent, type RefrigerantAddition } from "../leak-rate/leak-rate";
 import {
   CATEGORY_LEAK_RULES,
-  exceedsLeakThreshold,
+  eventExceedsThreshold,
   LEAK_REGIME_THRESHOLDS,
   leakRateThreshold,
   leakRepairRegime,
@@ -38,6 +38,8 @@ export interface CoveredEvent {
 
 export interface ApplianceLeakAnalysis {
   useClass: LeakUseClass;
+  /** No full charge is recorded: no rate can be calculated, so `events` and `episodes` are empty. */
+  chargeUnknown: boolean;
   events: CoveredEvent[];
   episodes: LeakEpisode[];
   additions: RefrigerantAddition[];
@@ -57,7 +59,7 @@ export function analyseLeaks(
   timeZone: string,
 ): ApplianceLeakAnalysis | null {
   const useClass = CATEGORY_LEAK_RULES[appliance.category].useClass;
-  if (!useClass || !appliance.fullChargeG || appliance.fullChargeG <= 0) return null;
+  if (!useClass) return null;
   const additions: RefrigerantAddition[] = [];
   const repairs: Job[] = [];
   const initialTests: Job[] = [];
@@ -65,15 +67,30 @@ export function analyseLeaks(
   for (const job of jobs) {
     for (const m of job.movements) {
       if (m.direction === "charged")
-        additions.push({ on: job.performedOn, amountG: m.amountG, excluded: job.additionExclusion, sourceId: job.id });
+        additions.push({
+          on: job.performedOn,
+          amountG: m.amountG,
+          excluded: job.additionExclusion,
+          sourceId: job.id,
+          sameLeakAsJobId: job.sameLeakAsJobId ?? null,
+        });
     }
     if (job.kind === "leak_repair") repairs.push(job);
     if (job.kind === "verification_test" && job.verification?.passed) {
       (job.verification.stage === "initial" ? initialTests : followUps).push(job);
     }
   }
+  if (!appliance.fullChargeG || appliance.fullChargeG <= 0) {
+    return { useClass, chargeUnknown: true, events: [], episodes: [], additions };
+  }
   const resets = followUps.map(onOf);
-  const base = { fullChargeG: appliance.fullChargeG, additions, method: settings.leakRateMethod, followUpVerificationsPassedOn: resets };
+  const base = {
+    fullChargeG: appliance.fullChargeG,
+    additions,
+    method: settings.leakRateMethod,
+    followUpVerificationsPassedOn: resets,
+    installedOn: appliance.installedOn,
+  };
   const all = leakRateHistory(base);
   const aim = new Map(leakRateHistory({ ...base, countFrom: LEAK_REGIME_THRESHOLDS.aimFrom }).map((e) => [e.on, e]));
   const events: CoveredEvent[] = [];
@@ -88,7 +105,7 @@ export function analyseLeaks(
     const event = r.regime === "us_aim_hfc" ? (aim.get(e.on) ?? e) : e;
     if (event.percent === null) continue;
     const threshold = leakRateThreshold(useClass, e.on);
-    events.push({ event, regime: r.regime, threshold, exceeds: exceedsLeakThreshold(event.percent, threshold) });
+    events.push({ event, regime: r.regime, threshold, exceeds: eventExceedsThreshold(event, threshold) });
   }
   const episodes: LeakEpisode[] = [];
   let openUntil: IsoDate | null = null; // exceedances up to this date belong to the current episode
@@ -129,5 +146,5 @@ export function analyseLeaks(
     open = true;
     openUntil = repair ? repair.performedOn : null;
   }
-  return { useClass, events, episodes, additions };
+  return { useClass, chargeUnknown: false, events, episodes, additions };
 }

@@ -122,6 +122,8 @@ export interface Job {
   compressorOperating: boolean | null;
   /** Charges not counted in the leak rate. */
   additionExclusion: AdditionExclusion | null;
+  /** Charges: the earlier job whose leak this addition also tops up (summed into one leak event). */
+  sameLeakAsJobId?: number | null;
   /** verification_test jobs only. */
   verification: { stage: "initial" | "follow_up"; passed: boolean } | null;
 }
@@ -130,6 +132,8 @@ export interface Certification {
   id: number;
   type: CertificationType;
   state: CertificationState;
+  /** Calendar date the card was added (branch zone); the verification grace period runs from it. */
+  addedOn?: string | null;
 }
 
 export interface Technician {

@@ -19,6 +19,7 @@ import {
 import {
   chronicLeakerNotReported,
   leakAwaitingRepair,
+  leakRateChargeUnknown,
   leakRepairOverdue,
   periodicInspectionOverdue,
   verificationTestMissing,
@@ -44,6 +45,7 @@ export const RULES: readonly AuditRule[] = Object.freeze(
     verificationTestMissing,
     chronicLeakerNotReported,
     periodicInspectionOverdue,
+    leakRateChargeUnknown,
     cylinderOverfilled,
     cylinderPastRequalification,
     cylinderMixedRefrigerants,

@@ -2,6 +2,7 @@ import { CoreInputError, UnknownRefrigerantError } from "../errors";
 import { addYears, type IsoDate } from "../dates/local-date";
 import { getRefrigerant } from "../refrigerants/catalogue";
 import { normaliseDesignation } from "../refrigerants/normalise-designation";
+import { GRAM_ROUNDING } from "../units/rounded-ratio";
 
 /** AHRI Guideline K: fill to 80 % of the water capacity, corrected by specific gravity [S11]. */
 export const GUIDELINE_K_FILL_FACTOR = 0.8;
@@ -20,6 +21,8 @@ export interface MaxFillInput {
 
 export interface MaxFill {
   maxNetG: number;
+  /** WC × 0.8 × SG before rounding down to the gram. */
+  maxNetExactG: number;
   maxGrossG: number;
   specificGravity: number;
   basis: FillBasis;
@@ -46,8 +49,19 @@ export function maxCylinderFill(input: MaxFillInput): MaxFill {
     basis = catalogued === null ? "legacy_sg_1" : input.strict130F ? "sg_130f" : "sg_77f";
   }
   if (!(sg > 0)) throw new CoreInputError("The specific gravity must be greater than zero", "specificGravity");
-  const maxNetG = Math.floor(input.waterCapacityG * GUIDELINE_K_FILL_FACTOR * sg + 1e-9);
-  return { maxNetG, maxGrossG: maxNetG + input.tareG, specificGravity: sg, basis };
+  const maxNetExactG = input.waterCapacityG * GUIDELINE_K_FILL_FACTOR * sg;
+  const maxNetG = Math.floor(maxNetExactG + 1e-9);
+  return { maxNetG, maxNetExactG, maxGrossG: maxNetG + input.tareG, specificGravity: sg, basis };
+}
+
+/**
+ * Whether a net content is over the maximum fill for the amounts as entered. The contents and the
+ * water capacity are both stored rounded to the gram, so a fill of exactly 80 % × WC × SG (38.08 lb in
+ * a 47.6 lb WC cylinder) may come out a fraction of a gram above the formula; that is not over.
+ */
+export function exceedsMaxFill(netG: number, max: Pick<MaxFill, "maxNetExactG" | "specificGravity">): boolean {
+  const tolerance = GRAM_ROUNDING * (1 + GUIDELINE_K_FILL_FACTOR * max.specificGravity);
+  return netG - max.maxNetExactG > tolerance;
 }
 
 /** How full the cylinder is against its maximum net fill, in % (for a fill gauge; may exceed 100). */
@@ -80,4 +94,46 @@ export function requalificationDueOn(lastRequalifiedOn: IsoDate, years: number =
 export function cylinderAcceptsRefrigerant(contents: { refrigerant: string | null; netG: number } | null, incoming: string): boolean {
   if (!contents || contents.refrigerant === null || contents.netG <= 0) return true;
   return normaliseDesignation(contents.refrigerant) === normaliseDesignation(incoming);
+}
+
+/** What adding refrigerant to a cylinder would make of it. */
+export type CylinderFillVerdict =
+  | { kind: "ok"; maxNetG: number; liquidFullG: number }
+  | { kind: "over_safe_fill"; maxNetG: number; liquidFullG: number }
+  | { kind: "impossible"; maxNetG: number; liquidFullG: number };
+
+/**
+ * Checks contents against the cylinder. Above the safe fill (80 % of WC × SG, AHRI Guideline K) is
+ * possible but dangerous: it needs an explicit confirmation. Above WC × SG at 77 °F the liquid alone
+ * would fill the whole cylinder, which no real cylinder holds, so such a record is refused as a
+ * typing or unit error. The bound is the water capacity times the liquid's specific gravity, not the
+ * water capacity alone: a dense refrigerant (R-134a, SG about 1.2) weighs more than the same volume
+ * of water, a light one (R-290, SG about 0.5) much less. Without a catalogued SG the label rule
+ * SG = 1 is used (the bound is then the water capacity).
+ */
+export function checkCylinderFill(input: {
+  contentsG: number;
+  waterCapacityG: number;
+  tareG: number;
+  refrigerant: string;
+  strict130F?: boolean;
+}): CylinderFillVerdict {
+  let max: MaxFill;
+  try {
+    max = maxCylinderFill({
+      waterCapacityG: input.waterCapacityG,
+      tareG: input.tareG,
+      refrigerant: input.refrigerant,
+      strict130F: input.strict130F,
+    });
+  } catch (err) {
+    if (!(err instanceof UnknownRefrigerantError)) throw err;
+    max = maxCylinderFill({ waterCapacityG: input.waterCapacityG, tareG: input.tareG, refrigerant: input.refrigerant, specificGravity: 1 });
+  }
+  const sg77 = getRefrigerant(input.refrigerant)?.sg77F ?? 1;
+  const liquidFullG = Math.floor(input.waterCapacityG * sg77);
+  const out = { maxNetG: max.maxNetG, liquidFullG };
+  if (input.contentsG > liquidFullG) return { kind: "impossible", ...out };
+  if (input.contentsG > max.maxNetG) return { kind: "over_safe_fill", ...out };
+  return { kind: "ok", ...out };
 }

@@ -1,6 +1,7 @@
 import { CoreInputError } from "../errors";
 import { toAbsoluteInHg } from "../units/pressure";
 import { toGrams } from "../units/mass";
+import { compareRoundedRatio } from "../units/rounded-ratio";
 import type { EvacuationUnit, PressureClass } from "../vocabulary";
 
 /** Recovery equipment made or imported on/after this date meets the post-1993 column. */
@@ -124,6 +125,8 @@ export interface EvacuationEvidence {
   /** Small appliances: amount recovered and the full charge, grams. */
   recoveredG?: number | null;
   fullChargeG?: number | null;
+  /** How many recorded amounts were summed into `recoveredG` (each is rounded to the gram). */
+  recoveredTerms?: number;
 }
 
 export interface EvacuationVerdict {
@@ -157,7 +160,12 @@ export function evacuationSatisfied(requirement: EvacuationRequirement, evidence
   }
   const { recoveredG, fullChargeG } = evidence;
   const percent = recoveredG !== null && recoveredG !== undefined && fullChargeG ? (recoveredG / fullChargeG) * 100 : null;
-  const shareOk = percent !== null && percent >= requirement.percentOfCharge - 1e-9;
+  // "At least 90 %" for the amounts as entered: 0.45 lb of 0.5 lb is 90 % although 204 g of 227 g is 89.9 %.
+  const shareOk =
+    percent !== null &&
+    compareRoundedRatio(recoveredG as number, fullChargeG as number, requirement.percentOfCharge, {
+      numeratorTerms: Math.max(1, evidence.recoveredTerms ?? 1),
+    }) >= 0;
   const satisfied = shareOk || vacuumOk;
   const got = percent === null ? "an unknown share" : `${percent.toFixed(1)} %`;
   return {

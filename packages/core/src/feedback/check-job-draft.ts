@@ -1,12 +1,19 @@
 import { checkCertificationCoverage } from "../classification/check-certification-coverage";
 import { isSmallAppliance } from "../classification/appliance-classification";
 import { classifyPressure } from "../classification/classify-pressure";
-import { cylinderAcceptsRefrigerant, maxCylinderFill, requalificationDueOn, type MaxFill } from "../cylinders/cylinder-fill";
+import {
+  cylinderAcceptsRefrigerant,
+  exceedsMaxFill,
+  maxCylinderFill,
+  requalificationDueOn,
+  type MaxFill,
+} from "../cylinders/cylinder-fill";
 import { evacuationSatisfied, requiredEvacuation } from "../evacuation/required-evacuation";
 import { leakDeadlines } from "../leak-rate/leak-deadlines";
 import { leakRateHistory, type AdditionExclusion, type LeakRateMethod } from "../leak-rate/leak-rate";
 import { CATEGORY_LEAK_RULES, leakRepairRegime, LEAK_REGIME_THRESHOLDS } from "../leak-rate/leak-repair-regime";
 import { getRefrigerant } from "../refrigerants/catalogue";
+import { section608Scope } from "../refrigerants/section-608-scope";
 import { normaliseDesignation } from "../refrigerants/normalise-designation";
 import { resolveSettings, type AuditSettings } from "../settings";
 import { formatMass, toGrams } from "../units/mass";
@@ -49,6 +56,8 @@ export interface JobDraft {
   temporaryAccessRemoved: boolean | null;
   compressorOperating: boolean | null;
   additionExclusion: AdditionExclusion | null;
+  /** Charge: the earlier job on this appliance whose leak this addition also tops up. */
+  sameLeakAsJobId?: number | null;
 }
 
 export interface JobDraftContext {
@@ -189,6 +198,7 @@ export function draftAsJob(draft: JobDraft, ctx: Pick<JobDraftContext, "applianc
     temporaryAccessRemoved: draft.temporaryAccessRemoved,
     compressorOperating: draft.compressorOperating,
     additionExclusion: draft.kind === "charge" ? draft.additionExclusion : null,
+    sameLeakAsJobId: draft.kind === "charge" ? (draft.sameLeakAsJobId ?? null) : null,
     verification: null,
   };
 }
@@ -249,7 +259,13 @@ export function leakRateAtJob(
   const additions = sorted.flatMap((j) =>
     j.movements
       .filter((m) => m.direction === "charged")
-      .map((m) => ({ on: j.performedOn, amountG: m.amountG, excluded: j.additionExclusion, sourceId: j.id })),
+      .map((m) => ({
+        on: j.performedOn,
+        amountG: m.amountG,
+        excluded: j.additionExclusion,
+        sourceId: j.id,
+        sameLeakAsJobId: j.sameLeakAsJobId ?? null,
+      })),
   );
   const regime = leakRepairRegime({
     refrigerant: appliance.refrigerant,
@@ -262,6 +278,7 @@ export function leakRateAtJob(
     additions,
     method,
     countFrom: regime.regime === "us_aim_hfc" ? LEAK_REGIME_THRESHOLDS.aimFrom : null,
+    installedOn: appliance.installedOn,
   }).find((e) => e.sourceIds.includes(jobId));
   const percent = event?.percent ?? null;
   return {
@@ -281,13 +298,17 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
   const mass = (g: number) => formatMass(g, ctx.branch.massUnit);
   const warnings: DraftWarning[] = [];
   const smallAppliance = isSmallAppliance(a);
-  const pressureClass = safePressureClass(a);
+  // Exempt substitutes (82.154(a)(1)): no certification, evacuation or recovery-equipment rule applies.
+  const scope = section608Scope(a.refrigerant, a.category);
+  const pressureClass = scope.covered ? safePressureClass(a) : null;
   let evacuationRequired: string | null = null;
   let cylinderAfter: DraftCheckResult["cylinderAfter"] = null;
   let leakRate: LeakRateVerdict | null = null;
 
   // CT-CERT-01: the technician's verified certifications must cover the appliance (82.161).
-  if (CIRCUIT_OPENING.includes(draft.kind) && ctx.technician && (smallAppliance || pressureClass !== null)) {
+  // Disposal of a small appliance is governed by 82.155 (recovery or the signed statement), not 82.161.
+  const needsCertification = CIRCUIT_OPENING.includes(draft.kind) && !(draft.kind === "disposal" && smallAppliance);
+  if (needsCertification && scope.covered && ctx.technician && (smallAppliance || pressureClass !== null)) {
     const coverage = checkCertificationCoverage(ctx.technician.certifications, a);
     if (!coverage.allowed) {
       const verified = [...new Set(ctx.technician.certifications.filter((c) => c.state === "verified").map((c) => c.type))].sort();
@@ -306,7 +327,7 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
   }
 
   // Evacuation (82.156): Table 1 levels, or the small-appliance share.
-  if (RECOVERING.includes(draft.kind)) {
+  if (RECOVERING.includes(draft.kind) && scope.covered) {
     const equipmentMade = ctx.equipment?.manufacturedOn ?? null;
     const withEquipment = ctx.equipment ? " with this equipment" : "";
     if (smallAppliance) {
@@ -368,7 +389,7 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
   }
 
   // Recovery equipment: certified (82.158), and system-dependent only up to 15 lb.
-  if (RECOVERING.includes(draft.kind) && ctx.equipment) {
+  if (RECOVERING.includes(draft.kind) && ctx.equipment && scope.covered) {
     const e = ctx.equipment;
     if (e.certification !== "certified") {
       warnings.push(
@@ -379,11 +400,11 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
         ),
       );
     }
-    if (e.kind === "system_dependent" && a.fullChargeG !== null && a.fullChargeG > SYSTEM_DEPENDENT_MAX_G) {
+    if (e.kind === "system_dependent" && (a.fullChargeG === null || a.fullChargeG > SYSTEM_DEPENDENT_MAX_G)) {
       warnings.push(
         warn(
           "CT-EQUIP-02",
-          `${e.serial} is system-dependent equipment, allowed only on appliances of 15 lb or less; this one holds ${mass(a.fullChargeG)}.`,
+          `${e.serial} is system-dependent equipment, allowed only on appliances of 15 lb or less; ${a.fullChargeG === null ? "this one has no recorded full charge" : `this one holds ${mass(a.fullChargeG)}`}.`,
           "equipmentId",
         ),
       );
@@ -428,7 +449,7 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
       const refrigerantAfter = holds ?? incoming;
       const max = safeMaxFill(c, refrigerantAfter, settings.strictFill130F);
       cylinderAfter = { netG: netAfter, maxNetG: max?.maxNetG ?? null, refrigerant: refrigerantAfter };
-      if (max && addG > 0 && netAfter > max.maxNetG) {
+      if (max && addG > 0 && exceedsMaxFill(netAfter, max)) {
         warnings.push(
           warn(
             "CT-CYL-01",
@@ -452,6 +473,19 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
     const job = draftAsJob(draft, ctx);
     const earlier = ctx.applianceJobs.filter((j) => j.id !== DRAFT_JOB_ID);
     leakRate = leakRateAtJob(a, [...earlier, job], DRAFT_JOB_ID, { timeZone: ctx.branch.timeZone, settings: ctx.settings });
+    const regimeUnknownCharge =
+      a.fullChargeG === null
+        ? leakRepairRegime({ refrigerant: a.refrigerant, fullChargeG: null, category: a.category, on: draft.performedOn })
+        : null;
+    if (regimeUnknownCharge?.regime && !draft.additionExclusion) {
+      warnings.push(
+        warn(
+          "CT-LEAK-06",
+          "This appliance has no recorded full charge, so the leak rate of this addition cannot be calculated and a rate over the threshold cannot be ruled out: record the full charge on the appliance.",
+          "chargedAmount",
+        ),
+      );
+    }
     if (leakRate?.exceeds && leakRate.percent !== null) {
       warnings.push(
         warn(

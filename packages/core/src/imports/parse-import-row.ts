@@ -2,6 +2,8 @@ import { SMALL_APPLIANCE_MAX_CHARGE_G } from "../classification/appliance-classi
 import { getRefrigerant } from "../refrigerants/catalogue";
 import { normaliseDesignation } from "../refrigerants/normalise-designation";
 import { toGrams, type MassUnit } from "../units/mass";
+import { EARLIEST_PLAUSIBLE_DATE } from "../schemas/calendar-date";
+import { stripBidiControls, textProblem } from "../schemas/text";
 import {
   TEMPORARY_ACCESS_METHODS,
   type AccessMethod,
@@ -30,6 +32,8 @@ export type ImportCells = Readonly<Record<string, string | undefined>>;
 export interface ImportParseContext {
   /** Today's date in the branch (YYYY-MM-DD): later dates are refused. */
   today: string;
+  /** When the company's records begin (YYYY-MM-DD): earlier dates of work are refused. */
+  recordsBeginOn?: string;
   /** The unit of amounts without one: the branch's ("lb" for lb/oz branches, "kg"). */
   defaultMassUnit: MassUnit;
 }
@@ -64,7 +68,10 @@ class RowReader {
   }
 
   text(key: string, max: number, opts: { required?: string } = {}): string | undefined {
-    const v = this.raw(key).replace(/\s+/g, " ");
+    const cell = this.cells[key] ?? "";
+    const problem = textProblem(cell);
+    if (problem) return this.fail(key, problem);
+    const v = stripBidiControls(cell).trim().replace(/\s+/g, " ");
     if (v === "") return opts.required ? this.fail(key, opts.required) : undefined;
     if (v.length > max) return this.fail(key, `Longer than ${max.toLocaleString("en-US")} characters`);
     return v;
@@ -95,13 +102,15 @@ class RowReader {
     return this.fail(key, `“${this.raw(key)}” is not yes or no`);
   }
 
-  date(key: string, opts: { required?: string; notFuture?: boolean } = {}): string | undefined {
+  date(key: string, opts: { required?: string; notFuture?: boolean; event?: boolean } = {}): string | undefined {
     const v = this.raw(key);
     if (v === "") return opts.required ? this.fail(key, opts.required) : undefined;
     const iso = parseImportDate(v);
     if (!iso) return this.fail(key, `“${v}” is not a date; use a date like 2026-03-14`);
     if (opts.notFuture !== false && iso > this.ctx.today) return this.fail(key, `${iso} is in the future`);
-    if (iso < "1900-01-01") return this.fail(key, `${iso} is too far in the past; check the year`);
+    if (iso < EARLIEST_PLAUSIBLE_DATE) return this.fail(key, `${iso} is too far in the past; check the year`);
+    if (opts.event && this.ctx.recordsBeginOn && iso < this.ctx.recordsBeginOn)
+      return this.fail(key, `${iso} is before your company's records begin (${this.ctx.recordsBeginOn}); check the year`);
     return iso;
   }
 
@@ -121,6 +130,8 @@ class RowReader {
     if (parsed === "no_unit") return undefined; // the unit column already reported its problem
     if (parsed === null) return this.fail(key, `“${v}” is not an amount; use a number like 12.5, optionally with lb, oz, kg or g`);
     if (parsed < 0) return this.fail(key, "An amount cannot be negative");
+    if (parsed === 0 && /[1-9]/.test(v.replace(/e[+-]?\d+/gi, "")))
+      return this.fail(key, `“${v}” is less than half a gram: too small to record; check the amount and unit`);
     if (opts.positive && parsed === 0) return this.fail(key, "The amount must be more than zero");
     if (parsed > (opts.max ?? toGrams(1_000_000, "lb"))) return this.fail(key, "That amount is larger than any real one; check the unit");
     return parsed;
@@ -440,7 +451,7 @@ export interface JobImportRecord {
 
 export function parseJobImportRow(cells: ImportCells, ctx: ImportParseContext): ImportRowResult<JobImportRecord> {
   const r = new RowReader(cells, ctx);
-  const performedOn = r.date("performedOn", { required: "The date is missing" });
+  const performedOn = r.date("performedOn", { required: "The date is missing", event: true });
   const kind = r.choice("kind", JOB_KIND_NAMES, { required: "The job kind is missing", what: "job kind" });
   const applianceTag = r.text("applianceTag", 64, { required: "The appliance tag is missing" });
   const technician = r.text("technician", 320, { required: "The technician is missing" });

@@ -1,5 +1,6 @@
 import { addDays, addMonths, toLocalDate, yearOf, type IsoDate } from "../dates/local-date";
 import { toGrams } from "../units/mass";
+import { compareRoundedRatio } from "../units/rounded-ratio";
 import type { LeakRegime, LeakUseClass } from "./leak-repair-regime";
 
 /**
@@ -71,15 +72,20 @@ export function chronicLeakTest(
   additions: readonly { on: IsoDate; amountG: number; excluded?: unknown }[],
   calendarYear: number,
 ): ChronicLeakResult {
-  const total = additions.filter((a) => !a.excluded && yearOf(a.on) === calendarYear).reduce((s, a) => s + a.amountG, 0);
+  const inYear = additions.filter((a) => !a.excluded && yearOf(a.on) === calendarYear);
+  const total = inYear.reduce((s, a) => s + a.amountG, 0);
   const percent = fullChargeG > 0 ? (total / fullChargeG) * 100 : 0;
   const r = LEAK_DEADLINE_RULES;
   return {
     calendarYear,
     totalAddedG: total,
     percentOfCharge: percent,
-    // Integer comparison: total × 100 ≥ 125 × charge avoids a floating-point miss at exactly 125 %.
-    chronic: fullChargeG > 0 && total * 100 >= r.chronicLeakPercent * fullChargeG,
+    // "125 % or more" for the amounts as entered: 500 lb added to 400 lb is 125 % even though the
+    // stored grams (226,796 of 181,437) come to 124.99999 %.
+    chronic:
+      fullChargeG > 0 &&
+      total > 0 &&
+      compareRoundedRatio(total, fullChargeG, r.chronicLeakPercent, { numeratorTerms: Math.max(1, inYear.length) }) >= 0,
     reportDueOn: `${calendarYear + 1}-${String(r.chronicReportMonth).padStart(2, "0")}-${String(r.chronicReportDay).padStart(2, "0")}`,
   };
 }

@@ -1,4 +1,11 @@
-import { AbilityBuilder, createMongoAbility, type ForcedSubject, type MongoAbility, type MongoQuery } from "@casl/ability";
+import {
+  AbilityBuilder,
+  createMongoAbility,
+  subject as subjectTag,
+  type ForcedSubject,
+  type MongoAbility,
+  type MongoQuery,
+} from "@casl/ability";
 import type { Role } from "../vocabulary";
 
 /** What a person can do something to. Conditions use the camelCase field names of these subjects. */
@@ -24,6 +31,8 @@ export const SUBJECTS = [
   "Activity",
   // Spreadsheet imports (cards and imports):
   "Import",
+  // One's own account: password, sessions (every signed-in person, on themselves only).
+  "Account",
 ] as const;
 export type SubjectName = (typeof SUBJECTS)[number];
 
@@ -87,6 +96,9 @@ const BRANCH_RECORDS: SubjectName[] = [
   "Purchase",
 ];
 
+/** Branch records that happen on a date; an inspector reads them only inside the granted window. */
+const DATED_RECORDS: SubjectName[] = ["Job", "Disposal", "ReclaimShipment", "Purchase"];
+
 /** Registers a technician needs to read to log work in their branch. */
 const FIELD_REGISTERS: SubjectName[] = ["Customer", "Site", "Appliance", "RecoveryEquipment", "Cylinder"];
 
@@ -97,6 +109,21 @@ export function rolesOf(actor: Actor): Role[] {
 export function branchIdsFor(actor: Actor, role: Role): number[] {
   return actor.memberships.filter((m) => m.role === role && m.branchId !== null).map((m) => m.branchId as number);
 }
+
+/** The calendar day after `date` (YYYY-MM-DD), for comparing instants with the last day of a window. */
+export function dayAfter(date: string): string {
+  const d = new Date(`${date}T00:00:00Z`);
+  d.setUTCDate(d.getUTCDate() + 1);
+  return d.toISOString().slice(0, 10);
+}
+
+/**
+ * The date each dated record type is judged by for an inspector's window. `recordedOn` is the date
+ * column of the record's own table (disposal records: disposed on; signed statements: recovered on),
+ * which the query names when it applies the scope. Findings about an event use the event's date;
+ * findings about a standing obligation (no event date) use the day they were opened.
+ */
+export const RECORD_DATE_FIELDS = ["performedOn", "purchasedOn", "shippedOn", "recordedOn", "occurredOn", "openedAt"] as const;
 
 /** Grants that are neither revoked nor expired at `now`. */
 export function activeGrants(actor: Actor, now: Date): ActorInspectorGrant[] {
@@ -111,6 +138,9 @@ export function defineAbilityFor(actor: Actor, now: Date = new Date()): AppAbili
   const { can, build } = new AbilityBuilder<AppAbility>(createMongoAbility);
   const org = { organisationId: actor.organisationId };
   const roles = rolesOf(actor);
+
+  // Everyone signed in: their own password and sessions, nobody else's.
+  can(["read", "update"], "Account", { ...org, userId: actor.userId });
 
   if (roles.includes("owner")) {
     can("manage", "all", org);
@@ -158,13 +188,20 @@ export function defineAbilityFor(actor: Actor, now: Date = new Date()): AppAbili
   if (roles.includes("inspector")) {
     for (const grant of activeGrants(actor, now)) {
       const inGrant = { ...org, branchId: { $in: grant.branchIds } };
+      const window = { $gte: grant.recordsFrom, $lte: grant.recordsTo };
       can("read", "Branch", { ...org, id: { $in: grant.branchIds } });
+      // Registers (customers, sites, appliances, equipment, cylinders) are not dated: the whole register.
       for (const subject of BRANCH_RECORDS) {
-        if (subject === "Job") continue;
+        if (DATED_RECORDS.includes(subject)) continue;
         can("read", subject, inGrant);
       }
-      can("read", "Job", { ...inGrant, performedOn: { $gte: grant.recordsFrom, $lte: grant.recordsTo } });
-      can("read", "Finding", inGrant);
+      // Dated records only inside the granted window.
+      can("read", "Job", { ...inGrant, performedOn: window });
+      can("read", "Purchase", { ...inGrant, purchasedOn: window });
+      can("read", "ReclaimShipment", { ...inGrant, shippedOn: window });
+      can("read", "Disposal", { ...inGrant, recordedOn: window });
+      can("read", "Finding", { ...inGrant, occurredOn: window });
+      can("read", "Finding", { ...inGrant, occurredOn: null, openedAt: { $gte: grant.recordsFrom, $lt: dayAfter(grant.recordsTo) } });
       can(["read", "export"], "Audit", org);
       can("read", "Certification", inGrant);
     }
@@ -172,4 +209,29 @@ export function defineAbilityFor(actor: Actor, now: Date = new Date()): AppAbili
 
   // Nothing is granted by default: an actor without memberships can do nothing.
   return build();
+}
+
+/**
+ * Whether the person may `action` some records of `subjectName` in a branch, whatever their dates: for
+ * screens that decide whether to show a branch's section at all (its lists then apply the full rules,
+ * dates included). Rules are taken as they are, with the date conditions of an inspector's window left out.
+ */
+export function canInBranchAnyDate(
+  ability: AppAbility,
+  action: Action,
+  subjectName: SubjectName,
+  where: { organisationId: number; branchId: number },
+): boolean {
+  const dateFields = new Set<string>(RECORD_DATE_FIELDS);
+  const rules = ability
+    .rulesFor(action, subjectName)
+    .filter((r) => !r.inverted)
+    .map((r) => ({
+      action,
+      subject: subjectName,
+      conditions: r.conditions
+        ? Object.fromEntries(Object.entries(r.conditions as Record<string, unknown>).filter(([k]) => !dateFields.has(k)))
+        : undefined,
+    }));
+  return createMongoAbility<AppAbility>(rules as never).can(action, subjectTag(subjectName, { ...where }));
 }

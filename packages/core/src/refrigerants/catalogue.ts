@@ -1,3 +1,4 @@
+import type { ApplianceCategory } from "../vocabulary";
 import { normaliseDesignation } from "./normalise-designation";
 
 export type RefrigerantClass = "CFC" | "HCFC" | "HFC" | "HFO" | "HCFO" | "HC" | "natural";
@@ -9,6 +10,19 @@ export type GwpValues = Readonly<Record<GwpBasis, number | null>>;
 /** EU 2024/573 annex the gas falls under: Annex I (CO2e bands) or Annex II section 1 (kg bands). */
 export type EuAnnex = "annex_i" | "annex_ii_1";
 export type DataConfidence = "H" | "M" | "L";
+
+/**
+ * A substitute exempt from the venting prohibition of 40 CFR 82.154(a)(1). Such a substitute is not a
+ * "refrigerant" for subpart F (82.152 definition), so the section 608 practices, technician
+ * certification, recovery-equipment and disposal rules do not apply to it in those end uses.
+ */
+export interface Section608Exemption {
+  /** "any" for every application, otherwise the appliance categories (end uses) it is exempt in. */
+  readonly endUses: "any" | readonly ApplianceCategory[];
+  readonly citation: string;
+  /** The rule text in our words, and how sure we are of it. */
+  readonly note: string;
+}
 
 export interface BlendComponent {
   readonly designation: string;
@@ -41,6 +55,8 @@ export interface Refrigerant {
   readonly sg77F: number | null;
   /** Specific gravity of the liquid at 130 °F against water at 60 °F (stricter fill option). */
   readonly sg130F: number | null;
+  /** Exempt substitute under 82.154(a)(1), by end use; null = covered by subpart F wherever it is used. */
+  readonly section608Exemption: Section608Exemption | null;
 }
 
 type Identity = Pick<Refrigerant, "classes" | "description" | "odsClass" | "safetyGroup" | "composition" | "blendType" | "euAnnex">;
@@ -390,6 +406,34 @@ const DENSITY: Record<string, Density> = {
   "R-717": d(603.0, 0.605, 0.556),
 };
 
+/**
+ * Exempt substitutes, 40 CFR 82.154(a)(1). Source: REFERENCE.md §6.1 venting-prohibition exemptions
+ * (82.154, 2005-era text [S30]): carbon dioxide, nitrogen and water in any application; ammonia in
+ * commercial or industrial process refrigeration or absorption units; hydrocarbons in industrial
+ * process refrigeration that processes hydrocarbons. Propane in household refrigerators and
+ * freezers, stand-alone retail food units, vending machines and room air conditioners was added by
+ * the 2016 rule (from memory, REFERENCE.md §6.1 "by end use", M); those end uses are small appliances
+ * here. Hydrocarbons in IPR processing hydrocarbons cannot be told from the category, so R-290 in IPR
+ * stays covered (the stricter side).
+ */
+const SECTION_608_EXEMPTIONS: Record<string, Section608Exemption> = {
+  "R-744": {
+    endUses: "any",
+    citation: "40 CFR 82.154(a)(1)",
+    note: "Carbon dioxide is exempt in any application.",
+  },
+  "R-717": {
+    endUses: ["commercial_refrigeration", "industrial_process"],
+    citation: "40 CFR 82.154(a)(1)",
+    note: "Ammonia is exempt in commercial or industrial process refrigeration and absorption units; in comfort cooling it is covered.",
+  },
+  "R-290": {
+    endUses: ["small_appliance"],
+    citation: "40 CFR 82.154(a)(1) (2016 rule; from memory)",
+    note: "Propane is exempt in household refrigerators and freezers, stand-alone retail food units, vending machines and room air conditioners (small appliances here); elsewhere it is covered.",
+  },
+};
+
 const NO_DENSITY: Density = { liquidDensity77KgM3: null, sg77F: null, sg130F: null };
 
 function build(designation: string): Refrigerant {
@@ -405,6 +449,7 @@ function build(designation: string): Refrigerant {
     gwpNote: gwp.note ?? null,
     ...pressure,
     ...(DENSITY[designation] ?? NO_DENSITY),
+    section608Exemption: SECTION_608_EXEMPTIONS[designation] ?? null,
   });
 }
 

@@ -1,6 +1,10 @@
 import { z } from "zod";
+import { text } from "./text";
+import { calendarDate } from "./calendar-date";
 import { ISO_COUNTRY_CODES, US_REGION_CODES } from "../places/rule-pack-places";
 import { MASS_DISPLAY_UNITS, RULE_PACKS, type MassDisplayUnit, type Role, type RulePack } from "../vocabulary";
+import { PASSWORD_MAX_LENGTH, passwordProblem } from "../security/password-policy";
+import { SESSION_IDLE_LIMITS } from "../security/sessions";
 
 /**
  * Inputs of running the organisation: branches, people and their access, invitations, password
@@ -71,12 +75,7 @@ export const PASSWORD_RESET_VALID_MINUTES = 60;
 
 // ------------------------------------------------------------------------------------------- helpers
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date like 2026-03-14");
-const isRealDate = (s: string) => {
-  const d = new Date(`${s}T00:00:00Z`);
-  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
-};
-const calendarDate = (what: string) => isoDate.refine(isRealDate, `${what} is not a real calendar date`);
+const grantDate = (what: string) => calendarDate(`${what}: use a date like 2026-03-14`);
 
 /** A number typed into a form: an empty box means "not entered", never zero. */
 const entered = <T extends z.ZodType>(schema: T) =>
@@ -96,26 +95,26 @@ export function isValidTimeZone(value: string): boolean {
   }
 }
 
-const email = z
-  .string({ error: "Enter an e-mail address" })
+const email = text({ error: "Enter an e-mail address" })
   .trim()
   .toLowerCase()
   .min(1, "Enter an e-mail address")
   .max(320, "That e-mail address is too long")
   .pipe(z.email("Enter a valid e-mail address, like name@company.example"));
 
-const personName = z
-  .string({ error: "Enter the person's name" })
+const personName = text({ error: "Enter the person's name" })
   .trim()
   .min(2, "Enter the person's full name")
   .max(200, "Names are limited to 200 characters");
 
-/** A new password: long enough to resist guessing; any characters. */
-export const newPassword = z
-  .string({ error: "Choose a password" })
-  .min(10, "Use at least 10 characters")
-  .max(200, "Use at most 200 characters")
-  .refine((p) => p.trim().length >= 10, "Use at least 10 characters that are not spaces");
+/**
+ * A new password, wherever one is set (invitation, reset link, change of password): at least 12
+ * characters, long pass phrases welcome, and not one of the most common passwords (core security).
+ */
+export const newPassword = z.string({ error: "Choose a password" }).superRefine((p, ctx) => {
+  const problem = passwordProblem(p);
+  if (problem) ctx.addIssue({ code: "custom", message: problem });
+});
 
 const paging = {
   page: z.coerce.number().int().min(1).default(1),
@@ -124,17 +123,15 @@ const paging = {
 
 // ------------------------------------------------------------------------------------------ branches
 
-const branchName = z
-  .string({ error: "Enter the branch name" })
+const branchName = text({ error: "Enter the branch name" })
   .trim()
   .min(2, "Enter the branch name")
   .max(200, "Branch names are limited to 200 characters");
-const timeZone = z
-  .string({ error: "Choose the branch's time zone" })
+const timeZone = text({ error: "Choose the branch's time zone" })
   .trim()
   .min(1, "Choose the branch's time zone")
   .refine(isValidTimeZone, "Choose a time zone from the list (a region name like America/Chicago)");
-const address = z.string().trim().max(500, "Addresses are limited to 500 characters").optional();
+const address = text().trim().max(500, "Addresses are limited to 500 characters").optional();
 const massUnit = z.enum(MASS_DISPLAY_UNITS, { error: "Choose how the branch shows amounts" });
 /** Where the branch is: decides which rule packs its audits apply. */
 const country = z
@@ -144,7 +141,7 @@ const country = z
   .refine((c) => ISO_COUNTRY_CODES.includes(c), "Choose a country from the list (a two-letter code like US or DE)");
 const region = z.preprocess(
   (v) => (typeof v === "string" && v.trim() === "" ? null : v),
-  z.string().trim().max(64, "Regions are limited to 64 characters").nullable().optional(),
+  text().trim().max(64, "Regions are limited to 64 characters").nullable().optional(),
 );
 /** A US branch names its state (the two-letter postal code); elsewhere the region is optional words. */
 function refinePlace(v: { country?: string; region?: string | null }, ctx: z.RefinementCtx): void {
@@ -164,8 +161,7 @@ export function normalRegion(countryCode: string, value: string | null | undefin
 export const branchInput = z
   .object({
     name: branchName,
-    code: z
-      .string({ error: "Enter a short code for the branch" })
+    code: text({ error: "Enter a short code for the branch" })
       .trim()
       .toUpperCase()
       .regex(/^[A-Z0-9]{2,8}$/, "Use 2 to 8 letters or digits, like DEN"),
@@ -196,7 +192,7 @@ export type BranchUpdate = z.infer<typeof branchUpdate>;
 export const branchListQuery = z.object({
   ...paging,
   archived: z.enum(["exclude", "include", "only"]).default("include"),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
 });
 export type BranchListQuery = z.infer<typeof branchListQuery>;
 
@@ -231,7 +227,7 @@ export const peopleListQuery = z.object({
   ...paging,
   sort: z.enum(PEOPLE_SORT_FIELDS).default("name"),
   dir: z.enum(["asc", "desc"]).default("asc"),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
   role: z.enum(["owner", "compliance_officer", "branch_manager", "technician", "inspector"]).optional(),
   branchId: id.optional(),
   status: z.enum(PERSON_STATUSES).optional(),
@@ -265,6 +261,16 @@ export type ForgotPasswordInput = z.infer<typeof forgotPasswordInput>;
 export const resetPasswordInput = z.object({ token, password: newPassword, confirmPassword: z.string() }).superRefine(refineConfirm);
 export type ResetPasswordInput = z.infer<typeof resetPasswordInput>;
 
+/** A signed-in person changing their own password: the current one proves it is them. */
+export const changePasswordInput = z
+  .object({
+    currentPassword: z.string({ error: "Enter your current password" }).min(1, "Enter your current password").max(PASSWORD_MAX_LENGTH),
+    password: newPassword,
+    confirmPassword: z.string(),
+  })
+  .superRefine(refineConfirm);
+export type ChangePasswordInput = z.infer<typeof changePasswordInput>;
+
 // ---------------------------------------------------------------------------------- inspector access
 
 export const inspectorGrantInput = z
@@ -272,10 +278,10 @@ export const inspectorGrantInput = z
     email,
     name: personName,
     branchIds: z.array(id, { error: "Choose the branches" }).min(1, "Choose at least one branch"),
-    recordsFrom: calendarDate("The first date"),
-    recordsTo: calendarDate("The last date"),
-    expiresOn: calendarDate("The end of access"),
-    note: z.string().trim().max(500, "Notes are limited to 500 characters").optional(),
+    recordsFrom: grantDate("The first date"),
+    recordsTo: grantDate("The last date"),
+    expiresOn: grantDate("The end of access"),
+    note: text().trim().max(500, "Notes are limited to 500 characters").optional(),
   })
   .superRefine((value, ctx) => {
     if (value.recordsFrom > value.recordsTo) {
@@ -311,8 +317,7 @@ export const LEAK_RATE_METHOD_LABELS: Readonly<Record<(typeof LEAK_RATE_METHODS)
 
 /** The organisation's name, its rule packs, and the tolerances the rules leave to the company. */
 export const organisationSettingsInput = z.object({
-  name: z
-    .string({ error: "Enter the organisation's name" })
+  name: text({ error: "Enter the organisation's name" })
     .trim()
     .min(2, "Enter the organisation's name")
     .max(200, "Names are limited to 200 characters"),
@@ -345,5 +350,32 @@ export const organisationSettingsInput = z.object({
   ),
   strictFill130F: z.boolean({ error: "Say whether the stricter fill applies" }),
   leakRateMethod: z.enum(LEAK_RATE_METHODS, { error: "Choose the leak-rate method" }),
+  disposalRecordGraceDays: entered(
+    z.coerce
+      .number({ error: "Enter the days a disposal record may follow the disposal" })
+      .int("Use whole days")
+      .min(0, "The days cannot be negative")
+      .max(90, "Use at most 90 days"),
+  ),
+  cardVerificationGraceDays: entered(
+    z.coerce
+      .number({ error: "Enter the days a new card may wait for verification" })
+      .int("Use whole days")
+      .min(0, "The days cannot be negative")
+      .max(90, "Use at most 90 days"),
+  ),
+  /** Idle timeouts of sessions, in minutes (core security/sessions.ts); left out = unchanged. */
+  sessionIdleMinutesOfficers: z.coerce
+    .number({ error: "Enter the idle time in minutes" })
+    .int("Use whole minutes")
+    .min(SESSION_IDLE_LIMITS.min, `Use at least ${SESSION_IDLE_LIMITS.min} minutes`)
+    .max(SESSION_IDLE_LIMITS.officersMax, `Use at most ${SESSION_IDLE_LIMITS.officersMax} minutes for owners and officers`)
+    .optional(),
+  sessionIdleMinutesOthers: z.coerce
+    .number({ error: "Enter the idle time in minutes" })
+    .int("Use whole minutes")
+    .min(SESSION_IDLE_LIMITS.min, `Use at least ${SESSION_IDLE_LIMITS.min} minutes`)
+    .max(SESSION_IDLE_LIMITS.othersMax, `Use at most ${SESSION_IDLE_LIMITS.othersMax} minutes`)
+    .optional(),
 });
 export type OrganisationSettingsInput = z.infer<typeof organisationSettingsInput>;

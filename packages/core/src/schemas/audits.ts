@@ -1,8 +1,9 @@
 import { z } from "zod";
+import { text } from "./text";
+import { calendarDate } from "./calendar-date";
 import { FINDING_STATES, RULE_PACKS, SEVERITIES } from "../vocabulary";
 
-const isoDate = (what: string) =>
-  z.string({ error: `Enter ${what}` }).regex(/^\d{4}-\d{2}-\d{2}$/, `Use a date like 2026-03-14 for ${what}`);
+const isoDate = (what: string) => calendarDate(`Use a date like 2026-03-14 for ${what}`, { error: `Enter ${what}` });
 const positiveId = (what: string) =>
   z.coerce
     .number({ error: `Choose ${what}` })
@@ -52,7 +53,7 @@ export type DueBucket = (typeof DUE_BUCKETS)[number];
 export const FINDING_STATE_FILTERS = ["active", "all", ...FINDING_STATES] as const;
 
 const optionalText = (max: number) =>
-  z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.string().trim().max(max).optional());
+  z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), text().trim().max(max).optional());
 const optionalId = z.preprocess((v) => (v === "" || v === null ? undefined : v), z.coerce.number().int().positive().optional());
 
 /** Filters, sort and grouping of the findings table; also what a saved view keeps. */
@@ -89,8 +90,7 @@ export const assignFindingsInput = z.object({
 export type AssignFindingsInput = z.infer<typeof assignFindingsInput>;
 
 const words = (what: string, min: number, max = 4000) =>
-  z
-    .string({ error: `Write ${what}` })
+  text({ error: `Write ${what}` })
     .trim()
     .min(min, min <= 1 ? `Write ${what}` : `Write ${what} (at least ${min} characters)`)
     .max(max, `Keep ${what} under ${max.toLocaleString("en-US")} characters`);
@@ -113,7 +113,7 @@ export type FindingCommentInput = z.infer<typeof findingCommentInput>;
 /** A saved view of a list (for now the findings table), per person. */
 export const savedViewInput = z.object({
   list: z.literal("findings").default("findings"),
-  name: z.string({ error: "Name the view" }).trim().min(1, "Name the view").max(100, "Keep the name under 100 characters"),
+  name: text({ error: "Name the view" }).trim().min(1, "Name the view").max(100, "Keep the name under 100 characters"),
   query: findingViewQuery,
 });
 export type SavedViewInput = z.infer<typeof savedViewInput>;

@@ -1,4 +1,6 @@
 import { z } from "zod";
+import { text } from "./text";
+import { calendarDate } from "./calendar-date";
 import {
   CERTIFICATION_STATES,
   CERTIFICATION_TYPES,
@@ -25,7 +27,7 @@ export const CERTIFICATION_STATE_ICONS: Record<CertificationState, string> = {
   rejected: "✕",
 };
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date like 2016-04-12");
+const isoDate = calendarDate("Use a date like 2016-04-12");
 const isRealDate = (s: string) => {
   const d = new Date(`${s}T00:00:00Z`);
   return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
@@ -45,14 +47,12 @@ const certificationTypesField = z.preprocess(
     .transform((types): CertificationType[] => (types.includes("universal") ? ["universal"] : [...new Set(types)].sort())),
 );
 
-const certifyingOrganisationField = z
-  .string({ error: "Enter the organisation that issued the certificate" })
+const certifyingOrganisationField = text({ error: "Enter the organisation that issued the certificate" })
   .trim()
   .min(2, "Enter the organisation that issued the certificate")
   .max(200, "Limited to 200 characters");
 
-const certificateNumberField = z
-  .string({ error: "Enter the certificate number printed on the card" })
+const certificateNumberField = text({ error: "Enter the certificate number printed on the card" })
   .trim()
   .min(1, "Enter the certificate number printed on the card")
   .max(100, "Limited to 100 characters")
@@ -76,7 +76,7 @@ export const certificationCardInput = z.object({
 });
 export type CertificationCardInput = z.output<typeof certificationCardInput>;
 
-const reasonText = (missing: string) => z.string({ error: missing }).trim().min(5, missing).max(1000, "Limited to 1,000 characters");
+const reasonText = (missing: string) => text({ error: missing }).trim().min(5, missing).max(1000, "Limited to 1,000 characters");
 
 /** The compliance officer's decision on a card awaiting verification. */
 export const certificationDecisionInput = z.discriminatedUnion(
@@ -84,7 +84,7 @@ export const certificationDecisionInput = z.discriminatedUnion(
   [
     z.object({
       decision: z.literal("verify"),
-      note: z.preprocess(blankToUndefined, z.string().trim().max(1000, "Limited to 1,000 characters").optional()),
+      note: z.preprocess(blankToUndefined, text().trim().max(1000, "Limited to 1,000 characters").optional()),
     }),
     z.object({
       decision: z.literal("reject"),
@@ -98,8 +98,7 @@ export type CertificationDecisionInput = z.output<typeof certificationDecisionIn
 /** A correction of a card's details: only what changes, and why (kept as an amendment). */
 export const certificationCorrectionInput = z
   .object({
-    reason: z
-      .string({ error: "Say why the record is being corrected" })
+    reason: text({ error: "Say why the record is being corrected" })
       .trim()
       .min(3, "Say why the record is being corrected")
       .max(1000, "Limited to 1,000 characters"),
@@ -122,8 +121,7 @@ export type CertificationCorrectionInput = z.output<typeof certificationCorrecti
 
 /** Why a card is withdrawn (voided as entered in error). */
 export const certificationWithdrawInput = z.object({
-  reason: z
-    .string({ error: "Say why the card is being withdrawn" })
+  reason: text({ error: "Say why the card is being withdrawn" })
     .trim()
     .min(3, "Say why the card is being withdrawn")
     .max(1000, "Limited to 1,000 characters"),
@@ -143,7 +141,7 @@ export const certificationListQuery = z.object({
   mine: z.preprocess((v) => v === "1" || v === "true" || v === true, z.boolean()).default(false),
   branchId: z.preprocess(blankToUndefined, z.coerce.number().int().positive().optional()),
   /** Technician name or e-mail, certificate number or certifying organisation. */
-  q: z.preprocess(blankToUndefined, z.string().trim().max(100).optional()),
+  q: z.preprocess(blankToUndefined, text().trim().max(100).optional()),
 });
 export type CertificationListQuery = z.output<typeof certificationListQuery>;
 

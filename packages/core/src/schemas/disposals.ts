@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { text } from "./text";
 import { ACCESS_METHODS, EVACUATION_UNITS } from "../vocabulary";
 import { amendmentReason, DISPOSAL_PATHS } from "./jobs";
 import {
@@ -12,6 +13,8 @@ import {
   optionalTextField,
   refineEvacuationReading,
   refineTemporaryAccess,
+  confirmOverFillField,
+  refineRecordableMass,
   refuseFutureDate,
   requiredTextField,
 } from "./recovery-job";
@@ -38,6 +41,7 @@ export const disposalRecordInput = z
   .superRefine((v, ctx) => {
     refuseFutureDate(ctx, v.disposedOn, "disposedOn", "The disposal date cannot be in the future");
     refuseFutureDate(ctx, v.recoveredOn, "recoveredOn", "The date of recovery cannot be in the future");
+    refineRecordableMass(ctx, v.recoveredAmount, v.recoveredUnit, "recoveredAmount");
   });
 export type DisposalRecordInput = z.infer<typeof disposalRecordInput>;
 
@@ -75,7 +79,10 @@ export const shopDisposalItem = z
     evacuationUnit: z.enum(EVACUATION_UNITS, { error: "Choose the unit of the evacuation level" }),
     compressorOperating: z.boolean().nullable().optional(),
   })
-  .superRefine((v, ctx) => refineEvacuationReading(ctx, v.evacuationValue, v.evacuationUnit));
+  .superRefine((v, ctx) => {
+    refineRecordableMass(ctx, v.recoveredAmount, v.recoveredUnit, "recoveredAmount");
+    refineEvacuationReading(ctx, v.evacuationValue, v.evacuationUnit);
+  });
 
 /**
  * The quick path for retired units waiting at the shop: several appliances recovered into one
@@ -90,6 +97,7 @@ export const shopDisposalBatchInput = z
     temporaryAccessRemoved: z.boolean().nullable().optional(),
     sentTo: optionalTextField(200, "Where they go"),
     confirmStatement: z.literal(true, { error: "Confirm that you recovered the refrigerant before saving" }),
+    confirmOverFill: confirmOverFillField,
     items: z.array(shopDisposalItem).min(1, "Pick at least one appliance").max(50, "At most 50 appliances at a time"),
   })
   .superRefine((v, ctx) => {
@@ -117,7 +125,7 @@ export const disposalListQuery = z.object({
   branchId: z.coerce.number().int().positive().optional(),
   from: isoDateField.optional(),
   to: isoDateField.optional(),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
   voided: z.enum(VOIDED_FILTERS).optional(),
 });
 export type DisposalListQuery = z.infer<typeof disposalListQuery>;
@@ -147,7 +155,8 @@ export const disposalRecordAmendmentInput = z.object({
     .refine((c) => c.recoveredAmount === undefined || c.recoveredUnit !== undefined, {
       path: ["recoveredUnit"],
       message: "Choose the unit of the quantity",
-    }),
+    })
+    .superRefine((c, ctx) => refineRecordableMass(ctx, c.recoveredAmount, c.recoveredUnit, "recoveredAmount")),
 });
 export type DisposalRecordAmendmentInput = z.infer<typeof disposalRecordAmendmentInput>;
 

@@ -7,3 +7,5 @@ export * from "./shipments";
 export * from "./audits";
 export * from "./certifications";
 export * from "./imports";
+export * from "./text";
+export * from "./calendar-date";

@@ -1,7 +1,9 @@
 import { z } from "zod";
+import { text } from "./text";
 import { ACCESS_METHODS, EVACUATION_UNITS, JOB_KINDS } from "../vocabulary";
 import {
   MASS_INPUT_UNITS,
+  confirmOverFillField,
   enteredValue,
   idField,
   isoDateField,
@@ -11,6 +13,7 @@ import {
   recoveryJobInput,
   recoveryShape,
   refineEvacuationReading,
+  refineRecordableMass,
   refineRecovery,
   refineTemporaryAccess,
   refuseFutureDate,
@@ -53,7 +56,7 @@ export const DISPOSAL_PATH_LABELS: Record<DisposalPath, string> = {
   shop: "At our shop (retired unit waiting to be scrapped)",
 };
 
-const notes = z.string().trim().max(2000, "Notes are limited to 2,000 characters").optional();
+const notes = text().trim().max(2000, "Notes are limited to 2,000 characters").optional();
 const optionalAccess = {
   accessMethod: enteredValue(z.enum(ACCESS_METHODS, { error: "Choose how the circuit was accessed" }).nullable().optional()),
   temporaryAccessRemoved: z.boolean().nullable().optional(),
@@ -65,17 +68,20 @@ export const chargeJobInput = z
     kind: z.literal("charge"),
     applianceId: idField("the appliance"),
     performedOn: isoDateField,
-    refrigerant: z.string().trim().min(1, "Refrigerant is required").max(32),
+    refrigerant: text().trim().min(1, "Refrigerant is required").max(32),
     chargedAmount: massAmountField("Enter the amount added", { positive: true }),
     chargedUnit: z.enum(MASS_INPUT_UNITS, { error: "Choose the unit of the amount" }),
     chargeSource: z.enum(CHARGE_SOURCES, { error: "Say where the refrigerant came from" }),
     cylinderId: optionalIdField("the cylinder it came from"),
     additionExclusion: enteredValue(z.enum(ADDITION_EXCLUSIONS).nullable().optional()),
+    /** An earlier charge on the same appliance whose leak this addition also tops up (82.152). */
+    sameLeakAsJobId: optionalIdField("the earlier job for the same leak"),
     ...optionalAccess,
     notes,
   })
   .superRefine((value, ctx) => {
     refuseFutureDate(ctx, value.performedOn, "performedOn");
+    refineRecordableMass(ctx, value.chargedAmount, value.chargedUnit, "chargedAmount");
     refineTemporaryAccess(ctx, value.accessMethod, value.temporaryAccessRemoved);
     if (value.chargeSource === "cylinder" && value.cylinderId === undefined) {
       ctx.addIssue({ code: "custom", path: ["cylinderId"], message: "Choose the cylinder it came from" });
@@ -151,7 +157,7 @@ export const jobDraftInput = z.object({
   kind: z.enum(JOB_KINDS, { error: "Choose the kind of job" }),
   applianceId: draftId,
   performedOn: isoDateField.optional().catch(undefined),
-  refrigerant: z.string().trim().max(32).optional().catch(undefined),
+  refrigerant: text().trim().max(32).optional().catch(undefined),
   recoveredAmount: draftNumber,
   recoveredUnit: draftEnum(MASS_INPUT_UNITS),
   chargedAmount: draftNumber,
@@ -165,6 +171,7 @@ export const jobDraftInput = z.object({
   temporaryAccessRemoved: z.boolean().nullable().optional().catch(undefined),
   compressorOperating: z.boolean().nullable().optional().catch(undefined),
   additionExclusion: draftEnum(ADDITION_EXCLUSIONS),
+  sameLeakAsJobId: draftId,
   verificationStage: draftEnum(VERIFICATION_STAGES),
   verificationPassed: z.boolean().nullable().optional().catch(undefined),
 });
@@ -172,8 +179,7 @@ export type JobDraftInput = z.infer<typeof jobDraftInput>;
 
 /** Why a regulated record is voided (entered in error). Shared by every record type. */
 export const voidRecordInput = z.object({
-  reason: z
-    .string({ error: "Say why the record is being voided" })
+  reason: text({ error: "Say why the record is being voided" })
     .trim()
     .min(3, "Say why the record is being voided")
     .max(1000, "Limited to 1,000 characters"),
@@ -181,8 +187,7 @@ export const voidRecordInput = z.object({
 export type VoidRecordInput = z.infer<typeof voidRecordInput>;
 
 /** Why a regulated record is corrected; every amendment carries one. */
-export const amendmentReason = z
-  .string({ error: "Say why the record is being corrected" })
+export const amendmentReason = text({ error: "Say why the record is being corrected" })
   .trim()
   .min(3, "Say why the record is being corrected")
   .max(1000, "Limited to 1,000 characters");
@@ -194,6 +199,7 @@ export const amendmentReason = z
 export const jobAmendmentInput = z
   .object({
     reason: amendmentReason,
+    confirmOverFill: confirmOverFillField,
     changes: z
       .object({
         performedOn: isoDateField.optional(),
@@ -215,7 +221,7 @@ export const jobAmendmentInput = z
         verificationStage: z.enum(VERIFICATION_STAGES).optional(),
         verificationPassed: z.boolean().optional(),
         verificationMethod: optionalTextField(200, "The test method"),
-        notes: z.string().trim().max(2000, "Notes are limited to 2,000 characters").optional(),
+        notes: text().trim().max(2000, "Notes are limited to 2,000 characters").optional(),
       })
       .strict(),
   })
@@ -228,6 +234,7 @@ export const jobAmendmentInput = z
       ctx.addIssue({ code: "custom", path: ["changes", "amountUnit"], message: "Choose the unit of the amount" });
     }
     refuseFutureDate(ctx, c.performedOn, "changes.performedOn");
+    refineRecordableMass(ctx, c.amount, c.amountUnit, "changes.amount");
     refineEvacuationReading(ctx, c.evacuationValue, c.evacuationUnit, "changes.evacuationValue");
   });
 export type JobAmendmentInput = z.infer<typeof jobAmendmentInput>;

@@ -1,4 +1,7 @@
 import { z } from "zod";
+import { text } from "./text";
+import { toGrams } from "../units/mass";
+import { calendarDate } from "./calendar-date";
 import { ACCESS_METHODS, EVACUATION_UNITS, JOB_KINDS, TEMPORARY_ACCESS_METHODS } from "../vocabulary";
 
 /** Units a mass may be entered in on a form; stored as integer grams. */
@@ -7,7 +10,7 @@ export type MassInputUnit = (typeof MASS_INPUT_UNITS)[number];
 
 // Field builders shared by every record form and route (jobs, disposals, shipments, purchases).
 
-export const isoDateField = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date like 2026-03-14");
+export const isoDateField = calendarDate();
 const isoDate = isoDateField;
 
 /** A number typed into a form: an empty box means "not entered", never zero. */
@@ -44,12 +47,26 @@ export const massAmountField = (missing: string, opts: { positive?: boolean } = 
     ).max(100_000, "That amount is larger than any appliance charge"),
   );
 
+/**
+ * Refuses a non-zero amount that is less than half a gram: masses are stored as whole grams, so it
+ * would be saved as nothing while the person believes something was recorded.
+ */
+export function refineRecordableMass(ctx: z.RefinementCtx, amount: number | undefined, unit: string | undefined, path: string): void {
+  if (amount === undefined || unit === undefined || !Number.isFinite(amount) || amount === 0) return;
+  if (!(MASS_INPUT_UNITS as readonly string[]).includes(unit)) return;
+  if (toGrams(amount, unit as MassInputUnit) === 0)
+    ctx.addIssue({
+      code: "custom",
+      path: [path],
+      message: `${amount} ${unit} is less than half a gram: too small to record; check the amount and unit`,
+    });
+}
+
 /** Optional free text: trimmed, empty becomes undefined. */
 export const optionalTextField = (max: number, label = "This field") =>
   z.preprocess(
     (v) => (typeof v === "string" && v.trim() === "" ? undefined : v === null ? undefined : v),
-    z
-      .string()
+    text()
       .trim()
       .max(max, `${label} is limited to ${max.toLocaleString("en-US")} characters`)
       .optional(),
@@ -57,8 +74,7 @@ export const optionalTextField = (max: number, label = "This field") =>
 
 /** Required free text. */
 export const requiredTextField = (max: number, missing: string) =>
-  z
-    .string({ error: missing })
+  text({ error: missing })
     .trim()
     .min(1, missing)
     .max(max, `Limited to ${max.toLocaleString("en-US")} characters`);
@@ -103,11 +119,20 @@ export function refineTemporaryAccess(
   }
 }
 
+/**
+ * The tick that confirms saving a cylinder above its safe fill. The server asks for it (a field error
+ * on `confirmOverFill`) only when the amount would put the cylinder over; the form then shows it.
+ */
+export const confirmOverFillField = z.preprocess(
+  (v) => (v === "true" || v === "on" ? true : v === "false" || v === "" || v === null ? undefined : v),
+  z.boolean().optional(),
+);
+
 /** What a recovery takes out of an appliance; shared by recovery and disposal jobs. */
 export const recoveryShape = {
   applianceId: id("the appliance"),
   performedOn: isoDate,
-  refrigerant: z.string().trim().min(1, "Refrigerant is required").max(32),
+  refrigerant: text().trim().min(1, "Refrigerant is required").max(32),
   recoveredAmount: entered(
     z.coerce
       .number({ error: "Enter the amount recovered" })
@@ -127,12 +152,15 @@ export const recoveryShape = {
   accessMethod: z.enum(ACCESS_METHODS, { error: "Choose how the circuit was accessed" }),
   temporaryAccessRemoved: z.boolean().nullable().optional(),
   compressorOperating: z.boolean().nullable().optional(),
-  notes: z.string().trim().max(2000, "Notes are limited to 2,000 characters").optional(),
+  notes: text().trim().max(2000, "Notes are limited to 2,000 characters").optional(),
+  confirmOverFill: confirmOverFillField,
 };
 
 export function refineRecovery(
   value: {
     performedOn: string;
+    recoveredAmount: number;
+    recoveredUnit: string;
     accessMethod: string;
     temporaryAccessRemoved?: boolean | null;
     evacuationValue: number;
@@ -141,6 +169,7 @@ export function refineRecovery(
   ctx: z.RefinementCtx,
 ): void {
   refuseFutureDate(ctx, value.performedOn, "performedOn");
+  refineRecordableMass(ctx, value.recoveredAmount, value.recoveredUnit, "recoveredAmount");
   refineTemporaryAccess(ctx, value.accessMethod, value.temporaryAccessRemoved);
   refineEvacuationReading(ctx, value.evacuationValue, value.evacuationUnit);
 }
@@ -168,7 +197,7 @@ export const jobListQuery = z.object({
   applianceId: z.coerce.number().int().positive().optional(),
   from: isoDate.optional(),
   to: isoDate.optional(),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
   voided: z.enum(VOIDED_FILTERS).optional(),
 });
 export type JobListQuery = z.infer<typeof jobListQuery>;

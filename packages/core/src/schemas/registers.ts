@@ -1,4 +1,7 @@
 import { z } from "zod";
+import { text } from "./text";
+import { calendarDate } from "./calendar-date";
+import { refineRecordableMass } from "./recovery-job";
 import { getRefrigerant } from "../refrigerants/catalogue";
 import { normaliseDesignation } from "../refrigerants/normalise-designation";
 import { SMALL_APPLIANCE_MAX_CHARGE_G } from "../classification/appliance-classification";
@@ -58,22 +61,20 @@ export const REGISTER_LABELS = {
 /** Cylinder specifications people commonly type (49 CFR 178 markings); the field stays free text. */
 export const COMMON_CYLINDER_SPECIFICATIONS = ["DOT-4BA", "DOT-4BA400", "DOT-4BW", "DOT-4BW400", "DOT-4BA350", "DOT-4BW350"] as const;
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date like 2026-03-14");
+const isoDate = calendarDate("Use a date like 2026-03-14");
 /** A box left empty means "not entered". */
 const blankToUndefined = (v: unknown) => (v === "" || v === null || (typeof v === "string" && v.trim() === "") ? undefined : v);
 const entered = <T extends z.ZodType>(schema: T) => z.preprocess(blankToUndefined, schema);
 const optionalDate = entered(isoDate.optional());
 const optionalText = (max: number, what: string) =>
   entered(
-    z
-      .string()
+    text()
       .trim()
       .max(max, `${what} is limited to ${max.toLocaleString("en-US")} characters`)
       .optional(),
   );
 const requiredText = (max: number, missing: string, what: string) =>
-  z
-    .string({ error: missing })
+  text({ error: missing })
     .trim()
     .min(1, missing)
     .max(max, `${what} is limited to ${max.toLocaleString("en-US")} characters`);
@@ -104,6 +105,7 @@ function withinGrams(
   what: string,
 ): void {
   if (value === undefined || unit === undefined || !Number.isFinite(value)) return;
+  refineRecordableMass(ctx, value, unit, path);
   if (toGrams(value, unit) > maxG)
     ctx.addIssue({ code: "custom", path: [path], message: `${what} is larger than any real one; check the unit` });
 }
@@ -123,8 +125,7 @@ const notFuture = (ctx: z.RefinementCtx, value: string | undefined, path: string
 };
 
 /** A refrigerant designation in any spelling ("r410a"), normalised ("R-410A") and known to the catalogue. */
-export const refrigerantDesignation = z
-  .string({ error: "Enter the refrigerant" })
+export const refrigerantDesignation = text({ error: "Enter the refrigerant" })
   .trim()
   .min(1, "Enter the refrigerant")
   .max(32, "A refrigerant designation is at most 32 characters")
@@ -251,8 +252,7 @@ export const applianceStatusInput = z
   .object({
     status: z.enum(APPLIANCE_STATUSES, { error: "Choose the new status" }),
     on: isoDate,
-    reason: z
-      .string({ error: "Say why the status changes" })
+    reason: text({ error: "Say why the status changes" })
       .trim()
       .min(3, "Say why the status changes")
       .max(1000, "The reason is limited to 1,000 characters"),
@@ -270,13 +270,12 @@ export const applianceListQuery = z.object({
   branchId: z.coerce.number().int().positive().optional(),
   category: z.enum(APPLIANCE_CATEGORIES).optional(),
   status: z.enum(APPLIANCE_STATUSES).optional(),
-  refrigerant: z
-    .string()
+  refrigerant: text()
     .trim()
     .max(32)
     .transform((v) => (v ? normaliseDesignation(v) : undefined))
     .optional(),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
 });
 export type ApplianceListQuery = z.output<typeof applianceListQuery>;
 
@@ -291,7 +290,7 @@ export type RegisterHistoryQuery = z.output<typeof registerHistoryQuery>;
 /** Sites or customers of a branch for the appliance form's pickers. */
 export const registerPickerQuery = z.object({
   branchId: z.coerce.number({ error: "Choose a branch" }).int().positive(),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
   limit: z.coerce.number().int().min(1).max(50).default(20),
 });
 export type RegisterPickerQuery = z.output<typeof registerPickerQuery>;
@@ -334,7 +333,7 @@ export const equipmentListQuery = z.object({
   branchId: z.coerce.number().int().positive().optional(),
   certificationState: z.enum(EQUIPMENT_CERTIFICATION_STATES).optional(),
   status: z.enum(EQUIPMENT_STATUSES).optional(),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
 });
 export type EquipmentListQuery = z.output<typeof equipmentListQuery>;
 
@@ -345,8 +344,7 @@ export type EquipmentListQuery = z.output<typeof equipmentListQuery>;
 const cylinderFields = {
   serial: requiredText(64, "Enter the serial number stamped on the cylinder", "The serial number"),
   specification: entered(
-    z
-      .string()
+    text()
       .trim()
       .max(64, "The specification is limited to 64 characters")
       .transform((v) => v.toUpperCase().replace(/\s+/g, "-"))
@@ -402,14 +400,13 @@ export const cylinderListQuery = z.object({
   dir: z.enum(["asc", "desc"]).default("asc"),
   branchId: z.coerce.number().int().positive().optional(),
   status: z.enum(CYLINDER_STATUSES).optional(),
-  refrigerant: z
-    .string()
+  refrigerant: text()
     .trim()
     .max(32)
     .transform((v) => (v ? normaliseDesignation(v) : undefined))
     .optional(),
   requalification: z.enum(REQUALIFICATION_FILTERS).optional(),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
 });
 export type CylinderListQuery = z.output<typeof cylinderListQuery>;
 
@@ -453,8 +450,7 @@ export type CylinderWeighingInput = z.output<typeof cylinderWeighingInput>;
 export const cylinderWeighingAmendInput = z
   .object({
     ...weighingFields,
-    reason: z
-      .string({ error: "Say why the weighing is corrected" })
+    reason: text({ error: "Say why the weighing is corrected" })
       .trim()
       .min(3, "Say why the weighing is corrected")
       .max(1000, "The reason is limited to 1,000 characters"),
@@ -464,8 +460,7 @@ export type CylinderWeighingAmendInput = z.output<typeof cylinderWeighingAmendIn
 
 /** Voiding a record entered in error. */
 export const registerVoidInput = z.object({
-  reason: z
-    .string({ error: "Say why the record is voided" })
+  reason: text({ error: "Say why the record is voided" })
     .trim()
     .min(3, "Say why the record is voided")
     .max(1000, "The reason is limited to 1,000 characters"),

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { text } from "./text";
 import { amendmentReason } from "./jobs";
 import {
   MASS_INPUT_UNITS,
@@ -8,6 +9,7 @@ import {
   isoDateField,
   massAmountField,
   optionalTextField,
+  refineRecordableMass,
   refuseFutureDate,
   requiredTextField,
 } from "./recovery-job";
@@ -55,7 +57,10 @@ export const purchaseInput = z
     ),
     invoiceReference: optionalTextField(100, "The invoice reference"),
   })
-  .superRefine((v, ctx) => refuseFutureDate(ctx, v.purchasedOn, "purchasedOn", "The purchase date cannot be in the future"));
+  .superRefine((v, ctx) => {
+    refuseFutureDate(ctx, v.purchasedOn, "purchasedOn", "The purchase date cannot be in the future");
+    refineRecordableMass(ctx, v.amount, v.unit, "amount");
+  });
 export type PurchaseInput = z.infer<typeof purchaseInput>;
 
 const listBase = {
@@ -65,7 +70,7 @@ const listBase = {
   branchId: z.coerce.number().int().positive().optional(),
   from: isoDateField.optional(),
   to: isoDateField.optional(),
-  q: z.string().trim().max(100).optional(),
+  q: text().trim().max(100).optional(),
   voided: z.enum(VOIDED_FILTERS).optional(),
 };
 
@@ -75,7 +80,7 @@ export type ShipmentListQuery = z.infer<typeof shipmentListQuery>;
 export const purchaseListQuery = z.object({
   ...listBase,
   sort: z.enum(["date", "branch", "supplier", "refrigerant", "amount"]).default("date"),
-  refrigerant: z.string().trim().max(32).optional(),
+  refrigerant: text().trim().max(32).optional(),
 });
 export type PurchaseListQuery = z.infer<typeof purchaseListQuery>;
 
@@ -107,6 +112,7 @@ export const purchaseAmendmentInput = z.object({
     })
     .strict()
     .refine((c) => Object.values(c).some((v) => v !== undefined), "Change at least one field")
-    .refine((c) => c.amount === undefined || c.unit !== undefined, { path: ["unit"], message: "Choose the unit of the quantity" }),
+    .refine((c) => c.amount === undefined || c.unit !== undefined, { path: ["unit"], message: "Choose the unit of the quantity" })
+    .superRefine((c, ctx) => refineRecordableMass(ctx, c.amount, c.unit, "amount")),
 });
 export type PurchaseAmendmentInput = z.infer<typeof purchaseAmendmentInput>;

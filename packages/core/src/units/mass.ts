@@ -79,3 +79,38 @@ export function formatMass(grams: number, displayUnit: MassDisplayUnit, opts: Fo
   const d = opts.decimals ?? 2;
   return `${roundTo(gramsToLb(grams), d).toFixed(d)} lb`;
 }
+
+/**
+ * The shortest decimal in `unit` that converts back to exactly `grams` (at most 6 places). Used to
+ * re-open a stored mass for correction when the entered figure is not known: leaving it untouched
+ * then sends back the same grams, never a drifted value.
+ */
+export function shortestAmountFor(grams: number, unit: MassUnit): number {
+  for (let d = 0; d <= 6; d++) {
+    const v = roundTo(grams / GRAMS_PER[unit], d);
+    if (toGrams(v, unit) === grams) return v;
+  }
+  return roundTo(grams / GRAMS_PER[unit], 6);
+}
+
+/**
+ * The amount as the person typed it, while it still describes the stored grams. Grams are what the
+ * rules compute with; a pound or an ounce is not a whole number of grams, so the typed figure and
+ * unit are kept beside them (95 lb is stored as 43,091 g, which reads back as 94.9994 lb). If the
+ * grams were changed without a typed figure (an import, a correction in grams), the typed figure no
+ * longer matches and null is returned, so nothing stale is shown.
+ */
+export function enteredAmount(
+  grams: number,
+  amount: number | null | undefined,
+  unit: string | null | undefined,
+): { amount: number; unit: MassUnit } | null {
+  if (amount === null || amount === undefined || !unit || !(unit in GRAMS_PER)) return null;
+  if (!Number.isFinite(amount) || toGrams(amount, unit as MassUnit) !== grams) return null;
+  return { amount, unit: unit as MassUnit };
+}
+
+/** An amount and its unit as text, e.g. "95 lb", "12.5 oz", "43.091 kg". */
+export function formatEnteredAmount(e: { amount: number; unit: MassUnit }): string {
+  return `${e.amount.toLocaleString("en-US", { maximumFractionDigits: 6 })} ${e.unit}`;
+}

@@ -3,6 +3,7 @@ import { INVITATION_VALID_DAYS, ROLE_LABELS, type AcceptInvitationInput, type In
 import { appendActivity, rowId } from "../activity";
 import { RecordConflictError, RecordNotFoundError } from "../errors";
 import { hashPassword } from "../passwords";
+import { endUserSessions } from "../sessions";
 import { toBool, type ActorRef } from "../types";
 import {
   actorRank,
@@ -338,6 +339,7 @@ export async function acceptInvitation(
       .whereNull("revoked_at")
       .update({ revoked_at: at });
     await trx("users").where({ id: user.id }).update({ password_hash: passwordHash, name: opts.input.name });
+    await endUserSessions(trx, { userId: Number(user.id), reason: "password_changed", now });
     const roles = (JSON.parse(invitation.memberships) as PersonMembership[]).map((m) => ROLE_LABELS[m.role]);
     await appendActivity(trx, {
       organisationId: Number(invitation.organisation_id),

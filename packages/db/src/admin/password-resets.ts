@@ -2,6 +2,7 @@ import type { Knex } from "knex";
 import { PASSWORD_RESET_VALID_MINUTES, type ResetPasswordInput } from "@coldtrail/core";
 import { appendActivity } from "../activity";
 import { hashPassword } from "../passwords";
+import { endUserSessions } from "../sessions";
 import { toBool } from "../types";
 import { refuseLink } from "./invitations";
 import { addMinutes, hashLinkToken, linkState, newLinkToken, type LinkState } from "./tokens";
@@ -92,6 +93,7 @@ export async function resetPassword(db: Knex, opts: { input: ResetPasswordInput;
     if (marked !== 1) refuseLink("used");
     await trx("password_reset_tokens").where({ user_id: user.id }).whereNull("used_at").update({ used_at: at });
     await trx("users").where({ id: user.id }).update({ password_hash: passwordHash });
+    await endUserSessions(trx, { userId: Number(user.id), reason: "password_changed", now });
     await appendActivity(trx, {
       organisationId: Number(user.organisation_id),
       actorId: Number(user.id),

@@ -12,6 +12,7 @@ import {
   type Role,
 } from "@coldtrail/core";
 import { appendActivity } from "../activity";
+import { endUserSessions } from "../sessions";
 import { ActionForbiddenError, InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { toBool, type ActorRef, type ScopeFn } from "../types";
 import { countRows, whereContains } from "../paging";
@@ -416,6 +417,7 @@ export async function setPersonActive(db: Knex, opts: { actor: ActorRef; id: num
         .whereNull("revoked_at")
         .update({ revoked_at: at });
       await trx("password_reset_tokens").where({ user_id: opts.id }).whereNull("used_at").update({ used_at: at });
+      await endUserSessions(trx, { userId: opts.id, reason: "deactivated", now: opts.now });
     }
     await appendActivity(trx, {
       organisationId: actor.organisationId,

@@ -1,12 +1,14 @@
 import type { Knex } from "knex";
 import {
   DEFAULT_SETTINGS,
+  SESSION_IDLE_DEFAULTS,
   RULE_PACKS,
   RULE_PACK_LABELS,
   resolveSettings,
   type AuditSettings,
   type OrganisationSettingsInput,
   type RulePack,
+  type SessionIdleSettings,
 } from "@coldtrail/core";
 import { appendActivity } from "../activity";
 import { RecordNotFoundError } from "../errors";
@@ -20,6 +22,8 @@ export interface OrganisationSettings {
   settings: AuditSettings;
   /** Only what the company chose (missing keys follow the defaults). */
   chosen: Partial<AuditSettings>;
+  /** Idle timeouts of sign-in sessions, in minutes (core security/sessions.ts). */
+  sessionIdle: SessionIdleSettings;
 }
 
 const KEYS = Object.keys(DEFAULT_SETTINGS) as (keyof AuditSettings)[];
@@ -55,7 +59,9 @@ export function parseRulePacks(json: unknown): RulePack[] {
 
 /** The organisation's name, rule packs and audit settings (defaults from the rules core filled in). */
 export async function getOrganisationSettings(db: Knex | Knex.Transaction, organisationId: number): Promise<OrganisationSettings> {
-  const row = await db("organisations").where({ id: organisationId }).first("id", "name", "rule_packs", "settings");
+  const row = await db("organisations")
+    .where({ id: organisationId })
+    .first("id", "name", "rule_packs", "settings", "session_idle_minutes_officers", "session_idle_minutes_others");
   if (!row) throw new RecordNotFoundError("No such organisation");
   const chosen = parseStoredSettings(row.settings);
   return {
@@ -64,6 +70,10 @@ export async function getOrganisationSettings(db: Knex | Knex.Transaction, organ
     rulePacks: parseRulePacks(row.rule_packs),
     settings: resolveSettings(chosen),
     chosen,
+    sessionIdle: {
+      officers: Number(row.session_idle_minutes_officers ?? SESSION_IDLE_DEFAULTS.officers),
+      others: Number(row.session_idle_minutes_others ?? SESSION_IDLE_DEFAULTS.others),
+    },
   };
 }
 
@@ -74,6 +84,8 @@ const WORDS: Record<keyof AuditSettings, string> = {
   requalificationYears: "cylinder requalification period (years)",
   strictFill130F: "stricter cylinder fill at 130 °F",
   leakRateMethod: "leak-rate method",
+  disposalRecordGraceDays: "days a disposal record may follow the disposal",
+  cardVerificationGraceDays: "days a new card may wait for verification",
 };
 
 const show = (v: unknown) => (typeof v === "boolean" ? (v ? "on" : "off") : String(v));
@@ -97,6 +109,8 @@ export async function updateOrganisationSettings(
       requalificationYears: input.requalificationYears,
       strictFill130F: input.strictFill130F,
       leakRateMethod: input.leakRateMethod,
+      disposalRecordGraceDays: input.disposalRecordGraceDays,
+      cardVerificationGraceDays: input.cardVerificationGraceDays,
     };
     const rulePacks = RULE_PACKS.filter((p) => input.rulePacks.includes(p));
 
@@ -110,12 +124,26 @@ export async function updateOrganisationSettings(
     for (const key of KEYS) {
       if (before.settings[key] !== next[key]) changes.push(`${WORDS[key]} from ${show(before.settings[key])} to ${show(next[key])}`);
     }
+    const sessionIdle: SessionIdleSettings = {
+      officers: input.sessionIdleMinutesOfficers ?? before.sessionIdle.officers,
+      others: input.sessionIdleMinutesOthers ?? before.sessionIdle.others,
+    };
+    if (sessionIdle.officers !== before.sessionIdle.officers)
+      changes.push(`idle sign-out for owners and officers from ${before.sessionIdle.officers} to ${sessionIdle.officers} minutes`);
+    if (sessionIdle.others !== before.sessionIdle.others)
+      changes.push(`idle sign-out for everyone else from ${before.sessionIdle.others} to ${sessionIdle.others} minutes`);
     const storedSame = KEYS.every((k) => before.chosen[k] === next[k]);
     if (changes.length === 0 && storedSame) return;
 
     await trx("organisations")
       .where({ id: actor.organisationId })
-      .update({ name: input.name, rule_packs: JSON.stringify(rulePacks), settings: JSON.stringify(next) });
+      .update({
+        name: input.name,
+        rule_packs: JSON.stringify(rulePacks),
+        settings: JSON.stringify(next),
+        session_idle_minutes_officers: sessionIdle.officers,
+        session_idle_minutes_others: sessionIdle.others,
+      });
     await appendActivity(trx, {
       organisationId: actor.organisationId,
       actorId: actor.userId,
@@ -126,8 +154,8 @@ export async function updateOrganisationSettings(
         ? `Changed the settings: ${changes.join("; ")}`
         : "Saved the settings as they were (defaults now kept as chosen)",
       data: {
-        before: { name: before.name, rulePacks: before.rulePacks, settings: before.chosen },
-        after: { name: input.name, rulePacks, settings: next },
+        before: { name: before.name, rulePacks: before.rulePacks, settings: before.chosen, sessionIdle: before.sessionIdle },
+        after: { name: input.name, rulePacks, settings: next, sessionIdle },
       },
       at,
     });

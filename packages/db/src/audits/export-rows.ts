@@ -20,9 +20,9 @@ import { loadBranchRecords } from "./load-branch-records";
 
 const BATCH = 1000;
 
-const scoped = (qb: Knex.QueryBuilder, scope: ScopeFn) =>
+const scoped = (qb: Knex.QueryBuilder, scope: ScopeFn, columns?: Partial<Record<string, string>>) =>
   qb.where(function inScope(this: Knex.QueryBuilder) {
-    scope(this);
+    scope(this, columns);
   });
 
 export interface FindingExportRow {
@@ -336,6 +336,8 @@ export async function* leakRateExportRows(
 
 export interface CylinderExportRow {
   id: number;
+  /** The calendar date the contents and fill are as of (the end of the audit period). */
+  asOf: string;
   branchName: string;
   serial: string;
   specification: string | null;
@@ -350,10 +352,18 @@ export interface CylinderExportRow {
   status: string;
 }
 
-/** Registered cylinders of the branches, within the scope (table `cylinders`). */
+/** Which way a movement changes its cylinder's contents (adjustments are not written by any flow). */
+const CONTENTS_SIGN: Record<string, number> = { recovered_into_cylinder: 1, charged_from_cylinder: -1, shipped_for_reclaim: -1 };
+
+/**
+ * Registered cylinders of the branches, within the scope (table `cylinders`), with their contents as
+ * of `asOf` (the end of the audit period): what the register holds now, less every movement recorded
+ * after that date. The refrigerant is the one the cylinder held then (its last movement on or before
+ * the date, else the register's).
+ */
 export async function* cylinderExportRows(
   db: Knex,
-  opts: { organisationId: number; branchIds: number[]; scope: ScopeFn; settings: AuditSettings },
+  opts: { organisationId: number; branchIds: number[]; scope: ScopeFn; settings: AuditSettings; asOf: string },
 ): AsyncGenerator<CylinderExportRow> {
   let after = 0;
   for (;;) {
@@ -370,14 +380,32 @@ export async function* cylinderExportRows(
       .limit(BATCH)
       .select("cylinders.*", "branch.name as branch_name");
     if (rows.length === 0) return;
+    const ids = rows.map((c: { id: number }) => Number(c.id));
+    const later = new Map<number, number>();
+    for (const m of await db("refrigerant_movements")
+      .whereIn("cylinder_id", ids)
+      .whereNull("voided_at")
+      .where("moved_on", ">", opts.asOf)
+      .select("cylinder_id", "direction", "mass_g"))
+      later.set(Number(m.cylinder_id), (later.get(Number(m.cylinder_id)) ?? 0) + (CONTENTS_SIGN[m.direction] ?? 0) * Number(m.mass_g));
+    const refrigerantThen = new Map<number, string>();
+    for (const m of await db("refrigerant_movements")
+      .whereIn("cylinder_id", ids)
+      .whereNull("voided_at")
+      .where("moved_on", "<=", opts.asOf)
+      .orderBy([{ column: "moved_on" }, { column: "id" }])
+      .select("cylinder_id", "refrigerant"))
+      refrigerantThen.set(Number(m.cylinder_id), m.refrigerant);
     for (const c of rows) {
+      const contentsG = Math.max(0, Number(c.contents_g) - (later.get(Number(c.id)) ?? 0));
+      const refrigerant = contentsG > 0 ? (refrigerantThen.get(Number(c.id)) ?? c.refrigerant ?? null) : null;
       let maxNetG: number | null = null;
-      if (c.refrigerant) {
+      if (refrigerant) {
         try {
           maxNetG = maxCylinderFill({
             waterCapacityG: Number(c.water_capacity_g),
             tareG: Number(c.tare_g),
-            refrigerant: c.refrigerant,
+            refrigerant,
             strict130F: opts.settings.strictFill130F,
           }).maxNetG;
         } catch {
@@ -391,10 +419,11 @@ export async function* cylinderExportRows(
         specification: c.specification ?? null,
         waterCapacityG: Number(c.water_capacity_g),
         tareG: Number(c.tare_g),
-        refrigerant: c.refrigerant ?? null,
-        contentsG: Number(c.contents_g),
+        asOf: opts.asOf,
+        refrigerant,
+        contentsG,
         maxNetG,
-        fillPercent: maxNetG ? Math.round(fillPercent(Number(c.contents_g), maxNetG) * 10) / 10 : null,
+        fillPercent: maxNetG ? Math.round(fillPercent(contentsG, maxNetG) * 10) / 10 : null,
         lastRequalifiedOn: c.last_requalified_on ?? null,
         requalificationDueOn: c.last_requalified_on
           ? requalificationDueOn(c.last_requalified_on, opts.settings.requalificationYears)
@@ -508,6 +537,7 @@ export async function* disposalExportRows(
         .whereNull("d.voided_at")
         .whereBetween(`d.${dateColumn}`, [opts.from, opts.to]),
       opts.scope,
+      { recordedOn: `d.${dateColumn}` },
     ).orderBy("d.id");
   for (const r of await base("disposal_records", "disposed_on").select(
     "d.*",

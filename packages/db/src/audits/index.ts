@@ -1,6 +1,7 @@
 export { loadBranchRecords, type LoadedBranch, type LoadedBranchRecords } from "./load-branch-records";
 export { getOrganisationAuditSettings, type OrganisationAuditSettings } from "./organisation-settings";
 export { auditBranchFindings, type BranchAuditSummary } from "./persist-findings";
+export { listFindingsOfRecord, type RecordFindingRow, type RecordFindingEffect } from "./record-findings";
 export { describeAuditFailure, failAuditWithReference, failureReference, type AuditFailure } from "./audit-failure";
 export { whereFindingShowsIn, findingBranchIds } from "./finding-branches";
 export {

@@ -214,6 +214,7 @@ export async function loadBranchRecords(
       "temporary_access_removed",
       "compressor_operating",
       "addition_exclusion",
+      "same_leak_as_job_id",
       "verification_stage",
       "verification_passed",
     );
@@ -256,6 +257,7 @@ export async function loadBranchRecords(
     temporaryAccessRemoved: toBoolOrNull(j.temporary_access_removed),
     compressorOperating: toBoolOrNull(j.compressor_operating),
     additionExclusion: j.addition_exclusion ? (EXCLUSIONS[j.addition_exclusion] ?? null) : null,
+    sameLeakAsJobId: toNumOrNull(j.same_leak_as_job_id),
     verification:
       j.kind === "verification_test" && j.verification_stage
         ? { stage: j.verification_stage === "follow_up" ? "follow_up" : "initial", passed: toBool(j.verification_passed) }
@@ -278,7 +280,7 @@ export async function loadBranchRecords(
       .whereIn("c.user_id", chunk)
       .whereNull("c.voided_at")
       .orderBy([{ column: "c.id" }, { column: "ct.type" }])
-      .select("c.id", "c.user_id", "c.state", "ct.type"),
+      .select("c.id", "c.user_id", "c.state", "c.uploaded_at", "ct.type"),
   );
   const technicians: Technician[] = userRows
     .map((u) => ({
@@ -286,7 +288,13 @@ export async function loadBranchRecords(
       name: u.name as string,
       certifications: certRows
         .filter((c) => Number(c.user_id) === Number(u.id))
-        .map((c) => ({ id: Number(c.id), type: c.type as CertificationType, state: c.state as CertificationState })),
+        .map((c) => ({
+          id: Number(c.id),
+          type: c.type as CertificationType,
+          state: c.state as CertificationState,
+          // The verification grace period runs from the day the card was added, in the branch's zone.
+          addedOn: c.uploaded_at ? toLocalDate(String(c.uploaded_at), branch.timeZone) : null,
+        })),
     }))
     .sort((x, y) => x.id - y.id);
 

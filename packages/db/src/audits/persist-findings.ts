@@ -86,8 +86,11 @@ export async function auditBranchFindings(
     now: Date;
     /** Person whose write triggered a continuous re-evaluation (activity only). */
     triggeredBy?: number | null;
+    /** The writes a continuous re-evaluation answers (activity ids after `afterActivityId` up to `toActivityId`). */
+    cause?: { afterActivityId: number; toActivityId: number } | null;
   },
 ): Promise<BranchAuditSummary> {
+  const cause = opts.cause ? { cause_after_activity_id: opts.cause.afterActivityId, cause_to_activity_id: opts.cause.toActivityId } : {};
   const loaded = await loadBranchRecords(db, {
     organisationId: opts.organisationId,
     branchId: opts.branchId,
@@ -223,6 +226,7 @@ export async function auditBranchFindings(
           to_state: "open",
           note: opts.auditId ? `Found by audit #${opts.auditId}` : "Found when the branch's records were re-checked after a change",
           data: JSON.stringify({ auditId: opts.auditId, dueOn: c.dueOn }),
+          ...cause,
         })),
       );
       for (const c of batch) linked.push({ findingId: idOf.get(c.finding.identityKey)!, severity: c.finding.severity });
@@ -269,6 +273,7 @@ export async function auditBranchFindings(
             ? `Found again by audit #${opts.auditId}`
             : "Found again when the branch's records were re-checked after a change",
           data: JSON.stringify({ auditId: opts.auditId }),
+          ...cause,
         });
       }
       await trx("findings").where({ id: u.id }).update(update);
@@ -309,6 +314,7 @@ export async function auditBranchFindings(
           amendments: behind.amendments,
           at,
           auditId: opts.auditId,
+          cause,
         });
         continue;
       }
@@ -322,6 +328,7 @@ export async function auditBranchFindings(
         note: opts.auditId
           ? `Audit #${opts.auditId} no longer finds this gap in the records`
           : "The records no longer show this gap after a change",
+        cause,
       });
     }
 
@@ -347,6 +354,7 @@ export async function auditBranchFindings(
         at,
         auditId: opts.auditId,
         note: "No branch the person works in is audited against this rule any more",
+        cause,
       });
     }
 
@@ -426,9 +434,20 @@ export async function auditBranchFindings(
   });
 }
 
+type EventCause = { cause_after_activity_id?: number; cause_to_activity_id?: number };
+
 async function resolveFinding(
   trx: Knex.Transaction,
-  opts: { organisationId: number; findingId: number; from: FindingState; at: string; auditId: number | null; note: string },
+  opts: {
+    organisationId: number;
+    findingId: number;
+    from: FindingState;
+    at: string;
+    auditId: number | null;
+    note: string;
+    /** The writes a continuous re-check answered (finding_events.cause_*). */
+    cause: EventCause;
+  },
 ): Promise<void> {
   const { at } = opts;
   await trx("findings")
@@ -444,6 +463,7 @@ async function resolveFinding(
     to_state: "no_longer_found",
     note: opts.note,
     data: JSON.stringify({ auditId: opts.auditId }),
+    ...opts.cause,
   });
 }
 
@@ -454,7 +474,15 @@ async function resolveFinding(
  */
 async function proposeFixFromAmendments(
   trx: Knex.Transaction,
-  opts: { organisationId: number; findingId: number; from: FindingState; amendments: GapAmendment[]; at: string; auditId: number | null },
+  opts: {
+    organisationId: number;
+    findingId: number;
+    from: FindingState;
+    amendments: GapAmendment[];
+    at: string;
+    auditId: number | null;
+    cause: EventCause;
+  },
 ): Promise<void> {
   const { at } = opts;
   const latest = opts.amendments[opts.amendments.length - 1]!;
@@ -486,5 +514,6 @@ async function proposeFixFromAmendments(
         fields: a.fields,
       })),
     }),
+    ...opts.cause,
   });
 }

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import { toLocalDate } from "@coldtrail/core";
+import { latestActivityId } from "../activity";
 import { latestDoneAuditForBranch } from "./audit-runs";
 import { getOrganisationAuditSettings } from "./organisation-settings";
 import { auditBranchFindings, type BranchAuditSummary } from "./persist-findings";
@@ -12,7 +13,14 @@ import { auditBranchFindings, type BranchAuditSummary } from "./persist-findings
  */
 export async function reevaluateBranch(
   db: Knex,
-  opts: { organisationId: number; branchId: number; now?: Date; triggeredBy?: number | null },
+  opts: {
+    organisationId: number;
+    branchId: number;
+    now?: Date;
+    triggeredBy?: number | null;
+    /** The writes being answered: activity ids after this one, up to the newest when the re-check starts. */
+    afterActivityId?: number | null;
+  },
 ): Promise<BranchAuditSummary | null> {
   const now = opts.now ?? new Date();
   const audit = await latestDoneAuditForBranch(db, { organisationId: opts.organisationId, branchId: opts.branchId });
@@ -21,6 +29,10 @@ export async function reevaluateBranch(
   if (!branch) return null;
   const today = toLocalDate(now, branch.time_zone);
   const { settings, packs: chosenPacks } = await getOrganisationAuditSettings(db, opts.organisationId);
+  const cause =
+    opts.afterActivityId === undefined || opts.afterActivityId === null
+      ? null
+      : { afterActivityId: opts.afterActivityId, toActivityId: await latestActivityId(db) };
   return auditBranchFindings(db, {
     organisationId: opts.organisationId,
     branchId: opts.branchId,
@@ -31,5 +43,6 @@ export async function reevaluateBranch(
     auditId: null,
     now,
     triggeredBy: opts.triggeredBy ?? null,
+    cause,
   });
 }

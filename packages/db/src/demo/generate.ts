@@ -1213,6 +1213,27 @@ class Generator {
     });
     this.recovery(res925, "2025-12-09", 2850, { tech: tech("tech-COL-2"), equipment: eqUnregistered, notes: "Compressor replaced" });
     this.charge(res925, "2025-12-10", 3000, { tech: tech("tech-COL-2") });
+
+    // Not a gap: a CO2 booster rack repaired by the Type I-only technician. Carbon dioxide is an exempt
+    // substitute in any application (40 CFR 82.154(a)(1)), so no section 608 finding is raised.
+    const co2Rack = add("COL", {
+      tag: "COL-RACK-930",
+      category: "commercial_refrigeration",
+      refrigerant: "R-744",
+      chargeG: 180_000,
+      description: "Transcritical CO2 booster rack, supermarket",
+      siteKind: "grocery",
+      method: "manufacturer_data",
+      installedOn: "2023-05-15",
+    });
+    this.draft({
+      date: "2026-08-11",
+      kind: "leak_repair",
+      appliance: co2Rack,
+      tech: tech("tech-COL-4"),
+      leakLocation: "Gas cooler outlet flare",
+      repairDescription: "Replaced the flare gasket and tightened to torque; high-pressure CO2: area ventilated before opening",
+    });
   }
 
   // -------------------------------------------------------------------------------- timeline

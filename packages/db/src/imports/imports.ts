@@ -11,6 +11,7 @@ import {
   type ImportState,
   type MassDisplayUnit,
 } from "@coldtrail/core";
+import { recordsBeginOn } from "../records/common";
 import { appendActivity, rowId } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import type { ActorRef, ScopeFn } from "../types";
@@ -497,6 +498,7 @@ async function loadPassContext(db: Knex | Knex.Transaction, importId: number): P
       massUnit: r.mass_unit,
       timeZone: r.time_zone,
       today: toLocalDate(new Date(), r.time_zone),
+      recordsBeginOn: await recordsBeginOn(db, Number(r.organisation_id)),
     },
     mapping,
     headings: parseJson<string[]>(r.headings, []),

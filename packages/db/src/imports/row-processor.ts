@@ -31,6 +31,8 @@ export interface ImportBranch {
   timeZone: string;
   /** Today in the branch's time zone. */
   today: string;
+  /** When the company's records begin: earlier dates of work are refused. */
+  recordsBeginOn?: string;
 }
 
 export interface RowOutcome {
@@ -62,7 +64,11 @@ type Q = Knex | Knex.Transaction;
 const lower = (s: string) => s.trim().toLowerCase();
 
 function parseContext(env: ProcessorEnv) {
-  return { today: env.branch.today, defaultMassUnit: env.branch.massUnit === "kg" ? ("kg" as const) : ("lb" as const) };
+  return {
+    today: env.branch.today,
+    recordsBeginOn: env.branch.recordsBeginOn,
+    defaultMassUnit: env.branch.massUnit === "kg" ? ("kg" as const) : ("lb" as const),
+  };
 }
 
 /** Rows keyed by lower-case value; `column` must be a plain column of `table`. */

@@ -12,7 +12,7 @@ import { amendRecord, voidRecord } from "../amendments";
 import { appendActivity } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
-import { moveCylinderContents } from "../records/common";
+import { assertRecordDate, moveCylinderContents } from "../records/common";
 import { storedLike, type ActorRef } from "../types";
 import { jobCylinder, jobEquipment } from "./write-job";
 
@@ -72,6 +72,8 @@ export const JOB_FIELD_WORDS: Record<string, string> = {
   performed_on: "date of the work",
   recovered_g: "amount recovered",
   charged_g: "amount added",
+  amount_entered: "amount as entered",
+  amount_unit: "unit entered",
   cylinder_id: "cylinder",
   equipment_id: "recovery equipment",
   evacuation_value: "evacuation level",
@@ -94,7 +96,7 @@ async function loadJob(trx: Knex.Transaction, organisationId: number, id: number
     .join("appliances as a", "a.id", "j.appliance_id")
     .join("branches as b", "b.id", "j.branch_id")
     .where({ "j.id": id, "j.organisation_id": organisationId })
-    .first("j.*", "a.tag as appliance_tag", "b.mass_unit as mass_unit");
+    .first("j.*", "a.tag as appliance_tag", "b.mass_unit as mass_unit", "b.time_zone as time_zone");
   if (!job) throw new RecordNotFoundError("No such job");
   if (job.voided_at) throw new RecordConflictError("A voided job cannot be corrected", "reason");
   return job;
@@ -133,6 +135,16 @@ export async function amendJob(db: Knex, opts: { actor: ActorRef; id: number; in
       if (value !== undefined) changes[column] = typeof value === "string" ? value.trim() : value;
     }
     if (changes.notes === "") changes.notes = null;
+    if (c.performedOn !== undefined) {
+      await assertRecordDate(trx, {
+        organisationId: actor.organisationId,
+        timeZone: String(job.time_zone),
+        date: c.performedOn,
+        field: "changes.performedOn",
+        what: "The date of the work",
+        now: opts.now,
+      });
+    }
 
     // Evacuation: the reading and its unit are judged together.
     const evacValue = c.evacuationValue ?? (job.evacuation_value === null ? undefined : Number(job.evacuation_value));
@@ -155,6 +167,9 @@ export async function amendJob(db: Knex, opts: { actor: ActorRef; id: number; in
       const grams = toGrams(c.amount, c.amountUnit);
       if (kind === "charge" && grams <= 0) throw new InvalidInputError("The amount added must be more than zero", "changes.amount");
       changes[amountColumn] = grams;
+      // Kept as typed, so the record re-opens with the figure and unit the person entered.
+      changes.amount_entered = c.amount;
+      changes.amount_unit = c.amountUnit;
     }
     const movements: Movement[] = await trx("refrigerant_movements").where({ job_id: job.id }).whereNull("voided_at").orderBy("id");
     if (c.cylinderId !== undefined) {
@@ -177,6 +192,7 @@ export async function amendJob(db: Knex, opts: { actor: ActorRef; id: number; in
       await jobEquipment(trx, actor.organisationId, Number(job.branch_id), c.equipmentId, "changes.equipmentId");
 
     const words = Object.keys(changes)
+      .filter((k) => k !== "amount_entered" && k !== "amount_unit")
       .filter((k) => String(storedLike(job[k], changes[k]) ?? "") !== String(changes[k] ?? ""))
       .map((k) => JOB_FIELD_WORDS[k] ?? k);
     const amendmentId = await amendRecord(trx, {
@@ -222,6 +238,7 @@ export async function amendJob(db: Knex, opts: { actor: ActorRef; id: number; in
         at,
         field: "changes.amount",
         describe: mass,
+        confirmedOverFill: input.confirmOverFill,
       });
     }
     for (const m of existing) {
@@ -252,6 +269,8 @@ export async function amendJob(db: Knex, opts: { actor: ActorRef; id: number; in
           at,
           field,
           describe: mass,
+          // Taking the old movement back restores contents that were already on record.
+          confirmedOverFill: true,
         });
         await moveCylinderContents(trx, {
           cylinderId: cylinderId as number,
@@ -260,6 +279,7 @@ export async function amendJob(db: Knex, opts: { actor: ActorRef; id: number; in
           at,
           field,
           describe: mass,
+          confirmedOverFill: input.confirmOverFill,
         });
       }
     }
@@ -304,6 +324,7 @@ export async function voidJob(db: Knex, opts: { actor: ActorRef; id: number; rea
           at,
           field: "reason",
           describe: mass,
+          confirmedOverFill: true,
         });
       }
     }

@@ -63,6 +63,7 @@ export async function checkJobDraftForActor(db: Knex, opts: { actor: ActorRef; d
       temporaryAccessRemoved: draft.temporaryAccessRemoved ?? null,
       compressorOperating: draft.compressorOperating ?? null,
       additionExclusion: toCoreExclusion(draft.additionExclusion),
+      sameLeakAsJobId: draft.sameLeakAsJobId ?? null,
     },
     {
       branch,

@@ -159,6 +159,7 @@ export async function ruleJobs(db: Db, where: (qb: Knex.QueryBuilder) => void): 
       temporaryAccessRemoved: toBoolOrNull(r.temporary_access_removed),
       compressorOperating: toBoolOrNull(r.compressor_operating),
       additionExclusion: toCoreExclusion(r.addition_exclusion),
+      sameLeakAsJobId: toNumOrNull(r.same_leak_as_job_id),
       verification: stage && passed !== null ? { stage, passed } : null,
     };
   });

@@ -3,7 +3,7 @@ import { normaliseDesignation, toGrams, type JobInput, type MassDisplayUnit } fr
 import { appendActivity, rowId } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
-import { moveCylinderContents, writableBranch, type WritableBranch } from "../records/common";
+import { assertRecordDate, moveCylinderContents, writableBranch, type WritableBranch } from "../records/common";
 import { toBool, type ActorRef } from "../types";
 
 /**
@@ -87,6 +87,29 @@ export async function jobEquipment(
   return { id: Number(e.id), serial: String(e.serial) };
 }
 
+/**
+ * The earlier charge a new addition is marked as the same leak as: a charge on the same appliance,
+ * not voided, made on or before the new one (82.152 sums additions made for the same leak).
+ */
+export async function sameLeakJob(
+  trx: Knex.Transaction,
+  organisationId: number,
+  applianceId: number,
+  jobId: number,
+  performedOn: string,
+  field = "sameLeakAsJobId",
+): Promise<number> {
+  const j = await trx("jobs")
+    .where({ id: jobId, organisation_id: organisationId })
+    .first("id", "appliance_id", "kind", "performed_on", "voided_at");
+  if (!j) throw new RecordNotFoundError("That earlier job does not exist", field);
+  if (Number(j.appliance_id) !== applianceId) throw new RecordConflictError("That earlier job is on another appliance", field);
+  if (j.kind !== "charge") throw new RecordConflictError("Choose an earlier charge job: only additions are summed for a leak", field);
+  if (j.voided_at) throw new RecordConflictError("That earlier job was voided", field);
+  if (j.performed_on > performedOn) throw new RecordConflictError("The job for the same leak must be on or before this one", field);
+  return Number(j.id);
+}
+
 const blankToNull = (v: string | null | undefined) => (v && v.trim().length ? v.trim() : null);
 
 export interface InsertedJob {
@@ -100,9 +123,17 @@ export interface InsertedJob {
  */
 export async function insertJob(
   trx: Knex.Transaction,
-  opts: { actor: ActorRef; branch: WritableBranch; input: JobInput; at: string; source?: "field" | "office" },
+  opts: { actor: ActorRef; branch: WritableBranch; input: JobInput; at: string; source?: "field" | "office"; now?: Date },
 ): Promise<InsertedJob> {
   const { actor, branch, input, at } = opts;
+  await assertRecordDate(trx, {
+    organisationId: actor.organisationId,
+    timeZone: branch.timeZone,
+    date: input.performedOn,
+    field: "performedOn",
+    what: "The date of the work",
+    now: opts.now ?? new Date(at),
+  });
   const appliance = await jobAppliance(trx, actor.organisationId, branch.id, input.applianceId);
   const mass = (g: number) => describeMass(g, branch.massUnit as MassDisplayUnit);
   const base = {
@@ -155,6 +186,8 @@ export async function insertJob(
           refrigerant: input.refrigerant,
           recovered_g: grams,
           charged_g: 0,
+          amount_entered: input.recoveredAmount,
+          amount_unit: input.recoveredUnit,
           equipment_id: equipment.id,
           cylinder_id: cylinder.id,
           access_method: input.accessMethod,
@@ -175,6 +208,7 @@ export async function insertJob(
           at,
           field: "recoveredAmount",
           describe: mass,
+          confirmedOverFill: input.confirmOverFill,
         });
       }
       let previousStatus: string | null = null;
@@ -222,12 +256,19 @@ export async function insertJob(
           );
         }
       }
+      const sameLeak =
+        input.sameLeakAsJobId !== undefined
+          ? await sameLeakJob(trx, actor.organisationId, appliance.id, input.sameLeakAsJobId, input.performedOn)
+          : null;
       const [row] = await trx("jobs")
         .insert({
           ...base,
+          same_leak_as_job_id: sameLeak,
           refrigerant: input.refrigerant,
           recovered_g: 0,
           charged_g: grams,
+          amount_entered: input.chargedAmount,
+          amount_unit: input.chargedUnit,
           cylinder_id: cylinder?.id ?? null,
           access_method: input.accessMethod ?? null,
           temporary_access_removed: input.temporaryAccessRemoved ?? null,
@@ -254,6 +295,7 @@ export async function insertJob(
         cylinderId: cylinder?.id ?? null,
         grams,
         additionExclusion: input.additionExclusion ?? null,
+        sameLeakAsJobId: sameLeak,
       });
       return { id: jobId, summary };
     }
@@ -326,7 +368,7 @@ export async function createJob(db: Knex, opts: { actor: ActorRef; branchId: num
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const branch = await writableBranch(trx, opts.actor.organisationId, opts.branchId);
-    const job = await insertJob(trx, { actor: opts.actor, branch, input: opts.input, at });
+    const job = await insertJob(trx, { actor: opts.actor, branch, input: opts.input, at, now: opts.now });
     return job.id;
   });
 }

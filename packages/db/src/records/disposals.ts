@@ -13,17 +13,19 @@ import {
 } from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
 import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from "../amendments";
-import { RecordConflictError, RecordNotFoundError } from "../errors";
+import { enteredAmount, type MassUnit } from "@coldtrail/core";
+import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { insertJob } from "../jobs/write-job";
 import { describeMass } from "../mass";
 import { orderByNullable, toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
-import { applyVoided, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
+import { applyVoided, assertRecordDate, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
 import { countRows, whereContains } from "../paging";
 
 /**
  * Disposal records (82.155(c), appliances of more than 5 and less than 50 lb) and signed statements
  * for small appliances (82.155(b)). Both are regulated records: corrected by amendment, voided with a
- * reason, never deleted. List scopes see the tables aliased `d` (`d.branch_id`, `d.organisation_id`).
+ * reason, never deleted. List scopes see the tables aliased `d` (`d.branch_id`, `d.organisation_id`),
+ * and the record's date as `recordedOn` (`d.disposed_on` for records, `d.recovered_on` for statements).
  */
 
 export interface DisposalListRow {
@@ -71,7 +73,7 @@ export async function listDisposals(db: Knex, opts: { scope: ScopeFn; query: Dis
   const table = isRecord ? "disposal_records" : "disposal_statements";
   const dateColumn = isRecord ? "d.disposed_on" : "d.recovered_on";
   const filtered = (qb: Knex.QueryBuilder) => {
-    scoped(qb, opts.scope);
+    scoped(qb, opts.scope, { recordedOn: dateColumn });
     applyVoided(qb, "d.voided_at", query.voided);
     if (query.branchId) qb.where("d.branch_id", query.branchId);
     if (query.from) qb.where(dateColumn, ">=", query.from);
@@ -167,6 +169,8 @@ export interface DisposalRecordDetail extends DisposalBase {
   recoveredByName: string | null;
   refrigerant: string | null;
   recoveredG: number | null;
+  /** The quantity as it was typed, while it still matches the grams. */
+  recoveredEntered: { amount: number; unit: MassUnit } | null;
   sentTo: string | null;
 }
 
@@ -224,7 +228,7 @@ function detailQuery(db: Knex, table: string, id: number, scope: ScopeFn) {
       "appliance.full_charge_g as appliance_full_charge_g",
       "creator.name as created_by_name",
     );
-  scoped(q, scope);
+  scoped(q, scope, { recordedOn: table === "disposal_records" ? "d.disposed_on" : "d.recovered_on" });
   return q.first();
 }
 
@@ -242,6 +246,8 @@ export async function getDisposalRecord(db: Knex, opts: { scope: ScopeFn; id: nu
     recoveredByName: r.recovered_by_name ?? null,
     refrigerant: r.refrigerant ?? null,
     recoveredG: toNumOrNull(r.recovered_g),
+    recoveredEntered:
+      r.recovered_g === null ? null : enteredAmount(Number(r.recovered_g), toNumOrNull(r.recovered_entered), r.recovered_unit),
     sentTo: r.sent_to ?? null,
   };
 }
@@ -269,7 +275,7 @@ export async function getStatementDocument(
   opts: { scope: ScopeFn; id: number },
 ): Promise<{ key: string; mime: string } | undefined> {
   const q = db("disposal_statements as d").where("d.id", opts.id).whereNotNull("d.document_file_key");
-  scoped(q, opts.scope);
+  scoped(q, opts.scope, { recordedOn: "d.recovered_on" });
   const r = await q.first("d.document_file_key", "d.document_mime");
   return r ? { key: r.document_file_key, mime: r.document_mime ?? "application/octet-stream" } : undefined;
 }
@@ -333,6 +339,11 @@ export async function createDisposalRecord(db: Knex, opts: { actor: ActorRef; in
   return db.transaction(async (trx) => {
     const appliance = await disposalAppliance(trx, actor.organisationId, input.applianceId);
     const branch = await writableBranch(trx, actor.organisationId, Number(appliance.branch_id));
+    for (const [field, date, what] of [
+      ["disposedOn", input.disposedOn, "The disposal date"],
+      ["recoveredOn", input.recoveredOn, "The date of recovery"],
+    ] as const)
+      await assertRecordDate(trx, { organisationId: actor.organisationId, timeZone: branch.timeZone, date, field, what, now: opts.now });
     requireDisposed(appliance);
     const existing = await trx("disposal_records").where({ appliance_id: appliance.id }).whereNull("voided_at").first("id");
     if (existing)
@@ -358,6 +369,8 @@ export async function createDisposalRecord(db: Knex, opts: { actor: ActorRef; in
         recovered_by_name: user?.name ?? null,
         refrigerant: input.refrigerant,
         recovered_g: grams,
+        recovered_entered: input.recoveredAmount,
+        recovered_unit: input.recoveredUnit,
         sent_to: textOrNull(input.sentTo),
         created_by: actor.userId,
         created_at: at,
@@ -390,6 +403,11 @@ export async function createDisposalStatement(
   return db.transaction(async (trx) => {
     const appliance = await disposalAppliance(trx, actor.organisationId, input.applianceId);
     const branch = await writableBranch(trx, actor.organisationId, Number(appliance.branch_id));
+    for (const [field, date, what] of [
+      ["recoveredOn", input.recoveredOn, "The date of recovery"],
+      ["signedOn", input.signedOn, "The date signed"],
+    ] as const)
+      await assertRecordDate(trx, { organisationId: actor.organisationId, timeZone: branch.timeZone, date, field, what, now: opts.now });
     requireDisposed(appliance);
     const existing = await trx("disposal_statements").where({ appliance_id: appliance.id }).whereNull("voided_at").first("id");
     if (existing)
@@ -464,12 +482,31 @@ export async function amendDisposalRecord(
   return db.transaction(async (trx) => {
     const row = await trx("disposal_records as d")
       .join("appliances as a", "a.id", "d.appliance_id")
+      .join("branches as b", "b.id", "d.branch_id")
       .where({ "d.id": opts.id, "d.organisation_id": actor.organisationId })
-      .first("a.tag");
+      .first("a.tag", "b.time_zone");
     if (!row) throw new RecordNotFoundError("No such disposal record");
+    for (const [field, what] of [
+      ["disposedOn", "The disposal date"],
+      ["recoveredOn", "The date of recovery"],
+    ] as const) {
+      const date = input.changes[field];
+      if (date !== undefined)
+        await assertRecordDate(trx, {
+          organisationId: actor.organisationId,
+          timeZone: String(row.time_zone),
+          date,
+          field: `changes.${field}`,
+          what,
+          now: opts.now,
+        });
+    }
     const changes = columns(input.changes, RECORD_COLUMNS);
-    if (input.changes.recoveredAmount !== undefined && input.changes.recoveredUnit)
+    if (input.changes.recoveredAmount !== undefined && input.changes.recoveredUnit) {
       changes.recovered_g = toGrams(input.changes.recoveredAmount, input.changes.recoveredUnit);
+      changes.recovered_entered = input.changes.recoveredAmount;
+      changes.recovered_unit = input.changes.recoveredUnit;
+    }
     return amendRecord(trx, {
       table: "disposal_records",
       subjectType: "DisposalRecord",
@@ -499,9 +536,25 @@ export async function amendDisposalStatement(
   return db.transaction(async (trx) => {
     const row = await trx("disposal_statements as d")
       .join("appliances as a", "a.id", "d.appliance_id")
+      .join("branches as b", "b.id", "d.branch_id")
       .where({ "d.id": opts.id, "d.organisation_id": actor.organisationId })
-      .first("a.tag", "d.recovered_on", "d.signed_on");
+      .first("a.tag", "d.recovered_on", "d.signed_on", "b.time_zone");
     if (!row) throw new RecordNotFoundError("No such signed statement");
+    for (const [field, what] of [
+      ["recoveredOn", "The date of recovery"],
+      ["signedOn", "The date signed"],
+    ] as const) {
+      const date = input.changes[field];
+      if (date !== undefined)
+        await assertRecordDate(trx, {
+          organisationId: actor.organisationId,
+          timeZone: String(row.time_zone),
+          date,
+          field: `changes.${field}`,
+          what,
+          now: opts.now,
+        });
+    }
     const changes = columns(input.changes, STATEMENT_COLUMNS);
     if (opts.document) {
       changes.document_file_key = opts.document.key;
@@ -753,12 +806,16 @@ export async function recordShopDisposals(
             compressorOperating: item.compressorOperating ?? null,
             notes: "Scrapped at the shop",
             disposalPath: "shop",
+            confirmOverFill: input.confirmOverFill,
           },
+          now: opts.now,
         });
       } catch (err) {
         // Name the row whose amount overflowed a cylinder, rather than the whole batch.
         if (err instanceof RecordConflictError && err.field === "recoveredAmount")
           throw new RecordConflictError(`${a.tag}: ${err.message}`, field("recoveredAmount"));
+        if (err instanceof InvalidInputError && err.field === "recoveredAmount")
+          throw new InvalidInputError(`${a.tag}: ${err.message}`, field("recoveredAmount"));
         throw err;
       }
       result.jobIds.push(job.id);

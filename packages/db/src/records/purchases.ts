@@ -5,7 +5,8 @@ import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from ".
 import { RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
 import { toNumOrNull, type ActorRef, type ScopeFn } from "../types";
-import { applyVoided, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
+import { enteredAmount, type MassUnit } from "@coldtrail/core";
+import { applyVoided, assertRecordDate, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
 import { countRows, whereContains } from "../paging";
 
 /** Refrigerant bought by a branch; each purchase has one `purchased` movement. List scopes see the table as `p`. */
@@ -30,6 +31,8 @@ export interface PurchaseRow {
 
 export interface PurchaseDetail extends PurchaseRow {
   amendments: AmendmentRecord[];
+  /** The quantity as it was typed, while it still matches the grams. */
+  enteredAmount: { amount: number; unit: MassUnit } | null;
 }
 
 const SORT: Record<PurchaseListQuery["sort"], string> = {
@@ -108,11 +111,12 @@ export async function listPurchases(db: Knex, opts: { scope: ScopeFn; query: Pur
 export async function getPurchase(db: Knex, opts: { scope: ScopeFn; id: number }): Promise<PurchaseDetail | undefined> {
   const q = joined(db).where("p.id", opts.id);
   scoped(q, opts.scope);
-  const r = await q.first(COLUMNS);
+  const r = await q.first([...COLUMNS, "p.amount_entered", "p.amount_unit"]);
   if (!r) return undefined;
   const row = toRow(r);
   return {
     ...row,
+    enteredAmount: enteredAmount(row.massG, r.amount_entered === null ? null : Number(r.amount_entered), r.amount_unit),
     amendments: await listAmendments(db, { organisationId: row.organisationId, subjectType: "Purchase", subjectId: row.id }),
   };
 }
@@ -130,6 +134,14 @@ export async function createPurchase(db: Knex, opts: { actor: ActorRef; input: P
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const branch = await writableBranch(trx, actor.organisationId, input.branchId);
+    await assertRecordDate(trx, {
+      organisationId: actor.organisationId,
+      timeZone: branch.timeZone,
+      date: input.purchasedOn,
+      field: "purchasedOn",
+      what: "The purchase date",
+      now: opts.now,
+    });
     const grams = toGrams(input.amount, input.unit);
     const [row] = await trx("purchases")
       .insert({
@@ -139,6 +151,8 @@ export async function createPurchase(db: Knex, opts: { actor: ActorRef; input: P
         supplier_name: input.supplierName,
         refrigerant: input.refrigerant,
         mass_g: grams,
+        amount_entered: input.amount,
+        amount_unit: input.unit,
         container_count: input.containerCount ?? null,
         invoice_reference: textOrNull(input.invoiceReference),
         created_by: actor.userId,
@@ -184,9 +198,24 @@ export async function amendPurchase(
     if (!p) throw new RecordNotFoundError("No such purchase");
     const c = input.changes;
     const changes: Record<string, unknown> = {};
-    if (c.purchasedOn !== undefined) changes.purchased_on = c.purchasedOn;
+    if (c.purchasedOn !== undefined) {
+      const branch = await trx("branches").where({ id: p.branch_id }).first("time_zone");
+      await assertRecordDate(trx, {
+        organisationId: actor.organisationId,
+        timeZone: String(branch?.time_zone ?? "UTC"),
+        date: c.purchasedOn,
+        field: "changes.purchasedOn",
+        what: "The purchase date",
+        now: opts.now,
+      });
+      changes.purchased_on = c.purchasedOn;
+    }
     if (c.supplierName !== undefined) changes.supplier_name = c.supplierName;
-    if (c.amount !== undefined && c.unit !== undefined) changes.mass_g = toGrams(c.amount, c.unit);
+    if (c.amount !== undefined && c.unit !== undefined) {
+      changes.mass_g = toGrams(c.amount, c.unit);
+      changes.amount_entered = c.amount;
+      changes.amount_unit = c.unit;
+    }
     if (c.containerCount !== undefined) changes.container_count = c.containerCount;
     if (c.invoiceReference !== undefined) changes.invoice_reference = c.invoiceReference;
     const amendmentId = await amendRecord(trx, {

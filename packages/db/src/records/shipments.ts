@@ -5,7 +5,7 @@ import { amendRecord, listAmendments, voidRecord, type AmendmentRecord } from ".
 import { RecordConflictError, RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
 import { toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
-import { applyVoided, moveCylinderContents, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
+import { applyVoided, assertRecordDate, moveCylinderContents, scoped, textOrNull, writableBranch, type RecordPage } from "./common";
 import { countRows, whereContains } from "../paging";
 
 /**
@@ -172,6 +172,14 @@ export async function createShipment(db: Knex, opts: { actor: ActorRef; input: R
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const branch = await writableBranch(trx, actor.organisationId, input.branchId);
+    await assertRecordDate(trx, {
+      organisationId: actor.organisationId,
+      timeZone: branch.timeZone,
+      date: input.shippedOn,
+      field: "shippedOn",
+      what: "The shipping date",
+      now: opts.now,
+    });
     const cylinders = await trx("cylinders")
       .whereIn("id", input.cylinderIds)
       .where({ organisation_id: actor.organisationId })
@@ -259,7 +267,21 @@ export async function amendShipment(
     if (!s) throw new RecordNotFoundError("No such shipment");
     const c = input.changes;
     const changes: Record<string, unknown> = {};
-    if (c.shippedOn !== undefined) changes.shipped_on = c.shippedOn;
+    if (c.shippedOn !== undefined) {
+      const row = await trx("reclaim_shipments as s")
+        .join("branches as b", "b.id", "s.branch_id")
+        .where("s.id", opts.id)
+        .first("b.time_zone");
+      await assertRecordDate(trx, {
+        organisationId: actor.organisationId,
+        timeZone: String(row?.time_zone ?? "UTC"),
+        date: c.shippedOn,
+        field: "changes.shippedOn",
+        what: "The shipping date",
+        now: opts.now,
+      });
+      changes.shipped_on = c.shippedOn;
+    }
     if (c.reclaimerName !== undefined) changes.reclaimer_name = c.reclaimerName;
     if (c.reclaimerAddress !== undefined) changes.reclaimer_address = c.reclaimerAddress;
     if (c.reference !== undefined) changes.reference = c.reference;
@@ -323,6 +345,8 @@ export async function voidShipment(db: Knex, opts: { actor: ActorRef; id: number
           at,
           field: "reason",
           describe: (g) => describeMass(g, s.mass_unit),
+          // Putting back what the records held before: the contents were already on record once.
+          confirmedOverFill: true,
         });
       }
     }

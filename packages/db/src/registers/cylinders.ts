@@ -1,5 +1,8 @@
 import type { Knex } from "knex";
 import {
+  checkCylinderFill,
+  enteredAmount,
+  type MassUnit,
   REGISTER_LABELS,
   addDays,
   fahrenheitToCelsius,
@@ -22,6 +25,7 @@ import {
   type RegisterHistoryQuery,
 } from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
+import { assertRecordDate } from "../records/common";
 import { amendRecord, voidRecord } from "../amendments";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { toBool, toNumOrNull, type ActorRef, type ScopeFn } from "../types";
@@ -510,6 +514,8 @@ export interface CylinderWeighingRow {
   id: number;
   weighedOn: string;
   grossG: number;
+  /** The scale reading as it was typed, while it still matches the grams. */
+  grossEntered: { amount: number; unit: MassUnit } | null;
   netG: number;
   refrigerant: string | null;
   pressurePsig: number | null;
@@ -549,6 +555,7 @@ export async function listCylinderWeighings(
       id: Number(w.id),
       weighedOn: w.weighed_on,
       grossG: Number(w.gross_g),
+      grossEntered: enteredAmount(Number(w.gross_g), toNumOrNull(w.gross_entered), w.gross_unit),
       netG: Number(w.net_g),
       refrigerant: w.refrigerant ?? null,
       pressurePsig: toNumOrNull(w.pressure_psig),
@@ -569,7 +576,7 @@ export async function listCylinderWeighings(
 
 function weighingColumns(
   input: CylinderWeighingInput,
-  cylinder: { tare_g: number; refrigerant: string | null },
+  cylinder: { serial: string; tare_g: number; water_capacity_g: number; refrigerant: string | null },
   massUnit: MassDisplayUnit,
 ) {
   const grossG = toGrams(input.grossAmount, input.grossUnit);
@@ -583,6 +590,21 @@ function weighingColumns(
   const netG = grossG - tareG;
   const refrigerant = input.refrigerant ?? cylinder.refrigerant ?? null;
   if (netG > 0 && !refrigerant) throw new InvalidInputError("Say which refrigerant the cylinder holds", "refrigerant");
+  // A reading is what the cylinder holds, so above the safe fill is recorded as it is (the audit
+  // raises it); only a net weight no cylinder could hold is refused.
+  if (netG > 0 && refrigerant) {
+    const fill = checkCylinderFill({
+      contentsG: netG,
+      waterCapacityG: Number(cylinder.water_capacity_g),
+      tareG,
+      refrigerant,
+    });
+    if (fill.kind === "impossible")
+      throw new InvalidInputError(
+        `Cylinder ${cylinder.serial} cannot hold ${formatMass(netG, massUnit)} net: ${formatMass(fill.liquidFullG, massUnit)} of liquid fills it completely. Check the reading and its unit`,
+        "grossAmount",
+      );
+  }
   const temperatureC =
     input.temperatureValue === undefined
       ? null
@@ -592,6 +614,8 @@ function weighingColumns(
   return {
     weighed_on: input.weighedOn,
     gross_g: grossG,
+    gross_entered: input.grossAmount,
+    gross_unit: input.grossUnit,
     net_g: netG,
     refrigerant: netG > 0 ? refrigerant : (input.refrigerant ?? null),
     pressure_psig: input.pressurePsig ?? null,
@@ -622,6 +646,14 @@ export async function recordCylinderWeighing(
   const at = (opts.now ?? new Date()).toISOString();
   return db.transaction(async (trx) => {
     const { cylinder, branch } = await loadCylinderForWrite(trx, actor.organisationId, opts.cylinderId);
+    await assertRecordDate(trx, {
+      organisationId: actor.organisationId,
+      timeZone: branch.timeZone,
+      date: input.weighedOn,
+      field: "weighedOn",
+      what: "The date of the weighing",
+      now: opts.now,
+    });
     const cols = weighingColumns(input, cylinder, branch.massUnit);
     const [row] = await trx("cylinder_weighings")
       .insert({
@@ -668,6 +700,14 @@ export async function amendCylinderWeighing(
   return db.transaction(async (trx) => {
     const { cylinder, branch } = await loadCylinderForWrite(trx, actor.organisationId, opts.cylinderId);
     const weighing = await loadWeighing(trx, actor.organisationId, opts.cylinderId, opts.weighingId);
+    await assertRecordDate(trx, {
+      organisationId: actor.organisationId,
+      timeZone: branch.timeZone,
+      date: input.weighedOn,
+      field: "weighedOn",
+      what: "The date of the weighing",
+      now: opts.now,
+    });
     // Without a refrigerant in the correction, the weighing keeps the one it recorded.
     const cols = weighingColumns(input, { ...cylinder, refrigerant: weighing.refrigerant ?? cylinder.refrigerant }, branch.massUnit);
     return amendRecord(trx, {

@@ -23,6 +23,11 @@ export interface LeakChartEvent {
   /** Leak rate in % (null when everything added that day was excluded). */
   percent: number | null;
   daysSinceLastAddition: number | null;
+  /** What the interval runs from: the previous addition or the installation (null: none, 365 days used). */
+  intervalStartsFrom: "addition" | "installation" | null;
+  intervalStartOn: string | null;
+  /** First addition of the event (earlier than `on` when additions for one leak were summed). */
+  firstOn: string;
   /** The trigger rate in force that day, when a leak-repair rule covers the appliance then. */
   threshold: number | null;
   regime: LeakRegime | null;
@@ -100,6 +105,7 @@ export async function reviewApplianceLeaks(
       "charged_g",
       "recovered_g",
       "addition_exclusion",
+      "same_leak_as_job_id",
       "verification_stage",
       "verification_passed",
     );
@@ -139,6 +145,7 @@ export async function reviewApplianceLeaks(
       temporaryAccessRemoved: null,
       compressorOperating: null,
       additionExclusion: j.addition_exclusion ? (EXCLUSION[j.addition_exclusion] ?? null) : null,
+      sameLeakAsJobId: toNumOrNull(j.same_leak_as_job_id),
       verification: j.verification_stage ? { stage: j.verification_stage, passed: toBool(j.verification_passed) } : null,
     };
   });
@@ -172,7 +179,13 @@ export async function reviewApplianceLeaks(
     for (const job of jobs) {
       for (const m of job.movements)
         if (m.direction === "charged")
-          additions.push({ on: job.performedOn, amountG: m.amountG, excluded: job.additionExclusion, sourceId: job.id });
+          additions.push({
+            on: job.performedOn,
+            amountG: m.amountG,
+            excluded: job.additionExclusion,
+            sourceId: job.id,
+            sameLeakAsJobId: job.sameLeakAsJobId ?? null,
+          });
     }
   }
   const resets = jobs.filter((j) => j.verification?.stage === "follow_up" && j.verification.passed).map((j) => j.performedOn);
@@ -183,6 +196,7 @@ export async function reviewApplianceLeaks(
           additions,
           method: settings.leakRateMethod,
           followUpVerificationsPassedOn: resets,
+          installedOn: appliance.installedOn,
         })
       : [];
   const covered = new Map((analysis?.events ?? []).map((c) => [c.event.on, c]));
@@ -197,6 +211,9 @@ export async function reviewApplianceLeaks(
         excludedG: event.excludedG,
         percent: event.percent,
         daysSinceLastAddition: event.daysSinceLastAddition,
+        intervalStartsFrom: event.intervalStartsFrom,
+        intervalStartOn: event.intervalStartOn,
+        firstOn: event.firstOn,
         threshold: c?.threshold ?? null,
         regime: c?.regime ?? null,
         exceeds: c?.exceeds ?? false,

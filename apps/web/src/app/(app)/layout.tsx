@@ -61,12 +61,15 @@ export default async function AppLayout({ children }: { children: React.ReactNod
             <Logo tone="light" />
           </Link>
           <div className="ml-auto flex items-center gap-3 text-sm">
-            <span className="hidden text-right leading-tight md:block">
-              <span className="block font-medium" data-testid="signed-in-name">
-                {actor.name}
+            <Link href="/account" className="rounded text-right leading-tight hover:underline" title="Your account: password and sessions">
+              <span className="hidden md:block">
+                <span className="block font-medium" data-testid="signed-in-name">
+                  {actor.name}
+                </span>
+                <span className="block text-xs text-ink-300">{roles}</span>
               </span>
-              <span className="block text-xs text-ink-300">{roles}</span>
-            </span>
+              <span className="md:hidden">Account</span>
+            </Link>
             {ability.can("read", "Branch") && <NotificationsBell />}
             <SignOutButton />
           </div>

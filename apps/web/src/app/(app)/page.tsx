@@ -1,7 +1,6 @@
 import Link from "next/link";
 import { redirect } from "next/navigation";
-import { subject } from "@casl/ability";
-import { ROLE_LABELS, rolesOf } from "@coldtrail/core";
+import { canInBranchAnyDate, ROLE_LABELS, rolesOf } from "@coldtrail/core";
 import { listBranches } from "@coldtrail/db";
 import { currentActor } from "@/lib/auth/current-actor";
 import { db } from "@/lib/db";
@@ -19,7 +18,7 @@ export default async function OverviewPage() {
   // The organisation overview is for whoever may read the findings of a whole branch (officer, owner, manager, inspector).
   const branches = await listBranches(db(), { organisationId: actor.organisationId, includeArchived: true });
   const seesBranchFindings = branches.some((b) =>
-    ability.can("read", subject("Finding", { organisationId: actor.organisationId, branchId: b.id })),
+    canInBranchAnyDate(ability, "read", "Finding", { organisationId: actor.organisationId, branchId: b.id }),
   );
   const today = new Date().toISOString().slice(0, 10);
 

@@ -1,7 +1,9 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { redirect } from "next/navigation";
+import { safeNextPath } from "@coldtrail/core";
 import { currentActor } from "@/lib/auth/current-actor";
+import { env } from "@/lib/env";
 import { Logo } from "@/components/logo";
 import { SignInForm } from "./sign-in-form";
 
@@ -29,7 +31,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
         <div className="w-full max-w-sm">
           <h2 className="text-2xl font-semibold text-ink-950">Sign in</h2>
           <p className="mt-1 text-sm text-ink-600">Use the email address your company registered for you.</p>
-          <SignInForm next={next && next.startsWith("/") && !next.startsWith("//") ? next : "/"} />
+          <SignInForm next={safeNextPath(next, env.NEXTAUTH_URL)} />
           <p className="mt-4 text-sm">
             <Link href="/password/forgot" className="font-medium text-fjord-700 underline">
               Forgot your password?

@@ -19,7 +19,10 @@ export function SignInForm({ next }: { next: string }) {
     });
     setPending(false);
     if (!result || result.error) {
-      setError("That email and password do not match an active account.");
+      // A throttled sign-in says how long to wait; every other refusal gets the same words.
+      setError(
+        result?.error?.startsWith("Too many failed sign-ins.") ? result.error : "That email and password do not match an active account.",
+      );
       return;
     }
     window.location.assign(next);

@@ -3,3 +3,4 @@ export * from "./field";
 export * from "./form-alert";
 export * from "./radio-cards";
 export * from "./refrigerant-list";
+export * from "./over-fill-confirm";

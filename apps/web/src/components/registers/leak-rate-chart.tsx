@@ -40,6 +40,13 @@ const pct = (n: number | null) => (n === null ? "—" : `${n.toFixed(1)} %`);
  * force as a dashed, labelled line. Readable without colour: over-threshold points are triangles, the
  * threshold is dashed, and the same figures follow in a table.
  */
+/** The annualizing interval in words: days and what they run from. */
+function intervalWords(e: LeakChartEvent): string {
+  if (e.daysSinceLastAddition === null) return "first addition (365 days used)";
+  if (e.intervalStartsFrom === "installation") return `${e.daysSinceLastAddition} since installation on ${e.intervalStartOn}`;
+  return String(e.daysSinceLastAddition);
+}
+
 export function LeakRateChart({
   events,
   massUnit,
@@ -182,15 +189,18 @@ export function LeakRateChart({
               </thead>
               <tbody className="divide-y divide-ink-100">
                 {events.map((e) => (
-                  <tr key={e.on} data-testid="leak-event">
-                    <td className="px-2 py-1.5 tabular whitespace-nowrap">{e.on}</td>
+                  <tr key={`${e.on}-${e.jobIds.join("-")}`} data-testid="leak-event">
+                    <td className="px-2 py-1.5 tabular whitespace-nowrap">
+                      {e.on}
+                      {e.firstOn !== e.on && <span className="block text-xs text-ink-600">same leak since {e.firstOn}</span>}
+                    </td>
                     <td className="px-2 py-1.5 tabular whitespace-nowrap">
                       {formatMass(e.addedG, massUnit)}
                       {e.excludedG > 0 && (
                         <span className="block text-xs text-ink-600">+ {formatMass(e.excludedG, massUnit)} not counted</span>
                       )}
                     </td>
-                    <td className="px-2 py-1.5 tabular">{e.daysSinceLastAddition ?? "first"}</td>
+                    <td className="px-2 py-1.5 tabular">{intervalWords(e)}</td>
                     <td className="px-2 py-1.5 tabular">{pct(e.percent)}</td>
                     <td className="px-2 py-1.5 tabular">{e.threshold === null ? "not covered" : `${e.threshold} %`}</td>
                     <td className="px-2 py-1.5">

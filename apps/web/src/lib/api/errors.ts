@@ -7,10 +7,25 @@ export type FieldErrors = Record<string, string[]>;
 
 export interface ApiErrorBody {
   error: {
-    code: "unauthenticated" | "forbidden" | "invalid" | "not_found" | "conflict" | "internal";
+    code: "unauthenticated" | "forbidden" | "invalid" | "not_found" | "conflict" | "too_large" | "unavailable" | "internal";
     message: string;
     fieldErrors?: FieldErrors;
   };
+}
+
+/**
+ * A request refused before any handler ran or because a service it needs is down: body too large (413),
+ * not from the app's own pages (403), file storage unavailable (503). The message is shown as is.
+ */
+export class RequestRefused extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: ApiErrorBody["error"]["code"],
+    message: string,
+    readonly field?: string,
+  ) {
+    super(message);
+  }
 }
 
 export function errorResponse(status: number, body: ApiErrorBody["error"]): NextResponse<ApiErrorBody> {
@@ -31,6 +46,13 @@ export function fieldErrorsOf(error: z.ZodError): FieldErrors {
 export function toErrorResponse(err: unknown): NextResponse<ApiErrorBody> {
   if (err instanceof z.ZodError) {
     return errorResponse(400, { code: "invalid", message: "Some fields need attention", fieldErrors: fieldErrorsOf(err) });
+  }
+  if (err instanceof RequestRefused) {
+    return errorResponse(err.status, {
+      code: err.code,
+      message: err.message,
+      ...(err.field && { fieldErrors: { [err.field]: [err.message] } }),
+    });
   }
   if (err instanceof ForbiddenError) {
     return errorResponse(403, { code: "forbidden", message: "You do not have permission to do that" });

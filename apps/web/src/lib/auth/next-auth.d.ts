@@ -12,5 +12,7 @@ declare module "next-auth/jwt" {
     userId?: number;
     /** Fingerprint of the password hash the session was opened with (see currentCredentialStamp). */
     credentialStamp?: string | null;
+    /** The random id of the server-side session (see lib/auth/sessions.ts); revoking it ends the session. */
+    sid?: string;
   }
 }

@@ -1,8 +1,9 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
 import { GetObjectCommand, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
-import { fileTypeFromBuffer } from "file-type";
 import { env } from "../env";
+import { DomainError } from "@coldtrail/db";
+import { RequestRefused } from "../api/errors";
 
 /**
  * Object storage through the S3 SDK. In development and tests the endpoint is the local S3 fake
@@ -23,39 +24,51 @@ export function s3(): S3Client {
   return globalForS3.coldtrailS3;
 }
 
-/** What uploads of cards and evidence may be: checked by the bytes, never by the name or header. */
-export const IMAGE_AND_PDF_TYPES = ["image/jpeg", "image/png", "image/webp", "image/heic", "application/pdf"] as const;
-export const MAX_UPLOAD_BYTES = 10 * 1024 * 1024;
-
-export class UploadRejected extends Error {
-  constructor(message: string) {
-    super(message);
-  }
+/** Storage could not be reached or refused to keep the file: the request stops before any record is written. */
+export function storageUnavailable(): RequestRefused {
+  return new RequestRefused(503, "unavailable", "file storage is unavailable, nothing was saved");
 }
 
-/** Sniffs the real type of an upload and refuses anything but the allowed types or an oversized file. */
-export async function checkUpload(
-  bytes: Uint8Array,
-  allowed: readonly string[] = IMAGE_AND_PDF_TYPES,
-): Promise<{ mime: string; ext: string }> {
-  if (bytes.byteLength === 0) throw new UploadRejected("The file is empty");
-  if (bytes.byteLength > MAX_UPLOAD_BYTES) throw new UploadRejected(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`);
-  const type = await fileTypeFromBuffer(bytes);
-  if (!type || !allowed.includes(type.mime)) {
-    throw new UploadRejected("Only photos (JPEG, PNG, WebP, HEIC) and PDF documents can be uploaded");
-  }
-  return { mime: type.mime, ext: type.ext };
+/** A stored file that is not there: 404, with the status S3 gives it so callers can tell. */
+export function fileMissing(): DomainError {
+  return Object.assign(new DomainError("not_found", "The file is not in storage"), {
+    name: "NoSuchKey",
+    $metadata: { httpStatusCode: 404 },
+  });
 }
 
-/** Stores bytes under a key we make (never the client's file name) and returns the key. */
+function isMissing(err: unknown): boolean {
+  const e = err as { $metadata?: { httpStatusCode?: number }; name?: string } | null;
+  return e?.name === "NoSuchKey" || e?.$metadata?.httpStatusCode === 404;
+}
+
+/**
+ * Stores bytes under a key we make (never the client's file name) and returns the key. Callers store
+ * the file before writing its record, so when storage is down (503) nothing is saved.
+ */
 export async function putFile(opts: { prefix: string; bytes: Uint8Array; mime: string; ext: string }): Promise<string> {
-  const key = `${opts.prefix.replace(/[^a-z0-9/_-]/gi, "")}/${randomUUID()}.${opts.ext}`;
-  await s3().send(new PutObjectCommand({ Bucket: env.S3_BUCKET, Key: key, Body: opts.bytes, ContentType: opts.mime }));
+  const key = `${opts.prefix.replace(/[^a-z0-9/_-]/gi, "")}/${randomUUID()}.${opts.ext.replace(/[^a-z0-9]/gi, "")}`;
+  try {
+    await s3().send(new PutObjectCommand({ Bucket: env.S3_BUCKET, Key: key, Body: opts.bytes, ContentType: opts.mime }));
+  } catch (err) {
+    console.error("file storage:", err);
+    throw storageUnavailable();
+  }
   return key;
 }
 
+/**
+ * Reads a stored file. A missing object is "not found" (404, still recognisable by its 404 status for
+ * callers with their own words); storage that cannot be reached is 503.
+ */
 export async function getFile(key: string): Promise<{ bytes: Uint8Array; mime: string }> {
-  const res = await s3().send(new GetObjectCommand({ Bucket: env.S3_BUCKET, Key: key }));
-  const bytes = await res.Body!.transformToByteArray();
-  return { bytes, mime: res.ContentType ?? "application/octet-stream" };
+  try {
+    const res = await s3().send(new GetObjectCommand({ Bucket: env.S3_BUCKET, Key: key }));
+    const bytes = await res.Body!.transformToByteArray();
+    return { bytes, mime: res.ContentType ?? "application/octet-stream" };
+  } catch (err) {
+    if (isMissing(err)) throw fileMissing();
+    console.error("file storage:", err);
+    throw new RequestRefused(503, "unavailable", "file storage is unavailable; try again in a few minutes");
+  }
 }

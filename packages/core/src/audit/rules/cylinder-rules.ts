@@ -1,4 +1,4 @@
-import { requalificationDueOn } from "../../cylinders/cylinder-fill";
+import { exceedsMaxFill, requalificationDueOn } from "../../cylinders/cylinder-fill";
 import type { AuditRule, RuleHit } from "../finding";
 
 export const cylinderOverfilled: AuditRule = {
@@ -17,7 +17,7 @@ export const cylinderOverfilled: AuditRule = {
     for (const cylinder of records.cylinders) {
       for (const step of index.cylinderLedgers.get(cylinder.id) ?? []) {
         const max = step.maxFill;
-        if (!max || step.netAfterG <= max.maxNetG) continue;
+        if (!max || !exceedsMaxFill(step.netAfterG, max)) continue;
         const over = index.mass(step.netAfterG - max.maxNetG);
         const e = step.entry;
         if (e.kind === "in") {

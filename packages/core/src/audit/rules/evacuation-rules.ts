@@ -3,7 +3,7 @@ import { toGrams } from "../../units/mass";
 import { ACCESS_METHOD_LABELS, EVACUATION_UNIT_LABELS, TEMPORARY_ACCESS_METHODS } from "../../vocabulary";
 import type { AuditContext, AuditRule, RuleHit } from "../finding";
 import type { Appliance, Job } from "../records";
-import { applianceWords, jobWords, PRESSURE_WORDS, recoveredG, safePressureClass, small } from "./rule-helpers";
+import { applianceWords, jobWords, PRESSURE_WORDS, recoveredG, safePressureClass, small, under608 } from "./rule-helpers";
 
 const RECOVERY_KINDS: readonly Job["kind"][] = ["recovery", "disposal"];
 
@@ -11,7 +11,8 @@ function* recoveryJobs(index: AuditContext["index"]): Generator<{ job: Job; appl
   for (const job of index.jobs) {
     if (!RECOVERY_KINDS.includes(job.kind) || job.applianceId === null) continue;
     const appliance = index.appliances.get(job.applianceId);
-    if (appliance) yield { job, appliance };
+    // 82.154(a)(1): no evacuation level applies to an exempt substitute (CO2, ammonia in refrigeration).
+    if (appliance && under608(appliance)) yield { job, appliance };
   }
 }
 
@@ -105,7 +106,13 @@ export const smallApplianceRecoveryShort: AuditRule = {
         compressorOperating: job.compressorOperating,
       });
       const got = recoveredG(job);
-      const verdict = evacuationSatisfied(req, { reading: job.evacuation, recoveredG: got, fullChargeG: appliance.fullChargeG });
+      const terms = job.movements.filter((m) => m.direction === "recovered").length;
+      const verdict = evacuationSatisfied(req, {
+        reading: job.evacuation,
+        recoveredG: got,
+        fullChargeG: appliance.fullChargeG,
+        recoveredTerms: terms,
+      });
       if (verdict.satisfied) continue;
       const share = verdict.recoveredPercent === null ? "" : ` (${verdict.recoveredPercent.toFixed(0)} %)`;
       hits.push({
@@ -164,6 +171,8 @@ export const equipmentNotCertified: AuditRule = {
       if (job.equipmentId === null) continue;
       const equipment = index.equipment.get(job.equipmentId);
       if (!equipment || equipment.certification === "certified") continue;
+      const served = job.applianceId !== null ? index.appliances.get(job.applianceId) : undefined;
+      if (served && !under608(served)) continue; // 82.154(a)(1) exempt substitute
       const state = equipment.certification === "unknown" ? "has no recorded certification" : "is not certified";
       hits.push({
         recordType: "job",
@@ -194,13 +203,18 @@ export const systemDependentOnLargeAppliance: AuditRule = {
       if (job.equipmentId === null || job.applianceId === null) continue;
       const equipment = index.equipment.get(job.equipmentId);
       const appliance = index.appliances.get(job.applianceId);
-      if (!equipment || !appliance || equipment.kind !== "system_dependent") continue;
-      if (appliance.fullChargeG === null || appliance.fullChargeG <= SYSTEM_DEPENDENT_MAX_G) continue;
+      if (!equipment || !appliance || equipment.kind !== "system_dependent" || !under608(appliance)) continue;
+      if (appliance.fullChargeG !== null && appliance.fullChargeG <= SYSTEM_DEPENDENT_MAX_G) continue;
+      // An unknown charge cannot be shown to be 15 lb or less: the stricter side.
+      const holds =
+        appliance.fullChargeG === null
+          ? "whose full charge is not recorded, so it cannot be shown to hold 15 lb or less"
+          : `which holds ${index.mass(appliance.fullChargeG)}`;
       hits.push({
         recordType: "job",
         recordId: job.id,
         on: job.performedOn,
-        detail: `System-dependent equipment ${equipment.serial} was used on ${applianceWords(appliance)}, which holds ${index.mass(appliance.fullChargeG)}`,
+        detail: `System-dependent equipment ${equipment.serial} was used on ${applianceWords(appliance)}, ${holds}`,
       });
     }
     return hits;

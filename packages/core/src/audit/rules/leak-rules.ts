@@ -1,5 +1,5 @@
 import { chronicLeakTest, nextInspectionDueOn, periodicInspectionPlan } from "../../leak-rate/leak-deadlines";
-import { leakRepairRegime, type LeakRegime } from "../../leak-rate/leak-repair-regime";
+import { leakRateThreshold, leakRepairRegime, type LeakRegime } from "../../leak-rate/leak-repair-regime";
 import { addDays, addMonths, yearOf } from "../../dates/local-date";
 import type { AuditContext, AuditRule, RuleHit } from "../finding";
 import type { LeakEpisode } from "../leak-analysis";
@@ -240,6 +240,41 @@ export const periodicInspectionOverdue: AuditRule = {
           break;
         }
         base = next.on;
+      }
+    }
+    return hits;
+  },
+};
+
+export const leakRateChargeUnknown: AuditRule = {
+  id: "CT-LEAK-06",
+  title: "Leak rate cannot be calculated: full charge not recorded",
+  severity: "major",
+  pack: "us_federal",
+  effectiveFrom: "1993-07-13",
+  effectiveUntil: null,
+  citation: "40 CFR 82.152 (full charge; leak rate); 40 CFR 82.157(c); 40 CFR 84.106",
+  explanation:
+    "The leak rate is calculated every time refrigerant is added, as a share of the appliance's full charge. Without a recorded full charge the rate cannot be shown to be under the threshold, so the repair, verification, chronic-leak and inspection duties cannot be checked; the appliance is treated as covered until the charge is recorded.",
+  fix: "Determine the full charge (nameplate, manufacturer data, calculation or measurement), record it and its method on the appliance; the leak rates are then calculated.",
+  check(records, { index }) {
+    const hits: RuleHit[] = [];
+    for (const appliance of records.appliances) {
+      const analysis = index.leaks(appliance);
+      if (!analysis?.chargeUnknown) continue;
+      const byDate = new Map<string, number>();
+      for (const a of analysis.additions) if (!a.excluded) byDate.set(a.on, (byDate.get(a.on) ?? 0) + a.amountG);
+      for (const [on, addedG] of [...byDate].sort((x, y) => (x[0] < y[0] ? -1 : 1))) {
+        const r = leakRepairRegime({ refrigerant: appliance.refrigerant, fullChargeG: null, category: appliance.category, on });
+        if (!r.regime) continue;
+        hits.push({
+          recordType: "appliance",
+          recordId: appliance.id,
+          qualifier: on,
+          on,
+          citation: CITATION[r.regime],
+          detail: `${applianceWords(appliance)}: ${index.mass(addedG)} added on ${on}, but no full charge is recorded, so the leak rate cannot be calculated and a rate over the ${leakRateThreshold(analysis.useClass, on)} % threshold cannot be ruled out`,
+        });
       }
     }
     return hits;

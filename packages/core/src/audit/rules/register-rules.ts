@@ -1,4 +1,5 @@
 import { leakRepairRegime } from "../../leak-rate/leak-repair-regime";
+import { getRefrigerant } from "../../refrigerants/catalogue";
 import { serviceRecordCompleteness } from "../../record-completeness";
 import { branchMassBalance } from "../branch-mass-balance";
 import type { AuditRule, RuleHit } from "../finding";
@@ -20,6 +21,8 @@ export const massBalanceUnaccounted: AuditRule = {
     const hits: RuleHit[] = [];
     for (const row of branchMassBalance(records, period, settings)) {
       if (row.withinTolerance) continue;
+      // Venting a substitute exempt in every use (carbon dioxide) is not prohibited (82.154(a)(1)).
+      if (getRefrigerant(row.refrigerant)?.section608Exemption?.endUses === "any") continue;
       const sign = row.unaccountedG > 0 ? "missing" : "more used or shipped than came in";
       const stock = row.stockCounted
         ? `, stock change ${index.mass(row.stockChangeG)}`

@@ -2,6 +2,7 @@ import { classifyPressure } from "../../classification/classify-pressure";
 import { isSmallAppliance } from "../../classification/appliance-classification";
 import { getRefrigerant } from "../../refrigerants/catalogue";
 import { normaliseDesignation } from "../../refrigerants/normalise-designation";
+import { section608Covered } from "../../refrigerants/section-608-scope";
 import { JOB_KIND_LABELS, type PressureClass } from "../../vocabulary";
 import type { Appliance, Job } from "../records";
 
@@ -39,4 +40,13 @@ export function small(a: Appliance): boolean {
 
 export function recoveredG(job: Job): number {
   return job.movements.filter((m) => m.direction === "recovered").reduce((s, m) => s + m.amountG, 0);
+}
+
+/**
+ * Section 608 practices apply to the appliance's refrigerant in its end use: not to substitutes
+ * exempt under 40 CFR 82.154(a)(1), such as carbon dioxide anywhere or ammonia in commercial and
+ * industrial process refrigeration.
+ */
+export function under608(a: Appliance): boolean {
+  return section608Covered(a);
 }

@@ -1,8 +1,9 @@
 import { NextResponse } from "next/server";
-import { importListQuery, importUploadInput, suggestImportMapping } from "@coldtrail/core";
+import { IMPORT_MAX_BYTES, importListQuery, importUploadInput, suggestImportMapping } from "@coldtrail/core";
 import { DomainError, createImport, listImports, scopeByAbility } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
 import { putFile } from "@/lib/server/storage";
+import { UploadRejected, checkUploadPart, readUploadForm, refuseUpload } from "@/lib/server/uploads";
 import { assertMayImport } from "./_lib/import-access";
 import { SpreadsheetRejected, identifySpreadsheet, readHeadings } from "./_lib/read-spreadsheet";
 
@@ -11,55 +12,61 @@ export const GET = route({ can: ["read", "Import"], query: importListQuery }, as
   return listImports(db, { scope: scopeByAbility(ability, "read", "Import", "imports"), query });
 });
 
-/** A display name with nothing path-like in it (never used as a storage key). */
-function displayName(name: string): string {
-  const base = name.split(/[\\/]/).pop() ?? "";
-  // eslint-disable-next-line no-control-regex
-  const clean = base.replace(/[\u0000-\u001f\u007f]/g, "").trim();
-  return (clean || "spreadsheet").slice(0, 200);
-}
+const XLSX_MIME = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet";
 
 /**
  * Upload a spreadsheet (multipart: `file`, `kind`, `branchId`). The file must be what its name says
  * (XLSX by its zip signature, CSV as text) and readable: its headings and first rows are read now,
  * and a broken file is refused before anything is stored. Returns the import, waiting for its mapping.
  */
-export const POST = route({ can: ["create", "Import"] }, async ({ req, actor, ability, db }) => {
-  let form: FormData;
-  try {
-    form = await req.formData();
-  } catch {
-    throw new DomainError("invalid", "Send the spreadsheet as a file upload", "file");
-  }
-  const fields = importUploadInput.parse({ kind: form.get("kind") ?? undefined, branchId: form.get("branchId") ?? undefined });
-  assertMayImport(ability, actor, fields.kind, fields.branchId);
+export const POST = route(
+  { can: ["create", "Import"], accepts: "multipart", maxBody: IMPORT_MAX_BYTES + 256 * 1024 },
+  async ({ req, actor, ability, db }) => {
+    const form = await readUploadForm(req, "file");
+    const fields = importUploadInput.parse({ kind: form.get("kind") ?? undefined, branchId: form.get("branchId") ?? undefined });
+    assertMayImport(ability, actor, fields.kind, fields.branchId);
 
-  const part = form.get("file");
-  if (!(part instanceof File) || part.size === 0) throw new DomainError("invalid", "Choose the spreadsheet to import", "file");
-  let format: "xlsx" | "csv";
-  let bytes: Uint8Array;
-  let read: Awaited<ReturnType<typeof readHeadings>>;
-  try {
-    ({ format, bytes } = await identifySpreadsheet(part.name, new Uint8Array(await part.arrayBuffer())));
-    read = await readHeadings(format, bytes);
-  } catch (err) {
-    if (err instanceof SpreadsheetRejected) throw new DomainError("invalid", err.message, "file");
-    throw err;
-  }
-  const key = await putFile({
-    prefix: `imports/${actor.organisationId}`,
-    bytes,
-    mime: format === "xlsx" ? "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" : "text/csv",
-    ext: format,
-  });
-  const id = await createImport(db, {
-    actor: { userId: actor.userId, organisationId: actor.organisationId },
-    branchId: fields.branchId,
-    kind: fields.kind,
-    file: { key, format, label: displayName(part.name), size: bytes.byteLength },
-    headings: read.headings,
-    sample: read.sample,
-    mapping: suggestImportMapping(fields.kind, read.headings),
-  });
-  return NextResponse.json({ id }, { status: 201 });
-});
+    const checked = await checkUploadPart(form.get("file"), {
+      field: "file",
+      required: true,
+      missing: "Choose the spreadsheet to import",
+      maxBytes: IMPORT_MAX_BYTES,
+      fallbackName: "spreadsheet",
+      identify: async (name, raw) => {
+        try {
+          const { format, bytes } = await identifySpreadsheet(name, raw);
+          return { mime: format === "xlsx" ? XLSX_MIME : "text/csv", ext: format, bytes };
+        } catch (err) {
+          if (err instanceof SpreadsheetRejected) throw new UploadRejected(err.message);
+          throw err;
+        }
+      },
+    });
+    if (!checked.file) refuseUpload(checked.issues);
+    const { bytes, mime, displayName } = checked.file;
+    const format = checked.file.ext as "xlsx" | "csv";
+    let read: Awaited<ReturnType<typeof readHeadings>>;
+    try {
+      read = await readHeadings(format, bytes);
+    } catch (err) {
+      if (err instanceof SpreadsheetRejected) throw new DomainError("invalid", err.message, "file");
+      throw err;
+    }
+    const key = await putFile({
+      prefix: `imports/${actor.organisationId}`,
+      bytes,
+      mime,
+      ext: format,
+    });
+    const id = await createImport(db, {
+      actor: { userId: actor.userId, organisationId: actor.organisationId },
+      branchId: fields.branchId,
+      kind: fields.kind,
+      file: { key, format, label: displayName, size: bytes.byteLength },
+      headings: read.headings,
+      sample: read.sample,
+      mapping: suggestImportMapping(fields.kind, read.headings),
+    });
+    return NextResponse.json({ id }, { status: 201 });
+  },
+);

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { LINK_REFUSALS, describeInvitation } from "@coldtrail/db";
 import { db } from "@/lib/db";
+import { linkOpenRefusal } from "@/lib/server/throttle";
 import { LinkRefused, PublicShell } from "../_components/public-shell";
 import { NewPasswordForm } from "../_components/new-password-form";
 
@@ -11,6 +12,14 @@ const utc = (iso: string) => `${iso.slice(0, 16).replace("T", " ")} UTC`;
 
 export default async function InvitationPage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
+  const throttled = await linkOpenRefusal();
+  if (throttled) {
+    return (
+      <PublicShell title="This invitation link cannot be used">
+        <LinkRefused message={throttled} next={[{ href: "/sign-in", label: "Go to sign-in" }]} />
+      </PublicShell>
+    );
+  }
   const view = /^[A-Za-z0-9_-]{20,200}$/.test(token) ? await describeInvitation(db(), { token }) : { state: "unknown" as const };
 
   if (view.state !== "valid") {

@@ -3,6 +3,7 @@
 import { useId, useState } from "react";
 import { signIn } from "next-auth/react";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { PASSWORD_MIN_LENGTH, passwordProblem } from "@coldtrail/core";
 import { FieldError } from "@/components/form";
 
 const inputClass =
@@ -39,7 +40,7 @@ export function NewPasswordForm({
     const confirmPassword = String(data.get("confirmPassword") ?? "");
     const local: Record<string, string | undefined> = {};
     if (askName && name.trim().length < 2) local.name = "Enter your full name";
-    if (password.length < 10 || password.trim().length < 10) local.password = "Use at least 10 characters";
+    local.password = passwordProblem(password) ?? undefined;
     if (password !== confirmPassword) local.confirmPassword = "The two passwords are not the same";
     setErrors(local);
     if (Object.values(local).some(Boolean)) {
@@ -127,7 +128,7 @@ export function NewPasswordForm({
           aria-describedby={described("password", true)}
         />
         <p id={`${uid}-password-hint`} className="mt-1 text-sm text-ink-600">
-          At least 10 characters. A few unrelated words make a good one.
+          At least {PASSWORD_MIN_LENGTH} characters, and not one of the common passwords. A few unrelated words make a good one.
         </p>
         <FieldError id={`${uid}-password-error`} message={errors.password} />
       </div>

@@ -10,6 +10,8 @@ import {
   LEAK_RATE_METHODS,
   LEAK_RATE_METHOD_LABELS,
   REQUALIFICATION_YEARS,
+  SESSION_IDLE_DEFAULTS,
+  SESSION_IDLE_LIMITS,
   SETTING_EXPLANATIONS,
   organisationSettingsInput,
   type AuditSettings,
@@ -29,10 +31,18 @@ const DEFAULT_WORDS: Record<keyof AuditSettings, string> = {
   requalificationYears: `${DEFAULT_SETTINGS.requalificationYears} years`,
   strictFill130F: DEFAULT_SETTINGS.strictFill130F ? "on" : "off",
   leakRateMethod: LEAK_RATE_METHOD_LABELS[DEFAULT_SETTINGS.leakRateMethod],
+  disposalRecordGraceDays: `${DEFAULT_SETTINGS.disposalRecordGraceDays} days`,
+  cardVerificationGraceDays: `${DEFAULT_SETTINGS.cardVerificationGraceDays} days`,
 };
 
 function toForm(s: OrganisationSettings): FormIn {
-  return { name: s.name, rulePacks: s.rulePacks, ...s.settings };
+  return {
+    name: s.name,
+    rulePacks: s.rulePacks,
+    ...s.settings,
+    sessionIdleMinutesOfficers: s.sessionIdle.officers,
+    sessionIdleMinutesOthers: s.sessionIdle.others,
+  };
 }
 
 export function SettingsForm({ canEdit }: { canEdit: boolean }) {
@@ -80,7 +90,8 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
   );
 
   const numberField = (
-    name: "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG",
+    name:
+      "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG" | "disposalRecordGraceDays" | "cardVerificationGraceDays",
     label: string,
     unit: string,
     step: string,
@@ -104,6 +115,32 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
         <span className="text-ink-700">{unit}</span>
       </div>
       <Why name={name} />
+      <FieldError id={`${uid}-${name}-error`} message={errors[name]?.message} />
+    </div>
+  );
+
+  const idleField = (name: "sessionIdleMinutesOfficers" | "sessionIdleMinutesOthers", label: string, why: string) => (
+    <div className="rounded-md border border-ink-200 p-4">
+      <label htmlFor={`${uid}-${name}`} className={labelClass}>
+        {label}
+      </label>
+      <div className="mt-1 flex items-center gap-2">
+        <input
+          id={`${uid}-${name}`}
+          type="number"
+          inputMode="numeric"
+          step="1"
+          {...register(name)}
+          disabled={!canEdit}
+          className={`${inputClass} mt-0 max-w-40 tabular`}
+          aria-invalid={errors[name] ? true : undefined}
+          aria-describedby={described(name, true)}
+        />
+        <span className="text-ink-700">minutes</span>
+      </div>
+      <p id={`${uid}-${name}-why`} className="mt-1 text-sm text-ink-600">
+        {why}
+      </p>
       <FieldError id={`${uid}-${name}-error`} message={errors[name]?.message} />
     </div>
   );
@@ -190,6 +227,30 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
           <Why name="leakRateMethod" />
           <FieldError id={`${uid}-leakRateMethod-error`} message={errors.leakRateMethod?.message} />
         </fieldset>
+        {numberField("disposalRecordGraceDays", "Days a disposal record or signed statement may follow the disposal", "days", "1")}
+        {numberField("cardVerificationGraceDays", "Days a new certification card may wait for verification", "days", "1")}
+      </section>
+
+      <section aria-labelledby={`${uid}-sess-h`} className="space-y-4 rounded-lg border border-ink-200 bg-white p-5">
+        <div>
+          <h2 id={`${uid}-sess-h`} className="text-lg font-semibold text-ink-950">
+            Signing out when idle
+          </h2>
+          <p className="text-sm text-ink-600">
+            A session ends after this many minutes without use, and in any case 12 hours after signing in. {SESSION_IDLE_DEFAULTS.officers}{" "}
+            minutes is the figure of the OWASP application security standard (ASVS level 2).
+          </p>
+        </div>
+        {idleField(
+          "sessionIdleMinutesOfficers",
+          "Owners and compliance officers",
+          `They reach every branch's records, people and settings. ${SESSION_IDLE_LIMITS.min}–${SESSION_IDLE_LIMITS.officersMax} minutes; default ${SESSION_IDLE_DEFAULTS.officers}.`,
+        )}
+        {idleField(
+          "sessionIdleMinutesOthers",
+          "Branch managers, technicians and inspectors",
+          `Their reach is one branch, their own work or a read-only window. Technicians logging work on site may need longer; above ${SESSION_IDLE_DEFAULTS.others} minutes goes beyond the ASVS level-2 figure. ${SESSION_IDLE_LIMITS.min}–${SESSION_IDLE_LIMITS.othersMax} minutes; default ${SESSION_IDLE_DEFAULTS.others}.`,
+        )}
       </section>
 
       {canEdit && (

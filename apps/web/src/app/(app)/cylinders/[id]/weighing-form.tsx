@@ -14,6 +14,7 @@ import {
   maxCylinderFill,
   normaliseDesignation,
   roundTo,
+  shortestAmountFor,
   toGrams,
   type MassInputUnit,
 } from "@coldtrail/core";
@@ -93,8 +94,9 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
   const defaults: FormIn = amend
     ? {
         weighedOn: amend.weighedOn,
-        grossAmount: String(unit === "kg" ? roundTo(amend.grossG / 1000, 3) : roundTo(amend.grossG / 453.59237, 2)),
-        grossUnit: unit,
+        // As typed when known; otherwise the shortest figure that converts back to the same grams.
+        grossAmount: String(amend.grossEntered?.amount ?? shortestAmountFor(amend.grossG, unit)),
+        grossUnit: amend.grossEntered?.unit ?? unit,
         refrigerant: amend.refrigerant ?? "",
         pressurePsig: amend.pressurePsig ?? "",
         temperatureValue:

@@ -6,6 +6,7 @@ import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tansta
 import { createColumnHelper, rowPaginationFeature, tableFeatures, useTable, type PaginationState } from "@tanstack/react-table";
 import { IMPORT_FIELDS, IMPORT_KIND_LABELS, checkImportMapping, type ImportMapping } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { count, hasHave } from "@/lib/client/count";
 import { LoadError } from "@/components/detail";
 import { ImportStateBadge } from "../_components/import-state";
 import type { ImportIssueRow, ImportView, Paged } from "../_components/import-types";
@@ -65,12 +66,12 @@ export function ImportFlow({ id }: { id: string }) {
 
       {(d.state === "checking" || d.state === "importing") && (
         <ProgressPanel
-          label={d.state === "checking" ? "Checking every row" : `Importing ${n(d.validRows)} rows in one go`}
+          label={d.state === "checking" ? "Checking every row" : `Importing ${count(d.validRows, "row")} in one go`}
           progress={d.progress}
           note={
             d.state === "checking"
-              ? `${n(d.totalRows)} rows checked so far`
-              : `${n(d.totalRows)} rows read · nothing is saved until every row is written`
+              ? `${count(d.totalRows, "row")} checked so far`
+              : `${count(d.totalRows, "row")} read · nothing is saved until every row is written`
           }
         />
       )}
@@ -117,7 +118,7 @@ export function ImportFlow({ id }: { id: string }) {
               </strong>{" "}
               into {d.branchName}.{" "}
               {d.invalidRows > 0
-                ? `${n(d.invalidRows)} rows with problems were not imported; they are listed below.`
+                ? `${count(d.invalidRows, "row")} with problems ${d.invalidRows === 1 ? "was" : "were"} not imported; ${d.invalidRows === 1 ? "it is" : "they are"} listed below.`
                 : "Every row was imported."}{" "}
               <Link href={REGISTER_LINKS[d.kind]} className="font-semibold underline">
                 Open the register
@@ -131,7 +132,8 @@ export function ImportFlow({ id }: { id: string }) {
                 {d.invalidRows > 0 && (
                   <span className="text-sev-major">
                     <span aria-hidden="true">⚠ </span>
-                    <strong className="tabular">{n(d.invalidRows)}</strong> rows have problems and will not be imported.
+                    <strong className="tabular">{n(d.invalidRows)}</strong> {d.invalidRows === 1 ? "row" : "rows"} {hasHave(d.invalidRows)}{" "}
+                    problems and will not be imported.
                   </span>
                 )}
               </p>
@@ -363,7 +365,7 @@ function CommitButtons({ detail, onRemap, onDone }: { detail: ImportView; onRema
           onClick={() => commit.mutate()}
           className="rounded-lg bg-fjord-600 px-5 py-3 font-semibold text-white hover:bg-fjord-700 disabled:opacity-50"
         >
-          {detail.validRows === 0 ? "No row can be imported" : `Import ${n(detail.validRows)} valid rows`}
+          {detail.validRows === 0 ? "No row can be imported" : `Import ${count(detail.validRows, "valid row")}`}
         </button>
         <button type="button" onClick={onRemap} className="rounded-lg border border-ink-300 bg-white px-4 py-3 font-semibold text-ink-900">
           Change the columns

@@ -4,6 +4,7 @@ import Link from "next/link";
 import { useQuery } from "@tanstack/react-query";
 import { subject } from "@casl/ability";
 import {
+  formatEnteredAmount,
   ACCESS_METHOD_LABELS,
   ACCESS_METHODS,
   ADDITION_EXCLUSION_LABELS,
@@ -23,6 +24,7 @@ import { DetailRow, LoadError } from "@/components/detail";
 import type { CylinderOption, EquipmentOption, JobDetail as Job } from "@/lib/client/types";
 import { useAbility } from "@/components/providers";
 import { SavedNotice } from "../_components/form-bits";
+import { JobFindings } from "./job-findings";
 import { AmendPanel, AmendmentHistory, VoidPanel, VoidedBanner, type AmendField } from "../_components/record-history";
 
 /** Plain words for the job's fields in its correction history. */
@@ -150,6 +152,7 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
     value: g,
     unitField: "amountUnit",
     massUnit: j.branchMassUnit,
+    entered: j.enteredAmount,
   };
 
   const fields: AmendField[] = [{ name: "performedOn", label: "Date of the work", type: "date", value: j.performedOn }];
@@ -259,6 +262,8 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
 
       {j.leakRate && <LeakRatePanel leak={j.leakRate} />}
 
+      <JobFindings jobId={j.id} saved={saved} />
+
       {j.kind === "disposal" && !j.voidedAt && (
         <section aria-labelledby="disposal-h" className="rounded-lg border border-ink-200 bg-white p-4" data-testid="disposal-proof">
           <h2 id="disposal-h" className="text-lg font-semibold text-ink-950">
@@ -319,6 +324,7 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
         {(recovering || j.kind === "charge") && (
           <DetailRow layout="stacked" label={j.kind === "charge" ? "Amount added" : "Amount recovered"}>
             <span className="tabular">{formatMass(g, j.branchMassUnit)}</span>
+            {j.enteredAmount && <span className="tabular text-sm text-ink-600"> (entered as {formatEnteredAmount(j.enteredAmount)})</span>}
           </DetailRow>
         )}
         {j.kind === "charge" && (
@@ -329,6 +335,14 @@ export function JobDetail({ id, saved }: { id: string; saved: boolean }) {
         {j.kind === "charge" && j.additionExclusion && (
           <DetailRow layout="stacked" label="Leak rate">
             Left out: {ADDITION_EXCLUSION_LABELS[j.additionExclusion as keyof typeof ADDITION_EXCLUSION_LABELS] ?? j.additionExclusion}
+          </DetailRow>
+        )}
+        {j.kind === "charge" && j.sameLeakAsJobId !== null && (
+          <DetailRow layout="stacked" label="Same leak as">
+            <Link href={`/jobs/${j.sameLeakAsJobId}`} className="underline">
+              Charge job #{j.sameLeakAsJobId}
+            </Link>{" "}
+            (added together for one leak rate)
           </DetailRow>
         )}
         {recovering && (

@@ -2,9 +2,10 @@
 
 import { useId, useState } from "react";
 import { useMutation, useQueryClient, type QueryKey } from "@tanstack/react-query";
-import { formatMass, type MassDisplayUnit } from "@coldtrail/core";
+import { formatMass, shortestAmountFor, type MassDisplayUnit, type MassInputUnit } from "@coldtrail/core";
 import type { AmendmentRecord } from "@coldtrail/db";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { OverFillConfirm } from "@/components/form";
 import { FieldError, FormAlert, SavedNotice, inputClass, labelClass, secondaryButton } from "./form-bits";
 
 /** How a stored value reads in the history: grams in the branch's unit, yes/no, dates as they are. */
@@ -109,13 +110,28 @@ export type AmendField =
       numeric?: boolean;
     }
   | { name: string; label: string; type: "yesno"; value: boolean | null }
-  | { name: string; label: string; type: "mass"; value: number | null; unitField: string; massUnit: MassDisplayUnit };
+  | {
+      name: string;
+      label: string;
+      type: "mass";
+      value: number | null;
+      unitField: string;
+      massUnit: MassDisplayUnit;
+      /** The amount as typed when the record was saved: it re-opens in that figure and unit. */
+      entered?: { amount: number; unit: MassInputUnit } | null;
+    };
+
+/** The unit a mass field is edited in: the one it was entered in, else the branch's. */
+function massFieldUnit(f: Extract<AmendField, { type: "mass" }>): MassInputUnit {
+  return f.entered?.unit ?? (f.massUnit === "kg" ? "kg" : "lb");
+}
 
 function initialText(f: AmendField): string {
   if (f.value === null || f.value === undefined) return "";
   if (f.type === "mass") {
-    const v = f.massUnit === "kg" ? (f.value as number) / 1000 : (f.value as number) / 453.59237;
-    return String(Math.round(v * 1000) / 1000);
+    // As typed when known; otherwise the shortest figure that converts back to the same grams.
+    if (f.entered) return String(f.entered.amount);
+    return String(shortestAmountFor(f.value as number, massFieldUnit(f)));
   }
   if (f.type === "yesno") return f.value ? "true" : "false";
   return String(f.value);
@@ -144,6 +160,9 @@ export function AmendPanel({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [formError, setFormError] = useState<string | null>(null);
   const [saved, setSaved] = useState(false);
+  // Asked by the server when a changed amount would put a cylinder above its safe fill.
+  const [overFillAsk, setOverFillAsk] = useState<string | null>(null);
+  const [confirmOverFill, setConfirmOverFill] = useState(false);
 
   const start = () => {
     setValues(Object.fromEntries(fields.map((f) => [f.name, initialText(f)])));
@@ -151,6 +170,8 @@ export function AmendPanel({
     setErrors({});
     setFormError(null);
     setSaved(false);
+    setOverFillAsk(null);
+    setConfirmOverFill(false);
     setOpen(true);
   };
 
@@ -167,6 +188,8 @@ export function AmendPanel({
         for (const [k, m] of Object.entries(err.fieldErrors)) e[k.replace(/^changes\./, "")] = m[0] ?? "";
         setErrors(e);
         setFormError(err.message);
+        const ask = err.fieldErrors.confirmOverFill?.[0];
+        if (ask) setOverFillAsk(ask);
       } else setFormError("The correction could not be sent; nothing was changed.");
     },
   });
@@ -179,7 +202,7 @@ export function AmendPanel({
       if (now === initialText(f)) continue;
       if (f.type === "mass") {
         changes[f.name] = now;
-        changes[f.unitField] = f.massUnit === "kg" ? "kg" : "lb";
+        changes[f.unitField] = massFieldUnit(f);
       } else if (f.type === "yesno") changes[f.name] = now === "" ? null : now === "true";
       else if (f.type === "select") changes[f.name] = now === "" ? null : f.numeric ? Number(now) : now;
       else changes[f.name] = now;
@@ -189,7 +212,7 @@ export function AmendPanel({
       return;
     }
     setFormError(null);
-    save.mutate({ reason, changes });
+    save.mutate({ reason, changes, ...(overFillAsk && confirmOverFill ? { confirmOverFill: true } : {}) });
   };
 
   if (!open) {
@@ -250,7 +273,7 @@ export function AmendPanel({
               <>
                 <label htmlFor={id} className={labelClass}>
                   {f.label}
-                  {f.type === "mass" && <span className="font-normal text-ink-600"> ({f.massUnit === "kg" ? "kg" : "lb"})</span>}
+                  {f.type === "mass" && <span className="font-normal text-ink-600"> ({massFieldUnit(f)})</span>}
                 </label>
                 {f.type === "textarea" ? (
                   <textarea
@@ -286,6 +309,9 @@ export function AmendPanel({
           </div>
         );
       })}
+      {overFillAsk && (
+        <OverFillConfirm id={`${uid}-confirm-over-fill`} message={overFillAsk} checked={confirmOverFill} onChange={setConfirmOverFill} />
+      )}
       <div>
         <label htmlFor={`${uid}-reason`} className={labelClass}>
           Why is it being corrected?

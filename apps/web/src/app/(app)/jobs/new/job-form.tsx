@@ -34,12 +34,12 @@ import {
   type DraftField,
   type JobKind,
 } from "@coldtrail/core";
-import { fetchJson } from "@/lib/client/fetch-json";
+import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import type { ApplianceOption, CylinderOption, EquipmentOption, JobListPage } from "@/lib/client/types";
 import { SafetyCautions } from "@/components/safety-cautions";
 import { optionsOf } from "@/lib/client/options";
-import { RadioCards } from "@/components/form";
+import { OverFillConfirm, RadioCards } from "@/components/form";
 import {
   AmountField,
   DraftWarningLine,
@@ -257,7 +257,7 @@ function defaultsFor(kind: JobKind): FieldValues {
     case "disposal":
       return { ...base, refrigerant: "", recoveredUnit: "lb", evacuationUnit: "in_hg_vacuum", disposalPath: "on_site" };
     case "charge":
-      return { ...base, refrigerant: "", chargedUnit: "lb", chargeSource: "stock", additionExclusion: "" };
+      return { ...base, refrigerant: "", chargedUnit: "lb", chargeSource: "stock", additionExclusion: "", sameLeakAsJobId: "" };
     case "leak_repair":
       return { ...base, leakLocation: "", repairDescription: "" };
     case "verification_test":
@@ -278,6 +278,8 @@ function KindForm({
   const queryClient = useQueryClient();
   const uid = useId();
   const [formError, setFormError] = useState<string | null>(null);
+  // The server's question when the amount would put the cylinder above its safe fill.
+  const [overFillAsk, setOverFillAsk] = useState<string | null>(null);
   const recovering = kind === "recovery" || kind === "disposal";
 
   const form = useForm<FieldValues>({
@@ -306,6 +308,11 @@ function KindForm({
     queryKey: ["jobs", "repairs-of", appliance?.id],
     queryFn: () => fetchJson<JobListPage>(`/api/jobs?kind=leak_repair&applianceId=${appliance!.id}&pageSize=10`),
     enabled: appliance !== null && kind === "verification_test",
+  });
+  const earlierCharges = useQuery({
+    queryKey: ["jobs", "charges-of", appliance?.id],
+    queryFn: () => fetchJson<JobListPage>(`/api/jobs?kind=charge&applianceId=${appliance!.id}&pageSize=10`),
+    enabled: appliance !== null && kind === "charge",
   });
 
   useEffect(() => {
@@ -341,6 +348,8 @@ function KindForm({
       router.push(`/jobs/${id}?saved=1`);
     },
     onError: (err) => {
+      const ask = err instanceof ApiError ? err.fieldErrors.confirmOverFill?.[0] : undefined;
+      if (ask) setOverFillAsk(ask);
       setFormError(saveErrorMessage(err, setError, "The job could not be sent. Check your connection; nothing was saved."));
     },
   });
@@ -412,6 +421,9 @@ function KindForm({
           {fieldWarnings(kind === "charge" ? "chargedAmount" : "recoveredAmount")}
         </div>
       )}
+      {recovering && overFillAsk && (
+        <OverFillConfirm id={`${uid}-confirm-over-fill`} message={overFillAsk} registration={register("confirmOverFill")} />
+      )}
 
       {kind === "charge" && (
         <>
@@ -433,6 +445,31 @@ function KindForm({
               options={[{ value: "", label: "No, it counts (usual)" }, ...optionsOf(ADDITION_EXCLUSIONS, ADDITION_EXCLUSION_LABELS)]}
             />
           </fieldset>
+          <div>
+            <label htmlFor={`${uid}-same-leak`} className={labelClass}>
+              Same leak as an earlier addition?
+            </label>
+            <p id={`${uid}-same-leak-hint`} className={hintClass}>
+              If this tops up the same leak as an earlier charge, choose it: the two are added together for one leak rate.
+            </p>
+            <select
+              id={`${uid}-same-leak`}
+              {...register("sameLeakAsJobId")}
+              className={`${inputClass} py-3`}
+              aria-describedby={[`${uid}-same-leak-hint`, describedBy("sameLeakAsJobId")].filter(Boolean).join(" ")}
+              aria-invalid={errors.sameLeakAsJobId ? true : undefined}
+            >
+              <option value="">No, a new leak or not known (usual)</option>
+              {(earlierCharges.data?.rows ?? [])
+                .filter((r) => !values.performedOn || r.performedOn <= values.performedOn)
+                .map((r) => (
+                  <option key={r.id} value={r.id}>
+                    {r.performedOn} · {formatMass(r.chargedG, massUnit)} · job #{r.id}
+                  </option>
+                ))}
+            </select>
+            <FieldError id={`${uid}-sameLeakAsJobId-error`} message={errorOf("sameLeakAsJobId")} />
+          </div>
         </>
       )}
 

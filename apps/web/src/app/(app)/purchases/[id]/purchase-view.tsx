@@ -76,7 +76,15 @@ export function PurchaseView({ id, saved }: { id: string; saved: boolean }) {
               fields={[
                 { name: "purchasedOn", label: "Date bought", type: "date", value: p.purchasedOn },
                 { name: "supplierName", label: "Supplier", type: "text", value: p.supplierName },
-                { name: "amount", label: "Quantity", type: "mass", value: p.massG, unitField: "unit", massUnit: p.branchMassUnit },
+                {
+                  name: "amount",
+                  label: "Quantity",
+                  type: "mass",
+                  value: p.massG,
+                  unitField: "unit",
+                  massUnit: p.branchMassUnit,
+                  entered: p.enteredAmount,
+                },
                 { name: "containerCount", label: "Containers", type: "number", value: p.containerCount },
                 { name: "invoiceReference", label: "Invoice reference", type: "text", value: p.invoiceReference },
               ]}

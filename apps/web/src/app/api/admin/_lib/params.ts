@@ -1,11 +1,6 @@
-import { z } from "zod";
-import { DomainError } from "@coldtrail/db";
-
-const idParam = z.coerce.number().int().positive();
+import { recordId as parseRecordId } from "@/lib/api/params";
 
 /** A record id from the path; anything else is a record that does not exist. */
 export function recordId(value: string | undefined, what: string): number {
-  const parsed = idParam.safeParse(value);
-  if (!parsed.success) throw new DomainError("not_found", `No such ${what}`);
-  return parsed.data;
+  return parseRecordId(value, `No such ${what}`);
 }

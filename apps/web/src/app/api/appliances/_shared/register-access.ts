@@ -1,5 +1,5 @@
 import "server-only";
-import { z } from "zod";
+import { recordId } from "@/lib/api/params";
 import { ForbiddenError, subject } from "@casl/ability";
 import type { Action, Actor, AppAbility } from "@coldtrail/core";
 import { DomainError, getRegisterRef, type Knex } from "@coldtrail/db";
@@ -12,13 +12,9 @@ export const REGISTERS = {
 } as const;
 export type RegisterKind = keyof typeof REGISTERS;
 
-const idParam = z.coerce.number().int().positive();
-
 /** A route's `[id]` as a record id; anything else is simply not found. */
 export function parseId(raw: string | undefined, noun: string): number {
-  const parsed = idParam.safeParse(raw);
-  if (!parsed.success) throw new DomainError("not_found", `No such ${noun}`);
-  return parsed.data;
+  return recordId(raw, `No such ${noun}`);
 }
 
 /**

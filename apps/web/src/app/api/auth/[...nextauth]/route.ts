@@ -1,5 +1,25 @@
 import NextAuth from "next-auth";
+import type { NextRequest } from "next/server";
+import { NextResponse } from "next/server";
 import { authOptions } from "@/lib/auth/options";
 
 const handler = NextAuth(authOptions);
-export { handler as GET, handler as POST };
+
+type Context = { params: Promise<{ nextauth: string[] }> };
+
+/**
+ * next-auth's own routes. Signing in with a password is a POST only: a GET of the credentials callback
+ * (a link, a crawler) is answered 405 instead of reaching next-auth, which has no answer for it.
+ */
+export async function GET(req: NextRequest, context: Context): Promise<Response> {
+  const [action, provider] = (await context.params).nextauth ?? [];
+  if (action === "callback" && provider === "credentials") {
+    return NextResponse.json(
+      { error: { code: "method_not_allowed", message: "Sign in with a POST of the sign-in form" } },
+      { status: 405, headers: { Allow: "POST" } },
+    );
+  }
+  return handler(req, context);
+}
+
+export { handler as POST };

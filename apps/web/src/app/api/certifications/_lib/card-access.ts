@@ -1,5 +1,5 @@
 import "server-only";
-import { z } from "zod";
+import { recordIdSchema } from "@/lib/api/params";
 import type { Action, Actor, AppAbility } from "@coldtrail/core";
 import {
   ActionForbiddenError,
@@ -10,14 +10,12 @@ import {
   type Knex,
 } from "@coldtrail/db";
 
-const idParam = z.coerce.number().int().positive();
-
 /**
  * The card named in the URL, when the person may read it (404 otherwise: we do not reveal that it
  * exists) and may do `action` to it (403 otherwise).
  */
 export async function cardFor(db: Knex, actor: Actor, ability: AppAbility, rawId: string, action: Action): Promise<CertificationRef> {
-  const id = idParam.safeParse(rawId);
+  const id = recordIdSchema.safeParse(rawId);
   if (!id.success) throw new DomainError("not_found", "No such certification card");
   const ref = await getCertificationRef(db, { organisationId: actor.organisationId, id: id.data });
   if (!ref || !canOnCertification(ability, "read", ref)) throw new DomainError("not_found", "No such certification card");

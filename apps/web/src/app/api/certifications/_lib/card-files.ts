@@ -1,12 +1,10 @@
 import "server-only";
-import { z } from "zod";
-import { isPathLikeFileName } from "@coldtrail/core";
-import { MAX_UPLOAD_BYTES, UploadRejected, checkUpload, putFile } from "@/lib/server/storage";
+import { putFile } from "@/lib/server/storage";
+import { checkUploadPart, decodeImage, refuseUpload, type UploadIssue } from "@/lib/server/uploads";
 
 /**
- * The card file of an upload: checked by its bytes (photos and PDF only, size limit), a thumbnail
- * made for photos, both stored under keys we make. The client's file name is never used as a key;
- * one that looks like a path is refused outright.
+ * The card file of an upload: checked by the upload module (type by bytes, size, pixels, decodable,
+ * name), a thumbnail made for photos, both stored under keys we make.
  */
 
 const THUMBNAIL_BOX = 480;
@@ -20,39 +18,30 @@ export interface CheckedCard {
   thumbnail: Uint8Array | null;
 }
 
-type Issue = { code: "custom"; path: string[]; message: string; input?: unknown };
+type Issue = UploadIssue;
 
 /** Checks the `card` part of a form. Returns the problems (field `card`) instead of throwing, so they join the field errors. */
 export async function checkCardFile(part: FormDataEntryValue | null): Promise<{ card?: CheckedCard; issues: Issue[] }> {
-  const refuse = (message: string) => ({ issues: [{ code: "custom" as const, path: ["card"], message }] });
-  if (!(part instanceof File)) return refuse("Take a photo of the card or choose a photo or PDF of it");
-  if (part.size === 0) return refuse("The file is empty");
-  if (isPathLikeFileName(part.name))
-    return refuse("That file name is not accepted (it looks like a folder path); rename the file and try again");
-  if (part.size > MAX_UPLOAD_BYTES)
-    return refuse(`The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB; take a smaller photo or scan`);
-  const bytes = new Uint8Array(await part.arrayBuffer());
-  let type: { mime: string; ext: string };
-  try {
-    type = await checkUpload(bytes);
-  } catch (err) {
-    if (err instanceof UploadRejected) return refuse(err.message);
-    throw err;
-  }
+  const checked = await checkUploadPart(part, {
+    field: "card",
+    required: true,
+    missing: "Take a photo of the card or choose a photo or PDF of it",
+  });
+  if (!checked.file) return { issues: checked.issues };
+  const { bytes, mime, ext } = checked.file;
   let thumbnail: Uint8Array | null = null;
-  if (THUMBNAIL_SOURCES.has(type.mime)) {
+  if (THUMBNAIL_SOURCES.has(mime)) {
     try {
-      thumbnail = await makeThumbnail(bytes);
+      thumbnail = await makeThumbnail(bytes, mime);
     } catch {
-      return refuse("The photo could not be opened; it may be damaged. Take it again");
+      return { issues: [{ code: "custom", path: ["card"], message: "The photo could not be opened; it may be damaged. Take it again" }] };
     }
   }
-  return { card: { bytes, mime: type.mime, ext: type.ext, thumbnail }, issues: [] };
+  return { card: { bytes, mime, ext, thumbnail }, issues: [] };
 }
 
-async function makeThumbnail(bytes: Uint8Array): Promise<Uint8Array> {
-  const { Jimp } = await import("jimp");
-  const image = await Jimp.read(Buffer.from(bytes));
+async function makeThumbnail(bytes: Uint8Array, mime: string): Promise<Uint8Array> {
+  const image = await decodeImage(bytes, mime);
   image.scaleToFit({ w: THUMBNAIL_BOX, h: THUMBNAIL_BOX });
   return new Uint8Array(await image.getBuffer("image/jpeg", { quality: 80 }));
 }
@@ -72,5 +61,5 @@ export async function storeCard(
 
 /** Throws the collected problems as field errors (400), nothing written. */
 export function refuseWith(issues: Issue[]): never {
-  throw new z.ZodError(issues as never);
+  refuseUpload(issues);
 }

@@ -2,15 +2,14 @@ import "server-only";
 import { subject } from "@casl/ability";
 import type { Action, Actor, AppAbility, SubjectName } from "@coldtrail/core";
 import { DomainError, listBranches, type Knex } from "@coldtrail/db";
+import { recordId } from "@/lib/api/params";
 
 /** Today's calendar date (UTC) for due-date buckets of organisation-wide lists. */
 export const todayUtc = (now: Date = new Date()) => now.toISOString().slice(0, 10);
 
 /** A positive id from a path segment; anything else is a 404 (we never reveal what exists). */
 export function pathId(raw: string | undefined, what: string): number {
-  const n = Number(raw);
-  if (!raw || !Number.isInteger(n) || n <= 0) throw new DomainError("not_found", `No such ${what}`);
-  return n;
+  return recordId(raw, `No such ${what}`);
 }
 
 /** Branches of the organisation on which the person may `action` the subject (branch-level conditions only). */
@@ -34,10 +33,26 @@ export async function branchesAllowed(
 export function canOnFinding(
   ability: AppAbility,
   action: Action,
-  f: { organisationId: number; branchId: number; technicianId: number | null; branches?: { id: number }[] },
+  f: {
+    organisationId: number;
+    branchId: number;
+    technicianId: number | null;
+    occurredOn?: string | null;
+    openedAt?: string;
+    branches?: { id: number }[];
+  },
 ): boolean {
   const branchIds = f.branches?.length ? f.branches.map((b) => b.id) : [f.branchId];
   return branchIds.some((branchId) =>
-    ability.can(action, subject("Finding", { organisationId: f.organisationId, branchId, technicianId: f.technicianId })),
+    ability.can(
+      action,
+      subject("Finding", {
+        organisationId: f.organisationId,
+        branchId,
+        technicianId: f.technicianId,
+        occurredOn: f.occurredOn ?? null,
+        openedAt: f.openedAt,
+      }),
+    ),
   );
 }

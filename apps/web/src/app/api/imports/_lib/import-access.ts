@@ -1,10 +1,8 @@
 import "server-only";
-import { z } from "zod";
+import { recordIdSchema } from "@/lib/api/params";
 import { ForbiddenError, subject } from "@casl/ability";
 import type { Action, Actor, AppAbility, ImportKind, SubjectName } from "@coldtrail/core";
 import { DomainError, getImport, scopeByAbility, type ImportDetail, type Knex } from "@coldtrail/db";
-
-const idParam = z.coerce.number().int().positive();
 
 /** The register an import writes into, for the permission check of each row's record. */
 export const RECORD_SUBJECT: Record<ImportKind, SubjectName> = { appliances: "Appliance", cylinders: "Cylinder", jobs: "Job" };
@@ -25,7 +23,7 @@ export async function importFor(
   rawId: string,
   action: Action = "read",
 ): Promise<ImportDetail> {
-  const id = idParam.safeParse(rawId);
+  const id = recordIdSchema.safeParse(rawId);
   if (!id.success) throw new DomainError("not_found", "No such import");
   const detail = await getImport(db, { scope: scopeByAbility(ability, "read", "Import", "imports"), id: id.data });
   if (!detail) throw new DomainError("not_found", "No such import");

@@ -1,23 +1,16 @@
 import "server-only";
 import type { NextRequest } from "next/server";
-import { z } from "zod";
 import { DomainError } from "@coldtrail/db";
-import { checkUpload, putFile, UploadRejected } from "@/lib/server/storage";
+import { putFile } from "@/lib/server/storage";
+import { checkUploadPart, refuseUpload } from "@/lib/server/uploads";
 
 /** Helpers shared by the routes of jobs, disposals, shipments and purchases. */
 
-const idParam = z.coerce.number().int().positive();
-
-/** A record id from the path; anything else is simply not found. */
-export function recordId(raw: string | undefined, notFound: string): number {
-  const parsed = idParam.safeParse(raw);
-  if (!parsed.success) throw new DomainError("not_found", notFound);
-  return parsed.data;
-}
+export { recordId } from "@/lib/api/params";
 
 export interface MultipartBody {
   fields: Record<string, string>;
-  file: { bytes: Uint8Array } | null;
+  file: FormDataEntryValue | null;
 }
 
 /** Reads a multipart form: its text fields and at most one file (under `fileField`). */
@@ -32,24 +25,21 @@ export async function readMultipart(req: NextRequest, fileField = "document"): P
   let file: MultipartBody["file"] = null;
   for (const [key, value] of form.entries()) {
     if (typeof value === "string") fields[key] = value;
-    else if (key === fileField && value.size > 0) file = { bytes: new Uint8Array(await value.arrayBuffer()) };
+    else if (key === fileField && value.size > 0) file = value;
   }
   return { fields, file };
 }
 
 /**
- * Checks an uploaded signed document by its bytes (images and PDF only, size limit) and stores it
- * under a key we make; the client's file name is never used. Refusals name the `document` field.
+ * Checks an uploaded signed document through the upload module (type by bytes, size, pixels, decodable,
+ * name) and stores it under a key we make. Refusals name the `document` field.
  */
-export async function storeSignedDocument(bytes: Uint8Array, organisationId: number): Promise<{ key: string; mime: string }> {
-  try {
-    const type = await checkUpload(bytes);
-    const key = await putFile({ prefix: `disposal-statements/org-${organisationId}`, bytes, mime: type.mime, ext: type.ext });
-    return { key, mime: type.mime };
-  } catch (err) {
-    if (err instanceof UploadRejected) throw new DomainError("invalid", err.message, "document");
-    throw err;
-  }
+export async function storeSignedDocument(part: FormDataEntryValue, organisationId: number): Promise<{ key: string; mime: string }> {
+  const checked = await checkUploadPart(part, { field: "document", required: true, missing: "Choose the signed document to upload" });
+  if (!checked.file) refuseUpload(checked.issues);
+  const { bytes, mime, ext } = checked.file;
+  const key = await putFile({ prefix: `disposal-statements/org-${organisationId}`, bytes, mime, ext });
+  return { key, mime };
 }
 
 /** `"true"` / `"false"` from a form field, for zod schemas that expect booleans. */

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { LINK_REFUSALS, describePasswordReset } from "@coldtrail/db";
 import { db } from "@/lib/db";
+import { linkOpenRefusal } from "@/lib/server/throttle";
 import { LinkRefused, PublicShell } from "../../../invitation/_components/public-shell";
 import { NewPasswordForm } from "../../../invitation/_components/new-password-form";
 
@@ -9,6 +10,20 @@ export const dynamic = "force-dynamic";
 
 export default async function ResetPasswordPage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
+  const throttled = await linkOpenRefusal();
+  if (throttled) {
+    return (
+      <PublicShell title="This password link cannot be used">
+        <LinkRefused
+          message={throttled}
+          next={[
+            { href: "/password/forgot", label: "Ask for a new link" },
+            { href: "/sign-in", label: "Go to sign-in" },
+          ]}
+        />
+      </PublicShell>
+    );
+  }
   const view = /^[A-Za-z0-9_-]{20,200}$/.test(token) ? await describePasswordReset(db(), { token }) : { state: "unknown" as const };
   if (view.state !== "valid") {
     const message =

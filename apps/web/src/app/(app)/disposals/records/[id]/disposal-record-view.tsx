@@ -127,6 +127,7 @@ export function DisposalRecordView({ id, saved }: { id: string; saved: boolean }
                   value: r.recoveredG,
                   unitField: "recoveredUnit",
                   massUnit: r.branchMassUnit,
+                  entered: r.recoveredEntered,
                 },
                 { name: "sentTo", label: "Sent to", type: "text", value: r.sentTo },
               ]}

@@ -1,5 +1,5 @@
 import { subject } from "@casl/ability";
-import { dashboardQuery, RECORD_HEALTH_EXPLANATION, toLocalDate } from "@coldtrail/core";
+import { canInBranchAnyDate, dashboardQuery, RECORD_HEALTH_EXPLANATION, toLocalDate } from "@coldtrail/core";
 import { DomainError, getBranchDashboard, getOrganisationOverview, scopeByAbility } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
 import { pathId } from "../../../findings/_lib/access";
@@ -10,7 +10,9 @@ export const GET = route<typeof dashboardQuery, undefined, { id: string }>(
   async ({ actor, ability, db, params, query }) => {
     const branchId = pathId(params.id, "branch");
     const org = actor.organisationId;
-    if (!ability.can("read", subject("Finding", { organisationId: org, branchId }))) throw new DomainError("not_found", "No such branch");
+    // Whether the branch is theirs to see at all; its findings are then read within their dates (an inspector's window).
+    if (!canInBranchAnyDate(ability, "read", "Finding", { organisationId: org, branchId }))
+      throw new DomainError("not_found", "No such branch");
     const branch = await db("branches").where({ id: branchId, organisation_id: org }).first("time_zone");
     if (!branch) throw new DomainError("not_found", "No such branch");
     const today = toLocalDate(new Date(), branch.time_zone);

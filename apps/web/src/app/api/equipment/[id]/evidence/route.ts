@@ -1,7 +1,10 @@
 import { NextResponse } from "next/server";
 import { DomainError, attachEquipmentEvidence, getEquipmentEvidenceKey } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
-import { MAX_UPLOAD_BYTES, UploadRejected, checkUpload, getFile, putFile } from "@/lib/server/storage";
+import { UPLOAD_BODY_LIMIT } from "@/lib/api/body";
+import { idParams } from "@/lib/api/params";
+import { getFile, putFile } from "@/lib/server/storage";
+import { checkUploadPart, readUploadForm, refuseUpload } from "@/lib/server/uploads";
 import { authorizeRegisterRecord } from "../../../appliances/_shared/register-access";
 
 type Params = { id: string };
@@ -43,42 +46,25 @@ export const GET = route<undefined, undefined, Params>({ can: ["read", "Recovery
 });
 
 /**
- * Uploads the evidence of a unit's certification: a photo of its label or the certificate as PDF.
- * The type is checked by the file's bytes and its size limited; the client's file name is ignored.
+ * Uploads the evidence of a unit's certification: a photo of its label or the certificate as PDF,
+ * through the one upload module (type by bytes, size, pixels, decodable, name).
  */
-export const POST = route<undefined, undefined, Params>(
-  { can: ["update", "RecoveryEquipment"] },
+export const POST = route(
+  { can: ["update", "RecoveryEquipment"], params: idParams("id"), accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
   async ({ req, actor, ability, db, params }) => {
-    const ref = await authorizeRegisterRecord({ actor, ability, db }, "equipment", params.id, "update");
-    const declared = Number(req.headers.get("content-length") ?? "0");
-    if (declared > MAX_UPLOAD_BYTES + 64 * 1024)
-      throw new DomainError("invalid", `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, "file");
-    let form: FormData;
-    try {
-      form = await req.formData();
-    } catch {
-      throw new DomainError("invalid", "Send the file as a form upload", "file");
-    }
-    const file = form.get("file");
-    if (!(file instanceof Blob)) throw new DomainError("invalid", "Choose a photo or PDF to upload", "file");
-    if (file.size > MAX_UPLOAD_BYTES)
-      throw new DomainError("invalid", `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB`, "file");
-    const bytes = new Uint8Array(await file.arrayBuffer());
-    let type: { mime: string; ext: string };
-    try {
-      type = await checkUpload(bytes);
-    } catch (err) {
-      if (err instanceof UploadRejected) throw new DomainError("invalid", err.message, "file");
-      throw err;
-    }
-    const key = await putFile({ prefix: `equipment/${ref.organisationId}/${ref.id}`, bytes, mime: type.mime, ext: type.ext });
+    const ref = await authorizeRegisterRecord({ actor, ability, db }, "equipment", String(params.id), "update");
+    const form = await readUploadForm(req, "file");
+    const checked = await checkUploadPart(form.get("file"), { field: "file", required: true, fallbackName: "evidence" });
+    if (!checked.file) refuseUpload(checked.issues);
+    const { bytes, mime, ext } = checked.file;
+    const key = await putFile({ prefix: `equipment/${ref.organisationId}/${ref.id}`, bytes, mime, ext });
     await attachEquipmentEvidence(db, {
       actor: { userId: actor.userId, organisationId: actor.organisationId },
       id: ref.id,
       fileKey: key,
-      mime: type.mime,
+      mime,
       bytes: bytes.byteLength,
     });
-    return NextResponse.json({ ok: true, mime: type.mime }, { status: 201 });
+    return NextResponse.json({ ok: true, mime }, { status: 201 });
   },
 );

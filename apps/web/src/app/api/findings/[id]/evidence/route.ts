@@ -2,6 +2,7 @@ import { NextResponse } from "next/server";
 import { z } from "zod";
 import { addFindingEvidence, DomainError, getFinding, scopeByAbility } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
+import { UPLOAD_BODY_LIMIT } from "@/lib/api/body";
 import { pathId } from "../../_lib/access";
 import { checkEvidenceFile, readForm, refuseWith, storeEvidence } from "../../_lib/evidence-files";
 
@@ -12,7 +13,7 @@ const note = z.preprocess(
 
 /** Attach a photo or PDF to a finding (multipart `file`, optional `note`), for anyone who may comment on it. */
 export const POST = route<undefined, undefined, { id: string }>(
-  { can: ["comment", "Finding"] },
+  { can: ["comment", "Finding"], accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
   async ({ req, actor, ability, db, params }) => {
     const id = pathId(params.id, "finding");
     const scope = scopeByAbility(ability, "comment", "Finding", "findings");

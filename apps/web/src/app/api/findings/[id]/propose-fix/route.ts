@@ -1,6 +1,7 @@
 import { proposeFixInput } from "@coldtrail/core";
 import { proposeFindingFix, scopeByAbility } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
+import { UPLOAD_BODY_LIMIT } from "@/lib/api/body";
 import { deliverFindingMailLater } from "@/lib/server/finding-mail";
 import { pathId } from "../../_lib/access";
 import { checkEvidenceFile, readForm, refuseWith, storeEvidence } from "../../_lib/evidence-files";
@@ -11,7 +12,7 @@ import { checkEvidenceFile, readForm, refuseWith, storeEvidence } from "../../_l
  * stored unless both pass.
  */
 export const POST = route<undefined, undefined, { id: string }>(
-  { can: ["propose_fix", "Finding"] },
+  { can: ["propose_fix", "Finding"], accepts: "json-or-multipart", maxBody: UPLOAD_BODY_LIMIT },
   async ({ req, actor, ability, db, params }) => {
     const id = pathId(params.id, "finding");
     const multipart = (req.headers.get("content-type") ?? "").includes("multipart/form-data");
@@ -22,7 +23,8 @@ export const POST = route<undefined, undefined, { id: string }>(
       note = form.get("note");
       filePart = form.get("file");
     } else {
-      note = ((await req.json().catch(() => ({}))) as { note?: unknown }).note;
+      const json: unknown = await req.json().catch(() => null);
+      note = json !== null && typeof json === "object" ? (json as { note?: unknown }).note : undefined;
     }
     const parsed = proposeFixInput.safeParse({ note });
     const checked = await checkEvidenceFile(filePart);

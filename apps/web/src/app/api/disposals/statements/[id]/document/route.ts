@@ -2,6 +2,7 @@ import { ForbiddenError, subject } from "@casl/ability";
 import { statementDocumentInput } from "@coldtrail/core";
 import { amendDisposalStatement, DomainError, getDisposalStatement, getStatementDocument, scopeByAbility } from "@coldtrail/db";
 import { route } from "@/lib/api/route";
+import { UPLOAD_BODY_LIMIT } from "@/lib/api/body";
 import { getFile } from "@/lib/server/storage";
 import { readMultipart, recordId, storeSignedDocument } from "../../../../jobs/_lib/record-route-helpers";
 
@@ -24,7 +25,7 @@ export const GET = route<undefined, undefined, { id: string }>({ can: ["read", "
 
 /** Attach (or replace) the signed document of a statement on record: an amendment with a reason. */
 export const POST = route<undefined, undefined, { id: string }>(
-  { can: ["update", "Disposal"] },
+  { can: ["update", "Disposal"], accepts: "multipart", maxBody: UPLOAD_BODY_LIMIT },
   async ({ req, actor, ability, db, params }) => {
     const id = recordId(params.id, "No such signed statement");
     const statement = await getDisposalStatement(db, { scope: scopeByAbility(ability, "read", "Disposal", "d"), id });
@@ -36,7 +37,7 @@ export const POST = route<undefined, undefined, { id: string }>(
     const { fields, file } = await readMultipart(req);
     const { reason } = statementDocumentInput.parse(fields);
     if (!file) throw new DomainError("invalid", "Choose the signed document to upload", "document");
-    const document = await storeSignedDocument(file.bytes, actor.organisationId);
+    const document = await storeSignedDocument(file, actor.organisationId);
     const amendmentId = await amendDisposalStatement(db, {
       actor: { userId: actor.userId, organisationId: actor.organisationId },
       id,

@@ -1,0 +1,3 @@
+export * from "./password-policy";
+export * from "./safe-redirect";
+export * from "./sessions";
