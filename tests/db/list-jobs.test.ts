@@ -189,7 +189,8 @@ describe("branches and form options", () => {
   it("lists an organisation's branches only", async () => {
     const list = await listBranches(t.db, { organisationId: orgId });
     expect(list.map((b) => b.code).sort()).toEqual(["COL", "DEN", "PIA", "RTM", "TUC"]);
-    expect(list.find((b) => b.code === "DEN")).toMatchObject({ massUnit: "kg", timeZone: "America/Denver" });
+    expect(list.find((b) => b.code === "DEN")).toMatchObject({ massUnit: "kg", timeZone: "America/Denver", country: "US", region: "CO" });
+    expect(list.find((b) => b.code === "RTM")).toMatchObject({ massUnit: "kg", timeZone: "Europe/Amsterdam", country: "NL" });
   });
 
   it("offers in-service appliances in scope, filtered by text", async () => {

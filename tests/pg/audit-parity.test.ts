@@ -51,7 +51,7 @@ async function runAudit(db: Knex, ids: number[], now = NOW): Promise<number> {
   const officer = await userIdOf(db, DEMO_SIGN_INS.compliance_officer);
   const id = await createAudit(db, {
     actor: { userId: officer, organisationId: ORG },
-    input: { branchIds: ids, ...PERIOD, packs: ["us_federal"] },
+    input: { branchIds: ids, ...PERIOD, packs: ["us_federal", "eu"] },
     now,
   });
   expect(await claimAudit(db, { id, now })).toBe(true);

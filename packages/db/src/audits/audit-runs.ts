@@ -313,7 +313,7 @@ export async function runAuditBranches(
   if (!run) throw new RecordNotFoundError("No such audit");
   let audit = toRun(run);
   if (audit.state !== "running") throw new RecordConflictError(`Audit #${audit.id} is ${audit.state}, not running`);
-  const { settings } = await getOrganisationAuditSettings(db, audit.organisationId);
+  const { settings, packs: chosenPacks } = await getOrganisationAuditSettings(db, audit.organisationId);
   const branchSummaries = [...(audit.summary?.branches ?? [])];
   const done = new Set(audit.branchesDone);
   const names = new Map(
@@ -330,6 +330,7 @@ export async function runAuditBranches(
       branchId,
       period: { from: audit.periodFrom, to: audit.periodTo },
       packs: audit.packs,
+      chosenPacks,
       settings,
       auditId: audit.id,
       now: clock(),

@@ -17,7 +17,11 @@ function parseJson(text: unknown, fallback: unknown): unknown {
   }
 }
 
-/** The rule packs that apply and the tolerances the rules leave to the company (defaults from core). */
+/**
+ * The rule packs the organisation switched on and the tolerances the rules leave to the company
+ * (defaults from core). Packs the law imposes on a place apply to the branches there whatever this
+ * says (core `packsForPlace`); the switched-on packs matter for optional, stricter local packs.
+ */
 export async function getOrganisationAuditSettings(db: Knex, organisationId: number): Promise<OrganisationAuditSettings> {
   const row = await db("organisations").where({ id: organisationId }).first("name", "rule_packs", "settings");
   if (!row) throw new RecordNotFoundError("No such organisation");

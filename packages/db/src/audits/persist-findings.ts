@@ -64,7 +64,11 @@ const CONTENT_COLUMNS = [
  * Runs the rules over one branch and reconciles the branch's stored findings with what they found,
  * in one transaction: new findings open (with their due date), findings found again keep their
  * identity (and state, unless they were no longer found), findings of the period that are gone are
- * "no longer found". Each change writes a finding event; the run writes one activity row.
+ * "no longer found" — or a proposed fix, when a correction of their own records by someone other
+ * than a reviewer made them disappear. Only the packs of `packs` that cover the branch's place run.
+ * Person-level findings (a technician's card) are shared with the other branches the person works
+ * in: found here, they show here too; not judged here, the branch only stops showing them.
+ * Each change writes a finding event; the run writes one activity row.
  * With an `auditId`, every finding the run saw is linked to the audit; without one (a record was
  * saved, continuous audit) the findings are reconciled on their own.
  */
@@ -75,6 +79,8 @@ export async function auditBranchFindings(
     branchId: number;
     period: AuditPeriod;
     packs: readonly RulePack[];
+    /** Packs the organisation switched on beyond those the law imposes (e.g. a stricter local pack). */
+    chosenPacks?: readonly RulePack[];
     settings: AuditSettings;
     auditId: number | null;
     now: Date;
@@ -92,7 +98,11 @@ export async function auditBranchFindings(
     asOf: opts.now,
   });
   const place = await db("branches").where({ id: opts.branchId }).first("country", "region");
-  const applied = packsForBranchAudit({ country: place?.country ?? "US", region: place?.region ?? null }, opts.packs);
+  const applied = packsForBranchAudit(
+    { country: place?.country ?? "US", region: place?.region ?? null },
+    opts.packs,
+    opts.chosenPacks ?? [],
+  );
   const found = runAudit(loaded.records, { packs: applied, period: opts.period, asOf: opts.now, settings: opts.settings });
   const refsOf = findingRefResolver(loaded.records);
   const applianceIds = new Set(loaded.records.appliances.map((a) => a.id));

@@ -28,7 +28,7 @@ export async function reevaluateBranch(
   const branch = await db("branches").where({ id: opts.branchId, organisation_id: opts.organisationId }).first("time_zone");
   if (!branch) return null;
   const today = toLocalDate(now, branch.time_zone);
-  const { settings } = await getOrganisationAuditSettings(db, opts.organisationId);
+  const { settings, packs: chosenPacks } = await getOrganisationAuditSettings(db, opts.organisationId);
   const cause =
     opts.afterActivityId === undefined || opts.afterActivityId === null
       ? null
@@ -38,6 +38,7 @@ export async function reevaluateBranch(
     branchId: opts.branchId,
     period: { from: audit.periodFrom, to: audit.periodTo > today ? audit.periodTo : today },
     packs: audit.packs,
+    chosenPacks,
     settings,
     auditId: null,
     now,
