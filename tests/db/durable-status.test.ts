@@ -87,7 +87,7 @@ describe("file storage down", () => {
     form.set("file", new File(["tag,description\nRTU-1,Rooftop unit\n"], "appliances.csv", { type: "text/csv" }));
     const res = await h.call(imports, "POST", { form, headers: { "idempotency-key": "upload-while-storage-down-1" } });
     expect(res.status).toBe(503);
-    expect((res.json.error as { message: string }).message).toMatch(/file storage is unavailable; nothing was saved/i);
+    expect((res.json.error as { message: string }).message).toMatch(/file storage is unavailable, nothing was saved/i);
     expect(Number((await t.db("imports").count({ n: "*" }).first())!.n)).toBe(before);
     expect(await t.db("idempotency_keys").where({ key: "upload-while-storage-down-1" }).first()).toBeUndefined();
   });

@@ -12,6 +12,7 @@ import { loadActor, type Knex } from "@coldtrail/db";
 
 const web = (p: string) => fileURLToPath(new URL(`../../apps/web/src/${p}`, import.meta.url));
 const webRequire = createRequire(new URL("../../apps/web/package.json", import.meta.url));
+const APP_ORIGIN = "http://127.0.0.1:3000";
 const { NextRequest } = webRequire("next/server") as { NextRequest: new (url: string, init?: RequestInit) => Request };
 
 type Handler = (req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>;
@@ -49,13 +50,15 @@ export function routeHarness(db: () => Knex, extraMocks: (webPath: (p: string) =
     call: async (mod, method, opts = {}) => {
       const handler = mod[method];
       if (!handler) throw new Error(`${method} is not exported`);
-      const init: RequestInit = { method, headers: { ...opts.headers } };
+      // The app's own origin (the env module's default NEXTAUTH_URL in tests), as its pages send it.
+      const origin = { origin: APP_ORIGIN };
+      const init: RequestInit = { method, headers: { ...origin, ...opts.headers } };
       if (opts.body !== undefined) {
         init.body = JSON.stringify(opts.body);
-        init.headers = { "content-type": "application/json", ...opts.headers };
+        init.headers = { "content-type": "application/json", ...origin, ...opts.headers };
       }
       if (opts.form) init.body = opts.form;
-      const res = await handler(new NextRequest(`http://localhost${opts.path ?? "/api/x"}`, init), {
+      const res = await handler(new NextRequest(`${APP_ORIGIN}${opts.path ?? "/api/x"}`, init), {
         params: Promise.resolve(opts.params ?? {}),
       });
       const text = await res.text();

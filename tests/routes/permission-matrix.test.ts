@@ -332,6 +332,29 @@ beforeAll(async () => {
   rec.branch = {} as Record<Place, { id: number; fields: Record<string, unknown> }>;
   for (const place of PLACES_DATED)
     rec.branch[place] = { id: branch[place], fields: { organisationId: orgOf(place), id: branch[place], branchId: branch[place] } };
+  // Background work: a failed task of each organisation, for the owner's "try again".
+  rec.task = {} as Record<Place, { id: number; fields: Record<string, unknown> }>;
+  for (const place of PLACES_UNDATED) {
+    const at = NOW.toISOString();
+    const [row] = await h.t
+      .db("background_tasks")
+      .insert({
+        kind: "digest",
+        payload: JSON.stringify({ organisationId: orgOf(place), place }),
+        unique_key: `matrix:${place}`,
+        organisation_id: orgOf(place),
+        state: "failed",
+        attempts: 5,
+        max_attempts: 5,
+        run_after: at,
+        last_error: "Permission matrix: a task that failed",
+        created_at: at,
+        updated_at: at,
+        finished_at: at,
+      })
+      .returning("id");
+    rec.task[place] = { id: Number(typeof row === "object" ? row.id : row), fields: { organisationId: orgOf(place) } };
+  }
   rec.grant = {} as Record<Place, { id: number; fields: Record<string, unknown> }>;
   const grant = await h.t.db("inspector_grants").whereNull("revoked_at").first();
   for (const place of PLACES_DATED) rec.grant[place] = { id: Number(grant.id), fields: { organisationId: 1 } };
@@ -552,6 +575,9 @@ function defineEntries() {
     "admin/people/[id]/reactivate": { POST: person("update") },
     "admin/people/[id]/history": { GET: person("read", "Activity") },
     "admin/people/[id]/invitation": { POST: person("invite"), DELETE: person("invite") },
+    "admin/background/[id]/retry": {
+      POST: { request: idOf("task"), allowed: onRecord("task", "update", "Settings"), places: ["own", "otherOrg"] },
+    },
     "admin/settings": {
       GET: orgWide("read", "Settings"),
       PUT: {
