@@ -133,9 +133,20 @@ test.describe.serial("who may use the audit and finding routes", () => {
     const tech = await allFindings(ctx.tech!);
     expect(tech.length).toBeGreaterThan(0);
     expect(new Set(tech.map((f) => f.technicianName))).toEqual(new Set(["Marcus Delacroix-Byrd"]));
+    // The inspector's grant is Denver, records dated 2025: findings of Denver dated 2026 (the audit's
+    // period) are the company's and stay out of their reach, while the officer sees them.
+    const denver2026 = (await allFindings(ctx.officer!)).filter((f) => f.branchName === "Denver" && (f.occurredOn ?? "") >= "2026-01-01");
+    expect(denver2026.length).toBeGreaterThan(0);
     const insp = await allFindings(ctx.inspector!);
-    expect(insp.length).toBeGreaterThan(0);
-    expect(new Set(insp.map((f) => f.branchName))).toEqual(new Set(["Denver"]));
+    for (const f of insp) {
+      expect(f.branchName).toBe("Denver");
+      expect(
+        f.occurredOn !== null && f.occurredOn >= "2025-01-01" && f.occurredOn <= "2025-12-31",
+        `finding #${f.id} on ${f.occurredOn}`,
+      ).toBe(true);
+    }
+    const inspIds = new Set(insp.map((f) => f.id));
+    expect(denver2026.filter((f) => inspIds.has(f.id))).toEqual([]);
     expect(await allFindings(ctx.otherManager!)).toEqual([]);
     // Filtering by another branch never widens the list.
     expect(await allFindings(ctx.managerCol!, { branchId: denFinding.branchId })).toEqual([]);

@@ -1,4 +1,6 @@
-// Lead-owned lines (keep): vocabulary, input schemas, permissions.
+// Before any schema is built: zod without code generation in the browser (see the module).
+import "./schemas/zod-config";
+// Vocabulary, input schemas, permissions.
 export * from "./vocabulary";
 export * from "./schemas";
 export * from "./permissions";

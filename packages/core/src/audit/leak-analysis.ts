@@ -92,7 +92,15 @@ export function analyseLeaks(
     installedOn: appliance.installedOn,
   };
   const all = leakRateHistory(base);
-  const aim = new Map(leakRateHistory({ ...base, countFrom: LEAK_REGIME_THRESHOLDS.aimFrom }).map((e) => [e.on, e]));
+  // Events are matched by their date and the additions made on that date: two leak events can end on
+  // one day (a new leak beside an addition marked as the same leak as an earlier one).
+  const dateOfSource = new Map(additions.map((a) => [a.sourceId, a.on]));
+  const keyOf = (e: { on: string; sourceIds: readonly number[] }) =>
+    `${e.on}|${e.sourceIds
+      .filter((id) => dateOfSource.get(id) === e.on)
+      .sort((x, y) => x - y)
+      .join(",")}`;
+  const aim = new Map(leakRateHistory({ ...base, countFrom: LEAK_REGIME_THRESHOLDS.aimFrom }).map((e) => [keyOf(e), e]));
   const events: CoveredEvent[] = [];
   for (const e of all) {
     const r = leakRepairRegime({
@@ -102,7 +110,7 @@ export function analyseLeaks(
       on: e.on,
     });
     if (!r.regime) continue;
-    const event = r.regime === "us_aim_hfc" ? (aim.get(e.on) ?? e) : e;
+    const event = r.regime === "us_aim_hfc" ? (aim.get(keyOf(e)) ?? e) : e;
     if (event.percent === null) continue;
     const threshold = leakRateThreshold(useClass, e.on);
     events.push({ event, regime: r.regime, threshold, exceeds: eventExceedsThreshold(event, threshold) });

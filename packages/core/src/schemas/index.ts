@@ -1,3 +1,4 @@
+import "./zod-config";
 export * from "./recovery-job";
 export * from "./registers";
 export * from "./admin";

@@ -199,11 +199,19 @@ export async function reviewApplianceLeaks(
           installedOn: appliance.installedOn,
         })
       : [];
-  const covered = new Map((analysis?.events ?? []).map((c) => [c.event.on, c]));
+  // Matched by the jobs an event sums, not by its date: two leak events can end on one day (an
+  // addition for a new leak beside one marked as the same leak as an earlier charge).
+  const dateOfSource = new Map(additions.map((a) => [a.sourceId, a.on]));
+  const eventKey = (e: { on: string; sourceIds: readonly number[] }) =>
+    `${e.on}|${e.sourceIds
+      .filter((id) => dateOfSource.get(id) === e.on)
+      .sort((x, y) => x - y)
+      .join(",")}`;
+  const covered = new Map((analysis?.events ?? []).map((c) => [eventKey(c.event), c]));
   const events: LeakChartEvent[] = all
     .filter((e) => visible(e.on))
     .map((e) => {
-      const c = covered.get(e.on);
+      const c = covered.get(eventKey(e));
       const event = c?.event ?? e;
       return {
         on: e.on,
