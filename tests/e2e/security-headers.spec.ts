@@ -61,13 +61,22 @@ const DETAIL_LINKS: ReadonlyArray<{ list: string; pattern: RegExp; edit?: boolea
   { list: "/shipments", pattern: /^\/shipments\/\d+$/ },
 ];
 
-const PUBLIC_PAGES = ["/sign-in", "/password/forgot", "/invitation/not-a-real-token-0123456789", "/password/reset/not-a-real-token-0123456789"];
+const PUBLIC_PAGES = [
+  "/sign-in",
+  "/password/forgot",
+  "/invitation/not-a-real-token-0123456789",
+  "/password/reset/not-a-real-token-0123456789",
+];
 
 function expectPageHeaders(res: Response | null, path: string) {
   expect(res, `${path} answered`).not.toBeNull();
   const h = res!.headers();
   const csp = h["content-security-policy"] ?? "";
-  const script = csp.split(";").map((d) => d.trim()).find((d) => d.startsWith("script-src")) ?? "";
+  const script =
+    csp
+      .split(";")
+      .map((d) => d.trim())
+      .find((d) => d.startsWith("script-src")) ?? "";
   expect(script, `${path}: script-src with a nonce`).toMatch(/'nonce-[A-Za-z0-9+/=]{16,}'/);
   expect(script, `${path}: no inline scripts`).not.toContain("'unsafe-inline'");
   expect(csp, path).toContain("frame-ancestors 'none'");
@@ -94,7 +103,7 @@ async function visit(page: Page, refused: string[], path: string, signedIn: bool
   expectPageHeaders(res, path);
   // Next.js's inline scripts (they carry the nonce) ran, and React made the page interactive.
   await page.waitForFunction(() => Array.isArray((window as unknown as { __next_f?: unknown[] }).__next_f));
-  if (signedIn) await expect(page.getByRole("button", { name: "Sign out" })).toBeEnabled();
+  if (signedIn) await expect(page.getByRole("button", { name: "Sign out", exact: true })).toBeEnabled();
   await page.waitForLoadState("networkidle");
   const violations = await page.evaluate(() => (window as unknown as { __cspViolations?: string[] }).__cspViolations ?? []);
   expect([...refused, ...violations], `${path}: nothing refused by the policy`).toEqual([]);
