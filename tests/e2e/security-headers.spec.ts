@@ -61,13 +61,22 @@ const DETAIL_LINKS: ReadonlyArray<{ list: string; pattern: RegExp; edit?: boolea
   { list: "/shipments", pattern: /^\/shipments\/\d+$/ },
 ];
 
-const PUBLIC_PAGES = ["/sign-in", "/password/forgot", "/invitation/not-a-real-token-0123456789", "/password/reset/not-a-real-token-0123456789"];
+const PUBLIC_PAGES = [
+  "/sign-in",
+  "/password/forgot",
+  "/invitation/not-a-real-token-0123456789",
+  "/password/reset/not-a-real-token-0123456789",
+];
 
 function expectPageHeaders(res: Response | null, path: string) {
   expect(res, `${path} answered`).not.toBeNull();
   const h = res!.headers();
   const csp = h["content-security-policy"] ?? "";
-  const script = csp.split(";").map((d) => d.trim()).find((d) => d.startsWith("script-src")) ?? "";
+  const script =
+    csp
+      .split(";")
+      .map((d) => d.trim())
+      .find((d) => d.startsWith("script-src")) ?? "";
   expect(script, `${path}: script-src with a nonce`).toMatch(/'nonce-[A-Za-z0-9+/=]{16,}'/);
   expect(script, `${path}: no inline scripts`).not.toContain("'unsafe-inline'");
   expect(csp, path).toContain("frame-ancestors 'none'");

@@ -1,3 +1,5 @@
+// First: zod settings every schema below is built with (see zod-setup.ts).
+import "./zod-setup";
 // Lead-owned lines (keep): vocabulary, input schemas, permissions.
 export * from "./vocabulary";
 export * from "./schemas";
