@@ -44,7 +44,9 @@ test("the 6th wrong password in a minute is refused even with the right one, wit
   await page.getByLabel("Email").fill(THROTTLED);
   await page.getByLabel("Password").fill(DEMO_PASSWORD);
   await page.getByRole("button", { name: "Sign in" }).click();
-  await expect(page.getByRole("alert").filter({ hasText: "Too many" })).toContainText(/Too many failed sign-ins\. Try again in 1[45] minutes\./);
+  await expect(page.getByRole("alert").filter({ hasText: "Too many" })).toContainText(
+    /Too many failed sign-ins\. Try again in 1[45] minutes\./,
+  );
   await attacker.close();
 });
 

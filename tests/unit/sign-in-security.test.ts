@@ -65,14 +65,12 @@ describe("where sign-in may send the person next", () => {
 });
 
 describe("password policy", () => {
-  it.each([
-    "correct-lantern-gasket-orchard",
-    "amber-evaporator-17",
-    "Zq8#mW2!pL5@",
-    "a quiet compressor hums by the loading dock",
-  ])("accepts a strong password or pass phrase: %s", (p) => {
-    expect(passwordProblem(p)).toBeNull();
-  });
+  it.each(["correct-lantern-gasket-orchard", "amber-evaporator-17", "Zq8#mW2!pL5@", "a quiet compressor hums by the loading dock"])(
+    "accepts a strong password or pass phrase: %s",
+    (p) => {
+      expect(passwordProblem(p)).toBeNull();
+    },
+  );
 
   it("accepts long pass phrases, up to the maximum", () => {
     const phrase = "the receiver drier sits beside the sight glass on the liquid line ".repeat(8).trim();
@@ -113,13 +111,22 @@ describe("password policy", () => {
 
   it("applies wherever a password is set: reset, invitation and change of password", () => {
     expect(newPassword.safeParse("password1234").success).toBe(false);
-    expect(resetPasswordInput.safeParse({ token: "a".repeat(30), password: "password1234", confirmPassword: "password1234" }).success).toBe(false);
-    const change = changePasswordInput.safeParse({ currentPassword: "coldtrail-demo", password: "Summer2026!!!", confirmPassword: "Summer2026!!!" });
+    expect(resetPasswordInput.safeParse({ token: "a".repeat(30), password: "password1234", confirmPassword: "password1234" }).success).toBe(
+      false,
+    );
+    const change = changePasswordInput.safeParse({
+      currentPassword: "coldtrail-demo",
+      password: "Summer2026!!!",
+      confirmPassword: "Summer2026!!!",
+    });
     expect(change.success).toBe(false);
     expect(change.error!.issues[0]!.path).toEqual(["password"]);
     expect(
-      changePasswordInput.safeParse({ currentPassword: "coldtrail-demo", password: "lantern-gasket-orchard", confirmPassword: "lantern-gasket-orchard" })
-        .success,
+      changePasswordInput.safeParse({
+        currentPassword: "coldtrail-demo",
+        password: "lantern-gasket-orchard",
+        confirmPassword: "lantern-gasket-orchard",
+      }).success,
     ).toBe(true);
   });
 });
@@ -152,8 +159,16 @@ describe("production refuses development settings", () => {
   });
 
   it.each([
-    ["NEXTAUTH_SECRET", { NEXTAUTH_SECRET: "coldtrail-local-development-secret-not-for-production" }, /NEXTAUTH_SECRET is the public development secret/],
-    ["NEXTAUTH_SECRET", { NEXTAUTH_SECRET: "e2e-only-secret-not-for-production-0123456789" }, /NEXTAUTH_SECRET is the public development secret/],
+    [
+      "NEXTAUTH_SECRET",
+      { NEXTAUTH_SECRET: "coldtrail-local-development-secret-not-for-production" },
+      /NEXTAUTH_SECRET is the public development secret/,
+    ],
+    [
+      "NEXTAUTH_SECRET",
+      { NEXTAUTH_SECRET: "e2e-only-secret-not-for-production-0123456789" },
+      /NEXTAUTH_SECRET is the public development secret/,
+    ],
     ["NEXTAUTH_SECRET", { NEXTAUTH_SECRET: "short" }, /NEXTAUTH_SECRET must be at least 32/],
     ["NEXTAUTH_SECRET", { NEXTAUTH_SECRET: undefined }, /NEXTAUTH_SECRET is not set/],
     ["NEXTAUTH_URL", { NEXTAUTH_URL: "http://app.kestrelmoor.example" }, /NEXTAUTH_URL must start with https/],
