@@ -1,5 +1,5 @@
 #!/usr/bin/env node
-// `npm test`: install, type-check, run the unit, reference and database tests (vitest), build the
+// `npm test`: install, type-check, lint (ESLint and Prettier), run the unit, reference and database tests (vitest), build the
 // app and run the end-to-end tests in Chromium (Playwright starts its own server and fakes).
 import { existsSync } from "node:fs";
 import { join } from "node:path";
@@ -7,6 +7,7 @@ import { install, nextBin, pnpm, root, run } from "./lib.mjs";
 
 install();
 pnpm(["run", "typecheck"]);
+pnpm(["run", "lint"]);
 pnpm(["exec", "vitest", "run"]);
 
 const chromium = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";

@@ -26,7 +26,6 @@ import type { AuditSummary } from "./audit-runs";
 import { loadBranchRecords } from "./load-branch-records";
 import { getOrganisationAuditSettings } from "./organisation-settings";
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
 
 const scoped = (qb: Knex.QueryBuilder, scope: ScopeFn) =>

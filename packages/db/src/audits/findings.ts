@@ -17,7 +17,6 @@ import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../
 import { toNumOrNull, type ActorRef, type ScopeFn } from "../types";
 import { whereContains } from "../paging";
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
 
 /** A row of the findings table. */
@@ -135,7 +134,6 @@ const RECORD_WORDS: Record<string, string> = {
 };
 
 /** Plain words for the record a finding concerns, from a row with the list's joined columns. */
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 export function findingRecordLabel(r: any): string {
   const type = r.record_type as string;
   const id = toNumOrNull(r.record_id);
@@ -149,7 +147,6 @@ export function findingRecordLabel(r: any): string {
   return `${RECORD_WORDS[type] ?? type} #${id ?? "—"}`;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toListRow(r: any): FindingListRow {
   return {
     id: Number(r.id),
@@ -1101,14 +1098,12 @@ export async function getFindingEvidence(
   db: Knex,
   opts: { organisationId: number; scope: ScopeFn; findingId: number; evidenceId: number },
 ): Promise<{ fileKey: string; fileName: string; mime: string } | undefined> {
-  const q = db("evidence as ev")
-    .join("findings as findings", "findings.id", "ev.subject_id")
-    .where({
-      "ev.id": opts.evidenceId,
-      "ev.subject_type": "finding",
-      "ev.subject_id": opts.findingId,
-      "ev.organisation_id": opts.organisationId,
-    });
+  const q = db("evidence as ev").join("findings as findings", "findings.id", "ev.subject_id").where({
+    "ev.id": opts.evidenceId,
+    "ev.subject_type": "finding",
+    "ev.subject_id": opts.findingId,
+    "ev.organisation_id": opts.organisationId,
+  });
   applyScope(q, opts.scope);
   const r = await q.first("ev.file_key", "ev.file_name", "ev.mime");
   return r ? { fileKey: r.file_key, fileName: r.file_name, mime: r.mime } : undefined;

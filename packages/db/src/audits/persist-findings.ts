@@ -13,7 +13,6 @@ import {
 import { appendActivity } from "../activity";
 import { loadBranchRecords } from "./load-branch-records";
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
 
 export interface BranchAuditSummary {

@@ -3,8 +3,8 @@
 import Link from "next/link";
 import { useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { FINDING_STATE_LABELS, type FindingState } from "@coldtrail/core";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { FINDING_STATE_LABELS } from "@coldtrail/core";
+import { ApiError, fetchJson, readApiResponse } from "@/lib/client/fetch-json";
 import { DueText, SeverityBadge, StateBadge, StateIcon } from "./finding-badges";
 import { recordHref, type Assignee, type FindingView } from "./types";
 
@@ -55,12 +55,9 @@ function useFindingAction(id: number, path: string, onDone: (text: string) => vo
   return useMutation({
     mutationFn: (body: Record<string, unknown> | FormData) =>
       body instanceof FormData
-        ? fetch(`/api/findings/${id}/${path}`, { method: "POST", body, headers: { accept: "application/json" } }).then(async (res) => {
-            const json = await res.json().catch(() => null);
-            if (!res.ok)
-              throw new ApiError(res.status, json?.error?.message ?? `Request failed (${res.status})`, json?.error?.fieldErrors ?? {});
-            return json;
-          })
+        ? fetch(`/api/findings/${id}/${path}`, { method: "POST", body, headers: { accept: "application/json" } }).then((res) =>
+            readApiResponse(res, `Request failed (${res.status})`),
+          )
         : fetchJson(`/api/findings/${id}/${path}`, { method: "POST", body: JSON.stringify(body) }),
     onSuccess: () => {
       onDone(doneText);
@@ -184,7 +181,7 @@ export function FindingDetailView({ id, today }: { id: number; today: string }) 
 }
 
 function Actions({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
-  const state = f.state as FindingState;
+  const state = f.state;
   const active = state === "open" || state === "fix_proposed";
   const possible =
     (f.allowed.assign && active) ||
@@ -438,9 +435,7 @@ function Evidence({ finding: f, onDone }: { finding: FindingView; onDone: (t: st
   const upload = useMutation({
     mutationFn: async (form: FormData) => {
       const res = await fetch(`/api/findings/${f.id}/evidence`, { method: "POST", body: form, headers: { accept: "application/json" } });
-      const json = await res.json().catch(() => null);
-      if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? "Upload failed", json?.error?.fieldErrors ?? {});
-      return json;
+      return readApiResponse(res, "Upload failed");
     },
     onSuccess: () => {
       onDone("Evidence attached.");

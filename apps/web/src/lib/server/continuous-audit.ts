@@ -14,7 +14,7 @@ interface BranchQueue {
 }
 
 const globalForContinuous = globalThis as unknown as { __coldtrailContinuous?: Map<number, BranchQueue> };
-const queues: Map<number, BranchQueue> = (globalForContinuous.__coldtrailContinuous ??= new Map());
+const queues: Map<number, BranchQueue> = (globalForContinuous.__coldtrailContinuous ??= new Map<number, BranchQueue>());
 
 async function recheck(db: Knex, opts: { organisationId: number; branchId: number; actorId?: number | null }): Promise<void> {
   await new Promise<void>((resolve) => setImmediate(resolve));

@@ -84,7 +84,7 @@ function DerivedPreview({
       </p>
     );
   }
-  let pressure: string | null = null;
+  let pressure: string | null;
   try {
     pressure = PRESSURE_CLASS_WORDS[classifyPressure(designation)];
   } catch {
@@ -499,7 +499,7 @@ export function ApplianceForm(
           <DerivedPreview
             refrigerant={String(watch("refrigerant") ?? "")}
             amount={watch("fullChargeAmount")}
-            unit={(watch("fullChargeUnit") as MassInputUnit) ?? "lb"}
+            unit={watch("fullChargeUnit") ?? "lb"}
             factorySealed={Boolean(watch("factorySealed"))}
             category={category}
             today={today}

@@ -14,7 +14,7 @@ export const GET = route({ can: ["read", "Import"], query: importListQuery }, as
 /** A display name with nothing path-like in it (never used as a storage key). */
 function displayName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? "";
-  // eslint-disable-next-line no-control-regex
+  // eslint-disable-next-line no-control-regex -- strips control characters from the file name
   const clean = base.replace(/[\u0000-\u001f\u007f]/g, "").trim();
   return (clean || "spreadsheet").slice(0, 200);
 }

@@ -16,7 +16,6 @@ import {
   SETTING_EXPLANATIONS,
   organisationSettingsInput,
   type AuditSettings,
-  type RulePack,
 } from "@coldtrail/core";
 import type { OrganisationSettings } from "@coldtrail/db";
 import { fetchJson } from "@/lib/client/fetch-json";
@@ -37,6 +36,15 @@ const DEFAULT_WORDS: Record<keyof AuditSettings, string> = {
 
 function toForm(s: OrganisationSettings): FormIn {
   return { name: s.name, rulePacks: s.rulePacks, ...s.settings };
+}
+
+/** The explanation and default of one setting; its id is referenced by the field's aria-describedby. */
+function Why({ uid, name }: { uid: string; name: keyof AuditSettings }) {
+  return (
+    <p id={`${uid}-${name}-why`} className="mt-1 text-sm text-ink-600">
+      {SETTING_EXPLANATIONS[name]} <span className="whitespace-nowrap text-ink-500">Default: {DEFAULT_WORDS[name]}.</span>
+    </p>
+  );
 }
 
 export function SettingsForm({ canEdit }: { canEdit: boolean }) {
@@ -77,12 +85,6 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
   const described = (name: keyof FormIn, explained: boolean) =>
     [explained ? `${uid}-${name}-why` : null, errors[name] ? `${uid}-${name}-error` : null].filter(Boolean).join(" ") || undefined;
 
-  const Why = ({ name }: { name: keyof AuditSettings }) => (
-    <p id={`${uid}-${name}-why`} className="mt-1 text-sm text-ink-600">
-      {SETTING_EXPLANATIONS[name]} <span className="whitespace-nowrap text-ink-500">Default: {DEFAULT_WORDS[name]}.</span>
-    </p>
-  );
-
   const numberField = (
     name: "ptTolerancePsi" | "massBalanceTolerancePercent" | "massBalanceToleranceG",
     label: string,
@@ -107,7 +109,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
         />
         <span className="text-ink-700">{unit}</span>
       </div>
-      <Why name={name} />
+      <Why uid={uid} name={name} />
       <FieldError id={`${uid}-${name}-error`} message={errors[name]?.message} />
     </div>
   );
@@ -139,7 +141,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
           control={control}
           name="rulePacks"
           render={({ field }) => {
-            const value = (field.value ?? []) as RulePack[];
+            const value = field.value ?? [];
             return (
               <fieldset aria-describedby={errors.rulePacks ? `${uid}-rulePacks-error` : undefined}>
                 <legend className={labelClass}>Rules the audits apply</legend>
@@ -199,7 +201,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
               </option>
             ))}
           </select>
-          <Why name="requalificationYears" />
+          <Why uid={uid} name="requalificationYears" />
           <FieldError id={`${uid}-requalificationYears-error`} message={errors.requalificationYears?.message} />
         </div>
         <div className="rounded-md border border-ink-200 p-4">
@@ -213,7 +215,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
             />
             <span className={labelClass}>Stricter cylinder fill (liquid density at 130 °F)</span>
           </label>
-          <Why name="strictFill130F" />
+          <Why uid={uid} name="strictFill130F" />
         </div>
         <fieldset className="rounded-md border border-ink-200 p-4" aria-describedby={described("leakRateMethod", true)}>
           <legend className={`${labelClass} px-1`}>Leak-rate method</legend>
@@ -225,7 +227,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
               </label>
             ))}
           </div>
-          <Why name="leakRateMethod" />
+          <Why uid={uid} name="leakRateMethod" />
           <FieldError id={`${uid}-leakRateMethod-error`} message={errors.leakRateMethod?.message} />
         </fieldset>
       </section>

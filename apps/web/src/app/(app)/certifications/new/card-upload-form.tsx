@@ -7,7 +7,7 @@ import { useForm, type FieldPath } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import { CERTIFICATION_CARD_MAX_BYTES, CERTIFICATION_TYPE_LABELS, CERTIFICATION_TYPES, certificationCardInput } from "@coldtrail/core";
-import { ApiError } from "@/lib/client/fetch-json";
+import { ApiError, readApiResponse } from "@/lib/client/fetch-json";
 import { CameraIcon, FileIcon } from "../_components/icons";
 import { FieldError } from "@/components/form";
 
@@ -35,9 +35,7 @@ async function postCard(values: FormOut, file: File): Promise<{ id: number }> {
   if (values.issuedOn) data.set("issuedOn", values.issuedOn);
   data.set("card", file, file.name);
   const res = await fetch("/api/certifications", { method: "POST", body: data, headers: { accept: "application/json" } });
-  const body = res.headers.get("content-type")?.includes("application/json") ? await res.json() : null;
-  if (!res.ok) throw new ApiError(res.status, body?.error?.message ?? `Upload failed (${res.status})`, body?.error?.fieldErrors ?? {});
-  return body as { id: number };
+  return readApiResponse<{ id: number }>(res, `Upload failed (${res.status})`);
 }
 
 /** Phone first: big checkboxes for the types, camera capture or a file picker for the card. */
@@ -115,7 +113,7 @@ export function CardUploadForm() {
     },
   );
 
-  const err = (name: keyof typeof errors) => errors[name]?.message as string | undefined;
+  const err = (name: keyof typeof errors) => errors[name]?.message;
   const describedBy = (name: string, has: boolean) => (has ? `${uid}-${name}-error` : undefined);
 
   return (

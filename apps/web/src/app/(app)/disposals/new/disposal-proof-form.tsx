@@ -7,7 +7,7 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useForm, type FieldValues, type Resolver, type UseFormReturn } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { DISPOSAL_PATH_LABELS, DISPOSAL_PATHS, disposalRecordInput, disposalStatementInput, formatMass } from "@coldtrail/core";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { ApiError, fetchJson, readApiResponse } from "@/lib/client/fetch-json";
 import { saveErrorMessage, submitOrExplain } from "@/lib/client/form-save";
 import type { JobDetail, JobListPage } from "@/lib/client/types";
 import { RadioCards, fieldAria } from "@/components/form";
@@ -234,9 +234,7 @@ function StatementForm({ job }: { job: JobDetail }) {
       for (const [k, value] of Object.entries(v)) if (value !== undefined && value !== null) body.set(k, String(value));
       if (file) body.set("document", file);
       const res = await fetch("/api/disposals/statements", { method: "POST", body, headers: { accept: "application/json" } });
-      const json = await res.json().catch(() => null);
-      if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? `Request failed (${res.status})`, json?.error?.fieldErrors ?? {});
-      return json as { id: number };
+      return readApiResponse<{ id: number }>(res, `Request failed (${res.status})`);
     },
     onSuccess: async ({ id }) => {
       await queryClient.invalidateQueries({ queryKey: ["disposals"] });

@@ -5,7 +5,7 @@ import { useId, useRef, useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { EVACUATION_TABLE_1, PRESSURE_CLASSES, SMALL_APPLIANCE_RECOVERY, type EvacuationLevel } from "@coldtrail/core";
 import type { AmendmentRecord, EquipmentRow, RegisterActivity } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { ApiError, fetchJson, readApiResponse } from "@/lib/client/fetch-json";
 import { DetailRow, LoadError } from "@/components/detail";
 import { Notice } from "@/components/form";
 import { CertificationBadge, StatusBadge } from "@/components/registers/badges";
@@ -97,8 +97,7 @@ function EvidenceUpload({ e }: { e: EquipmentRow }) {
       const body = new FormData();
       body.set("file", file);
       const res = await fetch(`/api/equipment/${e.id}/evidence`, { method: "POST", body });
-      const json = await res.json().catch(() => null);
-      if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? `Upload failed (${res.status})`, json?.error?.fieldErrors ?? {});
+      await readApiResponse(res, `Upload failed (${res.status})`);
     },
     onSuccess: async () => {
       setDone(true);
@@ -215,7 +214,7 @@ export function EquipmentDetail({ id, saved }: { id: string; saved?: string }) {
           </h2>
           {!e.hasEvidence && <p className="text-sm text-ink-700">No label photo or certificate is on file.</p>}
           {e.evidenceType === "image" && (
-            // eslint-disable-next-line @next/next/no-img-element
+            // eslint-disable-next-line @next/next/no-img-element -- private evidence file behind a permission check; not for the image optimiser
             <img
               src={evidenceUrl}
               alt={`Certification label of recovery equipment ${e.serial}`}

@@ -7,7 +7,7 @@ import { useForm, type FieldPath } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { z } from "zod";
 import { IMPORT_FIELDS, IMPORT_KIND_LABELS, IMPORT_KINDS, IMPORT_MAX_BYTES, importUploadInput } from "@coldtrail/core";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { ApiError, fetchJson, readApiResponse } from "@/lib/client/fetch-json";
 import type { BranchOption } from "@/lib/client/types";
 import { FieldError } from "@/components/form";
 
@@ -31,7 +31,7 @@ export function ImportUploadForm() {
     resolver: zodResolver(importUploadInput),
     defaultValues: { kind: "appliances", branchId: "" },
   });
-  const kind = watch("kind") as FormOut["kind"];
+  const kind = watch("kind");
   const branchRows = branches.data?.rows ?? [];
 
   const upload = useMutation({
@@ -41,9 +41,7 @@ export function ImportUploadForm() {
       data.set("branchId", String(values.branchId));
       data.set("file", chosen, chosen.name);
       const res = await fetch("/api/imports", { method: "POST", body: data, headers: { accept: "application/json" } });
-      const body = res.headers.get("content-type")?.includes("application/json") ? await res.json() : null;
-      if (!res.ok) throw new ApiError(res.status, body?.error?.message ?? `Upload failed (${res.status})`, body?.error?.fieldErrors ?? {});
-      return body as { id: number };
+      return readApiResponse<{ id: number }>(res, `Upload failed (${res.status})`);
     },
     onSuccess: ({ id }) => router.push(`/imports/${id}`),
     onError: (err) => {

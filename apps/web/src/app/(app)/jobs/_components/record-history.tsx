@@ -19,7 +19,7 @@ export function describeValue(
   if (typeof value === "boolean" || ((value === 0 || value === 1) && /(removed|operating|passed|needed)$/.test(column)))
     return value ? "Yes" : "No";
   if (column === "document_file_key") return "signed document on file";
-  if (column.endsWith("_id")) return `#${value}`;
+  if (column.endsWith("_id")) return `#${String(value)}`;
   const mapped = words[column]?.[String(value)];
   return mapped ?? String(value);
 }
@@ -114,7 +114,7 @@ export type AmendField =
 function initialText(f: AmendField): string {
   if (f.value === null || f.value === undefined) return "";
   if (f.type === "mass") {
-    const v = f.massUnit === "kg" ? (f.value as number) / 1000 : (f.value as number) / 453.59237;
+    const v = f.massUnit === "kg" ? f.value / 1000 : f.value / 453.59237;
     return String(Math.round(v * 1000) / 1000);
   }
   if (f.type === "yesno") return f.value ? "true" : "false";

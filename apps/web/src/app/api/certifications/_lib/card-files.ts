@@ -72,5 +72,5 @@ export async function storeCard(
 
 /** Throws the collected problems as field errors (400), nothing written. */
 export function refuseWith(issues: Issue[]): never {
-  throw new z.ZodError(issues as never);
+  throw new z.ZodError(issues);
 }

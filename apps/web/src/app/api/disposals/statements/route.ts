@@ -11,7 +11,7 @@ import { readMultipart, storeSignedDocument } from "../../jobs/_lib/record-route
  */
 export const POST = route({ can: ["create", "Disposal"] }, async ({ req, actor, ability, db }) => {
   const isJson = req.headers.get("content-type")?.includes("application/json");
-  const { fields, file } = isJson ? { fields: await req.json().catch(() => ({})), file: null } : await readMultipart(req);
+  const { fields, file } = isJson ? { fields: (await req.json().catch(() => ({}))) as unknown, file: null } : await readMultipart(req);
   const input = disposalStatementInput.parse(fields); // a ZodError becomes a 400 naming each field
   const appliance = await getApplianceRef(db, { organisationId: actor.organisationId, id: input.applianceId });
   if (!appliance) throw new DomainError("invalid", "That appliance is not in your organisation's register", "applianceId");

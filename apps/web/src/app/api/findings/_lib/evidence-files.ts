@@ -68,7 +68,7 @@ export async function storeEvidence(
 
 /** Throws the collected problems as field errors (400), nothing written. */
 export function refuseWith(issues: Issue[]): never {
-  throw new z.ZodError(issues as never);
+  throw new z.ZodError(issues);
 }
 
 /** Reads a multipart form, or refuses with a message naming the field. */

@@ -74,7 +74,9 @@ export function startCommit(id: number, actor: ActorRef): void {
     const source = await storedRows(file);
     await commitImportRows(db, { importId: id, actor, source, onProgress });
     // Continuous audit: the imported records' branch is re-checked like after any other write.
-    const row = await db("imports").where({ id }).first("branch_id", "organisation_id");
+    const row = await db("imports")
+      .where({ id })
+      .first<{ branch_id: number; organisation_id: number } | undefined>("branch_id", "organisation_id");
     if (row)
       void reevaluateAfterWrite(getDb(), {
         organisationId: Number(row.organisation_id),

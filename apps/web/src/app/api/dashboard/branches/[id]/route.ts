@@ -11,7 +11,7 @@ export const GET = route<typeof dashboardQuery, undefined, { id: string }>(
     const branchId = pathId(params.id, "branch");
     const org = actor.organisationId;
     if (!ability.can("read", subject("Finding", { organisationId: org, branchId }))) throw new DomainError("not_found", "No such branch");
-    const branch = await db("branches").where({ id: branchId, organisation_id: org }).first("time_zone");
+    const branch = await db("branches").where({ id: branchId, organisation_id: org }).first<{ time_zone: string } | undefined>("time_zone");
     if (!branch) throw new DomainError("not_found", "No such branch");
     const today = toLocalDate(new Date(), branch.time_zone);
     const findingScope = scopeByAbility(ability, "read", "Finding", "findings");
