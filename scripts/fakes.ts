@@ -42,7 +42,8 @@ const smtp = new SMTPServer({
   onData(stream, session, callback) {
     const chunks: Buffer[] = [];
     stream.on("data", (c: Buffer) => chunks.push(c));
-    stream.on("end", async () => {
+    stream.on("end", () => void storeMail());
+    async function storeMail() {
       try {
         const raw = Buffer.concat(chunks);
         const parsed = await simpleParser(raw);
@@ -63,7 +64,7 @@ const smtp = new SMTPServer({
       } catch (err) {
         callback(err as Error);
       }
-    });
+    }
   },
 });
 

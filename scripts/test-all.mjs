@@ -1,5 +1,5 @@
 #!/usr/bin/env node
-// `npm test`: install, type-check, run the unit, reference and database tests (vitest), build the
+// `npm test`: install, type-check, lint (ESLint and Prettier), run the unit, reference and database tests (vitest), build the
 // app and run the end-to-end tests in Chromium (Playwright starts its own server and fakes).
 import { join } from "node:path";
 import { ensureChromium, install, nextBin, pnpm, root, run } from "./lib.mjs";
@@ -7,6 +7,7 @@ import { ensureChromium, install, nextBin, pnpm, root, run } from "./lib.mjs";
 install();
 ensureChromium();
 pnpm(["run", "typecheck"]);
+pnpm(["run", "lint"]);
 pnpm(["exec", "vitest", "run"]);
 
 run(process.execPath, [nextBin, "build"], {

@@ -59,7 +59,7 @@ async function call(
     params: Promise.resolve(opts.params ?? {}),
   });
   const text = await res.text();
-  let json: unknown = null;
+  let json: unknown;
   try {
     json = JSON.parse(text);
   } catch {

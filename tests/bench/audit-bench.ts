@@ -254,7 +254,7 @@ async function main() {
       fs.addRow({ id: f.id, rule: f.ruleId, detail: f.detail, due: f.dueOn ? new Date(f.dueOn) : null }).commit();
       rows++;
     }
-    await fs.commit();
+    fs.commit();
     const js = wb.addWorksheet("Jobs", { views: [{ state: "frozen", ySplit: 1 }] });
     js.columns = [
       { header: "Job id", key: "id" },
@@ -281,7 +281,7 @@ async function main() {
       }).commit();
       rows++;
     }
-    await js.commit();
+    js.commit();
     await wb.commit();
     clearInterval(watch);
     const ms = performance.now() - t0;

@@ -1,5 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
-import { jobAmendmentInput, type JobAmendmentInput, type JobInput } from "@coldtrail/core";
+import { jobAmendmentInput, type JobInput } from "@coldtrail/core";
 import { amendJob, createJob, createShipment, getJob, listJobs, voidJob, type ScopeFn } from "@coldtrail/db";
 import { createTestDb, type TestDb } from "@coldtrail/db/testing";
 import { contentsOf, jobsFixture, writeCounts, type JobsFixture } from "./jobs-fixture";
@@ -34,7 +34,7 @@ const recovery = (over: Partial<Extract<JobInput, { kind: "recovery" }>> = {}): 
 const create = (input: JobInput) => createJob(t.db, { actor: actor(), branchId: f.north, input });
 /** Amendments go through the same schema as the route. */
 const amend = (id: number, body: { reason: string; changes: Record<string, unknown> }) =>
-  amendJob(t.db, { actor: actor(), id, input: jobAmendmentInput.parse(body) as JobAmendmentInput });
+  amendJob(t.db, { actor: actor(), id, input: jobAmendmentInput.parse(body) });
 
 describe("amending a job", () => {
   it("a corrected amount replaces the movement and moves the cylinder contents, with the previous value in the history", async () => {

@@ -36,7 +36,7 @@ describe("listJobs", () => {
   it("pages through every job in scope exactly once, with the total", async () => {
     const all = await t.db("jobs").where({ organisation_id: orgId }).whereNull("voided_at").pluck("id");
     const seen: number[] = [];
-    let total = -1;
+    let total: number;
     for (let page = 1; ; page++) {
       const r = await listJobs(t.db, { scope: org(), query: query({ page, pageSize: 200 }) });
       total = r.total;

@@ -1,4 +1,5 @@
 import ExcelJS from "exceljs";
+import type { APIRequestContext } from "@playwright/test";
 import { DEMO, contextAs, expect, snap, test } from "./fixtures";
 
 const stamp = () => `${Date.now().toString(36).toUpperCase()}${Math.floor(Math.random() * 100)}`;
@@ -18,7 +19,7 @@ async function workbook(headings: string[], rows: unknown[][]): Promise<Buffer> 
   return Buffer.from(await book.xlsx.writeBuffer());
 }
 
-async function importTotal(request: import("@playwright/test").APIRequestContext): Promise<number> {
+async function importTotal(request: APIRequestContext): Promise<number> {
   return ((await (await request.get("/api/imports?pageSize=1")).json()) as { total: number }).total;
 }
 

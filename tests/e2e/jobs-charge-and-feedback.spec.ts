@@ -1,4 +1,4 @@
-import { devices, type APIRequestContext } from "@playwright/test";
+import { devices, type APIRequestContext, type Page } from "@playwright/test";
 import { DEMO, contextAs, expect, snap, test } from "./fixtures";
 import { JOBS_DEMO } from "./demo-data";
 
@@ -37,7 +37,7 @@ async function appliance(api: APIRequestContext, tag: string): Promise<Appliance
   return found!;
 }
 
-const noOverflow = async (page: import("@playwright/test").Page) =>
+const noOverflow = async (page: Page) =>
   expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0);
 
 test.describe("jobs of every kind on a phone", () => {

@@ -133,7 +133,7 @@ test.describe("record routes: who may read and write what", () => {
         if (expected === "own_branch")
           expect(
             [...names].every((n) => n === "Columbus"),
-            `${c.who} ${path}: ${[...names]}`,
+            `${c.who} ${path}: ${[...names].join(", ")}`,
           ).toBe(true);
         if (expected === "granted")
           expect(
@@ -181,7 +181,7 @@ test.describe("record routes: who may read and write what", () => {
       for (const k of c.allowed) expect((await api.get(url(k, ids[k]!))).status(), `${c.who} reads ${k}`).toBe(200);
       for (const k of c.denied) {
         if (ids[k] === null) continue;
-        expect([403, 404], `${c.who} must not read ${k}`).toContain((await api.get(url(k, ids[k]!))).status());
+        expect([403, 404], `${c.who} must not read ${k}`).toContain((await api.get(url(k, ids[k]))).status());
       }
       await ctx.close();
     });

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, expect, it } from "vitest";
-import { applianceListQuery, importListQuery, parseCsv, suggestImportMapping, type ImportKind } from "@coldtrail/core";
+import { applianceListQuery, importListQuery, parseCsv, suggestImportMapping } from "@coldtrail/core";
 import {
   DEMO_SIGN_INS,
   checkImportRows,
@@ -64,7 +64,7 @@ async function runImport(db: Knex, kind: "appliances" | "cylinders"): Promise<nu
   const ref = { userId: actor.userId, organisationId: actor.organisationId };
   const branchId = actor.memberships.find((m) => m.role === "branch_manager")!.branchId!;
   const [headings, ...rows] = parseCsv(FILES[kind]);
-  const mapping = suggestImportMapping(kind as ImportKind, headings!);
+  const mapping = suggestImportMapping(kind, headings!);
   const id = await createImport(db, {
     actor: ref,
     branchId,

@@ -176,16 +176,14 @@ describePg("migrations", () => {
 
   it("enforce foreign keys and the one-finding-per-identity index", async () => {
     await expect(
-      pg
-        .db("branches")
-        .insert({
-          organisation_id: 999,
-          name: "Nowhere",
-          code: "NOW",
-          time_zone: "America/Chicago",
-          mass_unit: "kg",
-          created_at: "2026-01-01T00:00:00.000Z",
-        }),
+      pg.db("branches").insert({
+        organisation_id: 999,
+        name: "Nowhere",
+        code: "NOW",
+        time_zone: "America/Chicago",
+        mass_unit: "kg",
+        created_at: "2026-01-01T00:00:00.000Z",
+      }),
     ).rejects.toMatchObject({ code: "23503" });
     const [org] = await pg.db("organisations").insert({ name: "Finding Co", created_at: "2026-01-01T00:00:00.000Z" }).returning("id");
     const [branch] = await pg

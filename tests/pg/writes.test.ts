@@ -196,7 +196,7 @@ describePg("writes", () => {
     const before = await maxId(db, "jobs");
     await expect(
       db.transaction(async (trx) => {
-        await createJob(trx as unknown as Knex, { actor: TECH, branchId: BRANCH, input: { ...recovery, recoveredAmount: 0.1 }, now: NOW });
+        await createJob(trx, { actor: TECH, branchId: BRANCH, input: { ...recovery, recoveredAmount: 0.1 }, now: NOW });
         await trx("activity").where({ id: activity.id }).del();
       }),
     ).rejects.toThrow(/append-only/);

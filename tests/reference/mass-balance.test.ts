@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { massBalance } from "@coldtrail/core";
 
-// Source: issue 5 §9 formula: purchased + recovered − charged − shipped for reclaim − change in stock = unaccounted (product check)
+// Source: product check (not a regulation): purchased + recovered − charged − shipped for reclaim − change in stock = unaccounted
 describe("mass balance", () => {
   const tol = { percent: 2, minimumG: 454 };
   it("balances when every gram is accounted for", () => {

@@ -23,7 +23,7 @@ export interface MassBalanceResult {
 }
 
 /**
- * Refrigerant mass balance for one branch and refrigerant over a period (product check, issue 5 §9).
+ * Refrigerant mass balance for one branch and refrigerant over a period (a product check, not a regulation).
  * Tolerance: the larger of `minimumG` and `percent` of the amount taken in (purchased + recovered).
  */
 export function massBalance(input: MassBalanceInput, tolerance: MassBalanceTolerance): MassBalanceResult {

@@ -37,7 +37,7 @@ export async function appendActivity(trx: Knex | Knex.Transaction, entry: Activi
 /** Normalises what `insert … returning('id')` yields across drivers. */
 export function rowId(row: unknown): number {
   if (typeof row === "number") return row;
-  if (row && typeof row === "object" && "id" in row) return Number((row as { id: unknown }).id);
+  if (row && typeof row === "object" && "id" in row) return Number(row.id);
   throw new Error("Insert returned no id");
 }
 

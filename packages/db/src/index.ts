@@ -55,7 +55,7 @@ export { scopeByAbility, type QueryScope } from "./scope";
 export { getApplianceRef, type ApplianceRef } from "./appliances";
 export { amendRecord, voidRecord, listAmendments, type AmendOptions, type AmendmentRecord } from "./amendments";
 export * from "./admin";
-// Registers: appliances, recovery equipment, cylinders (issue 3).
+// Registers: appliances, recovery equipment, cylinders.
 export * from "./registers";
 // Records kept beside jobs: disposals, reclaim shipments, purchases (jobs).
 export { type RecordPage } from "./records/common";

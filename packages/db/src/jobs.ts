@@ -103,7 +103,6 @@ const LIST_COLUMNS = [
   "jobs.created_at",
 ];
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toListRow(r: any): JobListRow {
   return {
     id: Number(r.id),

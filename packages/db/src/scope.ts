@@ -75,7 +75,7 @@ function apply(qb: Knex.QueryBuilder, node: AstNode, table: string, subject: Sub
     case "gte":
     case "lt":
     case "lte": {
-      const op = { gt: ">", gte: ">=", lt: "<", lte: "<=" }[node.operator]!;
+      const op = { gt: ">", gte: ">=", lt: "<", lte: "<=" }[node.operator];
       qb.where(column, op, node.value as Knex.Value);
       return;
     }

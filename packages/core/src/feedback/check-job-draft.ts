@@ -313,9 +313,7 @@ export function checkJobDraft(draft: JobDraft, ctx: JobDraftContext): DraftCheck
     if (!coverage.allowed) {
       const verified = [...new Set(ctx.technician.certifications.filter((c) => c.state === "verified").map((c) => c.type))].sort();
       const what =
-        coverage.applianceClass === "small_appliance"
-          ? "small appliance"
-          : `${PRESSURE_WORDS[coverage.applianceClass as PressureClass]} appliance`;
+        coverage.applianceClass === "small_appliance" ? "small appliance" : `${PRESSURE_WORDS[coverage.applianceClass]} appliance`;
       const held = verified.length
         ? `Your ${typeList(verified)} certification does not cover this ${what}`
         : `You hold no verified certification, and this ${what} needs one`;

@@ -38,7 +38,7 @@ const latestDate = () => new Date(Date.now() + 24 * 3600 * 1000).toISOString().s
 
 /** Type checkboxes arrive as one value or many; "Universal" already covers I, II and III. */
 const certificationTypesField = z.preprocess(
-  (v) => (v === undefined || v === null || v === "" ? [] : Array.isArray(v) ? v : [v]),
+  (v): unknown[] => (v === undefined || v === null || v === "" ? [] : Array.isArray(v) ? (v as unknown[]) : [v]),
   z
     .array(z.enum(CERTIFICATION_TYPES, { error: "Choose Type I, Type II, Type III or Universal" }), {
       error: "Choose the certification type(s)",
@@ -168,7 +168,7 @@ export const CERTIFICATION_CARD_MAX_BYTES = 10 * 1024 * 1024;
  * hides control characters) is refused outright: it usually means a crafted request.
  */
 export function isPathLikeFileName(name: string): boolean {
-  // eslint-disable-next-line no-control-regex
+  // eslint-disable-next-line no-control-regex -- control characters are what this check refuses
   return /[\\/\u0000-\u001f\u007f]/.test(name) || name.includes("..") || /^[a-z]:/i.test(name) || name.trim() === "";
 }
 

@@ -73,7 +73,6 @@ export async function listInspectorGrants(
     return qb;
   };
   const countRow = await filtered(db("inspector_grants as g")).count({ n: "*" }).first();
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await filtered(
     db("inspector_grants as g")
       .join("users as i", "i.id", "g.user_id")

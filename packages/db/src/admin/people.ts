@@ -129,7 +129,6 @@ function rolesIn(memberships: PersonMembership[]): Role[] {
   return roles.sort((a, b) => ROLE_RANK[b] - ROLE_RANK[a]);
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toPerson(r: any, m?: { memberships: PersonMembership[]; branches: PersonBranch[] }): PersonRow {
   const memberships = m?.memberships ?? [];
   return {
@@ -167,7 +166,6 @@ export async function listPeople(db: Knex, opts: { scope: ScopeFn; query: People
     return qb;
   };
   const total = await countRows(filtered(db("users as u")));
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await filtered(db("users as u"))
     .select([...PERSON_COLUMNS, db.raw("case when u.password_hash is null then 0 else 1 end as has_password")])
     .orderBy(SORT_COLUMNS[query.sort], query.dir)
@@ -523,7 +521,6 @@ export async function listRecordActivity(
   const filtered = (qb: Knex.QueryBuilder) =>
     qb.where((w) => opts.scope(w)).where({ "activity.subject_type": opts.subjectType, "activity.subject_id": opts.subjectId });
   const countRow = await filtered(db("activity as activity")).count({ n: "*" }).first();
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await filtered(db("activity as activity").leftJoin("users as who", "who.id", "activity.actor_id"))
     .orderBy([
       { column: "activity.at", order: "desc" },

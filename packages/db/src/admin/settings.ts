@@ -44,7 +44,7 @@ export function parseStoredSettings(json: unknown): Partial<AuditSettings> {
     const v = (value as Record<string, unknown>)[key];
     if (v !== undefined && typeof v === typeof DEFAULT_SETTINGS[key]) out[key] = v;
   }
-  return out as Partial<AuditSettings>;
+  return out;
 }
 
 export function parseRulePacks(json: unknown): RulePack[] {

@@ -49,7 +49,6 @@ const json = <T>(text: unknown, fallback: T): T => {
   }
 };
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toRun(r: any): AuditRun {
   return {
     id: Number(r.id),

@@ -27,7 +27,6 @@ import { whereFindingShowsIn } from "./finding-branches";
 import { loadBranchRecords } from "./load-branch-records";
 import { getOrganisationAuditSettings } from "./organisation-settings";
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
 
 const scoped = (qb: Knex.QueryBuilder, scope: ScopeFn) =>

@@ -18,7 +18,6 @@ import { toNumOrNull, type ActorRef, type ScopeFn } from "../types";
 import { whereContains } from "../paging";
 import { findingBranchIds, whereFindingShowsIn } from "./finding-branches";
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
 
 /** A row of the findings table. */
@@ -136,7 +135,6 @@ const RECORD_WORDS: Record<string, string> = {
 };
 
 /** Plain words for the record a finding concerns, from a row with the list's joined columns. */
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 export function findingRecordLabel(r: any): string {
   const type = r.record_type as string;
   const id = toNumOrNull(r.record_id);
@@ -150,7 +148,6 @@ export function findingRecordLabel(r: any): string {
   return `${RECORD_WORDS[type] ?? type} #${id ?? "—"}`;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toListRow(r: any): FindingListRow {
   return {
     id: Number(r.id),

@@ -19,7 +19,6 @@ import {
 import { RecordNotFoundError } from "../errors";
 import { toBool, toBoolOrNull, toNumOrNull } from "../types";
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
 
 export interface LoadedBranch {

@@ -30,6 +30,6 @@ export async function getOrganisationAuditSettings(db: Knex, organisationId: num
   return {
     name: row.name,
     packs: (Array.isArray(packs) ? packs : ["us_federal"]).filter((p): p is RulePack => (RULE_PACKS as readonly string[]).includes(p)),
-    settings: resolveSettings(settings && typeof settings === "object" ? (settings as Partial<AuditSettings>) : {}),
+    settings: resolveSettings(settings && typeof settings === "object" ? settings : {}),
   };
 }

@@ -17,7 +17,6 @@ import { whereFindingShowsIn } from "./finding-branches";
 import { amendmentsBehindGap, type GapAmendment } from "./amendment-fixes";
 import { loadBranchRecords } from "./load-branch-records";
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Row = Record<string, any>;
 
 export interface BranchAuditSummary {

@@ -12,9 +12,8 @@ export interface SavedView {
   updatedAt: string;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toView(r: any): SavedView {
-  let raw: unknown = {};
+  let raw: unknown;
   try {
     raw = JSON.parse(r.query);
   } catch {

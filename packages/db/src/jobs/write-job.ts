@@ -1,5 +1,5 @@
 import type { Knex } from "knex";
-import { normaliseDesignation, toGrams, type JobInput, type MassDisplayUnit } from "@coldtrail/core";
+import { normaliseDesignation, toGrams, type JobInput } from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
 import { describeMass } from "../mass";
@@ -135,7 +135,7 @@ export async function insertJob(
     now: opts.now ?? new Date(at),
   });
   const appliance = await jobAppliance(trx, actor.organisationId, branch.id, input.applianceId);
-  const mass = (g: number) => describeMass(g, branch.massUnit as MassDisplayUnit);
+  const mass = (g: number) => describeMass(g, branch.massUnit);
   const base = {
     organisation_id: actor.organisationId,
     branch_id: branch.id,
@@ -323,7 +323,7 @@ export async function insertJob(
     case "verification_test": {
       if (appliance.status !== "in_service")
         throw new RecordConflictError("Verification tests are logged on appliances in service", "applianceId");
-      let relatedJobId: number | null = null;
+      let relatedJobId: number | null;
       if (input.relatedJobId !== undefined) {
         const repair = await trx("jobs")
           .where({ id: input.relatedJobId, organisation_id: actor.organisationId, appliance_id: appliance.id, kind: "leak_repair" })

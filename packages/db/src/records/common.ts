@@ -65,7 +65,7 @@ export async function writableBranch(db: Db, organisationId: number, branchId: n
 /** The organisation's rule settings (leak-rate method, strict fill, requalification years …). */
 export async function organisationSettings(db: Db, organisationId: number): Promise<AuditSettings> {
   const row = await db("organisations").where({ id: organisationId }).first("settings");
-  let stored: Partial<AuditSettings> = {};
+  let stored: Partial<AuditSettings>;
   try {
     stored = row?.settings ? (JSON.parse(row.settings) as Partial<AuditSettings>) : {};
   } catch {

@@ -110,7 +110,6 @@ export async function listDisposals(db: Knex, opts: { scope: ScopeFn; query: Dis
   if (column === "d.refrigerant" || column === "d.recovered_g") orderByNullable(rowsQuery, column, dir);
   else rowsQuery.orderBy(column, dir);
   rowsQuery.orderBy("d.id", dir);
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await rowsQuery.limit(pageSize).offset((page - 1) * pageSize);
   return {
     total,
@@ -187,7 +186,6 @@ export interface DisposalStatementDetail extends DisposalBase {
   documentMime: string | null;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 async function base(db: Knex, r: any, subjectType: string): Promise<DisposalBase> {
   return {
     id: Number(r.id),

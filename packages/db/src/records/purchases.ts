@@ -61,7 +61,6 @@ const COLUMNS = [
   "p.void_reason",
 ];
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toRow(r: any): PurchaseRow {
   return {
     id: Number(r.id),

@@ -63,7 +63,6 @@ export async function listShipments(db: Knex, opts: { scope: ScopeFn; query: Shi
   if (column) rowsQuery.orderBy(column, dir);
   else rowsQuery.orderByRaw(`total_g ${dir}`);
   rowsQuery.orderBy("s.id", dir);
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await rowsQuery.limit(query.pageSize).offset((query.page - 1) * query.pageSize);
   const ids = rows.map((r) => Number(r.id));
   // Ordered so each shipment's refrigerants come out in the same order on SQLite and PostgreSQL.

@@ -81,8 +81,8 @@ export interface ApplianceRow extends ApplianceDerived {
 
 /** Classification of an appliance by the rules core; unknown refrigerants give no class rather than an error. */
 export function deriveApplianceClass(a: { refrigerant: string; fullChargeG: number | null; factorySealed: boolean }): ApplianceDerived {
-  let pressureClass: PressureClass | null = null;
-  let certificationTypes: CertificationType[] = [];
+  let pressureClass: PressureClass | null;
+  let certificationTypes: CertificationType[];
   try {
     pressureClass = classifyPressure(a.refrigerant);
   } catch {
@@ -117,7 +117,6 @@ const COLUMNS = [
   "customer.name as customer_name",
 ];
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toRow(r: any): ApplianceRow {
   const fullChargeG = Number(r.full_charge_g);
   const factorySealed = toBool(r.factory_sealed);

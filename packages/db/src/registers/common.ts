@@ -60,7 +60,7 @@ export async function loadOrganisationSettings(db: Knex | Knex.Transaction, orga
   for (const [key, fallback] of Object.entries(DEFAULT_SETTINGS)) {
     if (stored[key] !== undefined && typeof stored[key] === typeof fallback) chosen[key] = stored[key];
   }
-  return resolveSettings(chosen as Partial<AuditSettings>);
+  return resolveSettings(chosen);
 }
 
 /** Today's calendar date in a branch's time zone. */

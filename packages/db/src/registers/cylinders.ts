@@ -181,7 +181,6 @@ function weighingIsLatest(weighing: CylinderWeighingSummary | null, movement: La
   return weighing.createdAt > movement.createdAt;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toRow(
   r: any,
   weighing: CylinderWeighingSummary | null,
@@ -256,14 +255,12 @@ async function latestMovements(db: Knex, ids: number[]): Promise<Map<number, Las
 }
 
 /** Both "latest" lookups of a page of cylinders, two queries in all. */
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 async function latestOf(db: Knex, rows: any[]) {
   const ids = (key: string) => rows.map((r) => toNumOrNull(r[key])).filter((x): x is number => x !== null);
   const [weighings, movements] = await Promise.all([
     latestWeighings(db, ids("last_weighing_id")),
     latestMovements(db, ids("last_movement_id")),
   ]);
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   return (r: any) => ({
     weighing: weighings.get(Number(r.last_weighing_id)) ?? null,
     movement: movements.get(Number(r.last_movement_id)) ?? null,
@@ -330,7 +327,6 @@ export async function listCylinders(
 
   const total = await countRows(filtered(db("cylinders as cylinders")));
   const dir = query.dir === "desc" ? "desc" : "asc";
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
   const rows: any[] = await sortedPage(filtered(withJoins(db)).select(columns(db)), {
     column: SORT_COLUMNS[query.sort ?? "serial"],
     dir,

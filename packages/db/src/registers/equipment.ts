@@ -64,7 +64,6 @@ const COLUMNS = [
   "branch.time_zone as branch_time_zone",
 ];
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toRow(r: any): EquipmentRow {
   return {
     id: Number(r.id),

@@ -30,15 +30,15 @@ export default async function AppLayout({ children }: { children: React.ReactNod
   if (ability.can("read", "Disposal")) nav.push({ href: "/disposals", label: "Disposals", group: "Work" });
   if (ability.can("read", "ReclaimShipment")) nav.push({ href: "/shipments", label: "Shipments", group: "Work" });
   if (ability.can("read", "Purchase")) nav.push({ href: "/purchases", label: "Purchases", group: "Work" });
-  // Registers (issue 3): appliances, cylinders, recovery equipment for whoever may read them.
+  // Registers: appliances, cylinders, recovery equipment for whoever may read them.
   if (ability.can("read", "Appliance")) nav.push({ href: "/appliances", label: "Appliances", group: "Registers" });
   if (ability.can("read", "Cylinder")) nav.push({ href: "/cylinders", label: "Cylinders", group: "Registers" });
   if (ability.can("read", "RecoveryEquipment")) nav.push({ href: "/equipment", label: "Equipment", group: "Registers" });
-  // Running the organisation (issue 6): people for whoever may read them; branches, inspector access and settings under the same tab.
+  // Running the organisation: people for whoever may read them; branches, inspector access and settings under the same tab.
   if (ability.can("update", "Branch") || ability.can("read", "Settings") || ability.can("read", "InspectorGrant"))
     nav.push({ href: "/admin", label: "Organisation", group: "Organisation" });
   else if (ability.can("read", "User")) nav.push({ href: "/admin", label: "People", group: "Organisation" });
-  // Certification cards and spreadsheet import (issue 3).
+  // Certification cards and spreadsheet import.
   if (ability.can("read", "Certification") || ability.can("create", "Certification"))
     nav.push({ href: "/certifications", label: "Certifications", group: "Compliance" });
   if (ability.can("create", "Import")) nav.push({ href: "/imports", label: "Import", group: "Organisation" });

@@ -63,7 +63,7 @@ export function FindingsByRuleChart({ rows }: { rows: RuleRow[] }) {
               label={{ value: "Findings (count)", position: "insideBottom", offset: -14, fontSize: 12, fill: "var(--color-ink-700)" }}
             />
             <YAxis type="category" dataKey="ruleId" width={104} tick={{ fontSize: 12, fill: "var(--color-ink-900)" }} />
-            <Tooltip labelFormatter={(id) => `${id} · ${rows.find((r) => r.ruleId === id)?.title ?? ""}`} />
+            <Tooltip labelFormatter={(id) => `${String(id)} · ${rows.find((r) => r.ruleId === id)?.title ?? ""}`} />
             {SEVERITIES.map((s) => (
               <Bar
                 key={s}

@@ -73,9 +73,7 @@ export function FindingsOverTimeChart({ rows }: { rows: MonthRow[] }) {
               dataKey="active"
               stroke="var(--color-ink-900)"
               strokeWidth={3}
-              dot={(p: object) => (
-                <Marker key={(p as { index: number }).index} {...(p as object)} shape="diamond" color="var(--color-ink-900)" />
-              )}
+              dot={(p: object) => <Marker key={(p as { index: number }).index} {...p} shape="diamond" color="var(--color-ink-900)" />}
               isAnimationActive={false}
             >
               <LabelList dataKey="active" content={endLabel("to act on", -1)} />
@@ -85,9 +83,7 @@ export function FindingsOverTimeChart({ rows }: { rows: MonthRow[] }) {
               dataKey="opened"
               stroke="var(--color-sev-major)"
               strokeWidth={2}
-              dot={(p: object) => (
-                <Marker key={(p as { index: number }).index} {...(p as object)} shape="circle" color="var(--color-sev-major)" />
-              )}
+              dot={(p: object) => <Marker key={(p as { index: number }).index} {...p} shape="circle" color="var(--color-sev-major)" />}
               isAnimationActive={false}
             >
               <LabelList dataKey="opened" content={endLabel("opened", 0)} />
@@ -98,9 +94,7 @@ export function FindingsOverTimeChart({ rows }: { rows: MonthRow[] }) {
               stroke="var(--color-fjord-600)"
               strokeWidth={2}
               strokeDasharray="6 4"
-              dot={(p: object) => (
-                <Marker key={(p as { index: number }).index} {...(p as object)} shape="square" color="var(--color-fjord-600)" />
-              )}
+              dot={(p: object) => <Marker key={(p as { index: number }).index} {...p} shape="square" color="var(--color-fjord-600)" />}
               isAnimationActive={false}
             >
               <LabelList dataKey="closed" content={endLabel("closed", 1)} />

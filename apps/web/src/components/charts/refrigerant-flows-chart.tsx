@@ -63,7 +63,7 @@ export function RefrigerantFlowsChart({ rows, massUnit }: { rows: FlowRow[]; mas
                 style: { textAnchor: "middle" },
               }}
             />
-            <Tooltip formatter={(v, name) => [`${v} ${unit}`, String(name).replace(/ \(.*\)/, "")]} />
+            <Tooltip formatter={(v, name) => [`${String(v)} ${unit}`, String(name).replace(/ \(.*\)/, "")]} />
             {SERIES.map((s) => (
               <Bar
                 key={s.key}

@@ -15,7 +15,7 @@ import {
 /** Every server-paged table sorts and pages on the server; a table may add features (e.g. row selection). */
 export const serverTableFeatures = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 export type ServerTableFeatures = typeof serverTableFeatures;
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- a table mixes columns of different value types, as TanStack Table documents
 export type ServerColumn<T extends RowData> = ColumnDef<ServerTableFeatures, T, any>;
 export const serverColumnHelper = <T extends RowData>() => createColumnHelper<ServerTableFeatures, T>();
 
@@ -40,7 +40,7 @@ export type RowAttributes = { [key: `data-${string}`]: string | number | undefin
 
 export interface TableViewProps<TFeatures extends ServerTableFeatures, T extends RowData> {
   /** A TanStack table over `serverTableFeatures` (or more), with manual sorting and pagination. */
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- columns of different value types (see ServerColumn)
   table: ReactTable<TFeatures, T, any>;
   /** The list query's state. */
   query: { isLoading: boolean; isFetching: boolean; isError: boolean; error: unknown };
@@ -85,7 +85,7 @@ const ariaSort = (sorted: false | "asc" | "desc", canSort: boolean) =>
 export function TableView<TFeatures extends ServerTableFeatures, T extends RowData>(props: TableViewProps<TFeatures, T>) {
   const { query, total, pageIndex, pageSize, label, noun, emptyText, statusId, pager = "full", status = true } = props;
   // Only the sorting and pagination features are used here, whatever else the table has.
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- columns of different value types (see ServerColumn)
   const table = props.table as unknown as ReactTable<ServerTableFeatures, T, any>;
   const rows = table.getRowModel().rows;
   const showEmpty = !query.isLoading && total === 0;

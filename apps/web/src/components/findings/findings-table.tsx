@@ -459,7 +459,7 @@ export function FindingsTable({ fixed = {}, initial = {}, canAssign, syncUrl = f
                     setView({
                       ...DEFAULT_VIEW,
                       ...Object.fromEntries(Object.entries(v.query).filter(([, x]) => x !== undefined && x !== null)),
-                    } as ViewState);
+                    });
                     setPagination((p) => ({ ...p, pageIndex: 0 }));
                     setNotice({ ok: true, text: `Showing the view "${v.name}".` });
                   }

@@ -56,7 +56,7 @@ export function NewAuditForm({
     fields[key]?.length ? (
       <p id={`${key}-error`} className="mt-1 text-sm text-sev-critical">
         <span aria-hidden="true">⚠ </span>
-        {fields[key]!.join(" ")}
+        {fields[key].join(" ")}
       </p>
     ) : null;
 

@@ -70,10 +70,10 @@ export function StatusBadge({
   | { kind: "equipment"; status: EquipmentStatus }) {
   const label =
     kind === "appliance"
-      ? REGISTER_LABELS.applianceStatus[status as ApplianceStatus]
+      ? REGISTER_LABELS.applianceStatus[status]
       : kind === "cylinder"
-        ? REGISTER_LABELS.cylinderStatus[status as CylinderStatus]
-        : REGISTER_LABELS.equipmentStatus[status as EquipmentStatus];
+        ? REGISTER_LABELS.cylinderStatus[status]
+        : REGISTER_LABELS.equipmentStatus[status];
   const active = status === "in_service";
   return (
     <span className={`inline-flex items-center gap-1 whitespace-nowrap text-sm ${active ? "text-ink-900" : "text-ink-600"}`}>

@@ -127,7 +127,7 @@ export function LeakRateChart({
                   dataKey="percent"
                   stroke="var(--color-fjord-600)"
                   strokeWidth={2}
-                  dot={(p: object) => <EventDot {...(p as { cx?: number; cy?: number; payload?: Point; index?: number })} />}
+                  dot={(p: object) => <EventDot {...p} />}
                   isAnimationActive={false}
                   connectNulls
                 />

@@ -210,7 +210,7 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
   heading("Findings by severity", "Severity");
   const total = group(() => "all")[0]?.[1] ?? { critical: 0, major: 0, minor: 0 };
   for (const s of ["critical", "major", "minor"] as Severity[])
-    sumRow("", SEVERITY_LABELS[s], { critical: 0, major: 0, minor: 0, [s]: total[s] } as Record<Severity, number>);
+    sumRow("", SEVERITY_LABELS[s], { critical: 0, major: 0, minor: 0, [s]: total[s] });
   summary.addRow({}).commit();
   line(
     "Masses",
@@ -218,7 +218,7 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
   );
   line("Status words", Object.values(FINDING_STATE_LABELS).join(", "));
   line("Rule packs available", RULE_PACKS.map((p) => PACK_LABELS[p]).join("; "));
-  await summary.commit();
+  summary.commit();
 
   // Findings: one row per finding of the audit.
   const findings = table(
@@ -266,7 +266,7 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
       )
       .commit();
   }
-  await findings.commit();
+  findings.commit();
 
   // Jobs of the period.
   const jobs = table(
@@ -328,7 +328,7 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
       )
       .commit();
   }
-  await jobs.commit();
+  jobs.commit();
 
   // Leak-rate calculations with their inputs.
   const leaks = table(
@@ -392,7 +392,7 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
       )
       .commit();
   }
-  await leaks.commit();
+  leaks.commit();
 
   // Cylinders of the branches (their state now).
   const cylinders = table(
@@ -448,7 +448,7 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
       )
       .commit();
   }
-  await cylinders.commit();
+  cylinders.commit();
 
   // Certifications of the branches' technicians.
   const certs = table(
@@ -484,7 +484,7 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
       )
       .commit();
   }
-  await certs.commit();
+  certs.commit();
 
   // Disposal records and signed statements of the period.
   const disposals = table(
@@ -540,7 +540,7 @@ async function writeWorkbook(db: Knex, wb: ExcelJS.stream.xlsx.WorkbookWriter, o
       )
       .commit();
   }
-  await disposals.commit();
+  disposals.commit();
 }
 
 /** The streamed download: a Response whose body is the workbook as it is written. */

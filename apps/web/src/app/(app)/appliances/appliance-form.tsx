@@ -85,7 +85,7 @@ function DerivedPreview({
       </p>
     );
   }
-  let pressure: string | null = null;
+  let pressure: string | null;
   try {
     pressure = PRESSURE_CLASS_WORDS[classifyPressure(designation)];
   } catch {
@@ -505,7 +505,7 @@ export function ApplianceForm(
           <DerivedPreview
             refrigerant={String(watch("refrigerant") ?? "")}
             amount={watch("fullChargeAmount")}
-            unit={(watch("fullChargeUnit") as MassInputUnit) ?? "lb"}
+            unit={watch("fullChargeUnit") ?? "lb"}
             factorySealed={Boolean(watch("factorySealed"))}
             category={category}
             today={today}

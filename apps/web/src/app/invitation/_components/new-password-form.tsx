@@ -60,6 +60,7 @@ export function NewPasswordForm({
         setPending(false);
         return;
       }
+      // eslint-disable-next-line @next/next/no-location-assign-relative-destination -- a full load so the server renders with the new session
       window.location.assign("/");
     } catch (err) {
       setPending(false);

@@ -90,7 +90,7 @@ export function BranchForm({ branch }: { branch?: AdminBranchRow }) {
         await queryClient.invalidateQueries({ queryKey: ["admin-branch", String(branch.id)] });
         setNotice("Saved. Every screen and deadline of the branch uses these from now on.");
       } else {
-        router.push(`/admin/branches/${(res as { id: number }).id}?created=1`);
+        router.push(`/admin/branches/${res.id}?created=1`);
       }
     },
     onError: (err) => {

@@ -289,7 +289,7 @@ function CorrectionForm({ card, onDone }: { card: CardDetail; onDone: (message: 
               </label>
             ))}
           </div>
-          <FieldError message={e.types?.message as string | undefined} />
+          <FieldError message={e.types?.message} />
         </fieldset>
         <label className="block text-sm font-medium text-ink-800">
           Certifying organisation

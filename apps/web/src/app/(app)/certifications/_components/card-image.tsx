@@ -61,8 +61,8 @@ export function CardImage({ id, mime, hasCard, label }: { id: number; mime: stri
 export function CardThumb({ id, mime, hasThumbnail, label }: { id: number; mime: string | null; hasThumbnail: boolean; label: string }) {
   const [broken, setBroken] = useState(false);
   if (hasThumbnail && !broken) {
-    // eslint-disable-next-line @next/next/no-img-element -- private file behind a permission check
     return (
+      // eslint-disable-next-line @next/next/no-img-element -- private file behind a permission check
       <img
         src={cardFileUrl(id, "thumbnail")}
         alt={label}

@@ -18,7 +18,7 @@ export function MyCards() {
   if (cards.isError)
     return (
       <p role="alert" className="text-sev-critical">
-        ⚠ Your cards could not be loaded: {(cards.error as Error).message}
+        ⚠ Your cards could not be loaded: {cards.error.message}
       </p>
     );
   const rows = cards.data?.rows ?? [];

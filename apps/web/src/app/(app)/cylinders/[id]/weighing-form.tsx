@@ -232,7 +232,7 @@ export function WeighingForm({ cylinder, amend, onDone }: { cylinder: CylinderRo
       <NetPreview
         cylinder={cylinder}
         gross={watch("grossAmount")}
-        unit={watch("grossUnit") as MassInputUnit}
+        unit={watch("grossUnit")}
         refrigerant={String(watch("refrigerant") ?? "")}
       />
       {amend && (

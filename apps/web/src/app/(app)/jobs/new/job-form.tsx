@@ -325,7 +325,7 @@ function KindForm({
     if (recovering) setValue("recoveredUnit", unit);
     if (kind === "charge") setValue("chargedUnit", unit);
     if (appliance.category !== "small_appliance" && recovering) setValue("compressorOperating", null);
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- fills defaults when the appliance is picked, not again when the kind or submit state changes
   }, [appliance]);
 
   // Instant feedback: the rules run on the draft (debounced) and say what would become a finding.
@@ -587,7 +587,7 @@ function KindForm({
                 <fieldset>
                   <legend className={labelClass}>Did the repair need an industrial-process shutdown?</legend>
                   <p className={hintClass}>With a shutdown the repair deadline is 120 days instead of 30.</p>
-                  <YesNo name={field.name} value={field.value} onChange={field.onChange} />
+                  <YesNo name={field.name} value={field.value as boolean | null} onChange={field.onChange} />
                 </fieldset>
               )}
             />
@@ -612,7 +612,7 @@ function KindForm({
             render={({ field }) => (
               <fieldset aria-describedby={describedBy("verificationPassed")}>
                 <legend className={labelClass}>Did the repair pass?</legend>
-                <YesNo name={field.name} value={field.value} onChange={field.onChange} yes="✓ Passed" no="✕ Failed" />
+                <YesNo name={field.name} value={field.value as boolean | null} onChange={field.onChange} yes="✓ Passed" no="✕ Failed" />
                 <FieldError id={`${uid}-verificationPassed-error`} message={errorOf("verificationPassed")} />
               </fieldset>
             )}
@@ -686,7 +686,13 @@ function KindForm({
               <p className={hintClass}>
                 A piercing device left on the line is a leak point; remove it and install a proper access fitting.
               </p>
-              <YesNo name={field.name} value={field.value} onChange={field.onChange} yes="Yes, removed" no="No, still in place" />
+              <YesNo
+                name={field.name}
+                value={field.value as boolean | null}
+                onChange={field.onChange}
+                yes="Yes, removed"
+                no="No, still in place"
+              />
               <FieldError id={`${uid}-temporaryAccessRemoved-error`} message={errorOf("temporaryAccessRemoved")} />
               {fieldWarnings("temporaryAccessRemoved")}
             </fieldset>
@@ -704,7 +710,7 @@ function KindForm({
               <p className={hintClass}>
                 Small appliances: 90 % of the charge must be recovered with a running compressor, 80 % without (or 4 in Hg vacuum).
               </p>
-              <YesNo name={field.name} value={field.value} onChange={field.onChange} yes="Running" no="Not running" />
+              <YesNo name={field.name} value={field.value as boolean | null} onChange={field.onChange} yes="Running" no="Not running" />
             </fieldset>
           )}
         />

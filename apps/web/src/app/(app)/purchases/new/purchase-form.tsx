@@ -42,12 +42,12 @@ export function PurchaseForm({ organisationId }: { organisationId: number }) {
   });
   const { register, handleSubmit, formState, setError, setValue, watch } = form;
   const errors = formState.errors;
-  const branchId = watch("branchId");
+  const branchId = watch("branchId") as string;
   useEffect(() => {
     if (!branchId && writable[0]) setValue("branchId", String(writable[0].id));
     const b = writable.find((x) => String(x.id) === String(branchId));
     if (b) setValue("unit", b.massUnit === "kg" ? "kg" : "lb");
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- writable is a new array on every render; the choice depends on its length
   }, [branchId, writable.length]);
 
   const idem = useIdempotencyKey();

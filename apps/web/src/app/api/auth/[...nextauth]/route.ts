@@ -3,6 +3,7 @@ import type { NextRequest } from "next/server";
 import { NextResponse } from "next/server";
 import { authOptions } from "@/lib/auth/options";
 
+// eslint-disable-next-line @typescript-eslint/no-unsafe-assignment -- next-auth 4 types its App Router handler as any
 const handler = NextAuth(authOptions);
 
 type Context = { params: Promise<{ nextauth: string[] }> };

@@ -150,7 +150,7 @@ export async function readHeadings(
   while (headings.length > 0 && headings[headings.length - 1] === "") headings.pop();
   if (headings.length === 0) throw new SpreadsheetRejected("The first row must hold the column headings");
   if (sample.length === 0) throw new SpreadsheetRejected("The file has headings but no rows to import");
-  return { headings: headings.map((h, i) => h || `Column ${i + 1}`), headingRow, sample: sample.map((r) => r.slice(0, headings!.length)) };
+  return { headings: headings.map((h, i) => h || `Column ${i + 1}`), headingRow, sample: sample.map((r) => r.slice(0, headings.length)) };
 }
 
 /** The rows after the headings of a stored file, streamed from object storage, with how much has been read. */

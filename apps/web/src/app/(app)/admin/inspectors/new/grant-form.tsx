@@ -87,7 +87,7 @@ export function GrantForm() {
           {hint}
         </p>
       )}
-      <FieldError id={`${uid}-${name}-error`} message={errors[name]?.message as string | undefined} />
+      <FieldError id={`${uid}-${name}-error`} message={errors[name]?.message} />
     </div>
   );
 
@@ -102,7 +102,7 @@ export function GrantForm() {
         control={control}
         name="branchIds"
         render={({ field: f }) => {
-          const value = ((f.value ?? []) as unknown[]).map(Number);
+          const value = (f.value ?? []).map(Number);
           return (
             <fieldset aria-describedby={errors.branchIds ? `${uid}-branchIds-error` : undefined}>
               <legend className={labelClass}>Branches they may read</legend>

@@ -105,8 +105,8 @@ export function InviteForm() {
             render={({ field: branchesField }) => (
               <AccessFields
                 value={{
-                  roles: (rolesField.value ?? []) as FormOut["roles"],
-                  branchIds: ((branchesField.value ?? []) as unknown[]).map(Number),
+                  roles: rolesField.value ?? [],
+                  branchIds: (branchesField.value ?? []).map(Number),
                 }}
                 onChange={(next) => {
                   rolesField.onChange(next.roles);

@@ -6,7 +6,7 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { subject } from "@casl/ability";
 import { APPLIANCE_CATEGORY_LABELS, smallApplianceStatementCompleteness } from "@coldtrail/core";
 import type { DisposalStatementDetail } from "@coldtrail/db";
-import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { ApiError, fetchJson, readApiResponse } from "@/lib/client/fetch-json";
 import { DetailRow, LoadError, CompletenessLine } from "@/components/detail";
 import { useAbility } from "@/components/providers";
 import { FieldError, SavedNotice, inputClass, labelClass, secondaryButton } from "../../../jobs/_components/form-bits";
@@ -41,8 +41,7 @@ function AttachDocument({ id, invalidate }: { id: number; invalidate: string[][]
         body,
         headers: { accept: "application/json" },
       });
-      const json = await res.json().catch(() => null);
-      if (!res.ok) throw new ApiError(res.status, json?.error?.message ?? "Upload failed", json?.error?.fieldErrors ?? {});
+      await readApiResponse(res, "Upload failed");
     },
     onSuccess: async () => {
       await Promise.all(invalidate.map((queryKey) => queryClient.invalidateQueries({ queryKey })));
