@@ -77,6 +77,9 @@ export default tseslint.config(
   {
     files: ["tests/**/*.ts", "packages/*/test/**/*.ts"],
     rules: {
+      // Route modules are imported after their mocks are set up (`await import(...)`), so their types are
+      // named at that point with `typeof import(...)`.
+      "@typescript-eslint/consistent-type-imports": ["error", { fixStyle: "inline-type-imports", disallowTypeAnnotations: false }],
       // Tests read JSON responses and raw rows (`any`) and assert their shape at run time; typing each one adds nothing.
       "@typescript-eslint/no-unsafe-assignment": "off",
       "@typescript-eslint/no-unsafe-member-access": "off",
@@ -88,6 +91,20 @@ export default tseslint.config(
   {
     files: ["**/*.{js,mjs,cjs}", "*.mts", "tests/**/vitest.config.mts"],
     ...tseslint.configs.disableTypeChecked,
+  },
+
+  {
+    files: ["apps/web/**/*.{ts,tsx}"],
+    rules: {
+      // The web app still reads some knex rows and `response.json()` results, both typed `any`; until
+      // the data layer returns typed rows (the thin-data-layer work), each such use is a warning to fix
+      // there, not an error that blocks every change.
+      "@typescript-eslint/no-unsafe-assignment": "warn",
+      "@typescript-eslint/no-unsafe-member-access": "warn",
+      "@typescript-eslint/no-unsafe-argument": "warn",
+      "@typescript-eslint/no-unsafe-return": "warn",
+      "@typescript-eslint/no-unsafe-call": "warn",
+    },
   },
 
   // React and Next.js rules for the web app.

@@ -56,7 +56,7 @@ function startServer(slot: number, restarted: boolean): Server {
     stdio: ["pipe", "pipe", "inherit"],
   });
   const s: Server = { slot, proc, ready: false, waiting: new Map(), startedAt: Date.now(), readyAt: null, firstAnswerAt: null, restarted };
-  readline.createInterface({ input: proc.stdout! }).on("line", (line) => {
+  readline.createInterface({ input: proc.stdout }).on("line", (line) => {
     if (line === "ready") {
       s.ready = true;
       s.readyAt = Date.now();
@@ -75,7 +75,7 @@ function startServer(slot: number, restarted: boolean): Server {
     for (const resolve of s.waiting.values()) resolve(null);
     s.waiting.clear();
   });
-  proc.stdin!.on("error", () => undefined);
+  proc.stdin.on("error", () => undefined);
   servers[slot] = s;
   return s;
 }
@@ -200,7 +200,7 @@ async function runnerTakeover(): Promise<void> {
     });
   const first = spawnRunner();
   await new Promise<void>((resolve) =>
-    readline.createInterface({ input: first.stdout! }).on("line", (l) => {
+    readline.createInterface({ input: first.stdout }).on("line", (l) => {
       if (process.env.FAULT_DEBUG) console.log(`[first runner] ${new Date().toISOString()} ${l}`);
       if (l.startsWith(`started ${id}`)) resolve();
     }),
@@ -210,7 +210,7 @@ async function runnerTakeover(): Promise<void> {
   const second = spawnRunner();
   const times = await new Promise<{ started: number; done: number }>((resolve) => {
     let started = 0;
-    readline.createInterface({ input: second.stdout! }).on("line", (l) => {
+    readline.createInterface({ input: second.stdout }).on("line", (l) => {
       if (l.startsWith(`started ${id}`)) started = Date.now();
       if (l === `done ${id}`) resolve({ started, done: Date.now() });
     });

@@ -23,21 +23,20 @@ async function findingsAt(now: Date, period = { from: "2026-01-01", to: "2026-12
   return runAudit(loaded.records, { packs: ["us_federal"], period, asOf: now, settings: DEFAULT_SETTINGS });
 }
 
-const disposal = (performedOn: string): JobInput =>
-  ({
-    kind: "disposal",
-    applianceId: f.rooftop,
-    performedOn,
-    refrigerant: "R-410A",
-    recoveredAmount: 8,
-    recoveredUnit: "lb",
-    cylinderId: f.northCylinder,
-    equipmentId: f.northEquipment,
-    evacuationValue: 0,
-    evacuationUnit: "psig",
-    accessMethod: "service_valve",
-    disposalPath: "on_site",
-  }) as JobInput;
+const disposal = (performedOn: string): JobInput => ({
+  kind: "disposal",
+  applianceId: f.rooftop,
+  performedOn,
+  refrigerant: "R-410A",
+  recoveredAmount: 8,
+  recoveredUnit: "lb",
+  cylinderId: f.northCylinder,
+  equipmentId: f.northEquipment,
+  evacuationValue: 0,
+  evacuationUnit: "psig",
+  accessMethod: "service_valve",
+  disposalPath: "on_site",
+});
 
 describe("grace periods before paperwork is reported missing", () => {
   it("a disposal saved today raises no disposal-record finding; after the grace period it does", async () => {

@@ -62,7 +62,7 @@ export function routeHarness(db: () => Knex, extraMocks: (webPath: (p: string) =
         params: Promise.resolve(opts.params ?? {}),
       });
       const text = await res.text();
-      let json: unknown = null;
+      let json: unknown;
       try {
         json = JSON.parse(text);
       } catch {

@@ -68,7 +68,7 @@ export interface CallOptions {
 export const NOW = new Date("2026-12-01T12:00:00Z");
 
 async function firstRow(t: TestDb, sql: string): Promise<{ f: unknown }> {
-  const rows = (await t.db.raw(sql)) as Array<{ f: unknown }>;
+  const rows = await t.db.raw<Array<{ f: unknown }>>(sql);
   return rows[0]!;
 }
 
@@ -163,7 +163,7 @@ export async function createHarness(): Promise<Harness> {
     const url = `http://127.0.0.1:3000/api/${route}${opts.query ? `?${opts.query}` : ""}`;
     const res = await handler(new NextRequest(url, init), { params: Promise.resolve(opts.params ?? {}) });
     const text = res.headers.get("content-type")?.includes("json") ? await res.text() : `[${res.headers.get("content-type")}]`;
-    let json: Record<string, unknown> | null = null;
+    let json: Record<string, unknown> | null;
     try {
       json = JSON.parse(text);
     } catch {

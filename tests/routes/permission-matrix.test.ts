@@ -45,8 +45,6 @@ const orgOf = (place: Place) => (place === "otherOrg" ? 2 : 1);
 /** Ids of a record of each kind at each place, and the fields the permission rules read. */
 const rec: Record<string, Record<Place, { id: number; fields: Record<string, unknown> }>> = {};
 
-const can = (action: Action, name: SubjectName, fields: Record<string, unknown>) => (ability: AppAbility) =>
-  ability.can(action, subject(name, { ...fields }));
 /** The permission on the record of `kind` at the place. */
 const onRecord =
   (kind: string, action: Action, name: SubjectName) =>
@@ -94,7 +92,7 @@ async function pickDated(
       if (place === "window") q.whereBetween(dateColumn, ["2025-01-01", "2025-12-31"]);
       else if (place === "other") q.where(dateColumn, ">", "2025-12-31");
     });
-    rec[kind]![place] = {
+    rec[kind][place] = {
       id: Number(row.id),
       fields: { organisationId: Number(row.organisation_id), branchId: Number(row.branch_id), [field]: row[dateColumn], ...extra(row) },
     };
@@ -105,7 +103,7 @@ async function pickUndated(table: string, kind: string, where: (q: ReturnType<Ha
   rec[kind] = {} as Record<Place, { id: number; fields: Record<string, unknown> }>;
   for (const place of PLACES_DATED) {
     const row = await pick(table, place === "window" ? "other" : place, where);
-    rec[kind]![place] = { id: Number(row.id), fields: { organisationId: Number(row.organisation_id), branchId: Number(row.branch_id) } };
+    rec[kind][place] = { id: Number(row.id), fields: { organisationId: Number(row.organisation_id), branchId: Number(row.branch_id) } };
   }
 }
 
@@ -763,7 +761,7 @@ function defineEntries() {
             { applianceId: recId("appliance", p), recoveredAmount: 1, recoveredUnit: "lb", evacuationValue: 0, evacuationUnit: "psig" },
           ],
         }),
-        (p) => ({ technicianId: h.session.signedIn?.actor.userId ?? 0 }),
+        () => ({ technicianId: h.session.signedIn?.actor.userId ?? 0 }),
       ),
     },
     "disposals/statements": {
@@ -895,7 +893,7 @@ function defineEntries() {
       POST: branchCreate(
         "Job",
         (p) => jobBody(p),
-        (p) => ({ technicianId: h.session.signedIn?.actor.userId ?? 0 }),
+        () => ({ technicianId: h.session.signedIn?.actor.userId ?? 0 }),
       ),
     },
     "jobs/[id]": {
@@ -908,7 +906,7 @@ function defineEntries() {
       POST: branchCreate(
         "Job",
         (p) => jobBody(p),
-        (p) => ({ technicianId: h.session.signedIn?.actor.userId ?? 0 }),
+        () => ({ technicianId: h.session.signedIn?.actor.userId ?? 0 }),
       ),
     },
     "lookup/appliances": { GET: list("read", "Appliance") },

@@ -10,7 +10,10 @@ import { toBool } from "./types";
  * A signed-in person changes their own password. The current password must match; every session of
  * the person ends (this one too: the page signs in again with the new password).
  */
-export async function changeOwnPassword(db: Knex, opts: { userId: number; input: ChangePasswordInput; now?: Date }): Promise<{ email: string }> {
+export async function changeOwnPassword(
+  db: Knex,
+  opts: { userId: number; input: ChangePasswordInput; now?: Date },
+): Promise<{ email: string }> {
   const at = (opts.now ?? new Date()).toISOString();
   const user = await db("users").where({ id: opts.userId }).first("id", "organisation_id", "email", "name", "active", "password_hash");
   if (!user || !toBool(user.active)) throw new RecordNotFoundError("No such person");

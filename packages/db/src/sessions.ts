@@ -41,9 +41,7 @@ export type SessionCheck = { ok: true; userId: number } | { ok: false; reason: "
 
 /** The organisation's idle timeouts (minutes). */
 export async function getSessionIdleSettings(db: Knex | Knex.Transaction, organisationId: number): Promise<SessionIdleSettings> {
-  const row = await db("organisations")
-    .where({ id: organisationId })
-    .first("session_idle_minutes_officers", "session_idle_minutes_others");
+  const row = await db("organisations").where({ id: organisationId }).first("session_idle_minutes_officers", "session_idle_minutes_others");
   return {
     officers: Number(row?.session_idle_minutes_officers ?? SESSION_IDLE_DEFAULTS.officers),
     others: Number(row?.session_idle_minutes_others ?? SESSION_IDLE_DEFAULTS.others),
@@ -69,7 +67,10 @@ export async function checkSession(db: Knex, opts: { sessionId: string; now?: Da
   const idleMs = idleMinutesFor(roles, await getSessionIdleSettings(db, Number(row.organisation_id))) * 60_000;
   const idleFor = now.getTime() - Date.parse(row.last_seen_at);
   if (idleFor > idleMs) {
-    await db("user_sessions").where({ id: row.id }).whereNull("revoked_at").update({ revoked_at: now.toISOString(), revoked_reason: "idle" });
+    await db("user_sessions")
+      .where({ id: row.id })
+      .whereNull("revoked_at")
+      .update({ revoked_at: now.toISOString(), revoked_reason: "idle" });
     return { ok: false, reason: "idle" };
   }
   if (opts.activity && idleFor >= TOUCH_EVERY_MS) {

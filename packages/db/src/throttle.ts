@@ -70,10 +70,13 @@ function limiter(db: Knex, prefix: string, limit: Limit): RateLimiterAbstract {
     points: limit.points,
     duration: limit.seconds,
   };
-  return isPostgres(db) ? new RateLimiterPostgres({ ...options, clearExpiredByTimeout: true }) : new RateLimiterSQLite({ ...options, clearExpiredByTimeout: true });
+  return isPostgres(db)
+    ? new RateLimiterPostgres({ ...options, clearExpiredByTimeout: true })
+    : new RateLimiterSQLite({ ...options, clearExpiredByTimeout: true });
 }
 
-const isLimiterRes = (e: unknown): e is RateLimiterRes => typeof e === "object" && e !== null && "msBeforeNext" in e && !(e instanceof Error);
+const isLimiterRes = (e: unknown): e is RateLimiterRes =>
+  typeof e === "object" && e !== null && "msBeforeNext" in e && !(e instanceof Error);
 
 export interface Throttle {
   /** Null when a sign-in attempt for this account from this address may go ahead, else the refusal. */

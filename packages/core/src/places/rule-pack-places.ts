@@ -78,7 +78,7 @@ export const RULE_PACK_COVERAGE: Readonly<Record<RulePack, RulePackCoverage>> = 
  * organisation chose that cover it. In the order of `RULE_PACK_COVERAGE`.
  */
 export function packsForPlace(place: BranchPlace, chosen: readonly RulePack[] = []): RulePack[] {
-  return (Object.values(RULE_PACK_COVERAGE) as RulePackCoverage[])
+  return Object.values<RulePackCoverage>(RULE_PACK_COVERAGE)
     .filter((c) => c.covers(place) && (c.mandatory || chosen.includes(c.pack)))
     .map((c) => c.pack);
 }

@@ -72,12 +72,14 @@ export function passwordProblem(password: string): string | null {
     candidates.add(stem(form));
     candidates.add(stem(deLeet(stem(form))) || stem(form));
   }
-  const common = "This password is one of the most common ones and easy to guess; choose another (a few unrelated words make a strong pass phrase)";
+  const common =
+    "This password is one of the most common ones and easy to guess; choose another (a few unrelated words make a strong pass phrase)";
   for (const c of candidates) {
     if (!c) continue;
     if (list.has(c)) return common;
     const unit = repeatedUnit(c);
-    if (unit && (unit.length <= 4 || list.has(unit) || list.has(deLeet(unit)))) return "Do not repeat the same few characters or words; choose another password";
+    if (unit && (unit.length <= 4 || list.has(unit) || list.has(deLeet(unit))))
+      return "Do not repeat the same few characters or words; choose another password";
   }
   if (isRun(squeezed)) {
     return "Runs of neighbouring keys or numbers are easy to guess; choose another password";

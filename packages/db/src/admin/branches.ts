@@ -11,7 +11,7 @@ import {
 } from "@coldtrail/core";
 import { appendActivity, rowId } from "../activity";
 import { InvalidInputError, RecordConflictError, RecordNotFoundError } from "../errors";
-import { type ActorRef, type ScopeFn } from "../types";
+import type { ActorRef, ScopeFn } from "../types";
 import { countRows, whereContains } from "../paging";
 
 export interface AdminBranchRow {
@@ -193,7 +193,7 @@ export async function updateBranch(db: Knex, opts: { actor: ActorRef; id: number
     for (const key of Object.keys(next)) before[key] = current[key] ?? null;
     const changes = Object.keys(next)
       .filter((k) => k in FIELD_WORDS)
-      .map((k) => `${FIELD_WORDS[k]} from ${before[k] ?? "none"} to ${next[k] ?? "none"}`);
+      .map((k) => `${FIELD_WORDS[k]} from ${String(before[k] ?? "none")} to ${String(next[k] ?? "none")}`);
     const parts: string[] = [];
     if (changes.length) parts.push(`Changed the branch ${current.name}: ${changes.join("; ")}`);
     if (archiving) parts.push(`Archived the branch ${next.name ?? current.name}; its records stay in past audits`);

@@ -109,7 +109,7 @@ export async function amendmentsBehindGap(
   return {
     kind: "amended",
     amendments: fresh.map((r) => {
-      let fields: string[] = [];
+      let fields: string[];
       try {
         fields = Object.keys(JSON.parse(r.next ?? "{}") as object);
       } catch {

@@ -37,7 +37,7 @@ export interface BackgroundTask {
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 function toTask(r: any): BackgroundTask {
-  let payload: Record<string, unknown> = {};
+  let payload: Record<string, unknown>;
   try {
     payload = JSON.parse(r.payload ?? "{}");
   } catch {

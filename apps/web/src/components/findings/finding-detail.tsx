@@ -3,7 +3,7 @@
 import Link from "next/link";
 import { useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { FINDING_STATE_LABELS, type FindingState } from "@coldtrail/core";
+import { FINDING_STATE_LABELS } from "@coldtrail/core";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { DueText, SeverityBadge, StateBadge, StateIcon } from "./finding-badges";
 import { recordHref, type Assignee, type FindingView } from "./types";
@@ -223,7 +223,7 @@ export function FindingDetailView({ id, today }: { id: number; today: string }) 
 }
 
 function Actions({ finding: f, onDone }: { finding: FindingView; onDone: (t: string) => void }) {
-  const state = f.state as FindingState;
+  const state = f.state;
   const active = state === "open" || state === "fix_proposed";
   const possible =
     (f.allowed.assign && active) ||

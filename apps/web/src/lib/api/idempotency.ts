@@ -80,8 +80,11 @@ function differentRequest(): Response {
   });
 }
 
-class NotStored {
-  constructor(readonly response: Response) {}
+/** Thrown to roll the write transaction back while still answering with `response`. */
+class NotStored extends Error {
+  constructor(readonly response: Response) {
+    super("The answer was not stored with its key");
+  }
 }
 
 /**

@@ -1,7 +1,7 @@
 import "server-only";
 import type { NextRequest } from "next/server";
 import { NextRequest as ServerRequest, NextResponse } from "next/server";
-import { z } from "zod";
+import type { z } from "zod";
 import type { Action, Actor, AppAbility, SubjectName } from "@coldtrail/core";
 import { currentActor } from "../auth/current-actor";
 import { db } from "../db";

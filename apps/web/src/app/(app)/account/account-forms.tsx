@@ -46,7 +46,7 @@ export function ChangePasswordForm() {
     } catch (err) {
       setPending(false);
       if (err instanceof ApiError) {
-        setErrors(Object.fromEntries(Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0]])) as Errors);
+        setErrors(Object.fromEntries(Object.entries(err.fieldErrors).map(([k, v]) => [k, v[0]])));
         setFormError(err.message);
       } else {
         setFormError("The password could not be changed. Check your connection and try again.");

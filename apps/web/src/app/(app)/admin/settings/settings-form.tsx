@@ -83,7 +83,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
   const described = (name: keyof FormIn, explained: boolean) =>
     [explained ? `${uid}-${name}-why` : null, errors[name] ? `${uid}-${name}-error` : null].filter(Boolean).join(" ") || undefined;
 
-  const Why = ({ name }: { name: keyof AuditSettings }) => (
+  const why = (name: keyof AuditSettings) => (
     <p id={`${uid}-${name}-why`} className="mt-1 text-sm text-ink-600">
       {SETTING_EXPLANATIONS[name]} <span className="whitespace-nowrap text-ink-500">Default: {DEFAULT_WORDS[name]}.</span>
     </p>
@@ -114,7 +114,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
         />
         <span className="text-ink-700">{unit}</span>
       </div>
-      <Why name={name} />
+      {why(name)}
       <FieldError id={`${uid}-${name}-error`} message={errors[name]?.message} />
     </div>
   );
@@ -198,7 +198,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
               </option>
             ))}
           </select>
-          <Why name="requalificationYears" />
+          {why("requalificationYears")}
           <FieldError id={`${uid}-requalificationYears-error`} message={errors.requalificationYears?.message} />
         </div>
         <div className="rounded-md border border-ink-200 p-4">
@@ -212,7 +212,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
             />
             <span className={labelClass}>Stricter cylinder fill (liquid density at 130 °F)</span>
           </label>
-          <Why name="strictFill130F" />
+          {why("strictFill130F")}
         </div>
         <fieldset className="rounded-md border border-ink-200 p-4" aria-describedby={described("leakRateMethod", true)}>
           <legend className={`${labelClass} px-1`}>Leak-rate method</legend>
@@ -224,7 +224,7 @@ export function SettingsForm({ canEdit }: { canEdit: boolean }) {
               </label>
             ))}
           </div>
-          <Why name="leakRateMethod" />
+          {why("leakRateMethod")}
           <FieldError id={`${uid}-leakRateMethod-error`} message={errors.leakRateMethod?.message} />
         </fieldset>
         {numberField("disposalRecordGraceDays", "Days a disposal record or signed statement may follow the disposal", "days", "1")}

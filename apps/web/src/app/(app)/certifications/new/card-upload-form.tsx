@@ -117,7 +117,7 @@ export function CardUploadForm() {
     },
   );
 
-  const err = (name: keyof typeof errors) => errors[name]?.message as string | undefined;
+  const err = (name: keyof typeof errors) => errors[name]?.message;
   const describedBy = (name: string, has: boolean) => (has ? `${uid}-${name}-error` : undefined);
 
   return (

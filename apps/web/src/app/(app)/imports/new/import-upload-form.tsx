@@ -32,7 +32,7 @@ export function ImportUploadForm() {
     resolver: zodResolver(importUploadInput),
     defaultValues: { kind: "appliances", branchId: "" },
   });
-  const kind = watch("kind") as FormOut["kind"];
+  const kind: FormOut["kind"] = watch("kind");
   const branchRows = branches.data?.rows ?? [];
 
   const idem = useIdempotencyKey();

@@ -20,7 +20,7 @@ export function describeValue(
   if (typeof value === "boolean" || ((value === 0 || value === 1) && /(removed|operating|passed|needed)$/.test(column)))
     return value ? "Yes" : "No";
   if (column === "document_file_key") return "signed document on file";
-  if (column.endsWith("_id")) return `#${value}`;
+  if (column.endsWith("_id")) return `#${String(value)}`;
   const mapped = words[column]?.[String(value)];
   return mapped ?? String(value);
 }
@@ -131,7 +131,7 @@ function initialText(f: AmendField): string {
   if (f.type === "mass") {
     // As typed when known; otherwise the shortest figure that converts back to the same grams.
     if (f.entered) return String(f.entered.amount);
-    return String(shortestAmountFor(f.value as number, massFieldUnit(f)));
+    return String(shortestAmountFor(f.value, massFieldUnit(f)));
   }
   if (f.type === "yesno") return f.value ? "true" : "false";
   return String(f.value);

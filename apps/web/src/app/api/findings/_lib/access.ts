@@ -1,7 +1,7 @@
 import "server-only";
 import { subject } from "@casl/ability";
 import { canInBranchAnyDate, type Action, type Actor, type AppAbility, type SubjectName } from "@coldtrail/core";
-import { DomainError, listBranches, type Knex } from "@coldtrail/db";
+import { listBranches, type Knex } from "@coldtrail/db";
 import { recordId } from "@/lib/api/params";
 
 /** Today's calendar date (UTC) for due-date buckets of organisation-wide lists. */
