@@ -18,7 +18,7 @@ import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import type { CylinderOption, EquipmentOption } from "@/lib/client/types";
 import { SafetyCautions } from "@/components/safety-cautions";
 import { optionsOf } from "@/lib/client/options";
-import { RadioCards } from "@/components/form";
+import { OverFillConfirm, RadioCards } from "@/components/form";
 import {
   FieldError,
   FormAlert,
@@ -64,6 +64,9 @@ export function ShopRunForm() {
   const [removed, setRemoved] = useState<boolean | null>(null);
   const [sentTo, setSentTo] = useState("");
   const [confirm, setConfirm] = useState(false);
+  // Set when the server says the chosen cylinder would go over its safe fill: the box to confirm it.
+  const [overFillAsk, setOverFillAsk] = useState<string | null>(null);
+  const [confirmOverFill, setConfirmOverFill] = useState(false);
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [formError, setFormError] = useState<string | null>(null);
   const [done, setDone] = useState<ShopBatchResult | null>(null);
@@ -96,6 +99,8 @@ export function ShopRunForm() {
       setDone(result);
       setPicked({});
       setConfirm(false);
+      setOverFillAsk(null);
+      setConfirmOverFill(false);
       await Promise.all([
         queryClient.invalidateQueries({ queryKey: ["shop-queue"] }),
         queryClient.invalidateQueries({ queryKey: ["disposals"] }),
@@ -105,6 +110,7 @@ export function ShopRunForm() {
     onError: (err) => {
       if (err instanceof ApiError) {
         setErrors(Object.fromEntries(Object.entries(err.fieldErrors).map(([k, m]) => [k, m[0] ?? ""])));
+        setOverFillAsk(err.fieldErrors.confirmOverFill?.[0] ?? null);
         setFormError(err.message);
       } else setFormError("The scrap run could not be sent; nothing was saved.");
     },
@@ -125,6 +131,7 @@ export function ShopRunForm() {
       temporaryAccessRemoved: removed,
       sentTo,
       confirmStatement: confirm,
+      ...(overFillAsk && confirmOverFill ? { confirmOverFill: true } : {}),
       items: order.map((id) => ({
         applianceId: id,
         recoveredAmount: picked[id]!.amount,
@@ -429,6 +436,14 @@ export function ShopRunForm() {
             </label>
             <FieldError id={`${uid}-confirm-error`} message={errors.confirmStatement} />
           </div>
+          {overFillAsk && (
+            <OverFillConfirm
+              id={`${uid}-confirm-over-fill`}
+              message={overFillAsk}
+              checked={confirmOverFill}
+              onChange={setConfirmOverFill}
+            />
+          )}
 
           <div className="sticky bottom-0 -mx-4 border-t border-ink-200 bg-white/95 px-4 py-3 backdrop-blur">
             <button type="submit" disabled={save.isPending} className={primaryButton}>
